@@ -1,0 +1,107 @@
+/**
+ * Builds the Express application: security headers, logging, limits, sessions, the Origin check,
+ * every route of the route table, the built client in production, and the one error handler.
+ */
+import path from 'node:path';
+import { existsSync } from 'node:fs';
+import express, { type RequestHandler } from 'express';
+import helmet from 'helmet';
+import { rateLimit } from 'express-rate-limit';
+import { pinoHttp } from 'pino-http';
+import type { Logger } from 'pino';
+import type { Config } from './config.js';
+import type { Db } from './db/knex.js';
+import { createOidcClient, type OidcClient } from './auth/oidc.js';
+import { createSessionMiddleware } from './auth/session.js';
+import { routeTable } from './http/route-table.js';
+import { mountRoutes, type RouteSpec } from './http/routes.js';
+import { apiNotFound, errorHandler } from './http/error-handler.js';
+
+const STATE_CHANGING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+/** Cookie sessions need a second line of defence against cross-site requests: the Origin header. */
+function originCheck(appOrigin: string): RequestHandler {
+  return (req, res, next) => {
+    if (!STATE_CHANGING.has(req.method)) return next();
+    const origin = req.get('origin') ?? (req.get('referer') ? new URL(req.get('referer') as string).origin : undefined);
+    if (origin === appOrigin) return next();
+    res.status(403).json({ error: { code: 'bad_origin', message: 'This request did not come from the Orrery application.' } });
+  };
+}
+
+export type AppParts = { app: express.Express; routes: RouteSpec[]; oidc: OidcClient; close: () => Promise<void> };
+
+export function createApp(config: Config, db: Db, logger: Logger): AppParts {
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.production) app.set('trust proxy', 1);
+
+  app.use(
+    pinoHttp({
+      logger,
+      redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'],
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      serializers: { req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }) },
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+          ...(config.appOrigin.startsWith('https://') ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      strictTransportSecurity: config.appOrigin.startsWith('https://'),
+    }),
+  );
+
+  const limiterOptions = { standardHeaders: 'draft-7' as const, legacyHeaders: false, windowMs: 60_000 };
+  const limited = (limit: number, message: string) =>
+    rateLimit({
+      ...limiterOptions,
+      limit,
+      handler: (_req, res) => res.status(429).json({ error: { code: 'rate_limited', message } }),
+    });
+  app.use('/auth/login', limited(config.signInRateLimitPerMinute, 'Too many sign-in attempts. Wait a minute and try again.'));
+  app.use('/api', limited(config.rateLimitPerMinute, 'Too many requests. Wait a minute and try again.'));
+
+  const sessions = createSessionMiddleware(config);
+  const withSession: RequestHandler = (req, res, next) => (req.path === '/api/health' ? next() : sessions.middleware(req, res, next));
+  app.use(['/api', '/auth'], withSession, (req, _res, next) => {
+    const { userId, email, name } = req.session ?? {};
+    if (userId && email) req.user = { id: userId, email, name: name ?? null };
+    next();
+  });
+  app.use(['/api', '/auth'], originCheck(config.appOrigin));
+  app.use('/api', express.json({ limit: '200kb' }));
+
+  const oidc = createOidcClient(config);
+  const routes = routeTable(oidc);
+  const router = express.Router();
+  mountRoutes(router, routes, { db, config });
+  app.use(router);
+  app.use('/api', apiNotFound);
+
+  const clientDir = config.serveClientFrom;
+  if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.get('/{*rest}', (req, res, next) => {
+      if (req.path.startsWith('/auth/')) return next();
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+  app.use(errorHandler);
+  return { app, routes, oidc, close: sessions.close };
+}

@@ -1,0 +1,97 @@
+/** Sign-in, the identity provider's callback, sign-out; `?reauth=1` asks for a fresh sign-in before a signature. */
+import * as oidc from 'openid-client';
+import type { Request } from 'express';
+import type { RouteSpec } from '../http/routes.js';
+import type { OidcClient } from './oidc.js';
+import { provisionUser } from './users.repository.js';
+
+function safeReturnTo(value: unknown): string {
+  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.includes('\\') ? value : '/';
+}
+
+function regenerate(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.regenerate((error) => (error ? reject(error) : resolve())));
+}
+
+function save(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.save((error) => (error ? reject(error) : resolve())));
+}
+
+export function authRoutes(client: OidcClient): RouteSpec[] {
+  return [
+    {
+      method: 'get',
+      path: '/auth/login',
+      access: { kind: 'public' },
+      handler: async (req, res) => {
+        const reauth = req.query.reauth === '1';
+        const login = {
+          state: oidc.randomState(),
+          nonce: oidc.randomNonce(),
+          codeVerifier: oidc.randomPKCECodeVerifier(),
+          returnTo: safeReturnTo(req.query.returnTo),
+          reauth,
+        };
+        req.session.login = login;
+        await save(req);
+        const url = await client.authorizationUrl({ ...login, forceLogin: reauth });
+        res.redirect(url.href);
+      },
+    },
+    {
+      method: 'get',
+      path: '/auth/callback',
+      access: { kind: 'public' },
+      handler: async (req, res, { db, config }) => {
+        const login = req.session.login;
+        if (!login) {
+          res.redirect('/?signInError=expired');
+          return;
+        }
+        const currentUrl = new URL(req.originalUrl, config.appOrigin);
+        let claims;
+        try {
+          claims = await client.exchange(currentUrl, login);
+        } catch (error) {
+          req.log?.warn({ err: (error as Error).message }, 'sign-in callback rejected');
+          req.session.login = undefined;
+          res.redirect('/?signInError=failed');
+          return;
+        }
+        const user = await provisionUser(db, claims);
+        if (login.reauth && req.session.userId && req.session.userId !== user.id) {
+          // A signature must come from the person already signed in, never a switched account.
+          req.session.login = undefined;
+          await save(req);
+          res.redirect(`${login.returnTo}${login.returnTo.includes('?') ? '&' : '?'}signInError=different-user`);
+          return;
+        }
+        await regenerate(req);
+        req.session.userId = user.id;
+        req.session.email = user.email;
+        req.session.name = user.name;
+        req.session.authTime = claims.authTime;
+        req.session.idToken = claims.idToken;
+        await save(req);
+        res.redirect(login.returnTo);
+      },
+    },
+    {
+      method: 'post',
+      path: '/auth/logout',
+      access: { kind: 'public' },
+      handler: async (req, res) => {
+        const idToken = req.session.idToken;
+        await new Promise<void>((resolve, reject) => req.session.destroy((error) => (error ? reject(error) : resolve())));
+        res.clearCookie('orrery.sid', { path: '/' });
+        let redirectTo = '/';
+        try {
+          redirectTo = await client.endSessionUrl(idToken);
+        } catch {
+          // The provider is unreachable: the Orrery session is gone all the same.
+        }
+        res.json({ signedOut: true, redirectTo });
+      },
+    },
+  ];
+}

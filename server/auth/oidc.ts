@@ -1,0 +1,79 @@
+/**
+ * The server as an OpenID Connect client (authorization code + PKCE). Discovery is lazy and
+ * retried, so the app starts even when the identity provider is still coming up.
+ */
+import * as oidc from 'openid-client';
+import type { Config } from '../config.js';
+
+export type OidcClient = {
+  redirectUri: string;
+  authorizationUrl: (input: { state: string; nonce: string; codeVerifier: string; forceLogin: boolean }) => Promise<URL>;
+  exchange: (
+    currentUrl: URL,
+    checks: { state: string; nonce: string; codeVerifier: string },
+  ) => Promise<{ subject: string; email: string; name: string | null; authTime: number; idToken: string }>;
+  endSessionUrl: (idToken: string | undefined) => Promise<string>;
+};
+
+export function createOidcClient(config: Config): OidcClient {
+  const redirectUri = `${config.appOrigin}/auth/callback`;
+  let discovered: Promise<oidc.Configuration> | undefined;
+
+  const configuration = () => {
+    discovered ??= oidc
+      .discovery(new URL(config.oidcIssuer), config.oidcClientId, undefined, oidc.None(), {
+        execute: config.oidcIssuer.startsWith('http://') ? [oidc.allowInsecureRequests] : [],
+        timeout: 5,
+      })
+      .catch((error: unknown) => {
+        discovered = undefined;
+        throw error;
+      });
+    return discovered;
+  };
+
+  return {
+    redirectUri,
+    async authorizationUrl({ state, nonce, codeVerifier, forceLogin }) {
+      const parameters: Record<string, string> = {
+        redirect_uri: redirectUri,
+        scope: 'openid email profile',
+        code_challenge: await oidc.calculatePKCECodeChallenge(codeVerifier),
+        code_challenge_method: 'S256',
+        state,
+        nonce,
+      };
+      if (forceLogin) {
+        parameters.prompt = 'login';
+        parameters.max_age = '0';
+      }
+      return oidc.buildAuthorizationUrl(await configuration(), parameters);
+    },
+    async exchange(currentUrl, checks) {
+      const conf = await configuration();
+      const tokens = await oidc.authorizationCodeGrant(conf, currentUrl, {
+        pkceCodeVerifier: checks.codeVerifier,
+        expectedState: checks.state,
+        expectedNonce: checks.nonce,
+        idTokenExpected: true,
+      });
+      const claims = tokens.claims();
+      if (!claims) throw new Error('the identity provider returned no ID token');
+      const info = await oidc.fetchUserInfo(conf, tokens.access_token, claims.sub);
+      const email = String(info.email ?? claims.email ?? '').toLowerCase();
+      if (!email) throw new Error('the identity provider returned no e-mail address');
+      return {
+        subject: claims.sub,
+        email,
+        name: (info.name as string | undefined) ?? (claims.name as string | undefined) ?? null,
+        authTime: typeof claims.auth_time === 'number' ? claims.auth_time : Math.floor(Date.now() / 1000),
+        idToken: tokens.id_token ?? '',
+      };
+    },
+    async endSessionUrl(idToken) {
+      const parameters: Record<string, string> = { post_logout_redirect_uri: `${config.appOrigin}/` };
+      if (idToken) parameters.id_token_hint = idToken;
+      return oidc.buildEndSessionUrl(await configuration(), parameters).href;
+    },
+  };
+}

@@ -1,0 +1,52 @@
+/** Sessions live in PostgreSQL so any server process can serve any request. */
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import pg from 'pg';
+import type { RequestHandler } from 'express';
+import type { Config } from '../config.js';
+
+declare module 'express-session' {
+  interface SessionData {
+    userId: string;
+    email: string;
+    name: string | null;
+    /** Seconds since the epoch of the last sign-in at the identity provider. */
+    authTime: number;
+    idToken: string;
+    login: { state: string; nonce: string; codeVerifier: string; returnTo: string; reauth: boolean };
+  }
+}
+
+export const SESSION_COOKIE = 'orrery.sid';
+
+export function createSessionMiddleware(config: Config): { middleware: RequestHandler; close: () => Promise<void> } {
+  const pool = new pg.Pool({ connectionString: config.databaseUrl, max: 5, connectionTimeoutMillis: 2000 });
+  pool.on('error', () => {
+    // Idle clients dropped by a restarting database are replaced on the next checkout.
+  });
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 });
+  const middleware = session({
+    name: SESSION_COOKIE,
+    secret: config.sessionSecret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    proxy: config.production,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: config.appOrigin.startsWith('https://'),
+      maxAge: 8 * 60 * 60 * 1000,
+      path: '/',
+    },
+  });
+  return {
+    middleware,
+    close: async () => {
+      store.close();
+      await pool.end();
+    },
+  };
+}

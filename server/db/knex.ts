@@ -1,0 +1,32 @@
+/** The one place a Knex instance is built; statements time out rather than hang. */
+import knexFactory, { type Knex } from 'knex';
+import pg from 'pg';
+import { migrationSource } from './migration-source.js';
+
+// DATE columns stay 'YYYY-MM-DD' strings instead of midnight in the server's time zone.
+pg.types.setTypeParser(1082, (value: string) => value);
+// bigint counts fit easily in a double here.
+pg.types.setTypeParser(20, (value: string) => Number(value));
+// numeric (p0, p1, alpha, beta) as numbers.
+pg.types.setTypeParser(1700, (value: string) => Number(value));
+
+export type Db = Knex;
+
+export function createDb(connectionString: string, options: { poolMax?: number } = {}): Db {
+  return knexFactory({
+    client: 'pg',
+    connection: {
+      connectionString,
+      connectionTimeoutMillis: 2000,
+      statement_timeout: 15000,
+      application_name: 'orrery',
+    },
+    pool: { min: 0, max: options.poolMax ?? 10, acquireTimeoutMillis: 2500, createTimeoutMillis: 2000 },
+    acquireConnectionTimeout: 2500,
+    migrations: { migrationSource },
+  });
+}
+
+export async function migrateLatest(db: Db): Promise<void> {
+  await db.migrate.latest({ migrationSource });
+}

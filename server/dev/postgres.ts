@@ -1,0 +1,127 @@
+/**
+ * Runs a private PostgreSQL cluster on loopback for `npm start` (persistent, keyed by the
+ * checkout) and for the tests (temporary, fast settings). PostgreSQL refuses to run as root, so
+ * as root every server command runs as the `postgres` OS user, on a folder that user can reach.
+ */
+import { execFileSync, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { chownSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import pg from 'pg';
+
+const isRoot = process.getuid?.() === 0;
+
+export type Cluster = {
+  url: (database: string) => string;
+  port: number;
+  dataDir: string;
+  stop: () => void;
+};
+
+function findBinDir(): string | undefined {
+  const base = '/usr/lib/postgresql';
+  if (!existsSync(base)) return undefined;
+  const versions = readdirSync(base)
+    .filter((v) => existsSync(path.join(base, v, 'bin', 'initdb')))
+    .sort((a, b) => Number(b) - Number(a));
+  return versions[0] ? path.join(base, versions[0], 'bin') : undefined;
+}
+
+/** Finds the server binaries, installing Debian's package when missing and allowed to. */
+export function ensurePostgresBinaries(): string {
+  let bin = findBinDir();
+  if (bin) return bin;
+  if (!isRoot) {
+    throw new Error(
+      'PostgreSQL server binaries were not found under /usr/lib/postgresql. Install them with ' +
+        '`sudo apt-get install -y postgresql` (Debian/Ubuntu), or set DATABASE_URL to an existing database.',
+    );
+  }
+  console.log('[postgres] server binaries missing: installing Debian package postgresql …');
+  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
+  execFileSync('apt-get', ['install', '-y', '-qq', 'postgresql'], {
+    stdio: 'inherit',
+    env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+  });
+  bin = findBinDir();
+  if (!bin) throw new Error('apt-get installed postgresql but no initdb was found under /usr/lib/postgresql');
+  return bin;
+}
+
+function run(bin: string, tool: string, args: string[], options: { allowFail?: boolean } = {}) {
+  const command = isRoot ? 'runuser' : path.join(bin, tool);
+  const fullArgs = isRoot ? ['-u', 'postgres', '--', path.join(bin, tool), ...args] : args;
+  const result = spawnSync(command, fullArgs, { encoding: 'utf8' });
+  if (result.status !== 0 && !options.allowFail) {
+    throw new Error(`${tool} failed (${result.status}): ${result.stderr || result.stdout}`);
+  }
+  return result;
+}
+
+function prepareFolder(dir: string) {
+  mkdirSync(dir, { recursive: true, mode: 0o700 });
+  if (isRoot) {
+    const uid = Number(execFileSync('id', ['-u', 'postgres'], { encoding: 'utf8' }).trim());
+    const gid = Number(execFileSync('id', ['-g', 'postgres'], { encoding: 'utf8' }).trim());
+    chownSync(dir, uid, gid);
+  }
+}
+
+export type StartOptions = {
+  dataDir: string;
+  port: number;
+  /** Trade durability for speed: tests only, never `npm start`. */
+  fast?: boolean;
+};
+
+export function startCluster({ dataDir, port, fast = false }: StartOptions): Cluster {
+  const bin = ensurePostgresBinaries();
+  prepareFolder(dataDir);
+  const pgData = path.join(dataDir, 'data');
+  if (!existsSync(path.join(pgData, 'PG_VERSION'))) {
+    run(bin, 'initdb', ['-D', pgData, '-U', 'postgres', '-A', 'trust', '-E', 'UTF8', '--no-locale']);
+  }
+  const status = run(bin, 'pg_ctl', ['-D', pgData, 'status'], { allowFail: true });
+  let startedHere = false;
+  if (status.status !== 0) {
+    const settings = [`-c listen_addresses=127.0.0.1`, `-p ${port}`, `-k ${dataDir}`, '-c max_connections=200'];
+    if (fast) settings.push('-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off');
+    run(bin, 'pg_ctl', ['-D', pgData, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', '-o', settings.join(' '), 'start']);
+    startedHere = true;
+  }
+  const stop = () => {
+    if (startedHere) run(bin, 'pg_ctl', ['-D', pgData, '-m', 'fast', '-w', 'stop'], { allowFail: true });
+    startedHere = false;
+  };
+  return { url: (database) => `postgres://postgres@127.0.0.1:${port}/${database}`, port, dataDir, stop };
+}
+
+/** The persistent cluster of this checkout, reachable by the postgres user. */
+export function persistentDataDir(checkout: string): string {
+  const key = createHash('sha1').update(checkout).digest('hex').slice(0, 10);
+  return path.join('/var/tmp', `orrery-pg-${key}`);
+}
+
+export function temporaryDataDir(): string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'orrery-test-pg-'));
+  return dir;
+}
+
+export function removeDataDir(dir: string) {
+  rmSync(dir, { recursive: true, force: true });
+}
+
+export async function ensureDatabase(adminUrl: string, database: string, template?: string): Promise<void> {
+  const client = new pg.Client({ connectionString: adminUrl });
+  await client.connect();
+  try {
+    const found = await client.query('select 1 from pg_database where datname = $1', [database]);
+    if (found.rowCount === 0) {
+      const ident = client.escapeIdentifier(database);
+      await client.query(template ? `create database ${ident} template ${client.escapeIdentifier(template)}` : `create database ${ident}`);
+    }
+  } finally {
+    await client.end();
+  }
+}

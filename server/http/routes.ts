@@ -1,0 +1,126 @@
+/**
+ * The route-permission table. Every route of the server is declared here as data — method, path,
+ * who may call it, handler — and mounted by `mountRoutes`. The same declarations drive the
+ * authorisation middleware and the permission-matrix test, so they cannot drift apart.
+ *
+ * Access kinds:
+ * - public: anyone, signed in or not;
+ * - signed-in: any signed-in user (the handler filters what it returns by the user's memberships);
+ * - trial: the user must hold one of `roles` on the trial named by `:trialId`, or by the trial
+ *   that `trialOf` finds for the route's other parameters (a data cut, say). A user who is not a
+ *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
+ */
+import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
+import type { Db } from '../db/knex.js';
+import type { Config } from '../config.js';
+import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
+
+export const ROLES = ['admin', 'statistician', 'coordinator', 'investigator', 'monitor', 'sponsor'] as const;
+export type Role = (typeof ROLES)[number];
+export const SITE_ROLES: readonly Role[] = ['coordinator', 'investigator'];
+
+export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string | undefined>;
+
+export type Access =
+  | { kind: 'public' }
+  | { kind: 'signed-in' }
+  | { kind: 'trial'; roles: readonly Role[]; trialOf?: TrialOf };
+
+export type SessionUser = { id: string; email: string; name: string | null };
+
+/** What the signed-in user may do on the trial a route concerns. */
+export type TrialAccess = {
+  trialId: string;
+  roles: Role[];
+  /** Sites the user holds a site role at; irrelevant for roles that read every site. */
+  siteIds: string[];
+};
+
+export type Deps = { db: Db; config: Config };
+export type Handler = (req: Request, res: Response, deps: Deps) => Promise<void> | void;
+
+export type RouteSpec = {
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  path: string;
+  access: Access;
+  handler: Handler;
+  /** Middleware that must run before the handler but after authorisation (uploads). */
+  before?: RequestHandler[];
+  /** Routes under development tooling are mounted only outside production. */
+  devOnly?: boolean;
+};
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    user?: SessionUser;
+    trialAccess?: TrialAccess;
+  }
+}
+
+export const isUuid = (value: unknown): value is string =>
+  typeof value === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);
+
+export function hasRole(access: TrialAccess | undefined, ...roles: Role[]): boolean {
+  return !!access && access.roles.some((role) => roles.includes(role));
+}
+
+/** Site roles see their own sites only; every other role that reaches patient data sees all. */
+export function siteScope(access: TrialAccess): string[] | 'all' {
+  return access.roles.some((role) => !SITE_ROLES.includes(role)) ? 'all' : access.siteIds;
+}
+
+export function requireTrialAccess(req: Request): TrialAccess {
+  if (!req.trialAccess) throw new Error('route is not declared with trial access');
+  return req.trialAccess;
+}
+
+export function requireUser(req: Request): SessionUser {
+  if (!req.user) throw new UnauthenticatedError();
+  return req.user;
+}
+
+async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {
+  const rows: Array<{ role: Role; site_id: string | null }> = await db('memberships')
+    .where({ trial_id: trialId, user_id: userId, status: 'active' })
+    .select('role', 'site_id');
+  if (rows.length === 0) return undefined;
+  return {
+    trialId,
+    roles: [...new Set(rows.map((row) => row.role))],
+    siteIds: [...new Set(rows.filter((row) => row.site_id).map((row) => row.site_id as string))],
+  };
+}
+
+function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
+  return async (req: Request, _res: Response, next: NextFunction) => {
+    try {
+      const { access } = spec;
+      if (access.kind === 'public') return next();
+      if (!req.user) throw new UnauthenticatedError();
+      if (access.kind === 'signed-in') return next();
+      const params = req.params as Record<string, string>;
+      const trialId = access.trialOf ? await access.trialOf(deps.db, params) : params.trialId;
+      if (!isUuid(trialId)) throw new NotFoundError('The trial');
+      const trialAccess = await loadTrialAccess(deps.db, req.user.id, trialId);
+      if (!trialAccess) throw new NotFoundError('The trial');
+      if (!trialAccess.roles.some((role) => access.roles.includes(role))) throw new ForbiddenError();
+      req.trialAccess = trialAccess;
+      next();
+    } catch (error) {
+      next(error);
+    }
+  };
+}
+
+export function mountRoutes(router: Router, specs: RouteSpec[], deps: Deps) {
+  for (const spec of specs) {
+    if (spec.devOnly && deps.config.production) continue;
+    router[spec.method](spec.path, authorise(spec, deps), ...(spec.before ?? []), async (req, res, next) => {
+      try {
+        await spec.handler(req, res, deps);
+      } catch (error) {
+        next(error);
+      }
+    });
+  }
+}

@@ -1,0 +1,4 @@
+/** The scheduled jobs every server process offers to run (each runs once per period across all processes). */
+import type { ScheduledJob } from './jobs.js';
+
+export const scheduledJobs: ScheduledJob[] = [];

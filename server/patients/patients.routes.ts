@@ -1,0 +1,3 @@
+import type { RouteSpec } from '../http/routes.js';
+
+export const patientsRoutes: RouteSpec[] = [];

@@ -1,0 +1,48 @@
+/** Starts one Orrery server process: database pool, HTTP listener, mail worker and scheduled jobs. */
+import type { AddressInfo } from 'node:net';
+import { pino, type Logger } from 'pino';
+import type { Config } from './config.js';
+import { createDb, type Db } from './db/knex.js';
+import { createApp } from './app.js';
+import { startMailWorker, type MailWorker } from './mail/outbox.js';
+import { startJobs, type Jobs } from './jobs/jobs.js';
+
+export type RunningServer = {
+  url: string;
+  port: number;
+  db: Db;
+  mail: MailWorker;
+  jobs: Jobs;
+  close: () => Promise<void>;
+};
+
+export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
+  const db = createDb(config.databaseUrl);
+  const { app, close: closeApp } = createApp(config, db, logger);
+  const mail = startMailWorker(db, config, logger);
+  app.locals.mail = mail;
+  const jobs = startJobs(db, config, logger, mail);
+  const server = app.listen(config.port, '127.0.0.1');
+  await new Promise<void>((resolve, reject) => {
+    server.once('listening', resolve);
+    server.once('error', reject);
+  });
+  const port = (server.address() as AddressInfo).port;
+  return {
+    url: `http://localhost:${port}`,
+    port,
+    db,
+    mail,
+    jobs,
+    close: async () => {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      });
+      await jobs.stop();
+      await mail.stop();
+      await closeApp();
+      await db.destroy();
+    },
+  };
+}
