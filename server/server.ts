@@ -4,6 +4,8 @@ import { pino, type Logger } from 'pino';
 import type { Config } from './config.js';
 import { createDb, type Db } from './db/knex.js';
 import { createApp } from './app.js';
+import type { RouteSpec } from './http/routes.js';
+import type { Express } from 'express';
 import { startMailWorker, type MailWorker } from './mail/outbox.js';
 import { startJobs, type Jobs } from './jobs/jobs.js';
 
@@ -13,12 +15,14 @@ export type RunningServer = {
   db: Db;
   mail: MailWorker;
   jobs: Jobs;
+  app: Express;
+  routes: RouteSpec[];
   close: () => Promise<void>;
 };
 
 export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
   const db = createDb(config.databaseUrl);
-  const { app, close: closeApp } = createApp(config, db, logger);
+  const { app, routes, close: closeApp } = createApp(config, db, logger);
   const mail = startMailWorker(db, config, logger);
   app.locals.mail = mail;
   const jobs = startJobs(db, config, logger, mail);
@@ -34,6 +38,8 @@ export async function startServer(config: Config, logger: Logger = pino({ level:
     db,
     mail,
     jobs,
+    app,
+    routes,
     close: async () => {
       await new Promise<void>((resolve) => {
         server.close(() => resolve());

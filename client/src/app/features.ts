@@ -1,0 +1,31 @@
+/** Every feature of the client; the router and the navigation are built from this list. */
+import type { Feature, NavItem } from './feature';
+import { portfolioFeature } from '../features/portfolio/routes';
+import { trialOverviewFeature } from '../features/trial-overview/routes';
+import { peopleFeature } from '../features/people/routes';
+import { designStudioFeature } from '../features/design-studio/routes';
+import { patientsFeature } from '../features/patients/routes';
+import { dataCutFeature } from '../features/data-cut/routes';
+import { committeeReviewFeature } from '../features/committee-review/routes';
+import { accrualFeature } from '../features/accrual/routes';
+import { auditFeature } from '../features/audit/routes';
+import { outboxFeature } from '../features/outbox/routes';
+
+export const features: Feature[] = [
+  portfolioFeature,
+  trialOverviewFeature,
+  peopleFeature,
+  designStudioFeature,
+  patientsFeature,
+  dataCutFeature,
+  committeeReviewFeature,
+  accrualFeature,
+  auditFeature,
+  outboxFeature,
+];
+
+const byOrder = (a: NavItem, b: NavItem) => a.order - b.order;
+export const globalNav: NavItem[] = features.flatMap((f) => f.nav ?? []).sort(byOrder);
+export const trialNav: NavItem[] = features.flatMap((f) => f.trialNav ?? []).sort(byOrder);
+export const globalRoutes = features.flatMap((f) => f.routes ?? []);
+export const trialRoutes = features.flatMap((f) => f.trialRoutes ?? []);

@@ -1,0 +1,3 @@
+import type { Feature } from '../../app/feature';
+
+export const peopleFeature: Feature = {};

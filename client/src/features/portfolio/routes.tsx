@@ -1,0 +1,7 @@
+import type { Feature } from '../../app/feature';
+import { PortfolioPage } from './portfolio-page';
+
+export const portfolioFeature: Feature = {
+  routes: [{ index: true, element: <PortfolioPage /> }],
+  nav: [{ path: '/', label: 'Portfolio', order: 10 }],
+};

@@ -1,0 +1,41 @@
+import { Cautions, Panel, StatusTag } from '../../components/ui';
+import { day } from '../../lib/format';
+import { ROLE_LABELS } from '../../lib/roles';
+import { useTrialContext } from './use-trial-context';
+
+export function OverviewPage() {
+  const trial = useTrialContext();
+  return (
+    <div className="grid gap-4 lg:grid-cols-3">
+      <Panel title="Trial" className="lg:col-span-2">
+        <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-2 text-sm">
+          <dt className="text-ink-500">Indication</dt>
+          <dd>{trial.indication}</dd>
+          <dt className="text-ink-500">Endpoint</dt>
+          <dd>{trial.endpointDefinition}</dd>
+          <dt className="text-ink-500">Start</dt>
+          <dd>{day(trial.startDate)}</dd>
+          <dt className="text-ink-500">Planned accrual</dt>
+          <dd className="tabular-nums">{trial.plannedAccrualPerMonth ?? '—'} patients / month</dd>
+          <dt className="text-ink-500">Your roles</dt>
+          <dd>{trial.myRoles.map((r) => ROLE_LABELS[r]).join(', ')}</dd>
+        </dl>
+      </Panel>
+      <Panel title={trial.cohorts.length > 1 ? 'Cohorts' : 'Cohort'}>
+        <ul className="space-y-2 text-sm">
+          {trial.cohorts.map((cohort) => (
+            <li key={cohort.id} className="flex items-center justify-between gap-2">
+              <span>
+                <span className="font-mono text-xs text-ink-500">{cohort.code}</span> {cohort.name}
+              </span>
+              <StatusTag status={cohort.status} />
+            </li>
+          ))}
+        </ul>
+      </Panel>
+      <div className="lg:col-span-3">
+        <Cautions />
+      </div>
+    </div>
+  );
+}

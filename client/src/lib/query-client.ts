@@ -1,0 +1,12 @@
+import { QueryClient } from '@tanstack/react-query';
+import { ApiError } from './api';
+
+export const queryClient = new QueryClient({
+  defaultOptions: {
+    queries: {
+      staleTime: 15_000,
+      retry: (failureCount, error) => !(error instanceof ApiError && error.status >= 400 && error.status < 500) && failureCount < 2,
+      refetchOnWindowFocus: true,
+    },
+  },
+});

@@ -1,0 +1,4 @@
+/** Demo patients (filled in by its feature). */
+import type { Knex } from 'knex';
+
+export async function seedPatients(_trx: Knex.Transaction, _trials: Map<string, string>, _today: Date): Promise<void> {}

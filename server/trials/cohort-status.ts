@@ -1,0 +1,71 @@
+/**
+ * The trial's life (product brief), kept per cohort: draft → enrolling stage 1 → interim review →
+ * enrolling stage 2 → final analysis → completed, or stopped with a reason. A single-stage design
+ * goes from enrolling stage 1 straight to the final analysis. Every transition is audited.
+ */
+import type { Knex } from 'knex';
+import { writeAudit } from '../audit/audit.js';
+import { ConflictError, NotFoundError } from '../http/errors.js';
+import type { CohortStatus } from './trials.repository.js';
+
+const NEXT: Record<CohortStatus, CohortStatus[]> = {
+  draft: ['enrolling_stage_1', 'stopped'],
+  enrolling_stage_1: ['interim_review', 'final_analysis', 'stopped'],
+  interim_review: ['enrolling_stage_2', 'final_analysis', 'stopped'],
+  enrolling_stage_2: ['final_analysis', 'stopped'],
+  final_analysis: ['completed', 'stopped'],
+  completed: [],
+  stopped: [],
+};
+
+export type StopCategory = 'futility' | 'efficacy' | 'safety' | 'sponsor' | 'other';
+
+export function canTransition(from: CohortStatus, to: CohortStatus): boolean {
+  return NEXT[from].includes(to);
+}
+
+export async function transitionCohort(
+  trx: Knex.Transaction,
+  input: {
+    cohortId: string;
+    to: CohortStatus;
+    actorUserId: string | null;
+    reason?: string | null;
+    stopCategory?: StopCategory | null;
+    /** Only move when the cohort is still in this state (guards against a concurrent change). */
+    from?: CohortStatus;
+  },
+): Promise<{ from: CohortStatus; to: CohortStatus }> {
+  const cohort = await trx('cohorts').where({ id: input.cohortId }).forUpdate().first();
+  if (!cohort) throw new NotFoundError('The cohort');
+  const from = cohort.status as CohortStatus;
+  if (input.from && input.from !== from) {
+    throw new ConflictError(`The cohort is now "${from}", no longer "${input.from}".`, { currentStatus: from });
+  }
+  if (!canTransition(from, input.to)) {
+    throw new ConflictError(`A cohort in "${from}" cannot move to "${input.to}".`, { currentStatus: from });
+  }
+  if (input.to === 'stopped' && (!input.stopCategory || !input.reason)) {
+    throw new ConflictError('Stopping needs a category and a reason.');
+  }
+  await trx('cohorts')
+    .where({ id: input.cohortId })
+    .update({
+      status: input.to,
+      stop_category: input.to === 'stopped' ? input.stopCategory : null,
+      stop_reason: input.to === 'stopped' ? input.reason : null,
+      status_changed_at: trx.fn.now(),
+      version: trx.raw('version + 1'),
+    });
+  await writeAudit(trx, {
+    actorUserId: input.actorUserId,
+    trialId: cohort.trial_id,
+    entityType: 'cohort',
+    entityId: input.cohortId,
+    action: 'status_changed',
+    before: { status: from },
+    after: { status: input.to, stopCategory: input.stopCategory ?? null },
+    reason: input.reason ?? null,
+  });
+  return { from, to: input.to };
+}

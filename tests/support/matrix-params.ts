@@ -1,0 +1,14 @@
+/**
+ * Real record ids for the route parameters the permission matrix fills in, so that a route
+ * reached through a record (a patient, a data cut …) is judged on the role, not on a missing
+ * record. Each feature adds the parameters its routes use; `:trialId` is the fixture trial.
+ */
+import type { Stack } from './stack.js';
+import type { TrialFixture } from './factories.js';
+
+export type ParamContext = { stack: Stack; trial: TrialFixture };
+
+export const paramFixtures: Record<string, (context: ParamContext) => Promise<string>> = {
+  cohortId: async ({ trial }) => trial.cohortIds[0],
+  siteId: async ({ trial }) => Object.values(trial.siteIds)[0],
+};
