@@ -6,6 +6,8 @@
  * Access kinds:
  * - public: anyone, signed in or not;
  * - signed-in: any signed-in user (the handler filters what it returns by the user's memberships);
+ * - role-anywhere: the user must hold one of `roles` on at least one trial (global records such
+ *   as sites, or creating a new trial), else 403;
  * - trial: the user must hold one of `roles` on the trial named by `:trialId`, or by the trial
  *   that `trialOf` finds for the route's other parameters (a data cut, say). A user who is not a
  *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
@@ -24,6 +26,7 @@ export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string
 export type Access =
   | { kind: 'public' }
   | { kind: 'signed-in' }
+  | { kind: 'role-anywhere'; roles: readonly Role[] }
   | { kind: 'trial'; roles: readonly Role[]; trialOf?: TrialOf };
 
 export type SessionUser = { id: string; email: string; name: string | null };
@@ -98,6 +101,14 @@ function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
       if (access.kind === 'public') return next();
       if (!req.user) throw new UnauthenticatedError();
       if (access.kind === 'signed-in') return next();
+      if (access.kind === 'role-anywhere') {
+        const held = await deps.db('memberships')
+          .where({ user_id: req.user.id, status: 'active' })
+          .whereIn('role', access.roles as Role[])
+          .first('id');
+        if (!held) throw new ForbiddenError('Only a trial manager (admin) can do this.');
+        return next();
+      }
       const params = req.params as Record<string, string>;
       const trialId = access.trialOf ? await access.trialOf(deps.db, params) : params.trialId;
       if (!isUuid(trialId)) throw new NotFoundError('The trial');

@@ -75,6 +75,15 @@ describe('route-permission matrix', () => {
         }
         continue;
       }
+      if (spec.access.kind === 'role-anywhere') {
+        for (const role of [...ROLES, 'outsider' as const]) {
+          const res = await call(sessions[role], spec, path);
+          const allowed = role !== 'outsider' && spec.access.roles.includes(role);
+          if (allowed && ([401, 403].includes(res.status) || res.status >= 500)) problems.push(`${label} ${role} → ${res.status}, expected access`);
+          if (!allowed && res.status !== 403) problems.push(`${label} ${role} → ${res.status}, expected 403`);
+        }
+        continue;
+      }
       const outsider = await call(sessions.outsider, spec, path);
       if (outsider.status !== 404) problems.push(`${label} non-member → ${outsider.status}, expected 404`);
       for (const role of ROLES) {
