@@ -55,12 +55,25 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('planned_accrual_per_month');
     t.date('start_date');
     t.text('sponsor_name');
-    t.boolean('stopped').notNullable().defaultTo(false);
+    // Protocol settings for outcomes: entered directly, or derived from timepoint assessments
+    // (RECIST 1.1) with the confirmation and stable-disease rules below.
+    t.text('outcome_source').notNullable().defaultTo('entered');
+    t.boolean('confirmation_required').notNullable().defaultTo(true);
+    t.integer('confirmation_min_days').notNullable().defaultTo(28);
+    t.integer('sd_min_days').notNullable().defaultTo(42);
+    t.text('ne_between_responses').notNullable().defaultTo('ignore');
+    t.integer('assessment_interval_days').notNullable().defaultTo(56);
+    t.integer('inactivity_warning_weeks').notNullable().defaultTo(6);
     t.integer('version').notNullable().defaultTo(1);
     t.uuid('created_by').references('users.id');
     t.timestamp('created_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
     t.timestamp('updated_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
   });
+
+  await knex.raw(`alter table trials add constraint trials_outcome_source check (${inList('outcome_source', ['entered', 'derived'])})`);
+  await knex.raw(
+    `alter table trials add constraint trials_ne_between check (${inList('ne_between_responses', ['ignore', 'breaks_confirmation'])})`,
+  );
 
   await knex.schema.createTable('trial_sites', (t) => {
     t.uuid('trial_id').notNullable().references('trials.id').onDelete('cascade');
@@ -263,6 +276,11 @@ export async function up(knex: Knex): Promise<void> {
     t.boolean('evaluable').notNullable().defaultTo(true);
     t.text('not_evaluable_reason');
     t.uuid('attestation_signature_id').references('signatures.id');
+    t.text('derived_best_overall_response');
+    t.boolean('derived_responder');
+    t.jsonb('derivation');
+    /** Set when the entered outcome disagrees with the one derived from assessments. */
+    t.text('outcome_flag');
     t.integer('version').notNullable().defaultTo(1);
     t.uuid('created_by').references('users.id');
     t.timestamp('created_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
@@ -283,11 +301,30 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(`alter table patients add constraint patients_response_date check (response_assessed_on is null or response_assessed_on >= enrolled_on)`);
   await knex.raw(`alter table patients add constraint patients_stage check (stage in (1, 2))`);
   await knex.raw(`alter table patients add constraint patients_evaluable_reason check (evaluable or not_evaluable_reason is not null)`);
+  await knex.raw(
+    `alter table patients add constraint patients_derived_bor check (derived_best_overall_response is null or ${inList('derived_best_overall_response', RESPONSES)})`,
+  );
   await knex.raw('create index patients_trial_site on patients (trial_id, site_id)');
   await knex.raw('create index patients_cohort on patients (cohort_id, enrolled_on)');
+
+  await knex.schema.createTable('assessments', (t) => {
+    t.uuid('id').primary().defaultTo(knex.raw('gen_random_uuid()'));
+    t.uuid('patient_id').notNullable().references('patients.id').onDelete('cascade');
+    t.uuid('trial_id').notNullable().references('trials.id').onDelete('cascade');
+    t.date('assessed_on').notNullable();
+    t.text('response').notNullable();
+    t.text('notes');
+    t.integer('version').notNullable().defaultTo(1);
+    t.uuid('created_by').references('users.id');
+    t.timestamp('created_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
+    t.timestamp('updated_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
+    t.unique(['patient_id', 'assessed_on']);
+  });
+  await knex.raw(`alter table assessments add constraint assessments_response check (${inList('response', RESPONSES)})`);
 }
 
 export async function down(knex: Knex): Promise<void> {
+  await knex.schema.dropTable('assessments');
   await knex.schema.dropTable('patients');
   await knex.schema.dropTable('design_versions');
   await knex.schema.dropTable('job_runs');
