@@ -17,6 +17,10 @@ export type Cluster = {
   port: number;
   dataDir: string;
   stop: () => void;
+  /** Fault tests: stop at once, as a crash would (no checkpoint, connections cut). */
+  kill: () => void;
+  /** Fault tests: start again on the same port and data after `kill` or `stop`. */
+  start: () => void;
 };
 
 function findBinDir(): string | undefined {
@@ -82,19 +86,21 @@ export function startCluster({ dataDir, port, fast = false }: StartOptions): Clu
   if (!existsSync(path.join(pgData, 'PG_VERSION'))) {
     run(bin, 'initdb', ['-D', pgData, '-U', 'postgres', '-A', 'trust', '-E', 'UTF8', '--no-locale']);
   }
-  const status = run(bin, 'pg_ctl', ['-D', pgData, 'status'], { allowFail: true });
   let startedHere = false;
-  if (status.status !== 0) {
+  const start = () => {
     const settings = [`-c listen_addresses=127.0.0.1`, `-p ${port}`, `-k ${dataDir}`, '-c max_connections=200'];
     if (fast) settings.push('-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off');
     run(bin, 'pg_ctl', ['-D', pgData, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', '-o', settings.join(' '), 'start']);
     startedHere = true;
-  }
-  const stop = () => {
-    if (startedHere) run(bin, 'pg_ctl', ['-D', pgData, '-m', 'fast', '-w', 'stop'], { allowFail: true });
+  };
+  const halt = (mode: 'fast' | 'immediate') => {
+    if (startedHere) run(bin, 'pg_ctl', ['-D', pgData, '-m', mode, '-w', 'stop'], { allowFail: true });
     startedHere = false;
   };
-  return { url: (database) => `postgres://postgres@127.0.0.1:${port}/${database}`, port, dataDir, stop };
+  const status = run(bin, 'pg_ctl', ['-D', pgData, 'status'], { allowFail: true });
+  if (status.status !== 0) start();
+  const stop = () => halt('fast');
+  return { url: (database) => `postgres://postgres@127.0.0.1:${port}/${database}`, port, dataDir, stop, kill: () => halt('immediate'), start };
 }
 
 /** The persistent cluster of this checkout, reachable by the postgres user. */

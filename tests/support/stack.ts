@@ -5,7 +5,7 @@
 import { randomBytes } from 'node:crypto';
 import { inject } from 'vitest';
 import pg from 'pg';
-import { pino } from 'pino';
+import { pino, type Logger } from 'pino';
 import { startIdp, type RunningIdp } from '../../fake-idp/provider.js';
 import { startMailCatcher, type RunningCatcher } from '../../server/dev/mail-catcher.js';
 import { freePort } from '../../server/dev/ports.js';
@@ -54,8 +54,17 @@ export type Stack = {
   close: () => Promise<void>;
 };
 
-export async function startStack(overrides: Record<string, string> = {}): Promise<Stack> {
-  const databaseUrl = await createTestDatabase();
+export type StackOptions = {
+  /** Where the servers log (tests that read the logs pass their own); silent by default. */
+  logger?: Logger;
+};
+
+export async function startStack(overrides: Record<string, string> = {}, options: StackOptions = {}): Promise<Stack> {
+  return startStackOn(await createTestDatabase(), overrides, options);
+}
+
+/** The same stack on a database the caller provides (fault tests bring their own cluster). */
+export async function startStackOn(databaseUrl: string, overrides: Record<string, string> = {}, options: StackOptions = {}): Promise<Stack> {
   const [appPort, idpPort, secondPort] = [await freePort(), await freePort(), await freePort()];
   const appOrigin = `http://localhost:${appPort}`;
   const catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0 });
@@ -75,7 +84,7 @@ export async function startStack(overrides: Record<string, string> = {}): Promis
     ...overrides,
   });
   const config = loadConfig(env(appPort, appOrigin));
-  const logger = pino({ level: 'silent' });
+  const logger = options.logger ?? pino({ level: 'silent' });
   const server = await startServer(config, logger);
   const db = createDb(databaseUrl, { poolMax: 4 });
   const extra: RunningServer[] = [];
