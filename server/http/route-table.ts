@@ -13,6 +13,7 @@ import { dataCutsRoutes } from '../data-cuts/data-cuts.routes.js';
 import { portfolioRoutes } from '../portfolio/portfolio.routes.js';
 import { accrualRoutes } from '../accrual/accrual.routes.js';
 import { outboxRoutes } from '../outbox/outbox.routes.js';
+import { auditRoutes } from '../audit/audit.routes.js';
 
 export function routeTable(oidc: OidcClient): RouteSpec[] {
   return [
@@ -28,5 +29,6 @@ export function routeTable(oidc: OidcClient): RouteSpec[] {
     ...portfolioRoutes,
     ...accrualRoutes,
     ...outboxRoutes,
+    ...auditRoutes,
   ];
 }

@@ -1,30 +1,91 @@
-/** People & sites: memberships of a trial (admin and statistician read them; site roles do not). */
-import type { RouteSpec } from '../http/routes.js';
-import { requireTrialAccess } from '../http/routes.js';
+/**
+ * People & sites: global site records (any trial manager edits them), and a trial's memberships
+ * (admin and statistician read them; the admin invites, changes and removes). Site roles do not
+ * see who else works on the trial.
+ */
+import type { Request } from 'express';
+import { isUuid, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { NotFoundError } from '../http/errors.js';
+import { parseBody } from '../http/validate.js';
+import type { MailWorker } from '../mail/outbox.js';
+import { listMemberships, listSites } from './people.repository.js';
+import { membershipInviteSchema, membershipUpdateSchema, siteSchema, siteUpdateSchema } from './people.schema.js';
+import { createSite, inviteMember, removeMember, updateMember, updateSite } from './people.service.js';
+
+function recordId(req: Request, name: string, what: string): string {
+  const id = req.params[name];
+  if (!isUuid(id)) throw new NotFoundError(what);
+  return id;
+}
+
+/** Queued mail goes out promptly once the transaction that queued it has committed. */
+const kickMail = (req: Request) => (req.app.locals.mail as MailWorker | undefined)?.kick();
 
 export const peopleRoutes: RouteSpec[] = [
+  {
+    method: 'get',
+    path: '/api/sites',
+    access: { kind: 'signed-in' },
+    handler: async (_req, res, { db }) => {
+      res.json({ sites: await listSites(db) });
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/sites',
+    access: { kind: 'role-anywhere', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(siteSchema, req.body);
+      res.status(201).json({ site: await createSite(db, requireUser(req), input) });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/sites/:siteId',
+    access: { kind: 'role-anywhere', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const siteId = recordId(req, 'siteId', 'The site');
+      const input = await parseBody(siteUpdateSchema, req.body);
+      res.json({ site: await updateSite(db, requireUser(req), siteId, input) });
+    },
+  },
   {
     method: 'get',
     path: '/api/trials/:trialId/memberships',
     access: { kind: 'trial', roles: ['admin', 'statistician'] },
     handler: async (req, res, { db }) => {
-      const { trialId } = requireTrialAccess(req);
-      const memberships = await db('memberships as m')
-        .leftJoin('sites as s', 's.id', 'm.site_id')
-        .leftJoin('users as u', 'u.id', 'm.user_id')
-        .where('m.trial_id', trialId)
-        .orderBy([{ column: 'm.role' }, { column: 'm.email' }])
-        .select(
-          'm.id',
-          'm.email',
-          'm.role',
-          'm.status',
-          'm.site_id as siteId',
-          's.code as siteCode',
-          'u.name',
-          'm.version',
-        );
-      res.json({ memberships });
+      res.json({ memberships: await listMemberships(db, requireTrialAccess(req).trialId) });
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/memberships',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db, config }) => {
+      const input = await parseBody(membershipInviteSchema, req.body);
+      const membership = await inviteMember(db, requireUser(req), requireTrialAccess(req).trialId, input, config.appOrigin);
+      kickMail(req);
+      res.status(201).json({ membership });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/trials/:trialId/memberships/:membershipId',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const membershipId = recordId(req, 'membershipId', 'The membership');
+      const input = await parseBody(membershipUpdateSchema, req.body);
+      res.json({ membership: await updateMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId, input) });
+    },
+  },
+  {
+    method: 'delete',
+    path: '/api/trials/:trialId/memberships/:membershipId',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const membershipId = recordId(req, 'membershipId', 'The membership');
+      await removeMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId);
+      res.status(204).end();
     },
   },
 ];

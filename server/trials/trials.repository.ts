@@ -127,3 +127,180 @@ export async function listTrialsForUser(db: Db, userId: string): Promise<TrialFo
   );
   return rows.map((row) => ({ ...toTrial(row, cohorts.get(row.id) ?? []), myRoles: row.roles }));
 }
+
+/** A site taking part in a trial, with the accrual planned there. */
+export type TrialSite = { id: string; code: string; name: string; country: string; plannedAccrualPerMonth: number | null };
+
+/** The protocol's rules for outcomes (RECIST 1.1 confirmation, stable-disease duration …). */
+export type ProtocolSettings = {
+  outcomeSource: 'entered' | 'derived';
+  confirmationRequired: boolean;
+  confirmationMinDays: number;
+  sdMinDays: number;
+  neBetweenResponses: 'ignore' | 'breaks_confirmation';
+  assessmentIntervalDays: number;
+  inactivityWarningWeeks: number;
+};
+
+/** The trial as its set-up forms need it: the record, its sites and its protocol settings. */
+export type TrialDetail = Trial & { sites: TrialSite[]; protocolSettings: ProtocolSettings };
+
+type SettingsRow = {
+  outcome_source: ProtocolSettings['outcomeSource'];
+  confirmation_required: boolean;
+  confirmation_min_days: number;
+  sd_min_days: number;
+  ne_between_responses: ProtocolSettings['neBetweenResponses'];
+  assessment_interval_days: number;
+  inactivity_warning_weeks: number;
+};
+
+const toSettings = (row: SettingsRow): ProtocolSettings => ({
+  outcomeSource: row.outcome_source,
+  confirmationRequired: row.confirmation_required,
+  confirmationMinDays: row.confirmation_min_days,
+  sdMinDays: row.sd_min_days,
+  neBetweenResponses: row.ne_between_responses,
+  assessmentIntervalDays: row.assessment_interval_days,
+  inactivityWarningWeeks: row.inactivity_warning_weeks,
+});
+
+const fromSettings = (settings: ProtocolSettings): SettingsRow => ({
+  outcome_source: settings.outcomeSource,
+  confirmation_required: settings.confirmationRequired,
+  confirmation_min_days: settings.confirmationMinDays,
+  sd_min_days: settings.sdMinDays,
+  ne_between_responses: settings.neBetweenResponses,
+  assessment_interval_days: settings.assessmentIntervalDays,
+  inactivity_warning_weeks: settings.inactivityWarningWeeks,
+});
+
+export async function listTrialSites(db: Db, trialId: string): Promise<TrialSite[]> {
+  return db('trial_sites as ts')
+    .join('sites as s', 's.id', 'ts.site_id')
+    .where('ts.trial_id', trialId)
+    .orderBy('s.code')
+    .select('s.id', 's.code', 's.name', 's.country', 'ts.planned_accrual_per_month as plannedAccrualPerMonth');
+}
+
+/** Reads the trial for a change; inside a transaction the row stays locked until commit. */
+export async function findTrialDetail(db: Db, trialId: string, options: { lock?: boolean } = {}): Promise<TrialDetail | undefined> {
+  const query = db('trials').where({ id: trialId }).first();
+  const row: (TrialRow & SettingsRow) | undefined = await (options.lock ? query.forUpdate() : query);
+  if (!row) return undefined;
+  const cohorts = (await cohortsByTrial(db, [row.id])).get(row.id) ?? [];
+  return { ...toTrial(row, cohorts), sites: await listTrialSites(db, trialId), protocolSettings: toSettings(row) };
+}
+
+export type TrialFields = {
+  code: string;
+  title: string;
+  indication: string;
+  endpointDefinition: string;
+  sponsorName: string | null;
+  plannedAccrualPerMonth: number | null;
+  startDate: string | null;
+};
+
+const trialColumns = (fields: TrialFields) => ({
+  code: fields.code,
+  title: fields.title,
+  indication: fields.indication,
+  endpoint_definition: fields.endpointDefinition,
+  sponsor_name: fields.sponsorName,
+  planned_accrual_per_month: fields.plannedAccrualPerMonth,
+  start_date: fields.startDate,
+});
+
+const isUniqueViolation = (error: unknown) => (error as { code?: string })?.code === '23505';
+
+/** Inserts a trial; undefined when the code is already taken. */
+export async function insertTrial(db: Db, fields: TrialFields, createdBy: string): Promise<string | undefined> {
+  try {
+    const [row] = await db('trials').insert({ ...trialColumns(fields), created_by: createdBy }).returning('id');
+    return row.id;
+  } catch (error) {
+    if (isUniqueViolation(error)) return undefined;
+    throw error;
+  }
+}
+
+/** Updates the trial and bumps its version; false when the code is already taken. */
+export async function updateTrialRow(db: Db, trialId: string, fields: TrialFields): Promise<boolean> {
+  try {
+    await db('trials')
+      .where({ id: trialId })
+      .update({ ...trialColumns(fields), version: db.raw('version + 1'), updated_at: db.fn.now() });
+    return true;
+  } catch (error) {
+    if (isUniqueViolation(error)) return false;
+    throw error;
+  }
+}
+
+export async function updateProtocolSettingsRow(db: Db, trialId: string, settings: ProtocolSettings): Promise<void> {
+  await db('trials')
+    .where({ id: trialId })
+    .update({ ...fromSettings(settings), version: db.raw('version + 1'), updated_at: db.fn.now() });
+}
+
+export async function insertCohorts(db: Db, trialId: string, cohorts: Array<{ code: string; name: string; position: number }>): Promise<Cohort[]> {
+  const rows: CohortRow[] = await db('cohorts')
+    .insert(cohorts.map((c) => ({ trial_id: trialId, code: c.code, name: c.name, position: c.position })))
+    .returning('*');
+  return rows.map(toCohort);
+}
+
+export async function findCohort(db: Db, trialId: string, cohortId: string, options: { lock?: boolean } = {}): Promise<Cohort | undefined> {
+  const query = db('cohorts').where({ id: cohortId, trial_id: trialId }).first();
+  const row: CohortRow | undefined = await (options.lock ? query.forUpdate() : query);
+  return row && toCohort(row);
+}
+
+export async function updateCohortRow(db: Db, cohortId: string, fields: { code: string; name: string }): Promise<Cohort> {
+  const [row]: CohortRow[] = await db('cohorts')
+    .where({ id: cohortId })
+    .update({ code: fields.code, name: fields.name, version: db.raw('version + 1') })
+    .returning('*');
+  return toCohort(row);
+}
+
+/** Sites that exist among the given ids. */
+export async function existingSiteIds(db: Db, siteIds: string[]): Promise<Set<string>> {
+  if (siteIds.length === 0) return new Set();
+  const rows: Array<{ id: string }> = await db('sites').whereIn('id', siteIds).select('id');
+  return new Set(rows.map((r) => r.id));
+}
+
+/** Which of the given sites still have patients or site-role members on the trial. */
+export async function sitesInUse(db: Db, trialId: string, siteIds: string[]): Promise<Array<{ code: string; patients: number; members: number }>> {
+  if (siteIds.length === 0) return [];
+  const rows: Array<{ code: string; patients: number; members: number }> = await db('sites as s')
+    .whereIn('s.id', siteIds)
+    .select(
+      's.code',
+      db.raw('(select count(*) from patients p where p.trial_id = ? and p.site_id = s.id)::int as patients', [trialId]),
+      db.raw('(select count(*) from memberships m where m.trial_id = ? and m.site_id = s.id)::int as members', [trialId]),
+    );
+  return rows.filter((r) => r.patients > 0 || r.members > 0);
+}
+
+export async function setTrialSites(db: Db, trialId: string, sites: Array<{ siteId: string; plannedAccrualPerMonth: number | null }>): Promise<void> {
+  const keep = sites.map((s) => s.siteId);
+  await db('trial_sites')
+    .where({ trial_id: trialId })
+    .modify((q) => {
+      if (keep.length > 0) q.whereNotIn('site_id', keep);
+    })
+    .delete();
+  if (sites.length === 0) return;
+  await db('trial_sites')
+    .insert(sites.map((s) => ({ trial_id: trialId, site_id: s.siteId, planned_accrual_per_month: s.plannedAccrualPerMonth })))
+    .onConflict(['trial_id', 'site_id'])
+    .merge(['planned_accrual_per_month']);
+}
+
+export async function countPatients(db: Db, trialId: string): Promise<number> {
+  const [{ count }] = await db('patients').where({ trial_id: trialId }).count({ count: '*' });
+  return Number(count);
+}

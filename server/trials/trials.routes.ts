@@ -1,7 +1,10 @@
-/** Trials the user can see, and one trial's basic record. */
-import { ROLES, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+/** Trials: the ones a user can see, one trial's record, and setting a trial up (admin; protocol settings: statistician). */
+import { ROLES, isUuid, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
 import { NotFoundError } from '../http/errors.js';
-import { findTrial, listTrialsForUser } from './trials.repository.js';
+import { parseBody } from '../http/validate.js';
+import { findTrialDetail, listTrialsForUser } from './trials.repository.js';
+import { cohortSchema, cohortUpdateSchema, protocolSettingsSchema, trialCreateSchema, trialUpdateSchema } from './trials.schema.js';
+import { addCohort, createTrial, updateCohort, updateProtocolSettings, updateTrial } from './trials.service.js';
 
 export const trialsRoutes: RouteSpec[] = [
   {
@@ -13,14 +16,62 @@ export const trialsRoutes: RouteSpec[] = [
     },
   },
   {
+    method: 'post',
+    path: '/api/trials',
+    access: { kind: 'role-anywhere', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(trialCreateSchema, req.body);
+      const trial = await createTrial(db, requireUser(req), input);
+      res.status(201).json({ trial });
+    },
+  },
+  {
     method: 'get',
     path: '/api/trials/:trialId',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
       const access = requireTrialAccess(req);
-      const trial = await findTrial(db, access.trialId);
+      const trial = await findTrialDetail(db, access.trialId);
       if (!trial) throw new NotFoundError('The trial');
       res.json({ trial: { ...trial, myRoles: access.roles, mySiteIds: access.siteIds } });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/trials/:trialId',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(trialUpdateSchema, req.body);
+      res.json({ trial: await updateTrial(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/cohorts',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(cohortSchema, req.body);
+      res.status(201).json({ cohort: await addCohort(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/trials/:trialId/cohorts/:cohortId',
+    access: { kind: 'trial', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(cohortUpdateSchema, req.body);
+      const cohortId = req.params.cohortId;
+      if (!isUuid(cohortId)) throw new NotFoundError('The cohort');
+      res.json({ cohort: await updateCohort(db, requireUser(req), requireTrialAccess(req).trialId, cohortId, input) });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/trials/:trialId/protocol-settings',
+    access: { kind: 'trial', roles: ['statistician'] },
+    handler: async (req, res, { db }) => {
+      const input = await parseBody(protocolSettingsSchema, req.body);
+      res.json({ trial: await updateProtocolSettings(db, requireUser(req), requireTrialAccess(req).trialId, input) });
     },
   },
 ];

@@ -5,10 +5,13 @@
  */
 import type { Stack } from './stack.js';
 import type { TrialFixture } from './factories.js';
+import { createPendingMembership } from './people-factories.js';
 
 export type ParamContext = { stack: Stack; trial: TrialFixture };
 
 export const paramFixtures: Record<string, (context: ParamContext) => Promise<string>> = {
   cohortId: async ({ trial }) => trial.cohortIds[0],
   siteId: async ({ trial }) => Object.values(trial.siteIds)[0],
+  // A fresh pending membership per route, so an allowed DELETE removes nobody the matrix needs.
+  membershipId: async ({ stack, trial }) => (await createPendingMembership(stack.db, trial.trialId)).id,
 };

@@ -1,0 +1,187 @@
+/**
+ * People & sites: global site records, and who holds which role on a trial. Inviting someone who
+ * has never signed in creates a pending membership that activates at their first sign-in; every
+ * invitation queues an e-mail in the same transaction. A trial always keeps one active admin.
+ */
+import type { Db } from '../db/knex.js';
+import { writeAudit } from '../audit/audit.js';
+import { enqueueMail } from '../mail/outbox.js';
+import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import type { Role } from '../http/routes.js';
+import {
+  countPatientsAtSite,
+  deleteMembership,
+  findMembership,
+  findSite,
+  findTrialHeading,
+  findUserByEmail,
+  insertMembership,
+  insertSite,
+  lockActiveAdmins,
+  trialHasSite,
+  updateMembershipRow,
+  updateSiteRow,
+  type Membership,
+  type Site,
+} from './people.repository.js';
+import { SITE_MEMBER_ROLES, type MembershipInviteInput, type MembershipUpdateInput, type SiteInput, type SiteUpdateInput } from './people.schema.js';
+
+type Actor = { id: string; email: string };
+
+const ROLE_WORDS: Record<Role, string> = {
+  admin: 'trial manager (admin)',
+  statistician: 'trial statistician',
+  coordinator: 'site coordinator',
+  investigator: 'site investigator',
+  monitor: 'member of the data monitoring committee',
+  sponsor: 'sponsor',
+};
+
+const siteView = (site: Site) => ({ code: site.code, name: site.name, country: site.country });
+const membershipView = (m: Membership) => ({ email: m.email, role: m.role, siteCode: m.siteCode, status: m.status });
+
+const siteCodeTaken = (code: string) =>
+  new ConflictError(`A site with code ${code} already exists. Site codes start study IDs, so each must be unique.`, {
+    fields: { code: 'This code is already in use.' },
+  });
+
+export async function createSite(db: Db, actor: Actor, input: SiteInput): Promise<Site> {
+  return db.transaction(async (trx) => {
+    const siteId = await insertSite(trx, input);
+    if (!siteId) throw siteCodeTaken(input.code);
+    const site = (await findSite(trx, siteId)) as Site;
+    await writeAudit(trx, { actorUserId: actor.id, entityType: 'site', entityId: siteId, action: 'created', after: siteView(site) });
+    return site;
+  });
+}
+
+export async function updateSite(db: Db, actor: Actor, siteId: string, input: SiteUpdateInput): Promise<Site> {
+  return db.transaction(async (trx) => {
+    const before = await findSite(trx, siteId, { lock: true });
+    if (!before) throw new NotFoundError('The site');
+    if (before.version !== input.version) {
+      throw new ConflictError('Someone else changed this site in the meantime. Review the current record and apply your change again.', {
+        current: before,
+      });
+    }
+    // Existing study IDs carry the old prefix; renaming it would split the site's numbering.
+    if (input.code !== before.code && (await countPatientsAtSite(trx, siteId)) > 0) {
+      throw new ConflictError(`Site ${before.code} has enrolled patients, whose study IDs begin with its code; the code can no longer change.`, {
+        fields: { code: 'The code is fixed once patients are enrolled at the site.' },
+      });
+    }
+    if (!(await updateSiteRow(trx, siteId, { code: input.code, name: input.name, country: input.country }))) throw siteCodeTaken(input.code);
+    const after = (await findSite(trx, siteId)) as Site;
+    await writeAudit(trx, { actorUserId: actor.id, entityType: 'site', entityId: siteId, action: 'updated', before: siteView(before), after: siteView(after) });
+    return after;
+  });
+}
+
+async function checkSiteOnTrial(db: Db, trialId: string, siteId: string | null): Promise<void> {
+  if (siteId && !(await trialHasSite(db, trialId, siteId))) {
+    throw new InputError('That site does not take part in this trial.', { siteId: 'Choose one of the trial’s sites.' });
+  }
+}
+
+const alreadyHeld = (email: string, role: Role) =>
+  new ConflictError(`${email} already holds the role ${ROLE_WORDS[role]}${SITE_MEMBER_ROLES.includes(role) ? ' at that site' : ''} on this trial.`, {
+    fields: { role: 'This person already holds this role here.' },
+  });
+
+function invitationMail(input: {
+  appOrigin: string;
+  trial: { code: string; title: string };
+  role: Role;
+  siteCode: string | null;
+  email: string;
+  inviter: string;
+  active: boolean;
+}) {
+  const where = input.siteCode ? ` at site ${input.siteCode}` : '';
+  const lines = [
+    'Hello,',
+    '',
+    `${input.inviter} has added you to the trial ${input.trial.code} (${input.trial.title}) in Orrery as ${ROLE_WORDS[input.role]}${where}.`,
+    '',
+    `Sign in at ${input.appOrigin} with this e-mail address (${input.email}).`,
+    input.active ? 'Your access is active now.' : 'Your access becomes active when you first sign in.',
+    '',
+    `If you did not expect this message, tell ${input.inviter}.`,
+  ];
+  return { subject: `Orrery: you are invited to ${input.trial.code} as ${ROLE_WORDS[input.role]}`, text: lines.join('\n') };
+}
+
+export async function inviteMember(
+  db: Db,
+  actor: Actor,
+  trialId: string,
+  input: MembershipInviteInput,
+  appOrigin: string,
+): Promise<Membership> {
+  return db.transaction(async (trx) => {
+    const siteId = input.siteId ?? null;
+    await checkSiteOnTrial(trx, trialId, siteId);
+    const user = await findUserByEmail(trx, input.email);
+    const status = user?.signedInBefore ? 'active' : 'pending';
+    const membershipId = await insertMembership(trx, {
+      trialId,
+      email: input.email,
+      role: input.role,
+      siteId,
+      userId: user?.id ?? null,
+      status,
+      invitedBy: actor.id,
+    });
+    if (!membershipId) throw alreadyHeld(input.email, input.role);
+    const membership = (await findMembership(trx, trialId, membershipId)) as Membership;
+    await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'membership', entityId: membershipId, action: 'invited', after: membershipView(membership) });
+    const trial = (await findTrialHeading(trx, trialId)) as { code: string; title: string };
+    const mail = invitationMail({ appOrigin, trial, role: input.role, siteCode: membership.siteCode, email: input.email, inviter: actor.email, active: status === 'active' });
+    await enqueueMail(trx, { kind: 'invitation', to: input.email, ...mail, dedupeKey: `invitation:${membershipId}` });
+    return membership;
+  });
+}
+
+function conflictIfStale(current: Membership, version: number): void {
+  if (current.version !== version) {
+    throw new ConflictError('Someone else changed this membership in the meantime. Review it and apply your change again.', { current });
+  }
+}
+
+const lastAdmin = () =>
+  new ConflictError('This is the trial’s last active admin. Make someone else admin first, so the trial keeps a manager.');
+
+export async function updateMember(db: Db, actor: Actor, trialId: string, membershipId: string, input: MembershipUpdateInput): Promise<Membership> {
+  return db.transaction(async (trx) => {
+    const admins = await lockActiveAdmins(trx, trialId);
+    const before = await findMembership(trx, trialId, membershipId, { lock: true });
+    if (!before) throw new NotFoundError('The membership');
+    conflictIfStale(before, input.version);
+    const siteId = input.siteId ?? null;
+    await checkSiteOnTrial(trx, trialId, siteId);
+    if (before.role === 'admin' && input.role !== 'admin' && admins.length === 1 && admins[0] === membershipId) throw lastAdmin();
+    if (!(await updateMembershipRow(trx, membershipId, { role: input.role, siteId }))) throw alreadyHeld(before.email, input.role);
+    const after = (await findMembership(trx, trialId, membershipId)) as Membership;
+    await writeAudit(trx, {
+      actorUserId: actor.id,
+      trialId,
+      entityType: 'membership',
+      entityId: membershipId,
+      action: 'updated',
+      before: membershipView(before),
+      after: membershipView(after),
+    });
+    return after;
+  });
+}
+
+export async function removeMember(db: Db, actor: Actor, trialId: string, membershipId: string): Promise<void> {
+  await db.transaction(async (trx) => {
+    const admins = await lockActiveAdmins(trx, trialId);
+    const before = await findMembership(trx, trialId, membershipId, { lock: true });
+    if (!before) throw new NotFoundError('The membership');
+    if (admins.length === 1 && admins[0] === membershipId) throw lastAdmin();
+    await deleteMembership(trx, membershipId);
+    await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'membership', entityId: membershipId, action: 'removed', before: membershipView(before) });
+  });
+}
