@@ -293,7 +293,7 @@ export function simonDesigns(settings: DesignSettings): SimonDesigns {
     // Default search bound: 1.5 times the single-stage size, which holds the optimal design in practice.
     const single = findSingleStage(p0, p1, alpha, beta, SINGLE_STAGE_SEARCH_LIMIT);
     if (single === null) throw tooSmall(SINGLE_STAGE_SEARCH_LIMIT, alpha, beta, null, 'two-stage');
-    nmax = Math.ceil(1.5 * single.n);
+    nmax = Math.min(Math.ceil(1.5 * single.n), TWO_STAGE_NMAX_LIMIT);
   }
   if (nmax > TWO_STAGE_NMAX_LIMIT) {
     throw new StatsInputError('nmax', `nmax (${nmax}) is above ${TWO_STAGE_NMAX_LIMIT}, the largest two-stage search offered.`);
