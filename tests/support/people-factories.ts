@@ -58,3 +58,21 @@ export async function auditCount(db: Db): Promise<number> {
   const [{ count }] = await db('audit_log').count({ count: '*' });
   return Number(count);
 }
+
+let patientSeq = 0;
+
+/** An enrolled patient, so that rules which apply "once patients are enrolled" can be tested. */
+export async function enrolPatient(db: Db, trial: { trialId: string; cohortIds: string[] }, siteId: string): Promise<string> {
+  patientSeq += 1;
+  const [row] = await db('patients')
+    .insert({
+      trial_id: trial.trialId,
+      cohort_id: trial.cohortIds[0],
+      site_id: siteId,
+      study_id: `P${unique()}-${patientSeq}`,
+      enrolled_on: '2026-02-01',
+      enrolment_seq: patientSeq,
+    })
+    .returning('id');
+  return row.id;
+}
