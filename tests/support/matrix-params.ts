@@ -6,6 +6,8 @@
 import type { Stack } from './stack.js';
 import type { TrialFixture } from './factories.js';
 import { createPendingMembership } from './people-factories.js';
+import { matrixCut } from './data-cut-factories.js';
+import { matrixAssessment, matrixPatient } from './assessment-factories.js';
 
 export type ParamContext = { stack: Stack; trial: TrialFixture };
 
@@ -14,4 +16,9 @@ export const paramFixtures: Record<string, (context: ParamContext) => Promise<st
   siteId: async ({ trial }) => Object.values(trial.siteIds)[0],
   // A fresh pending membership per route, so an allowed DELETE removes nobody the matrix needs.
   membershipId: async ({ stack, trial }) => (await createPendingMembership(stack.db, trial.trialId)).id,
+  // One interim cut on the fixture trial's first cohort, shared by every data-cut route.
+  cutId: async ({ stack, trial }) => matrixCut(stack.db, trial),
+  // One patient at the coordinator's site, and one assessment of that patient.
+  patientId: async ({ stack, trial }) => matrixPatient(stack.db, trial),
+  assessmentId: async ({ stack, trial }) => matrixAssessment(stack.db, trial, await matrixPatient(stack.db, trial)),
 };

@@ -1,0 +1,550 @@
+/**
+ * The analysis of a data cut, computed from its frozen snapshot only (never from live patients), so
+ * the same cut always gives the same figures. Counting follows the protocol's analysis population
+ * (server/evaluation/counting.ts); every number comes from the statistics engine (server/stats).
+ * Pure: no database, no I/O — the report, the API and the tests all call this one function.
+ */
+import { assignStages, countsToward, effectiveOutcome, tally, type CountablePatient, type Tally } from '../evaluation/counting.js';
+import {
+  StatsInputError,
+  adjustPValues,
+  binomialTest,
+  evaluateTwoStage,
+  heterogeneity,
+  operatingCharacteristics,
+  posteriorProbability,
+  predictiveProbability,
+  proportionInterval,
+  twoStageInference,
+  type DesignRule,
+  type HeterogeneityResult,
+  type InterimStatus,
+  type TwoStageInference,
+} from '../stats/index.js';
+import type { CutCohort, CutDesign, CutPatient, CutSnapshot } from './data-cuts.repository.js';
+import type { CutKind } from './data-cuts.schema.js';
+
+export const CONF_LEVEL = 0.95;
+export const DEFAULT_THETA_T = 0.9;
+
+export const GENERAL_CAUTIONS = [
+  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
+  'Interim figures use data that may not yet be cleaned or source-verified.',
+  'Naive estimates after a two-stage design are biased.',
+  'A deviation from the planned n1 or n changes the operating characteristics.',
+];
+
+export type PriorSetting = { a: number | null; b: number | null; thetaT: number };
+
+export type AnalysisInput = {
+  cut: { id: string; seq: number; kind: CutKind; cutAt: string; contentHash: string; cohortId: string | null };
+  snapshot: CutSnapshot;
+  patients: CutPatient[];
+  prior: PriorSetting;
+  /** Where the prior came from: the cut's saved setting or this request's query. */
+  priorSource: 'saved' | 'request';
+};
+
+type Interval = [number, number];
+
+export type OperatingSummary = { typeIError: number; power: number; pet0: number | null; en0: number };
+
+export type Deviation = {
+  plannedN1: number | null;
+  actualN1: number | null;
+  plannedN: number;
+  actualN: number;
+  asApplied: { rule: DesignRule; characteristics: OperatingSummary | null; note: string | null };
+  adjusted: { r1: number | null; r: number | null; characteristics: OperatingSummary | null; note: string | null };
+  method: string;
+};
+
+export type SiteRow = {
+  siteId: string;
+  siteCode: string;
+  enrolled: number;
+  decided: number;
+  responders: number;
+  estimate: number | null;
+  ci: Interval | null;
+};
+
+export type BoundaryPoint = { evaluable: number; futility: number | null; success: number };
+
+export type CohortAnalysis = {
+  cohortId: string;
+  code: string;
+  name: string;
+  statusAtCut: string;
+  design: CutDesign | null;
+  counts: Tally | null;
+  responseRate: {
+    responders: number;
+    decided: number;
+    estimate: number;
+    confLevel: number;
+    clopperPearson: Interval;
+    wilson: Interval;
+    jeffreys: Interval;
+  } | null;
+  exactTest: { pValue: number; oneSidedLower: number; alternative: 'greater'; p0: number } | null;
+  rule: (InterimStatus & { applied: 'stage1' | 'final'; note: string | null }) | null;
+  inference: (TwoStageInference & { x1: number; n1: number; x2: number | null; n2Actual: number; confLevel: number; note: string }) | null;
+  inferenceNote: string | null;
+  bayes: {
+    prior: { a: number; b: number; source: 'default' | 'saved' | 'request' };
+    thetaT: number;
+    nmax: number;
+    posteriorProbability: number;
+    predictiveProbability: number;
+    statement: string;
+  } | null;
+  sites: SiteRow[];
+  heterogeneity: (HeterogeneityResult & { sites: number }) | null;
+  heterogeneityNote: string | null;
+  deviation: Deviation | null;
+  responderSources: { derived: number; entered: number };
+  boundaries: BoundaryPoint[];
+  path: Array<{ evaluable: number; responders: number }>;
+  cautions: string[];
+};
+
+export type OpenIssue = {
+  studyId: string;
+  siteCode: string;
+  cohortCode: string;
+  issue: 'pending_outcome' | 'unattested_outcome' | 'outcome_flag' | 'not_evaluable';
+  detail: string;
+};
+
+export type Multiplicity = {
+  method: string;
+  rows: Array<{ cohortId: string; code: string; p0: number; pValue: number; holm: number; bh: number }>;
+};
+
+export type Analysis = {
+  cut: AnalysisInput['cut'];
+  trial: CutSnapshot['trial'];
+  confLevel: number;
+  prior: { a: number | null; b: number | null; thetaT: number; source: 'default' | 'saved' | 'request'; statement: string };
+  cohorts: CohortAnalysis[];
+  multiplicity: Multiplicity | null;
+  openIssues: OpenIssue[];
+  cautions: string[];
+  methods: Record<string, string>;
+};
+
+const METHODS: Record<string, string> = {
+  responseRate:
+    'Response rate among patients with a decided outcome under the protocol’s analysis population (all enrolled: a patient who is not evaluable counts as a non-responder; evaluable: such patients are left out). Pending outcomes are left out. Intervals: Clopper–Pearson (exact), Wilson score and Jeffreys, two-sided 95%.',
+  exactTest: 'Exact one-sided binomial test of H0: p ≤ p0 against p > p0, with the matching one-sided 95% lower limit.',
+  rule: 'Stage 1: stop for futility when responders ≤ r1 among n1; final: promising when responders > r among n. A rule is determined early once the remaining patients cannot change it.',
+  inference:
+    'After a two-stage design: p-value and 95% interval under the stage-wise ordering (Koyama & Chen 2008) and the unbiased estimate (UMVUE, Jung & Kim 2004), computed with the actual stage-2 size. The naive estimate and interval ignore the stopping rule and are biased.',
+  bayes:
+    'Posterior probability P(p > p0 | data) under a Beta(a, b) prior, and the predictive probability that at nmax patients the posterior probability will exceed θT (Lee & Liu 2008). Default prior: Beta(p0, 1 − p0) — centred on the null rate and worth one patient, so the data dominate; default θT = 0.90.',
+  sites: 'Response by site with exact (Clopper–Pearson) 95% intervals; heterogeneity by Pearson chi-square and the exact Fisher / Freeman–Halton test over sites with decided outcomes.',
+  multiplicity: 'Each cohort against its own p0 (exact one-sided test); adjusted p-values by Holm (1979) and Benjamini–Hochberg (1995) across the cohorts with decided outcomes.',
+  deviation:
+    'When the actual stage-1 or total size differs from the design’s n1 or n: the planned thresholds applied to the actual sizes, with their exact type I error, power, PET0 and EN0 (binomial); and adjusted thresholds (common practice): r1′ is the largest futility threshold whose probability of stopping under p1 at the actual stage-1 size does not exceed the planned design’s, and r′ is the smallest final threshold that keeps the exact type I error at or below α given r1′ and the actual sizes.',
+};
+
+const plural = (k: number, noun: string) => `${k} ${noun}${k === 1 ? '' : 's'}`;
+
+function ruleOf(design: CutDesign, n1: number | null, n: number): DesignRule {
+  return design.r1 !== null && n1 !== null ? { r1: design.r1, n1, r: design.r, n } : { r: design.r, n };
+}
+
+function characteristics(rule: DesignRule, p0: number, p1: number): OperatingSummary {
+  const [atP0, atP1] = operatingCharacteristics(rule, [p0, p1]);
+  return { typeIError: atP0.probPromising, power: atP1.probPromising, pet0: rule.r1 === undefined ? null : atP0.pet, en0: atP0.expectedN };
+}
+
+/** Largest futility threshold at n1′ whose chance of stopping under p1 is no more than the planned design's. */
+function adjustedR1(design: CutDesign, actualN1: number): number | null {
+  if (design.r1 === null || design.n1 === null) return null;
+  if (actualN1 === design.n1) return design.r1;
+  // P(X1 ≤ k | n, p1) = 1 − P(promising) of the single-stage rule "more than k among n".
+  const stopUnderP1 = (k: number, n: number) => 1 - operatingCharacteristics({ r: k, n }, [design.p1])[0].probPromising;
+  const planned = stopUnderP1(design.r1, design.n1);
+  let best: number | null = null;
+  for (let k = 0; k < actualN1; k++) {
+    if (stopUnderP1(k, actualN1) <= planned + 1e-12) best = k;
+    else break;
+  }
+  return best;
+}
+
+/** Smallest final threshold keeping the exact type I error at or below α with the actual sizes. */
+function adjustedR(design: CutDesign, r1: number | null, n1: number | null, n: number): number | null {
+  for (let r = Math.max(0, r1 ?? 0); r < n; r++) {
+    const rule: DesignRule = r1 !== null && n1 !== null ? { r1, n1, r, n } : { r, n };
+    try {
+      if (operatingCharacteristics(rule, [design.p0])[0].probPromising <= design.alpha) return r;
+    } catch (error) {
+      if (!(error instanceof StatsInputError)) throw error;
+    }
+  }
+  return null;
+}
+
+function deviationOf(design: CutDesign, kind: CutKind, t: Tally): Deviation | null {
+  if (t.counted === 0) return null;
+  const twoStage = design.r1 !== null && design.n1 !== null;
+  let actualN1: number | null = null;
+  let actualN = design.n;
+  let deviates = false;
+  if (twoStage && kind === 'interim') {
+    // At an interim cut every counting patient already enrolled belongs to the look at stage 1.
+    actualN1 = t.counted;
+    deviates = actualN1 > (design.n1 as number);
+  } else if (twoStage) {
+    actualN1 = t.stage1.counted;
+    actualN = t.counted;
+    const stoppedAtStage1 = t.stage2.counted === 0 && t.stage1.responders <= (design.r1 as number);
+    deviates = actualN1 !== design.n1 || (!stoppedAtStage1 && actualN !== design.n);
+  } else if (kind === 'final') {
+    actualN = t.counted;
+    deviates = actualN !== design.n;
+  }
+  if (!deviates) return null;
+  if (twoStage && actualN1 !== null && actualN1 >= actualN) actualN = Math.max(design.n, actualN1 + 1);
+
+  const asAppliedRule = ruleOf(design, actualN1, actualN);
+  let asAppliedOc: OperatingSummary | null = null;
+  let asAppliedNote: string | null = null;
+  try {
+    asAppliedOc = characteristics(asAppliedRule, design.p0, design.p1);
+  } catch (error) {
+    if (!(error instanceof StatsInputError)) throw error;
+    asAppliedNote = `The planned thresholds cannot be applied to these sizes: ${error.message}`;
+  }
+  const r1Adj = twoStage ? adjustedR1(design, actualN1 as number) : null;
+  const rAdj = twoStage && r1Adj === null ? null : adjustedR(design, r1Adj, twoStage ? actualN1 : null, actualN);
+  let adjustedOc: OperatingSummary | null = null;
+  let adjustedNote: string | null = null;
+  if (rAdj === null) {
+    adjustedNote = 'No threshold at these sizes keeps the type I error at or below α and the futility loss no worse than planned.';
+  } else {
+    try {
+      adjustedOc = characteristics(r1Adj !== null ? { r1: r1Adj, n1: actualN1 as number, r: rAdj, n: actualN } : { r: rAdj, n: actualN }, design.p0, design.p1);
+    } catch (error) {
+      if (!(error instanceof StatsInputError)) throw error;
+      adjustedNote = error.message;
+    }
+  }
+  return {
+    plannedN1: design.n1,
+    actualN1,
+    plannedN: design.n,
+    actualN,
+    asApplied: { rule: asAppliedRule, characteristics: asAppliedOc, note: asAppliedNote },
+    adjusted: { r1: r1Adj, r: rAdj, characteristics: adjustedOc, note: adjustedNote },
+    method: METHODS.deviation,
+  };
+}
+
+function ruleStatus(design: CutDesign, t: Tally, deviation: Deviation | null): CohortAnalysis['rule'] {
+  const twoStage = design.r1 !== null && design.n1 !== null;
+  if (!twoStage) {
+    if (t.decided <= design.n) {
+      return { ...evaluateTwoStage({ r: design.r, n: design.n }, { responders: t.responders, evaluable: t.decided }), applied: 'final', note: null };
+    }
+    const r = deviation?.adjusted.r ?? design.r;
+    const n = Math.max(t.decided, deviation?.actualN ?? t.decided);
+    return {
+      ...evaluateTwoStage({ r, n }, { responders: t.responders, evaluable: t.decided }),
+      applied: 'final',
+      note: `More decided patients (${t.decided}) than the planned n = ${design.n}: the rule shown uses the adjusted threshold r′ = ${r} for n = ${n}.`,
+    };
+  }
+  const r1 = design.r1 as number;
+  const n1 = design.n1 as number;
+  const { stage1, stage2 } = t;
+  if (stage1.decided < n1 || stage2.counted === 0) {
+    const waiting = stage2.decided > 0 ? `${plural(stage2.decided, 'stage-2 outcome')} wait until every stage-1 outcome is in.` : null;
+    return {
+      ...evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders: stage1.responders, evaluable: stage1.decided }),
+      applied: 'stage1',
+      note: waiting,
+    };
+  }
+  const evaluable = n1 + stage2.decided;
+  const responders = stage1.responders + stage2.responders;
+  if (evaluable <= design.n) {
+    return {
+      ...evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders, evaluable, stage1Responders: stage1.responders }),
+      applied: 'final',
+      note: null,
+    };
+  }
+  const r = deviation?.adjusted.r ?? design.r;
+  return {
+    ...evaluateTwoStage({ r1, n1, r: Math.max(r, r1), n: evaluable }, { responders, evaluable, stage1Responders: stage1.responders }),
+    applied: 'final',
+    note: `More decided patients (${evaluable}) than the planned n = ${design.n}: the final rule shown uses the adjusted threshold r′ = ${Math.max(r, r1)}.`,
+  };
+}
+
+function inferenceOf(design: CutDesign, t: Tally): { inference: CohortAnalysis['inference']; note: string | null } {
+  if (design.r1 === null || design.n1 === null) return { inference: null, note: null };
+  const { stage1, stage2 } = t;
+  if (stage1.decided === 0) return { inference: null, note: 'No stage-1 outcome is decided yet.' };
+  const x1 = stage1.responders;
+  const n1 = stage1.decided;
+  const stopped = x1 <= design.r1;
+  const notes: string[] = [];
+  if (stage1.pending + stage2.pending > 0) notes.push(`${plural(stage1.pending + stage2.pending, 'pending outcome')} left out.`);
+  if (n1 !== design.n1) notes.push(`Stage 1 has ${n1} decided patients instead of n1 = ${design.n1}; the inference uses the actual size.`);
+  if (stopped && stage2.decided > 0) {
+    notes.push(`Stage 1 met the futility rule, so the ${plural(stage2.decided, 'stage-2 outcome')} are not part of the stage-wise inference.`);
+  }
+  const n2Actual = stopped ? 0 : stage2.decided;
+  if (!stopped && n2Actual !== design.n - design.n1) {
+    notes.push(`Stage 2 has ${n2Actual} decided patients instead of the planned ${design.n - design.n1}; the inference uses the actual size.`);
+  }
+  try {
+    const result = twoStageInference(
+      { r1: design.r1, n1, r: design.r, n: Math.max(design.n, n1 + 1), p0: design.p0 },
+      stopped ? { x1, confLevel: CONF_LEVEL } : { x1, x2: stage2.responders, n2Actual, confLevel: CONF_LEVEL },
+    );
+    return {
+      inference: { ...result, x1, n1, x2: stopped ? null : stage2.responders, n2Actual, confLevel: CONF_LEVEL, note: notes.join(' ') },
+      note: null,
+    };
+  } catch (error) {
+    if (!(error instanceof StatsInputError)) throw error;
+    return { inference: null, note: `The stage-wise inference cannot be computed for these counts: ${error.message}` };
+  }
+}
+
+function boundariesOf(design: CutDesign): BoundaryPoint[] {
+  const points: BoundaryPoint[] = [];
+  const twoStage = design.r1 !== null && design.n1 !== null;
+  for (let k = 1; k <= design.n; k++) {
+    if (twoStage && k <= (design.n1 as number)) {
+      const futility = (design.r1 as number) - ((design.n1 as number) - k);
+      points.push({ evaluable: k, futility: futility >= 0 ? futility : null, success: (design.r1 as number) + 1 });
+    } else {
+      const futility = design.r - (design.n - k);
+      points.push({ evaluable: k, futility: futility >= 0 ? futility : null, success: design.r + 1 });
+    }
+  }
+  return points;
+}
+
+function sitesOf(patients: CutPatient[], population: CutDesign['analysisPopulation']): SiteRow[] {
+  const bySite = new Map<string, SiteRow>();
+  for (const p of patients) {
+    const row = bySite.get(p.siteId) ?? { siteId: p.siteId, siteCode: p.siteCode, enrolled: 0, decided: 0, responders: 0, estimate: null, ci: null };
+    row.enrolled += 1;
+    const countable = toCountable(p);
+    if (countsToward(countable, population)) {
+      const outcome = effectiveOutcome(countable, population);
+      if (outcome !== 'pending') row.decided += 1;
+      if (outcome === 'responder') row.responders += 1;
+    }
+    bySite.set(p.siteId, row);
+  }
+  return [...bySite.values()]
+    .map((row) =>
+      row.decided > 0
+        ? { ...row, estimate: row.responders / row.decided, ci: proportionInterval(row.responders, row.decided, { confLevel: CONF_LEVEL }) }
+        : row,
+    )
+    .sort((a, b) => (a.siteCode < b.siteCode ? -1 : 1));
+}
+
+const toCountable = (p: CutPatient): CountablePatient => ({ id: p.patientId, enrolmentSeq: p.enrolmentSeq, outcome: p.outcome, evaluable: p.evaluable });
+
+function resolvePrior(prior: PriorSetting, p0: number, source: AnalysisInput['priorSource']): { a: number; b: number; source: 'default' | 'saved' | 'request' } {
+  if (prior.a !== null && prior.b !== null) return { a: prior.a, b: prior.b, source };
+  return { a: p0, b: 1 - p0, source: 'default' };
+}
+
+const fmt = (v: number, digits = 3) => Number(v.toFixed(digits)).toString();
+
+function analyseCohort(cohort: CutCohort, patients: CutPatient[], input: AnalysisInput): CohortAnalysis {
+  const base = {
+    cohortId: cohort.id,
+    code: cohort.code,
+    name: cohort.name,
+    statusAtCut: cohort.status,
+    design: cohort.design,
+  };
+  const design = cohort.design;
+  if (!design) {
+    return {
+      ...base,
+      counts: null,
+      responseRate: null,
+      exactTest: null,
+      rule: null,
+      inference: null,
+      inferenceNote: null,
+      bayes: null,
+      sites: [],
+      heterogeneity: null,
+      heterogeneityNote: null,
+      deviation: null,
+      responderSources: { derived: 0, entered: 0 },
+      boundaries: [],
+      path: [],
+      cautions: ['This cohort had no locked design at the cut: no rule or test can be applied.'],
+    };
+  }
+  const population = design.analysisPopulation;
+  const countable = patients.map(toCountable);
+  const t = tally(countable, design.n1, population);
+  const x = t.responders;
+  const n = t.decided;
+  const responseRate =
+    n > 0
+      ? {
+          responders: x,
+          decided: n,
+          estimate: x / n,
+          confLevel: CONF_LEVEL,
+          clopperPearson: proportionInterval(x, n, { method: 'clopper-pearson', confLevel: CONF_LEVEL }),
+          wilson: proportionInterval(x, n, { method: 'wilson', confLevel: CONF_LEVEL }),
+          jeffreys: proportionInterval(x, n, { method: 'jeffreys', confLevel: CONF_LEVEL }),
+        }
+      : null;
+  const test = n > 0 ? binomialTest(x, n, design.p0, { alternative: 'greater', confLevel: CONF_LEVEL }) : null;
+  const deviation = deviationOf(design, input.cut.kind, t);
+  const rule = ruleStatus(design, t, deviation);
+  const { inference, note: inferenceNote } = input.cut.kind === 'final' ? inferenceOf(design, t) : { inference: null, note: null };
+
+  const prior = resolvePrior(input.prior, design.p0, input.priorSource);
+  const nmax = Math.max(design.n, n);
+  const bayes = {
+    prior,
+    thetaT: input.prior.thetaT,
+    nmax,
+    posteriorProbability: posteriorProbability({ x, n, p0: design.p0, prior }),
+    predictiveProbability: predictiveProbability({ x, n, nmax, p0: design.p0, thetaT: input.prior.thetaT, prior }),
+    statement: `Prior Beta(${fmt(prior.a)}, ${fmt(prior.b)})${prior.source === 'default' ? ' (the default: mean p0, worth one patient)' : ''}; success at the final analysis means P(p > ${fmt(design.p0)}) > ${fmt(input.prior.thetaT)} with ${nmax} patients.`,
+  };
+
+  const sites = sitesOf(patients, population);
+  let het: CohortAnalysis['heterogeneity'] = null;
+  let heterogeneityNote: string | null = null;
+  const withOutcomes = sites.filter((s) => s.decided > 0);
+  if (withOutcomes.length >= 2) {
+    const result = heterogeneity(withOutcomes.map((s) => [s.responders, s.decided - s.responders]));
+    het = { ...result, sites: withOutcomes.length };
+    if (result.pValueExact === null) heterogeneityNote = 'The table is too large for the exact test; the chi-square p-value stands alone.';
+  } else {
+    heterogeneityNote = 'Fewer than two sites have decided outcomes: no comparison between sites.';
+  }
+
+  const stages = assignStages(countable, design.n1, population);
+  const ordered = [...patients].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq);
+  const path: CohortAnalysis['path'] = [];
+  let evaluated = 0;
+  let responders = 0;
+  let derived = 0;
+  let entered = 0;
+  for (const stage of [1, 2]) {
+    for (const p of ordered) {
+      const c = toCountable(p);
+      if (stages.get(p.patientId) !== stage || !countsToward(c, population)) continue;
+      const outcome = effectiveOutcome(c, population);
+      if (outcome === 'pending') continue;
+      evaluated += 1;
+      if (outcome === 'responder') {
+        responders += 1;
+        if (p.derivedResponder !== null) derived += 1;
+        else entered += 1;
+      }
+      path.push({ evaluable: evaluated, responders });
+    }
+  }
+
+  const cautions: string[] = [];
+  if (t.pending > 0) cautions.push(`${plural(t.pending, 'outcome')} still pending at the cut: the figures may change.`);
+  if (deviation) cautions.push('The actual sample size differs from the design: read the operating characteristics of the rule as applied.');
+  if (inference) cautions.push('Report the stage-wise p-value, interval and the UMVUE: the naive figures ignore the stopping rule and are biased.');
+  if (derived > 0) cautions.push(`${plural(derived, 'responder')} rest on outcomes derived from timepoint assessments.`);
+  if (rule?.note) cautions.push(rule.note);
+
+  return {
+    ...base,
+    counts: t,
+    responseRate,
+    exactTest: test ? { pValue: test.pValue, oneSidedLower: test.ci[0], alternative: 'greater', p0: design.p0 } : null,
+    rule,
+    inference,
+    inferenceNote,
+    bayes,
+    sites,
+    heterogeneity: het,
+    heterogeneityNote,
+    deviation,
+    responderSources: { derived, entered },
+    boundaries: boundariesOf(design),
+    path,
+    cautions,
+  };
+}
+
+function openIssuesOf(patients: CutPatient[]): OpenIssue[] {
+  const issues: OpenIssue[] = [];
+  for (const p of patients) {
+    const where = { studyId: p.studyId, siteCode: p.siteCode, cohortCode: p.cohortCode };
+    if (p.outcome === 'pending') issues.push({ ...where, issue: 'pending_outcome', detail: 'Outcome not yet recorded.' });
+    else if (!p.attested) issues.push({ ...where, issue: 'unattested_outcome', detail: `Outcome ${p.bestOverallResponse ?? p.outcome} not yet attested by the investigator.` });
+    if (p.outcomeFlag) issues.push({ ...where, issue: 'outcome_flag', detail: p.outcomeFlag });
+    if (!p.evaluable) issues.push({ ...where, issue: 'not_evaluable', detail: p.notEvaluableReason ?? 'Not evaluable.' });
+  }
+  return issues;
+}
+
+export function analyseCut(input: AnalysisInput): Analysis {
+  const cohorts = input.snapshot.cohorts.map((cohort) =>
+    analyseCohort(
+      cohort,
+      input.patients.filter((p) => p.cohortId === cohort.id),
+      input,
+    ),
+  );
+  const tested = cohorts.filter((c) => c.exactTest);
+  let multiplicity: Multiplicity | null = null;
+  if (input.snapshot.cohorts.length > 1 && tested.length >= 2) {
+    const ps = tested.map((c) => c.exactTest!.pValue);
+    const holm = adjustPValues(ps, 'holm');
+    const bh = adjustPValues(ps, 'bh');
+    multiplicity = {
+      method: METHODS.multiplicity,
+      rows: tested.map((c, i) => ({ cohortId: c.cohortId, code: c.code, p0: c.exactTest!.p0, pValue: ps[i], holm: holm[i], bh: bh[i] })),
+    };
+  }
+  const saved = input.prior.a !== null && input.prior.b !== null;
+  const openIssues = openIssuesOf(input.patients);
+  const cautions = [...GENERAL_CAUTIONS];
+  const pending = openIssues.filter((i) => i.issue === 'pending_outcome').length;
+  const unattested = openIssues.filter((i) => i.issue === 'unattested_outcome').length;
+  if (pending + unattested > 0) {
+    cautions.push(`At the cut ${plural(pending, 'outcome')} were pending and ${plural(unattested, 'outcome')} not yet attested.`);
+  }
+  if (multiplicity) cautions.push('Several cohorts are tested: read the Holm and Benjamini–Hochberg adjusted p-values.');
+  return {
+    cut: input.cut,
+    trial: input.snapshot.trial,
+    confLevel: CONF_LEVEL,
+    prior: {
+      a: saved ? input.prior.a : null,
+      b: saved ? input.prior.b : null,
+      thetaT: input.prior.thetaT,
+      source: saved ? input.priorSource : 'default',
+      statement: saved
+        ? `Beta(${fmt(input.prior.a as number)}, ${fmt(input.prior.b as number)}) for every cohort, θT = ${fmt(input.prior.thetaT)}.`
+        : `Default: Beta(p0, 1 − p0) for each cohort — centred on its null rate and worth one patient — with θT = ${fmt(input.prior.thetaT)}.`,
+    },
+    cohorts,
+    multiplicity,
+    openIssues,
+    cautions,
+    methods: METHODS,
+  };
+}

@@ -1,0 +1,94 @@
+/**
+ * Payloads of the data-cut routes, shared by the server's validation and the client's forms.
+ * Kept free of server-only imports: the client imports this file directly.
+ */
+import { number, object, string, type InferType } from 'yup';
+
+export const CUT_KINDS = ['interim', 'final'] as const;
+export type CutKind = (typeof CUT_KINDS)[number];
+
+export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol'] as const;
+export type RecommendationDecision = (typeof RECOMMENDATION_DECISIONS)[number];
+
+/** How a recommendation reads, in the interface, the signature's meaning and the report. */
+export const RECOMMENDATION_LABELS: Record<RecommendationDecision, string> = {
+  continue: 'Continue to stage 2',
+  stop_futility: 'Stop for futility',
+  stop_other: 'Stop for another reason',
+  modify_protocol: 'Modify the protocol',
+};
+
+export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete'] as const;
+export type DecisionAction = (typeof DECISION_ACTIONS)[number];
+
+export const DECISION_LABELS: Record<DecisionAction, string> = {
+  resume_stage_2: 'Resume accrual for stage 2',
+  stop: 'Stop the cohort',
+  final_analysis: 'Go to the final analysis',
+  complete: 'Complete the cohort',
+};
+
+export const STOP_CATEGORIES = ['futility', 'efficacy', 'safety', 'sponsor', 'other'] as const;
+
+export const STOP_CATEGORY_LABELS: Record<(typeof STOP_CATEGORIES)[number], string> = {
+  futility: 'Futility',
+  efficacy: 'Efficacy or early decision',
+  safety: 'Safety',
+  sponsor: 'Sponsor decision',
+  other: 'Other',
+};
+
+export const createDataCutSchema = object({
+  cohortId: string().uuid('Choose a cohort of this trial.').nullable().optional(),
+  kind: string().oneOf(CUT_KINDS, 'Choose interim or final.').required('Choose interim or final.'),
+});
+export type CreateDataCutInput = InferType<typeof createDataCutSchema>;
+
+export const recommendationSchema = object({
+  decision: string().oneOf(RECOMMENDATION_DECISIONS, 'Choose a recommendation.').required('Choose a recommendation.'),
+  rationale: string()
+    .trim()
+    .min(10, 'Give the committee’s rationale (at least 10 characters).')
+    .max(4000, 'Keep the rationale under 4,000 characters.')
+    .required('Give the committee’s rationale.'),
+});
+export type RecommendationInput = InferType<typeof recommendationSchema>;
+
+export const decisionSchema = object({
+  action: string().oneOf(DECISION_ACTIONS, 'Choose what to apply.').required('Choose what to apply.'),
+  /** Needed when the cut covers several cohorts: which cohort the decision moves. */
+  cohortId: string().uuid('Choose a cohort of this data cut.').nullable().optional(),
+  reason: string().trim().min(5, 'Give a reason (at least 5 characters).').max(2000, 'Keep the reason under 2,000 characters.').required('Give a reason.'),
+  stopCategory: string()
+    .oneOf(STOP_CATEGORIES, 'Choose why the cohort stops.')
+    .nullable()
+    .optional()
+    .when('action', {
+      is: 'stop',
+      then: (s) => s.required('Choose why the cohort stops.'),
+    }),
+});
+export type DecisionInput = InferType<typeof decisionSchema>;
+
+/** The prior for the Bayesian figures; a and b both empty go back to the stated default. */
+export const priorSchema = object({
+  a: number().typeError('Enter a number.').positive('Must be above 0.').max(1000, 'At most 1,000.').nullable().defined(),
+  b: number()
+    .typeError('Enter a number.')
+    .positive('Must be above 0.')
+    .max(1000, 'At most 1,000.')
+    .nullable()
+    .defined()
+    .test('both', 'Give both a and b, or neither for the default.', function both(value) {
+      return (value === null) === (this.parent.a === null);
+    }),
+  thetaT: number()
+    .typeError('Enter a number.')
+    .moreThan(0, 'Between 0 and 1.')
+    .lessThan(1, 'Between 0 and 1.')
+    .required('Give the success threshold.'),
+  version: number().integer().required('The version you edited is required.'),
+});
+export type PriorInput = InferType<typeof priorSchema>;
+
+export const EXPORT_DATASETS = ['patients', 'adrs'] as const;

@@ -1,0 +1,348 @@
+/**
+ * Data cuts as the business rules see them: freezing a cut (a consistent copy of every patient in
+ * scope, hashed), analysing it from the copy only, the committee's signed recommendations, and the
+ * decision the statistician applies to the cohort afterwards, with the people who must hear of it.
+ */
+import type { Knex } from 'knex';
+import type { Db } from '../db/knex.js';
+import { writeAudit } from '../audit/audit.js';
+import { enqueueMail } from '../mail/outbox.js';
+import { contentHash, recordSignature } from '../signatures/signatures.js';
+import { currentDesigns } from '../design-studio/current-design.js';
+import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
+import type { CohortStatus } from '../trials/trials.repository.js';
+import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
+import {
+  countMonitors,
+  decisionRecipients,
+  findDataCut,
+  findRecommendationBy,
+  findUserName,
+  insertDataCut,
+  insertDecision,
+  insertRecommendation,
+  listDataCuts,
+  listDecisions,
+  listRecommendations,
+  lockTrial,
+  nextSeq,
+  readCohorts,
+  readCutPatients,
+  readLivePatients,
+  releaseToSponsor,
+  updatePrior,
+  type CutPatient,
+  type CutSnapshot,
+  type DataCut,
+} from './data-cuts.repository.js';
+import {
+  DECISION_LABELS,
+  RECOMMENDATION_LABELS,
+  type CreateDataCutInput,
+  type DecisionAction,
+  type DecisionInput,
+  type PriorInput,
+  type RecommendationInput,
+} from './data-cuts.schema.js';
+
+export type Actor = { id: string; email: string };
+
+/** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
+export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
+  return { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+}
+
+const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).join(', ');
+
+export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Actor): Promise<DataCut> {
+  // Repeatable read: every patient and assessment is copied as of one instant.
+  return db.transaction(
+    async (trx) => {
+      const trial = await lockTrial(trx, input.trialId);
+      if (!trial) throw new NotFoundError('The trial');
+      const cohorts = await readCohorts(trx, input.trialId);
+      const scope = input.cohortId ? cohorts.filter((c) => c.id === input.cohortId) : cohorts;
+      if (input.cohortId && scope.length === 0) throw new InputError('That cohort is not part of this trial.', { cohortId: 'Choose a cohort of this trial.' });
+      const designs = await currentDesigns(trx, scope.map((c) => c.id));
+      if (designs.size === 0) {
+        throw new InputError('No cohort in this cut has a locked design yet: lock a design first.', { cohortId: 'This cohort has no locked design.' });
+      }
+      const snapshot: CutSnapshot = {
+        trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsor_name },
+        cohorts: scope.map((c) => {
+          const d = designs.get(c.id);
+          return {
+            id: c.id,
+            code: c.code,
+            name: c.name,
+            status: c.status,
+            design: d
+              ? {
+                  id: d.id,
+                  version: d.version,
+                  selection: d.selection,
+                  p0: d.p0,
+                  p1: d.p1,
+                  alpha: d.alpha,
+                  beta: d.beta,
+                  nmax: d.nmax,
+                  r1: d.r1,
+                  n1: d.n1,
+                  r: d.r,
+                  n: d.n,
+                  en0: d.en0,
+                  pet0: d.pet0,
+                  typeIError: d.typeIError,
+                  power: d.power,
+                  analysisPopulation: d.analysisPopulation,
+                  interimAccrual: d.interimAccrual,
+                  sponsorSeesResponse: d.sponsorSeesResponse,
+                  protocolReference: d.protocolReference,
+                }
+              : null,
+          };
+        }),
+      };
+      const patients = await readLivePatients(trx, scope.map((c) => c.id));
+      const base = {
+        trialId: input.trialId,
+        cohortId: input.cohortId ?? null,
+        kind: input.kind,
+        cutAt: new Date().toISOString(),
+        snapshot,
+      };
+      const counts = {
+        patients: patients.length,
+        pending: patients.filter((p) => p.outcome === 'pending').length,
+        unattested: patients.filter((p) => p.outcome !== 'pending' && !p.attested).length,
+        flagged: patients.filter((p) => p.outcomeFlag).length,
+        notEvaluable: patients.filter((p) => !p.evaluable).length,
+      };
+      const cut = await insertDataCut(
+        trx,
+        {
+          ...base,
+          seq: await nextSeq(trx, input.trialId),
+          designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
+          createdBy: actor.id,
+          contentHash: contentHash(cutContent(base, patients)),
+          counts,
+        },
+        patients,
+      );
+      await writeAudit(trx, {
+        actorUserId: actor.id,
+        trialId: input.trialId,
+        entityType: 'data_cut',
+        entityId: cut.id,
+        action: 'frozen',
+        after: { seq: cut.seq, kind: cut.kind, cohortId: cut.cohortId, cutAt: cut.cutAt, contentHash: cut.contentHash, counts },
+      });
+      return cut;
+    },
+    { isolationLevel: 'repeatable read' },
+  );
+}
+
+export async function listCuts(db: Db, trialId: string) {
+  const [cuts, monitors] = await Promise.all([listDataCuts(db, trialId), countMonitors(db, trialId)]);
+  return { dataCuts: cuts.map(({ snapshot, ...cut }) => ({ ...cut, cohorts: snapshot.cohorts.map((c) => ({ id: c.id, code: c.code, name: c.name })) })), committeeSize: monitors };
+}
+
+async function requireCut(db: Db | Knex.Transaction, cutId: string, forUpdate = false): Promise<DataCut> {
+  const cut = await findDataCut(db, cutId, { forUpdate });
+  if (!cut) throw new NotFoundError('The data cut');
+  return cut;
+}
+
+export async function cutDetail(db: Db, cutId: string) {
+  const cut = await requireCut(db, cutId);
+  const [recommendations, decisions, committeeSize] = await Promise.all([listRecommendations(db, cutId), listDecisions(db, cutId), countMonitors(db, cut.trialId)]);
+  return { dataCut: cut, recommendations, decisions, committeeSize };
+}
+
+export type CutAnalysis = Analysis & { integrity: { contentHash: string; recomputedHash: string; intact: boolean } };
+
+/** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
+export async function analyseDataCut(db: Db, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
+  const cut = await requireCut(db, cutId);
+  const patients = await readCutPatients(db, cutId);
+  const recomputedHash = contentHash(cutContent(cut, patients));
+  const overridden = override && (override.a !== undefined || override.thetaT !== undefined);
+  const prior: PriorSetting = overridden
+    ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
+    : cut.prior;
+  const analysis = analyseCut({
+    cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
+    snapshot: cut.snapshot,
+    patients,
+    prior,
+    priorSource: overridden ? 'request' : 'saved',
+  });
+  return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
+}
+
+export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Actor): Promise<DataCut> {
+  return db.transaction(async (trx) => {
+    const before = await requireCut(trx, cutId, true);
+    const updated = await updatePrior(trx, cutId, input.version, { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT });
+    if (!updated) throw new ConflictError('Someone changed this setting meanwhile; here is the current one.', { current: before });
+    await writeAudit(trx, {
+      actorUserId: actor.id,
+      trialId: before.trialId,
+      entityType: 'data_cut',
+      entityId: cutId,
+      action: 'prior_changed',
+      before: before.prior,
+      after: updated.prior,
+    });
+    return updated;
+  });
+}
+
+export async function recommend(
+  db: Db,
+  cutId: string,
+  input: RecommendationInput,
+  signer: Actor,
+  authenticatedAt: () => Date,
+): Promise<{ id: string; signatureId: string }> {
+  const cut = await requireCut(db, cutId);
+  if (await findRecommendationBy(db, cutId, signer.id)) {
+    throw new ConflictError('You have already signed a recommendation on this data cut.');
+  }
+  const authTime = authenticatedAt();
+  try {
+    return await db.transaction(async (trx) => {
+      const label = RECOMMENDATION_LABELS[input.decision];
+      const signature = await recordSignature(trx, {
+        trialId: cut.trialId,
+        signer,
+        meaning: `I recommend "${label}" for ${cut.snapshot.trial.code} cohort ${cohortLabel(cut)} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis.`,
+        subjectType: 'recommendation',
+        subjectId: cut.id,
+        content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
+        authenticatedAt: authTime,
+      });
+      const id = await insertRecommendation(trx, {
+        dataCutId: cut.id,
+        memberUserId: signer.id,
+        decision: input.decision,
+        rationale: input.rationale,
+        signatureId: signature.id,
+      });
+      await writeAudit(trx, {
+        actorUserId: signer.id,
+        trialId: cut.trialId,
+        entityType: 'recommendation',
+        entityId: id,
+        action: 'signed',
+        after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
+      });
+      const statisticians = await trx('memberships').where({ trial_id: cut.trialId, role: 'statistician', status: 'active' }).distinct('email');
+      await enqueueMail(
+        trx,
+        statisticians.map(({ email }: { email: string }) => ({
+          kind: 'recommendation_signed',
+          to: email,
+          subject: `${cut.snapshot.trial.code}: a committee recommendation was signed on data cut ${cut.seq}`,
+          text: `A member of the data monitoring committee signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.`,
+          dedupeKey: `recommendation:${id}:${email}`,
+        })),
+      );
+      return { id, signatureId: signature.id };
+    });
+  } catch (error) {
+    // Two tabs signing at once: the unique key decides, the second is told plainly.
+    if ((error as { code?: string }).code === '23505') throw new ConflictError('You have already signed a recommendation on this data cut.');
+    throw error;
+  }
+}
+
+export async function recommendations(db: Db, cutId: string) {
+  const cut = await requireCut(db, cutId);
+  const [list, committeeSize] = await Promise.all([listRecommendations(db, cutId), countMonitors(db, cut.trialId)]);
+  return { recommendations: list, committeeSize, signed: list.length };
+}
+
+const TARGET: Record<DecisionAction, CohortStatus> = {
+  resume_stage_2: 'enrolling_stage_2',
+  stop: 'stopped',
+  final_analysis: 'final_analysis',
+  complete: 'completed',
+};
+
+function decisionMail(trialCode: string, cohortCode: string, action: DecisionAction, reason: string, cut: DataCut, stopCategory: string | null) {
+  const what = {
+    resume_stage_2: `accrual resumes for stage 2 in cohort ${cohortCode}. Sites may enrol again.`,
+    stop: `cohort ${cohortCode} is stopped (${stopCategory}). Do not enrol further patients; follow the protocol for patients on treatment.`,
+    final_analysis: `cohort ${cohortCode} moves to the final analysis. Enrolment is closed.`,
+    complete: `cohort ${cohortCode} is completed.`,
+  }[action];
+  return {
+    subject: `${trialCode} ${cohortCode}: ${DECISION_LABELS[action].toLowerCase()}`,
+    text: `After the review of data cut ${cut.seq} by the data monitoring committee, ${what}\n\nReason: ${reason}\n\nThis message was sent by Orrery; the decision itself rests with the trial statistician, the data monitoring committee and the ethics board.`,
+  };
+}
+
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
+  return db.transaction(async (trx) => {
+    const cut = await requireCut(trx, cutId, true);
+    const cohortIds = cut.snapshot.cohorts.map((c) => c.id);
+    const cohortId = cut.cohortId ?? (cohortIds.length === 1 ? cohortIds[0] : input.cohortId);
+    if (!cohortId || !cohortIds.includes(cohortId)) {
+      throw new InputError('This data cut covers several cohorts: choose the one the decision applies to.', { cohortId: 'Choose a cohort of this data cut.' });
+    }
+    const signed = await listRecommendations(trx, cutId);
+    if (cut.kind === 'interim' && signed.length === 0) {
+      throw new ConflictError('No committee member has signed a recommendation on this interim data cut yet.');
+    }
+    if ((await listDecisions(trx, cutId)).some((d) => d.cohortId === cohortId)) {
+      throw new ConflictError('A decision on this cohort has already been applied from this data cut.');
+    }
+    const current = await trx('cohorts').where({ id: cohortId }).first('status', 'code');
+    const to = TARGET[input.action];
+    const reason = input.reason;
+    const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
+    // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
+    if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
+      await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+    }
+    const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory: stopCategory as StopCategory | null });
+    const decisionId = await insertDecision(trx, {
+      dataCutId: cutId,
+      cohortId,
+      action: input.action,
+      fromStatus: current.status,
+      toStatus: moved.to,
+      stopCategory,
+      reason,
+      appliedBy: actor.id,
+    });
+    await releaseToSponsor(trx, cutId);
+    await writeAudit(trx, {
+      actorUserId: actor.id,
+      trialId: cut.trialId,
+      entityType: 'data_cut',
+      entityId: cutId,
+      action: 'decision_applied',
+      before: { cohortStatus: current.status },
+      after: { decisionId, cohortId, action: input.action, cohortStatus: moved.to, stopCategory, recommendations: signed.map((r) => r.decision) },
+      reason,
+    });
+    const recipients = await decisionRecipients(trx, cut.trialId);
+    const mail = decisionMail(cut.snapshot.trial.code, current.code, input.action, reason, cut, stopCategory);
+    await enqueueMail(
+      trx,
+      [...new Set(recipients.map((r) => r.email.toLowerCase()))].map((email) => ({
+        kind: 'cohort_decision',
+        to: email,
+        subject: mail.subject,
+        text: mail.text,
+        dedupeKey: `decision:${decisionId}:${email}`,
+      })),
+    );
+    return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
+  });
+}

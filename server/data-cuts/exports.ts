@@ -1,0 +1,116 @@
+/**
+ * CSV exports of a data cut's frozen patients: the patients-and-outcomes listing, and a response
+ * dataset whose columns follow the CDISC ADaM basic data structure (one row per subject and
+ * parameter). Every text cell goes through the shared formula-injection guard.
+ */
+import { countsToward, effectiveOutcome } from '../evaluation/counting.js';
+import { toCsv, type CsvCell } from '../csv/neutralise.js';
+import type { CutPatient, DataCut } from './data-cuts.repository.js';
+
+export function patientsCsv(cut: DataCut, patients: CutPatient[]): string {
+  const header = [
+    'data_cut',
+    'study_id',
+    'site',
+    'cohort',
+    'stage',
+    'enrolment_seq',
+    'enrolled_on',
+    'outcome',
+    'best_overall_response',
+    'response_assessed_on',
+    'evaluable',
+    'not_evaluable_reason',
+    'attested',
+    'derived_best_overall_response',
+    'derived_responder',
+    'outcome_flag',
+    'patient_version',
+    'assessments',
+  ];
+  const rows: CsvCell[][] = patients.map((p) => [
+    cut.seq,
+    p.studyId,
+    p.siteCode,
+    p.cohortCode,
+    p.stage,
+    p.enrolmentSeq,
+    p.enrolledOn,
+    p.outcome,
+    p.bestOverallResponse,
+    p.responseAssessedOn,
+    p.evaluable,
+    p.notEvaluableReason,
+    p.attested,
+    p.derivedBestOverallResponse,
+    p.derivedResponder,
+    p.outcomeFlag,
+    p.patientVersion,
+    p.assessments.map((a) => `${a.assessedOn} ${a.response}`).join('; '),
+  ]);
+  return toCsv(header, rows);
+}
+
+/** Numeric codes for the best overall response (AVAL), in RECIST 1.1 order (common practice). */
+const BOR_CODE: Record<string, number> = { CR: 1, PR: 2, SD: 3, PD: 4, NE: 5 };
+
+export const ADRS_COLUMNS = [
+  'STUDYID',
+  'USUBJID',
+  'SUBJID',
+  'SITEID',
+  'COHORT',
+  'ENRLDT',
+  'EVALFL',
+  'PARAMCD',
+  'PARAM',
+  'PARCAT1',
+  'AVALC',
+  'AVAL',
+  'ADT',
+  'ANL01FL',
+  'DCUTDT',
+] as const;
+
+/**
+ * ADRS-style response dataset: per subject a BOR record (best overall response) and a RESP record
+ * (objective response, CR or PR, under the protocol's analysis population). ANL01FL marks the
+ * records that enter the primary analysis: counted under the population and with a decided outcome.
+ */
+export function adrsCsv(cut: DataCut, patients: CutPatient[]): string {
+  const trialCode = cut.snapshot.trial.code;
+  const populations = new Map(cut.snapshot.cohorts.map((c) => [c.id, c.design?.analysisPopulation ?? 'all_enrolled']));
+  const cutDate = cut.cutAt.slice(0, 10);
+  const rows: CsvCell[][] = [];
+  for (const p of patients) {
+    const population = populations.get(p.cohortId) ?? 'all_enrolled';
+    const countable = { id: p.patientId, enrolmentSeq: p.enrolmentSeq, outcome: p.outcome, evaluable: p.evaluable };
+    const counts = countsToward(countable, population);
+    const outcome = effectiveOutcome(countable, population);
+    const subject = [trialCode, `${trialCode}-${p.studyId}`, p.studyId, p.siteCode, p.cohortCode, p.enrolledOn, p.evaluable ? 'Y' : 'N'];
+    const bor = p.bestOverallResponse;
+    rows.push([
+      ...subject,
+      'BOR',
+      'Best Overall Response (RECIST 1.1)',
+      'TUMOUR RESPONSE',
+      bor,
+      bor ? BOR_CODE[bor] : null,
+      p.responseAssessedOn,
+      counts && p.outcome !== 'pending' ? 'Y' : null,
+      cutDate,
+    ]);
+    rows.push([
+      ...subject,
+      'RESP',
+      'Objective Response (CR or PR)',
+      'TUMOUR RESPONSE',
+      outcome === 'pending' ? null : outcome === 'responder' ? 'Y' : 'N',
+      outcome === 'pending' ? null : outcome === 'responder' ? 1 : 0,
+      p.responseAssessedOn,
+      counts && outcome !== 'pending' ? 'Y' : null,
+      cutDate,
+    ]);
+  }
+  return toCsv([...ADRS_COLUMNS], rows);
+}

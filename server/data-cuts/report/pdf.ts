@@ -1,0 +1,325 @@
+/**
+ * The PDF report of a data cut: trial and design, the cut's counts and hash, every analysis as a
+ * table, the boundary chart drawn with vector lines, the cautions, and the committee's signed
+ * recommendations and applied decisions. Built from the same analysis object the API returns, so
+ * its figures are the engine's. Deterministic: the document's dates come from the cut's time and
+ * the standard fonts are not embedded, so the same content gives the same bytes (and hash).
+ */
+import PDFDocument from 'pdfkit';
+import type { AppliedDecision, DataCut, Recommendation } from '../data-cuts.repository.js';
+import type { CohortAnalysis } from '../analysis.js';
+import type { CutAnalysis } from '../data-cuts.service.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../data-cuts.schema.js';
+
+export type ReportInput = {
+  cut: DataCut;
+  analysis: CutAnalysis;
+  recommendations: Recommendation[];
+  decisions: AppliedDecision[];
+  committeeSize: number;
+};
+
+const INK = '#14213d';
+const MUTED = '#5b6478';
+const BRASS = '#9a7b2f';
+const RULE = '#c9ccd3';
+const PAGE_BOTTOM = 780;
+const LEFT = 50;
+const WIDTH = 495;
+
+/** The standard PDF fonts speak WinAnsi only: spell out the symbols they lack. */
+export function pdfText(text: string): string {
+  return text
+    .replace(/α/g, 'alpha')
+    .replace(/β/g, 'beta')
+    .replace(/θT/g, 'thetaT')
+    .replace(/θ/g, 'theta')
+    .replace(/≤/g, '<=')
+    .replace(/≥/g, '>=')
+    .replace(/′/g, "'")
+    .replace(/−/g, '-')
+    .replace(/→/g, '->')
+    .replace(/[^\x20-\x7e\u00a0-\u00ff\u2013\u2014\u2018\u2019\u201c\u201d\u2022\u2026\n]/g, '?');
+}
+
+/** Fixed-digit figures, as the report prints them (the API carries full precision). */
+export const fig = {
+  pct: (v: number | null | undefined) => (v === null || v === undefined ? '-' : `${(v * 100).toFixed(1)}%`),
+  p: (v: number | null | undefined) => (v === null || v === undefined ? '-' : v < 0.0001 ? '<0.0001' : v.toFixed(4)),
+  dec: (v: number | null | undefined, d = 3) => (v === null || v === undefined ? '-' : v.toFixed(d)),
+  ci: (ci: [number, number] | null | undefined) => (ci ? `${(ci[0] * 100).toFixed(1)}% to ${(ci[1] * 100).toFixed(1)}%` : '-'),
+};
+
+type Doc = PDFKit.PDFDocument;
+
+function ensureSpace(doc: Doc, height: number) {
+  if (doc.y + height > PAGE_BOTTOM) doc.addPage();
+}
+
+function heading(doc: Doc, text: string, size = 12) {
+  ensureSpace(doc, 40);
+  doc.moveDown(0.6).font('Helvetica-Bold').fontSize(size).fillColor(INK).text(pdfText(text), LEFT, doc.y, { width: WIDTH });
+  doc.moveTo(LEFT, doc.y + 2).lineTo(LEFT + WIDTH, doc.y + 2).lineWidth(0.5).strokeColor(BRASS).stroke();
+  doc.moveDown(0.4);
+}
+
+function paragraph(doc: Doc, text: string, options: { size?: number; color?: string; bold?: boolean } = {}) {
+  const size = options.size ?? 9;
+  doc.font(options.bold ? 'Helvetica-Bold' : 'Helvetica').fontSize(size).fillColor(options.color ?? INK);
+  ensureSpace(doc, doc.heightOfString(pdfText(text), { width: WIDTH }) + 4);
+  doc.text(pdfText(text), LEFT, doc.y, { width: WIDTH });
+  doc.moveDown(0.25);
+}
+
+/** A plain ruled table: first row is the header; columns share the width by the given weights. */
+function table(doc: Doc, rows: string[][], weights?: number[]) {
+  const columns = rows[0].length;
+  const w = weights ?? Array(columns).fill(1);
+  const total = w.reduce((s, v) => s + v, 0);
+  const widths = w.map((v) => (v / total) * WIDTH);
+  rows.forEach((row, index) => {
+    doc.font(index === 0 ? 'Helvetica-Bold' : 'Helvetica').fontSize(8);
+    const cells = row.map((cell) => pdfText(cell));
+    const height = Math.max(...cells.map((cell, i) => doc.heightOfString(cell, { width: widths[i] - 6 }))) + 5;
+    if (doc.y + height > PAGE_BOTTOM) doc.addPage();
+    const top = doc.y;
+    let x = LEFT;
+    cells.forEach((cell, i) => {
+      doc.fillColor(index === 0 ? MUTED : INK).text(cell, x + 3, top + 2.5, { width: widths[i] - 6, lineBreak: true });
+      x += widths[i];
+    });
+    doc.moveTo(LEFT, top + height).lineTo(LEFT + WIDTH, top + height).lineWidth(index === 0 ? 0.8 : 0.3).strokeColor(RULE).stroke();
+    doc.y = top + height;
+  });
+  doc.x = LEFT;
+  doc.moveDown(0.4);
+}
+
+/** Responders against evaluable patients, with the futility and success boundaries, in vector lines. */
+function boundaryChart(doc: Doc, cohort: CohortAnalysis) {
+  if (!cohort.design || cohort.boundaries.length === 0) return;
+  const height = 190;
+  ensureSpace(doc, height + 50);
+  const top = doc.y + 6;
+  const plot = { x: LEFT + 36, y: top, w: WIDTH - 150, h: height - 30 };
+  const nMax = Math.max(cohort.design.n, cohort.path.length);
+  const yMax = Math.max(cohort.design.r + 2, ...cohort.path.map((p) => p.responders + 1));
+  const X = (k: number) => plot.x + (k / nMax) * plot.w;
+  const Y = (r: number) => plot.y + plot.h - (r / yMax) * plot.h;
+
+  doc.lineWidth(0.6).strokeColor(MUTED);
+  doc.moveTo(plot.x, plot.y).lineTo(plot.x, plot.y + plot.h).lineTo(plot.x + plot.w, plot.y + plot.h).stroke();
+  doc.font('Helvetica').fontSize(7).fillColor(MUTED);
+  const xStep = Math.max(1, Math.ceil(nMax / 10));
+  for (let k = 0; k <= nMax; k += xStep) {
+    doc.moveTo(X(k), plot.y + plot.h).lineTo(X(k), plot.y + plot.h + 3).stroke();
+    doc.text(String(k), X(k) - 10, plot.y + plot.h + 5, { width: 20, align: 'center' });
+  }
+  const yStep = Math.max(1, Math.ceil(yMax / 8));
+  for (let r = 0; r <= yMax; r += yStep) {
+    doc.moveTo(plot.x - 3, Y(r)).lineTo(plot.x, Y(r)).stroke();
+    doc.text(String(r), plot.x - 26, Y(r) - 3, { width: 20, align: 'right' });
+  }
+  doc.text('Evaluable patients', plot.x, plot.y + plot.h + 15, { width: plot.w, align: 'center' });
+  doc.save().rotate(-90, { origin: [LEFT + 4, plot.y + plot.h / 2] }).text('Responders', LEFT - 26, plot.y + plot.h / 2 - 4, { width: 60, align: 'center' }).restore();
+
+  // Futility: solid step line; at or below it the negative outcome is already settled.
+  doc.lineWidth(1.2).strokeColor(INK).undash();
+  let started = false;
+  for (const point of cohort.boundaries) {
+    if (point.futility === null) continue;
+    if (!started) doc.moveTo(X(point.evaluable - 1), Y(point.futility));
+    else doc.lineTo(X(point.evaluable - 1), Y(point.futility));
+    doc.lineTo(X(point.evaluable), Y(point.futility));
+    started = true;
+  }
+  if (started) doc.stroke();
+  // Success: dashed step line; at or above it the positive outcome is settled.
+  doc.lineWidth(1.2).strokeColor(BRASS).dash(4, { space: 3 });
+  cohort.boundaries.forEach((point, i) => {
+    if (i === 0) doc.moveTo(X(0), Y(point.success));
+    else doc.lineTo(X(point.evaluable - 1), Y(point.success));
+    doc.lineTo(X(point.evaluable), Y(point.success));
+  });
+  doc.stroke().undash();
+  if (cohort.design.n1 !== null) {
+    doc.lineWidth(0.5).strokeColor(MUTED).dash(1, { space: 2 });
+    doc.moveTo(X(cohort.design.n1), plot.y).lineTo(X(cohort.design.n1), plot.y + plot.h).stroke().undash();
+    doc.fontSize(7).fillColor(MUTED).text('end of stage 1', X(cohort.design.n1) + 2, plot.y + 2, { width: 60 });
+  }
+  // Observed path: thin line with dots.
+  if (cohort.path.length > 0) {
+    doc.lineWidth(0.9).strokeColor('#3a5a8c').moveTo(X(0), Y(0));
+    for (const p of cohort.path) doc.lineTo(X(p.evaluable), Y(p.responders));
+    doc.stroke();
+    doc.fillColor('#3a5a8c');
+    for (const p of cohort.path) doc.circle(X(p.evaluable), Y(p.responders), 1.6).fill();
+  }
+  const legendX = plot.x + plot.w + 14;
+  const legend: Array<[string, () => void]> = [
+    ['Futility boundary (solid): at or below, the negative outcome is settled', () => doc.lineWidth(1.2).strokeColor(INK).undash()],
+    ['Success boundary (dashed): at or above, the positive outcome is settled', () => doc.lineWidth(1.2).strokeColor(BRASS).dash(4, { space: 3 })],
+    ['Observed responders (dots), in enrolment order', () => doc.lineWidth(0.9).strokeColor('#3a5a8c').undash()],
+  ];
+  legend.forEach(([label, style], i) => {
+    const y = plot.y + 10 + i * 40;
+    style();
+    doc.moveTo(legendX, y + 4).lineTo(legendX + 18, y + 4).stroke().undash();
+    doc.font('Helvetica').fontSize(7).fillColor(INK).text(label, legendX + 22, y, { width: 92 });
+  });
+  doc.x = LEFT;
+  doc.y = top + height + 8;
+}
+
+function designLine(c: CohortAnalysis): string {
+  const d = c.design;
+  if (!d) return 'No locked design at the cut.';
+  const rule = d.r1 !== null ? `stage 1: stop if <= ${d.r1} responders among ${d.n1}; final: promising if > ${d.r} among ${d.n}` : `promising if > ${d.r} among ${d.n}`;
+  return `${d.selection.replace('_', '-')} design v${d.version}: p0 ${d.p0}, p1 ${d.p1}, alpha ${d.alpha}, beta ${d.beta}; ${rule}; type I error ${fig.dec(d.typeIError, 4)}, power ${fig.dec(d.power, 4)}; analysis population: ${d.analysisPopulation === 'all_enrolled' ? 'all enrolled' : 'evaluable'}.`;
+}
+
+function cohortSection(doc: Doc, c: CohortAnalysis) {
+  heading(doc, `Cohort ${c.code} - ${c.name} (status at the cut: ${c.statusAtCut.replace(/_/g, ' ')})`);
+  paragraph(doc, designLine(c));
+  if (!c.design || !c.counts) return;
+  const t = c.counts;
+  table(doc, [
+    ['Enrolled', 'Counted', 'Decided', 'Responders', 'Pending', 'Not evaluable', 'Stage 1 (resp/decided)', 'Stage 2 (resp/decided)'],
+    [t.enrolled, t.counted, t.decided, t.responders, t.pending, t.notEvaluable, `${t.stage1.responders}/${t.stage1.decided}`, `${t.stage2.responders}/${t.stage2.decided}`].map(String),
+  ]);
+  if (c.responseRate) {
+    const rr = c.responseRate;
+    table(
+      doc,
+      [
+        ['Response rate', 'Clopper-Pearson 95%', 'Wilson 95%', 'Jeffreys 95%', 'Exact one-sided p (vs p0)'],
+        [`${rr.responders}/${rr.decided} = ${fig.pct(rr.estimate)}`, fig.ci(rr.clopperPearson), fig.ci(rr.wilson), fig.ci(rr.jeffreys), fig.p(c.exactTest?.pValue)],
+      ],
+      [1.3, 1.3, 1.3, 1.3, 1.2],
+    );
+  } else {
+    paragraph(doc, 'No decided outcome yet: no response rate.');
+  }
+  if (c.rule) paragraph(doc, `Rule (${c.rule.applied === 'stage1' ? 'stage 1' : 'final'}): ${c.rule.decision.replace('-', ' ')}${c.rule.determinedEarly ? ', determined early' : ''}. ${c.rule.message}`);
+  if (c.inference) {
+    const inf = c.inference;
+    paragraph(doc, 'Inference after the two-stage design', { bold: true });
+    table(doc, [
+      ['', 'Estimate', '95% interval', 'p-value'],
+      ['Stage-wise ordering (Koyama & Chen) with UMVUE', fig.pct(inf.umvue), fig.ci(inf.ci), fig.p(inf.pValue)],
+      ['Naive (ignores the stopping rule - biased)', fig.pct(inf.naiveEstimate), fig.ci(inf.naiveCi), fig.p(c.exactTest?.pValue)],
+    ], [2.2, 1, 1.6, 1]);
+    if (inf.note) paragraph(doc, inf.note, { color: MUTED });
+  } else if (c.inferenceNote) {
+    paragraph(doc, c.inferenceNote, { color: MUTED });
+  }
+  if (c.bayes) {
+    table(doc, [
+      ['Prior', 'thetaT', 'nmax', 'Posterior P(p > p0)', 'Predictive probability of success'],
+      [`Beta(${fig.dec(c.bayes.prior.a)}, ${fig.dec(c.bayes.prior.b)}) ${c.bayes.prior.source}`, fig.dec(c.bayes.thetaT, 2), String(c.bayes.nmax), fig.dec(c.bayes.posteriorProbability, 4), fig.dec(c.bayes.predictiveProbability, 4)],
+    ], [1.8, 0.7, 0.7, 1.3, 1.6]);
+  }
+  if (c.sites.length > 0) {
+    paragraph(doc, 'Response by site', { bold: true });
+    table(doc, [
+      ['Site', 'Enrolled', 'Decided', 'Responders', 'Rate', 'Exact 95% interval'],
+      ...c.sites.map((s) => [s.siteCode, String(s.enrolled), String(s.decided), String(s.responders), fig.pct(s.estimate), fig.ci(s.ci)]),
+    ]);
+    if (c.heterogeneity) {
+      paragraph(
+        doc,
+        `Heterogeneity across ${c.heterogeneity.sites} sites: chi-square ${fig.dec(c.heterogeneity.chiSquare, 3)} on ${c.heterogeneity.df} df, p ${fig.p(c.heterogeneity.pValueChiSquare)}; exact (Fisher / Freeman-Halton) p ${fig.p(c.heterogeneity.pValueExact)}.`,
+      );
+    }
+    if (c.heterogeneityNote) paragraph(doc, c.heterogeneityNote, { color: MUTED });
+  }
+  if (c.deviation) {
+    const dv = c.deviation;
+    paragraph(doc, 'Deviation from the planned sample size', { bold: true });
+    const oc = (o: typeof dv.asApplied.characteristics) => (o ? [fig.dec(o.typeIError, 4), fig.dec(o.power, 4), fig.dec(o.pet0, 4), fig.dec(o.en0, 1)] : ['-', '-', '-', '-']);
+    const d = c.design;
+    table(doc, [
+      ['Rule', 'r1/n1', 'r/n', 'Type I error', 'Power', 'PET0', 'EN0'],
+      ['Planned', d.n1 !== null ? `${d.r1}/${d.n1}` : '-', `${d.r}/${d.n}`, fig.dec(d.typeIError, 4), fig.dec(d.power, 4), fig.dec(d.pet0, 4), fig.dec(d.en0, 1)],
+      ['As applied (planned thresholds, actual sizes)', dv.actualN1 !== null ? `${d.r1}/${dv.actualN1}` : '-', `${d.r}/${dv.actualN}`, ...oc(dv.asApplied.characteristics)],
+      ['Adjusted thresholds', dv.actualN1 !== null ? `${dv.adjusted.r1 ?? '-'}/${dv.actualN1}` : '-', `${dv.adjusted.r ?? '-'}/${dv.actualN}`, ...oc(dv.adjusted.characteristics)],
+    ], [2.4, 0.8, 0.8, 1, 1, 0.8, 0.8]);
+    paragraph(doc, dv.method, { size: 7.5, color: MUTED });
+    for (const note of [dv.asApplied.note, dv.adjusted.note]) if (note) paragraph(doc, note, { color: MUTED });
+  }
+  paragraph(doc, `Responders resting on derived outcomes: ${c.responderSources.derived}; on entered outcomes: ${c.responderSources.entered}.`);
+  boundaryChart(doc, c);
+  for (const caution of c.cautions) paragraph(doc, `Caution: ${caution}`, { color: BRASS });
+}
+
+export async function renderCutReport(input: ReportInput): Promise<Buffer> {
+  const { cut, analysis } = input;
+  const cutAt = new Date(cut.cutAt);
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: { top: 50, bottom: 50, left: LEFT, right: 50 },
+    info: {
+      Title: `${analysis.trial.code} data cut ${cut.seq}`,
+      Author: 'Orrery',
+      Subject: `${cut.kind} analysis`,
+      Creator: 'Orrery',
+      Producer: 'Orrery',
+      CreationDate: cutAt,
+      ModDate: cutAt,
+    },
+  });
+  const chunks: Buffer[] = [];
+  doc.on('data', (chunk: Buffer) => chunks.push(chunk));
+  const finished = new Promise<Buffer>((resolve, reject) => {
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+
+  doc.font('Helvetica-Bold').fontSize(18).fillColor(INK).text(pdfText(`${analysis.trial.code} - data cut ${cut.seq} (${cut.kind})`), LEFT, 50);
+  doc.font('Helvetica').fontSize(10).fillColor(MUTED).text(pdfText(`${analysis.trial.title} - ${analysis.trial.indication}${analysis.trial.sponsorName ? ` - sponsor ${analysis.trial.sponsorName}` : ''}`));
+  doc.moveDown(0.5);
+  paragraph(doc, `Cut at ${cut.cutAt} (UTC). Content hash (SHA-256 of the frozen snapshot): ${cut.contentHash}. Snapshot intact when this report was made: ${analysis.integrity.intact ? 'yes' : 'NO - the frozen copy no longer matches its hash'}.`);
+  table(doc, [
+    ['Patients', 'Pending outcomes', 'Unattested outcomes', 'Outcome flags', 'Not evaluable'],
+    [cut.counts.patients, cut.counts.pending, cut.counts.unattested, cut.counts.flagged, cut.counts.notEvaluable].map(String),
+  ]);
+  paragraph(doc, `Prior for the Bayesian figures: ${analysis.prior.statement}`, { color: MUTED });
+
+  for (const cohort of analysis.cohorts) cohortSection(doc, cohort);
+
+  if (analysis.multiplicity) {
+    heading(doc, 'Across cohorts: adjusted p-values');
+    table(doc, [
+      ['Cohort', 'p0', 'Exact one-sided p', 'Holm', 'Benjamini-Hochberg'],
+      ...analysis.multiplicity.rows.map((r) => [r.code, String(r.p0), fig.p(r.pValue), fig.p(r.holm), fig.p(r.bh)]),
+    ]);
+  }
+
+  heading(doc, `Open data issues at the cut (${analysis.openIssues.length})`);
+  if (analysis.openIssues.length === 0) paragraph(doc, 'None.');
+  else table(doc, [['Study ID', 'Site', 'Cohort', 'Issue', 'Detail'], ...analysis.openIssues.map((i) => [i.studyId, i.siteCode, i.cohortCode, i.issue.replace(/_/g, ' '), i.detail])], [1, 0.7, 0.8, 1.3, 2.5]);
+
+  heading(doc, 'Cautions');
+  for (const caution of analysis.cautions) paragraph(doc, `- ${caution}`);
+
+  heading(doc, `Committee recommendations (${input.recommendations.length} of ${input.committeeSize} members signed)`);
+  if (input.recommendations.length === 0) paragraph(doc, 'No recommendation signed yet.');
+  for (const r of input.recommendations) {
+    paragraph(doc, `${RECOMMENDATION_LABELS[r.decision]} - ${r.memberName ?? r.memberEmail}`, { bold: true });
+    paragraph(doc, `Rationale: ${r.rationale}`);
+    paragraph(doc, `Electronic signature ${r.signature.id}: "${r.signature.meaning}" Signed ${r.signature.signedAt} by ${r.signature.signerEmail} after a fresh sign-in at ${r.signature.authenticatedAt}; content hash ${r.signature.contentHash}.`, { size: 7.5, color: MUTED });
+  }
+  if (input.decisions.length > 0) {
+    heading(doc, 'Decisions applied');
+    for (const d of input.decisions) {
+      paragraph(
+        doc,
+        `Cohort ${d.cohortCode}: ${DECISION_LABELS[d.action]}${d.stopCategory ? ` (${STOP_CATEGORY_LABELS[d.stopCategory as keyof typeof STOP_CATEGORY_LABELS] ?? d.stopCategory})` : ''} - ${d.fromStatus.replace(/_/g, ' ')} to ${d.toStatus.replace(/_/g, ' ')}, applied ${d.appliedAt} by ${d.appliedByName ?? 'a statistician'}. Reason: ${d.reason}`,
+      );
+    }
+  }
+  paragraph(doc, 'Methods', { bold: true });
+  for (const [name, text] of Object.entries(analysis.methods)) paragraph(doc, `${name}: ${text}`, { size: 7.5, color: MUTED });
+  doc.end();
+  return finished;
+}
