@@ -1,3 +1,16 @@
-import type { RouteSpec } from '../http/routes.js';
+/** Accrual of one trial: enrolment over time against the plan, by site, with projections. Every role of the trial. */
+import { ROLES, requireTrialAccess, siteScope, type RouteSpec } from '../http/routes.js';
+import { toDay } from './calendar.js';
+import { trialAccrual } from './accrual.service.js';
 
-export const accrualRoutes: RouteSpec[] = [];
+export const accrualRoutes: RouteSpec[] = [
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/accrual',
+    access: { kind: 'trial', roles: ROLES },
+    handler: async (req, res, { db }) => {
+      const access = requireTrialAccess(req);
+      res.json({ accrual: await trialAccrual(db, access.trialId, { today: toDay(new Date()), sites: siteScope(access) }) });
+    },
+  },
+];

@@ -1,4 +1,5 @@
 /** The scheduled jobs every server process offers to run (each runs once per period across all processes). */
 import type { ScheduledJob } from './jobs.js';
+import { weeklyDigestJob } from './weekly-digest.js';
 
-export const scheduledJobs: ScheduledJob[] = [];
+export const scheduledJobs: ScheduledJob[] = [weeklyDigestJob];

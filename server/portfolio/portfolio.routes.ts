@@ -1,3 +1,29 @@
-import type { RouteSpec } from '../http/routes.js';
+/** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
+import { requireUser, type RouteSpec } from '../http/routes.js';
+import { parseBody } from '../http/validate.js';
+import { toDay } from '../accrual/calendar.js';
+import { digestFor } from '../jobs/weekly-digest.js';
+import { portfolioFilterSchema } from './portfolio.schema.js';
+import { portfolioFor } from './portfolio.service.js';
 
-export const portfolioRoutes: RouteSpec[] = [];
+export const portfolioRoutes: RouteSpec[] = [
+  {
+    method: 'get',
+    path: '/api/portfolio',
+    access: { kind: 'signed-in' },
+    handler: async (req, res, { db }) => {
+      const filter = await parseBody(portfolioFilterSchema, req.query);
+      res.json({ portfolio: await portfolioFor(db, requireUser(req).id, filter, toDay(new Date())) });
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/dev/digest-preview',
+    access: { kind: 'signed-in' },
+    devOnly: true,
+    handler: async (req, res, { db }) => {
+      const now = new Date();
+      res.json({ preview: await digestFor(db, requireUser(req).id, now) });
+    },
+  },
+];

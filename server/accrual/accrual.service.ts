@@ -1,0 +1,282 @@
+/**
+ * The Accrual page's figures: cumulative enrolment against the plan (overall and by site), the
+ * per-site table, projections of the dates n1 and n are reached, and warnings for sites that
+ * have enrolled nobody for the trial's configured number of weeks. Aggregate counts only: there
+ * are no response figures here, so every role of the trial reads the same kind of content
+ * (site roles see their own sites' rows).
+ */
+import type { Knex } from 'knex';
+import type { Db } from '../db/knex.js';
+import { NotFoundError } from '../http/errors.js';
+import { findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
+import type { AnalysisPopulation } from '../evaluation/counting.js';
+import {
+  accrualSettings,
+  cohortTallies,
+  emptyTally,
+  monthlyBySite,
+  recentMonthCounts,
+  siteTallies,
+  weeklyCounts,
+  type CohortTally,
+  type MonthCount,
+  type SiteTally,
+} from './accrual.repository.js';
+import { daysBetween, firstOfMonth } from './calendar.js';
+import { projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
+import { cumulativeSeries, type Plan, type SeriesPoint } from './timeline.js';
+
+type Queryable = Db | Knex.Transaction;
+
+/** A cohort's counts under its protocol's analysis population (see server/evaluation/counting.ts). */
+export type CohortCounts = {
+  enrolled: number;
+  /** Patients counting toward n1 and n. */
+  counted: number;
+  evaluable: number;
+  /** Counting patients whose outcome is not yet known. */
+  pending: number;
+  responders: number;
+  stage1Counted: number;
+  stage1Pending: number;
+  stage1Responders: number;
+  windowCounted: number;
+  lastWeekEnrolled: number;
+};
+
+export function countsUnder(tally: CohortTally, population: AnalysisPopulation): CohortCounts {
+  const all = population === 'all_enrolled';
+  return {
+    enrolled: tally.enrolled,
+    counted: all ? tally.enrolled : tally.evaluable,
+    evaluable: tally.evaluable,
+    pending: tally.pending,
+    responders: tally.responders,
+    stage1Counted: all ? tally.stage1Enrolled : tally.stage1Evaluable,
+    stage1Pending: tally.stage1Pending,
+    stage1Responders: tally.stage1Responders,
+    windowCounted: all ? tally.windowEnrolled : tally.windowEvaluable,
+    lastWeekEnrolled: tally.lastWeekEnrolled,
+  };
+}
+
+export type TargetProjection = Projection & { target: 'n1' | 'n' };
+
+export type CohortProjections = {
+  window: (RateWindow & { enrolled: number }) | null;
+  months: Array<{ month: string; enrolled: number }>;
+  targets: TargetProjection[];
+  notes: string[];
+};
+
+const CLOSED = new Set(['stopped', 'completed']);
+
+/** Projected dates of reaching n1 and n for one cohort, with the window and range they rest on. */
+export function projectCohort(input: {
+  cohort: Pick<Cohort, 'status'>;
+  design: Pick<LockedDesign, 'n1' | 'n' | 'analysisPopulation' | 'interimAccrual'> | undefined;
+  tally: CohortTally;
+  months: MonthCount[];
+  today: string;
+}): CohortProjections {
+  const { cohort, design, tally, today } = input;
+  if (!design) return { window: null, months: [], targets: [], notes: ['No design is locked yet, so there is no n1 or n to project.'] };
+  if (CLOSED.has(cohort.status)) return { window: null, months: [], targets: [], notes: [`The cohort is ${cohort.status}: nothing left to project.`] };
+  const evaluableOnly = design.analysisPopulation === 'evaluable';
+  const counts = countsUnder(tally, design.analysisPopulation);
+  const window = rateWindow(today, tally.firstEnrolledOn);
+  const byMonth = new Map(input.months.map((m) => [m.month, evaluableOnly ? m.evaluable : m.enrolled]));
+  const months = rangeMonths(today, tally.firstEnrolledOn).map((month) => ({ month, enrolled: byMonth.get(month) ?? 0 }));
+  const project = (target: 'n1' | 'n', size: number): TargetProjection => ({
+    target,
+    ...projectTarget({ today, counted: counts.counted, target: size, window, enrolledInWindow: counts.windowCounted, months }),
+  });
+  const targets = [...(design.n1 !== null ? [project('n1', design.n1)] : []), project('n', design.n)];
+  const notes: string[] = [];
+  if (cohort.status === 'interim_review' && design.interimAccrual === 'pause') {
+    notes.push('Accrual is paused for the interim review; the dates assume it resumes at the recent rate.');
+  }
+  if (evaluableOnly) notes.push('The protocol counts evaluable patients only: patients found not evaluable are replaced, which moves the dates later.');
+  return { window: window && { ...window, enrolled: counts.windowCounted }, months, targets, notes };
+}
+
+export type SiteRow = {
+  siteId: string;
+  code: string;
+  name: string;
+  plannedPerMonth: number | null;
+  enrolled: number;
+  evaluable: number;
+  pendingOutcomes: number;
+  lastEnrolledOn: string | null;
+  daysSinceLastEnrolment: number | null;
+  inactive: boolean;
+  monthly: Array<Pick<SeriesPoint, 'period' | 'cumulative' | 'planned'>>;
+};
+
+export type InactivityWarning = {
+  siteId: string;
+  siteCode: string;
+  siteName: string;
+  weeks: number;
+  lastEnrolledOn: string | null;
+  text: string;
+};
+
+/** A site warns when its last enrolment (or its opening, if it never enrolled) is at least `weeks` weeks old. */
+export function inactivityWarning(site: SiteTally, trialStart: string | null, weeks: number, today: string): InactivityWarning | null {
+  const opened = [trialStart, site.joinedOn].filter((d): d is string => !!d).sort().at(-1) ?? null;
+  const since = site.lastEnrolledOn ?? opened;
+  if (!since) return null;
+  const days = daysBetween(since, today);
+  if (days < weeks * 7) return null;
+  const idle = Math.floor(days / 7);
+  const text = site.lastEnrolledOn
+    ? `${site.code} has enrolled nobody for ${idle} weeks (last enrolment ${site.lastEnrolledOn}).`
+    : `${site.code} has enrolled nobody in the ${idle} weeks since it opened (${since}).`;
+  return { siteId: site.siteId, siteCode: site.code, siteName: site.name, weeks: idle, lastEnrolledOn: site.lastEnrolledOn, text };
+}
+
+/** Whether any cohort is taking patients now, so that an idle site is worth a warning. */
+export function isEnrolling(cohorts: Cohort[], designs: Map<string, LockedDesign>): boolean {
+  return cohorts.some(
+    (c) =>
+      c.status === 'enrolling_stage_1' ||
+      c.status === 'enrolling_stage_2' ||
+      (c.status === 'interim_review' && designs.get(c.id)?.interimAccrual === 'continue_at_risk'),
+  );
+}
+
+export type CohortAccrual = {
+  cohortId: string;
+  code: string;
+  name: string;
+  status: Cohort['status'];
+  design: { selection: LockedDesign['selection']; n1: number | null; n: number; analysisPopulation: AnalysisPopulation } | null;
+  enrolled: number;
+  counted: number;
+  evaluable: number;
+  pendingOutcomes: number;
+  enrolledLastWeek: number;
+  lastEnrolledOn: string | null;
+  projections: CohortProjections;
+};
+
+export type TrialAccrual = {
+  trialId: string;
+  trialCode: string;
+  asOf: string;
+  plan: { perMonth: number | null; startDate: string | null };
+  inactivityWarningWeeks: number;
+  sitesShown: 'all' | 'own';
+  totals: { enrolled: number; evaluable: number; pendingOutcomes: number; lastEnrolledOn: string | null; daysSinceLastEnrolment: number | null };
+  timeline: { monthly: SeriesPoint[]; weekly: SeriesPoint[] };
+  sites: SiteRow[];
+  cohorts: CohortAccrual[];
+  warnings: InactivityWarning[];
+};
+
+const sum = (values: number[]) => values.reduce((a, b) => a + b, 0);
+
+function timelineStart(trial: Trial, months: string[]): string | null {
+  const firstMonth = [...months].sort()[0];
+  const candidates = [trial.startDate, firstMonth ? firstOfMonth(firstMonth) : null].filter((d): d is string => !!d);
+  return candidates.sort()[0] ?? null;
+}
+
+/** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
+export async function trialAccrual(db: Queryable, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
+  const { today } = options;
+  const [trial, settings] = await Promise.all([findTrial(db, trialId), accrualSettings(db, trialId)]);
+  if (!trial || !settings) throw new NotFoundError('The trial');
+  const cohortIds = trial.cohorts.map((c) => c.id);
+  const [designs, tallies, monthCounts, siteRows, bySiteMonth, weekly] = await Promise.all([
+    currentDesigns(db, cohortIds),
+    cohortTallies(db, cohortIds, today),
+    recentMonthCounts(db, cohortIds, today),
+    siteTallies(db, trialId, today),
+    monthlyBySite(db, trialId, today),
+    weeklyCounts(db, trialId, today),
+  ]);
+
+  const overallMonthly = new Map<string, number>();
+  for (const row of bySiteMonth) overallMonthly.set(row.period, (overallMonthly.get(row.period) ?? 0) + row.enrolled);
+  const from = timelineStart(trial, [...overallMonthly.keys()]);
+  const plan = (perMonth: number | null): Plan | null => (perMonth && trial.startDate ? { perMonth, startDate: trial.startDate } : null);
+
+  const enrolling = isEnrolling(trial.cohorts, designs);
+  const visible = siteRows.filter((s) => options.sites === 'all' || options.sites.includes(s.siteId));
+  const warnings = enrolling
+    ? visible
+        .filter((s) => s.listed)
+        .map((s) => inactivityWarning(s, trial.startDate, settings.inactivityWarningWeeks, today))
+        .filter((w): w is InactivityWarning => w !== null)
+    : [];
+  const warned = new Set(warnings.map((w) => w.siteId));
+
+  const sites: SiteRow[] = visible.map((site) => {
+    const counts = new Map(bySiteMonth.filter((r) => r.siteId === site.siteId).map((r) => [r.period, r.enrolled]));
+    return {
+      siteId: site.siteId,
+      code: site.code,
+      name: site.name,
+      plannedPerMonth: site.plannedPerMonth,
+      enrolled: site.enrolled,
+      evaluable: site.evaluable,
+      pendingOutcomes: site.pending,
+      lastEnrolledOn: site.lastEnrolledOn,
+      daysSinceLastEnrolment: site.lastEnrolledOn ? daysBetween(site.lastEnrolledOn, today) : null,
+      inactive: warned.has(site.siteId),
+      monthly: cumulativeSeries({ granularity: 'month', from, today, counts, plan: plan(site.plannedPerMonth) }).map(({ period, cumulative, planned }) => ({
+        period,
+        cumulative,
+        planned,
+      })),
+    };
+  });
+
+  const cohorts: CohortAccrual[] = trial.cohorts.map((cohort) => {
+    const design = designs.get(cohort.id);
+    const tally = tallies.get(cohort.id) ?? emptyTally(cohort.id);
+    const counts = countsUnder(tally, design?.analysisPopulation ?? 'all_enrolled');
+    return {
+      cohortId: cohort.id,
+      code: cohort.code,
+      name: cohort.name,
+      status: cohort.status,
+      design: design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null,
+      enrolled: counts.enrolled,
+      counted: counts.counted,
+      evaluable: counts.evaluable,
+      pendingOutcomes: counts.pending,
+      enrolledLastWeek: counts.lastWeekEnrolled,
+      lastEnrolledOn: tally.lastEnrolledOn,
+      projections: projectCohort({ cohort, design, tally, months: monthCounts.filter((m) => m.cohortId === cohort.id), today }),
+    };
+  });
+
+  const lastEnrolledOn = siteRows.map((s) => s.lastEnrolledOn).filter((d): d is string => !!d).sort().at(-1) ?? null;
+  return {
+    trialId,
+    trialCode: trial.code,
+    asOf: today,
+    plan: { perMonth: trial.plannedAccrualPerMonth, startDate: trial.startDate },
+    inactivityWarningWeeks: settings.inactivityWarningWeeks,
+    sitesShown: options.sites === 'all' ? 'all' : 'own',
+    totals: {
+      enrolled: sum(siteRows.map((s) => s.enrolled)),
+      evaluable: sum(siteRows.map((s) => s.evaluable)),
+      pendingOutcomes: sum(siteRows.map((s) => s.pending)),
+      lastEnrolledOn,
+      daysSinceLastEnrolment: lastEnrolledOn ? daysBetween(lastEnrolledOn, today) : null,
+    },
+    timeline: {
+      monthly: cumulativeSeries({ granularity: 'month', from, today, counts: overallMonthly, plan: plan(trial.plannedAccrualPerMonth) }),
+      weekly: cumulativeSeries({ granularity: 'week', from, today, counts: weekly, plan: plan(trial.plannedAccrualPerMonth) }),
+    },
+    sites,
+    cohorts,
+    warnings,
+  };
+}

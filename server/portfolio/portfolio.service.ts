@@ -1,0 +1,182 @@
+/**
+ * The Portfolio: one row per cohort of every trial the user belongs to — status, stage,
+ * enrolment against n1 and n, the next milestone, the committee's last recommendation — built
+ * from aggregate queries only.
+ *
+ * Sponsors (users whose only role on a trial is sponsor) get aggregate counts. Response figures
+ * (responders, known outcomes, response rate) reach them only where the design lets the sponsor
+ * see response or a data cut of the cohort was released to the sponsor; otherwise the keys are
+ * left out of the row entirely and `responseFiguresHidden` says why.
+ */
+import type { Knex } from 'knex';
+import type { Db } from '../db/knex.js';
+import type { Role } from '../http/routes.js';
+import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
+import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
+import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
+import { countsUnder } from '../accrual/accrual.service.js';
+import { committeeStates, type CommitteeState } from './portfolio.repository.js';
+import { nextMilestone, type Milestone } from './milestone.js';
+import { STATUS_WORDS } from './words.js';
+import type { PortfolioFilter } from './portfolio.schema.js';
+
+type Queryable = Db | Knex.Transaction;
+
+export type Progress = { counted: number; target: number; fraction: number };
+
+export type ResponseFigures = { responders: number; outcomesKnown: number; responseRate: number | null; stage1Responders: number };
+
+export type PortfolioRow = {
+  trialId: string;
+  trialCode: string;
+  trialTitle: string;
+  indication: string;
+  sponsorName: string | null;
+  myRoles: Role[];
+  /** 'sponsor' when the user's only role on the trial is sponsor. */
+  view: 'full' | 'sponsor';
+  cohortId: string;
+  cohortCode: string;
+  cohortName: string;
+  cohortCount: number;
+  status: Cohort['status'];
+  statusWords: string;
+  stage: 1 | 2 | null;
+  stageWords: string;
+  design: { selection: LockedDesign['selection']; n1: number | null; n: number; analysisPopulation: LockedDesign['analysisPopulation'] } | null;
+  enrolled: number;
+  counted: number;
+  evaluable: number;
+  pendingOutcomes: number;
+  enrolledLastWeek: number;
+  sitesEnrolling: number;
+  lastEnrolledOn: string | null;
+  progress: { n1: Progress | null; n: Progress | null };
+  nextMilestone: Milestone;
+  lastRecommendation: { decision: string; words: string; on: string } | null;
+  committeeReviewPendingSince: string | null;
+  releasedToSponsorAt: string | null;
+  responseFiguresHidden: boolean;
+  /** Why the response figures are hidden, in a sentence; only when they are. */
+  responseFiguresHiddenReason?: string;
+} & Partial<ResponseFigures>;
+
+export type Portfolio = {
+  asOf: string;
+  rows: PortfolioRow[];
+  /** Every indication among the user's trials, for the filter (whatever the current filter). */
+  indications: string[];
+};
+
+export const isSponsorView = (roles: readonly Role[]) => roles.length > 0 && roles.every((role) => role === 'sponsor');
+
+/** Whether response figures may be shown, and if not, why. */
+export function responseVisibility(
+  sponsorView: boolean,
+  design: Pick<LockedDesign, 'sponsorSeesResponse'> | undefined,
+  committee: Pick<CommitteeState, 'releasedToSponsorAt'> | undefined,
+): { visible: true } | { visible: false; reason: string } {
+  if (!sponsorView || design?.sponsorSeesResponse || committee?.releasedToSponsorAt) return { visible: true };
+  return {
+    visible: false,
+    reason: 'Response figures are shown to sponsors only when the protocol allows it or the statistician releases a data cut.',
+  };
+}
+
+function stageOf(status: Cohort['status'], design: LockedDesign | undefined, counted: number): PortfolioRow['stage'] {
+  if (!design || status === 'draft') return null;
+  if (design.n1 === null) return 1;
+  if (status === 'enrolling_stage_2') return 2;
+  if (status === 'enrolling_stage_1' || status === 'interim_review') return 1;
+  return counted > design.n1 ? 2 : 1;
+}
+
+const progress = (counted: number, target: number | null | undefined): Progress | null =>
+  target ? { counted, target, fraction: Math.min(1, counted / target) } : null;
+
+function decisionWords(decision: string): string {
+  return RECOMMENDATION_LABELS[decision as RecommendationDecision] ?? decision.replace(/_/g, ' ');
+}
+
+/** One row per cohort; `sponsorViewAlways` renders every row as a sponsor sees it (the digest). */
+export async function portfolioRows(
+  db: Queryable,
+  trials: TrialForUser[],
+  options: { today: string; sponsorViewAlways?: boolean },
+): Promise<PortfolioRow[]> {
+  const { today } = options;
+  const cohortIds = trials.flatMap((t) => t.cohorts.map((c) => c.id));
+  const [designs, tallies, committee] = await Promise.all([currentDesigns(db, cohortIds), cohortTallies(db, cohortIds, today), committeeStates(db, cohortIds)]);
+  return trials.flatMap((trial) => {
+    const sponsorView = options.sponsorViewAlways || isSponsorView(trial.myRoles);
+    return trial.cohorts.map((cohort): PortfolioRow => {
+      const design = designs.get(cohort.id);
+      const tally = tallies.get(cohort.id) ?? emptyTally(cohort.id);
+      const counts = countsUnder(tally, design?.analysisPopulation ?? 'all_enrolled');
+      const state = committee.get(cohort.id);
+      const stage = stageOf(cohort.status, design, counts.counted);
+      const visibility = responseVisibility(sponsorView, design, state);
+      const row: PortfolioRow = {
+        trialId: trial.id,
+        trialCode: trial.code,
+        trialTitle: trial.title,
+        indication: trial.indication,
+        sponsorName: trial.sponsorName,
+        myRoles: trial.myRoles,
+        view: sponsorView ? 'sponsor' : 'full',
+        cohortId: cohort.id,
+        cohortCode: cohort.code,
+        cohortName: cohort.name,
+        cohortCount: trial.cohorts.length,
+        status: cohort.status,
+        statusWords: STATUS_WORDS[cohort.status],
+        stage,
+        stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
+        design: design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null,
+        enrolled: counts.enrolled,
+        counted: counts.counted,
+        evaluable: counts.evaluable,
+        pendingOutcomes: counts.pending,
+        enrolledLastWeek: counts.lastWeekEnrolled,
+        sitesEnrolling: tally.sites,
+        lastEnrolledOn: tally.lastEnrolledOn,
+        progress: { n1: progress(counts.counted, design?.n1), n: progress(counts.counted, design?.n) },
+        nextMilestone: nextMilestone({
+          status: cohort.status,
+          stopCategory: cohort.stopCategory,
+          design: design ? { n1: design.n1, n: design.n } : null,
+          counted: counts.counted,
+          pending: counts.pending,
+          stage1Pending: counts.stage1Pending,
+          reviewPendingSince: state?.reviewPendingSince ?? null,
+          today,
+        }),
+        lastRecommendation: state?.lastRecommendation
+          ? { ...state.lastRecommendation, words: decisionWords(state.lastRecommendation.decision) }
+          : null,
+        committeeReviewPendingSince: state?.reviewPendingSince ?? null,
+        releasedToSponsorAt: state?.releasedToSponsorAt ?? null,
+        responseFiguresHidden: !visibility.visible,
+      };
+      if (!visibility.visible) return { ...row, responseFiguresHiddenReason: visibility.reason };
+      const outcomesKnown = counts.counted - counts.pending;
+      return {
+        ...row,
+        responders: counts.responders,
+        outcomesKnown,
+        responseRate: outcomesKnown > 0 ? counts.responders / outcomesKnown : null,
+        stage1Responders: counts.stage1Responders,
+      };
+    });
+  });
+}
+
+export async function portfolioFor(db: Queryable, userId: string, filter: PortfolioFilter, today: string): Promise<Portfolio> {
+  const trials = await listTrialsForUser(db as Db, userId);
+  const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
+  const wanted = filter.indication?.toLowerCase();
+  const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;
+  const rows = await portfolioRows(db, chosen, { today });
+  return { asOf: today, rows: filter.status ? rows.filter((r) => r.status === filter.status) : rows, indications };
+}
