@@ -1,0 +1,215 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eventually, startStack, type Stack } from '../support/stack.js';
+import { DEMO, addMember, createTrial, type TrialFixture } from '../support/factories.js';
+import type { Session } from '../support/sign-in.js';
+import { arrangeCohort, freezeCutDirectly, outcomes, recommendDirectly } from '../support/data-cut-factories.js';
+
+let stack: Stack;
+let sam: Session;
+let mona: Session;
+
+beforeAll(async () => {
+  stack = await startStack();
+  sam = await stack.signIn(DEMO.statistician);
+  mona = await stack.signIn(DEMO.monitor);
+});
+afterAll(async () => stack?.close());
+
+/** Makes this session's sign-in look old, as if the member had signed in long before signing. */
+async function ageSignIn(session: Session) {
+  const signed = decodeURIComponent(session.cookie.slice('orrery.sid='.length));
+  const sid = signed.slice(2, signed.lastIndexOf('.'));
+  const updated = await stack.db.raw(`update session set sess = (sess::jsonb || '{"authTime": 1000}'::jsonb)::json where sid = ?`, [sid]);
+  expect(updated.rowCount).toBe(1);
+}
+
+/** Stage 1 of Simon's optimal 3/13, 12/43 complete, cohort paused for the interim review. */
+async function pausedAtInterim(stage1: { responders: number; nonResponders: number }): Promise<{ trial: TrialFixture; cohortId: string }> {
+  const trial = await createTrial(stack.db);
+  const { cohortId } = await arrangeCohort(stack.db, trial, {
+    design: { cohortStatus: 'interim_review' },
+    patients: { SA: outcomes(stage1.responders, stage1.nonResponders) },
+  });
+  return { trial, cohortId };
+}
+
+const continueRecommendation = { decision: 'continue', rationale: 'Four responders among thirteen: stage 1 passed, no safety concern.' };
+
+describe('signing a recommendation', () => {
+  it('when a monitor signs with a fresh sign-in, then the recommendation is stored with its signature; a second one is refused with 409', async () => {
+    const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    const monitor = await stack.signIn(DEMO.monitor);
+    const signed = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+    expect(signed.status).toBe(201);
+    expect(signed.body.signed).toBe(1);
+    expect(signed.body.committeeSize).toBe(1);
+    const [recommendation] = signed.body.recommendations;
+    expect(recommendation).toMatchObject({ decision: 'continue', memberEmail: DEMO.monitor });
+    expect(recommendation.signature.meaning).toContain(`I recommend "Continue to stage 2" for ${trial.code} cohort MAIN on data cut 1`);
+    expect(recommendation.signature.subjectType).toBe('recommendation');
+    const audit = await stack.db('audit_log').where({ entity_type: 'recommendation', entity_id: recommendation.id, action: 'signed' }).first();
+    expect(audit.after.decision).toBe('continue');
+
+    const again = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, { ...continueRecommendation, decision: 'stop_futility' });
+    expect(again.status).toBe(409);
+    expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 1 });
+  });
+
+  it('when the monitor’s sign-in is not fresh, then 401 reauthentication_required and nothing is signed; after signing in again it works', async () => {
+    const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    const monitor = await stack.signIn(DEMO.monitor);
+    await ageSignIn(monitor);
+    const stale = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+    expect(stale.status).toBe(401);
+    expect(stale.body.error.code).toBe('reauthentication_required');
+    expect(stale.body.error.reauthUrl).toContain('reauth=1');
+    expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).first()).toBeUndefined();
+    await monitor.reauthenticate();
+    expect((await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation)).status).toBe(201);
+  });
+
+  it('when the rationale is missing, then 400 with the field, before any signature', async () => {
+    const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    const bad = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, { decision: 'continue' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.rationale).toBeTruthy();
+    const wrong = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, { decision: 'carry on', rationale: 'A long enough rationale.' });
+    expect(wrong.body.error.fields.decision).toBeTruthy();
+  });
+
+  it('when several members sign, then the cut shows how many of the committee have signed', async () => {
+    const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    await addMember(stack.db, trial.trialId, { email: 'milo.member@tessaly.test', role: 'monitor' });
+    await addMember(stack.db, trial.trialId, { email: 'nora.member@tessaly.test', role: 'monitor' });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    await recommendDirectly(stack.db, cut, 'milo.member@tessaly.test', 'continue');
+    await recommendDirectly(stack.db, cut, 'nora.member@tessaly.test', 'continue');
+    const list = await sam.get(`/api/data-cuts/${cut.id}/recommendations`);
+    expect(list.body).toMatchObject({ signed: 2, committeeSize: 3 });
+    const cuts = await mona.get(`/api/trials/${trial.trialId}/data-cuts`);
+    expect(cuts.body.dataCuts[0].recommendationCount).toBe(2);
+  });
+});
+
+describe('who may reach the committee routes', () => {
+  it('when a statistician, coordinator, investigator, sponsor or admin tries to sign, then 403; a non-member gets 404 on every route', async () => {
+    const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    for (const email of [DEMO.statistician, DEMO.coordinator, DEMO.investigator, DEMO.sponsor, DEMO.admin]) {
+      const session = await stack.signIn(email);
+      expect((await session.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation)).status).toBe(403);
+    }
+    const routes: Array<[string, string]> = [
+      ['get', `/api/data-cuts/${cut.id}`],
+      ['get', `/api/data-cuts/${cut.id}/analysis`],
+      ['get', `/api/data-cuts/${cut.id}/recommendations`],
+      ['post', `/api/data-cuts/${cut.id}/recommendations`],
+      ['post', `/api/data-cuts/${cut.id}/decision`],
+      ['patch', `/api/data-cuts/${cut.id}/prior`],
+      ['get', `/api/data-cuts/${cut.id}/report.pdf`],
+      ['get', `/api/data-cuts/${cut.id}/export.csv`],
+      ['get', `/api/data-cuts/${cut.id}/adrs.csv`],
+    ];
+    for (const email of [DEMO.coordinator, DEMO.sponsor]) {
+      const session = await stack.signIn(email);
+      for (const [method, path] of routes) {
+        const response = method === 'get' ? await session.get(path) : await (session[method as 'post' | 'patch'])(path, continueRecommendation);
+        expect(response.status, `${email} ${method} ${path}`).toBe(403);
+      }
+    }
+    const outsider = await stack.signIn('nina.newcomer@tessaly.test');
+    for (const [method, path] of routes) {
+      const response = method === 'get' ? await outsider.get(path) : await (outsider[method as 'post' | 'patch'])(path, continueRecommendation);
+      expect(response.status, `outsider ${method} ${path}`).toBe(404);
+    }
+  });
+});
+
+describe('applying the decision', () => {
+  it('when no member has signed an interim cut, then the decision is refused with 409 and the cohort stays paused', async () => {
+    const { trial, cohortId } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    const refused = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'resume_stage_2', reason: 'Stage 1 passed.' });
+    expect(refused.status).toBe(409);
+    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('interim_review');
+  });
+
+  it('when stopping without a category, then 400', async () => {
+    const { trial } = await pausedAtInterim({ responders: 1, nonResponders: 12 });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    await recommendDirectly(stack.db, cut, DEMO.monitor, 'stop_futility');
+    const bad = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', reason: 'Futility rule met.' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.stopCategory).toBeTruthy();
+  });
+
+  it('the interim cycle: stage 1 complete → paused → cut → "continue" signed → decision applied → stage 2 enrolling, sites and sponsors told', async () => {
+    const { trial, cohortId } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+    const frozen = await sam.post(`/api/trials/${trial.trialId}/data-cuts`, { cohortId, kind: 'interim' });
+    expect(frozen.status).toBe(201);
+    const cutId = frozen.body.id;
+    const analysis = (await mona.get(`/api/data-cuts/${cutId}/analysis`)).body.analysis;
+    expect(analysis.cohorts[0].rule.decision).toBe('continue');
+    expect((await mona.post(`/api/data-cuts/${cutId}/recommendations`, continueRecommendation)).status).toBe(201);
+    const applied = await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Committee recommends continuing; stage 1 passed.' });
+    expect(applied.status).toBe(201);
+    expect(applied.body.decision).toMatchObject({ action: 'resume_stage_2', fromStatus: 'interim_review', toStatus: 'enrolling_stage_2' });
+    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('enrolling_stage_2');
+    const cut = await stack.db('data_cuts').where({ id: cutId }).first();
+    expect(cut.released_to_sponsor_at).not.toBeNull();
+    const twice = await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Again.' });
+    expect(twice.status).toBe(409);
+    const mail = await eventually(() => {
+      const got = stack.catcher.messages.filter((m) => m.subject.startsWith(`${trial.code} MAIN: resume accrual`));
+      return got.length >= 3 && got;
+    });
+    expect(mail.flatMap((m) => m.to).sort()).toEqual([DEMO.coordinator, DEMO.investigator, DEMO.sponsor].sort());
+    expect(mail[0].text).toMatch(/Sites may enrol again/);
+    const detail = await mona.get(`/api/data-cuts/${cutId}`);
+    expect(detail.body.decisions).toHaveLength(1);
+  });
+
+  it('the futility path: "stop for futility" signed → cohort stopped with the category, e-mails in the catcher', async () => {
+    const { trial, cohortId } = await pausedAtInterim({ responders: 2, nonResponders: 11 });
+    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+    const analysis = (await mona.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis;
+    expect(analysis.cohorts[0].rule.decision).toBe('stop-futility');
+    const signed = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, {
+      decision: 'stop_futility',
+      rationale: 'Two responders among thirteen: the futility rule is met.',
+    });
+    expect(signed.status).toBe(201);
+    const applied = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', stopCategory: 'futility', reason: 'Futility rule met at stage 1.' });
+    expect(applied.status).toBe(201);
+    const cohort = await stack.db('cohorts').where({ id: cohortId }).first();
+    expect(cohort).toMatchObject({ status: 'stopped', stop_category: 'futility', stop_reason: 'Futility rule met at stage 1.' });
+    const mail = await eventually(() => {
+      const got = stack.catcher.messages.filter((m) => m.subject.startsWith(`${trial.code} MAIN: stop the cohort`));
+      return got.length >= 3 && got;
+    });
+    expect(mail[0].text).toMatch(/Do not enrol further patients/);
+    const statisticianMail = stack.catcher.messages.filter((m) => m.to.includes(DEMO.statistician) && m.subject.includes(trial.code));
+    expect(statisticianMail.length).toBeGreaterThanOrEqual(1);
+    const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).first();
+    expect(audit.after.status).toBe('stopped');
+  });
+
+  it('when a whole-trial cut covers several cohorts, then the decision names the cohort it moves; an admin may apply it', async () => {
+    const trial = await createTrial(stack.db, { cohorts: ['A', 'B'] });
+    await arrangeCohort(stack.db, trial, { cohortIndex: 0, design: { cohortStatus: 'interim_review' }, patients: { SA: outcomes(4, 9) } });
+    const { cohortId: b } = await arrangeCohort(stack.db, trial, { cohortIndex: 1, design: { cohortStatus: 'interim_review' }, patients: { SA: outcomes(1, 12) } });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    await recommendDirectly(stack.db, cut, DEMO.monitor, 'stop_futility');
+    const vague = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', stopCategory: 'futility', reason: 'Cohort B failed.' });
+    expect(vague.status).toBe(400);
+    expect(vague.body.error.fields.cohortId).toBeTruthy();
+    const ada = await stack.signIn(DEMO.admin);
+    const applied = await ada.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', cohortId: b, stopCategory: 'futility', reason: 'Cohort B failed.' });
+    expect(applied.status).toBe(201);
+    expect((await stack.db('cohorts').where({ id: b }).first()).status).toBe('stopped');
+    expect((await stack.db('cohorts').where({ id: trial.cohortIds[0] }).first()).status).toBe('interim_review');
+  });
+});
