@@ -1,7 +1,23 @@
 /** Validates a payload against its shared Yup schema; failures become 400 with every field named. */
 import type { AnyObject, InferType, ObjectSchema } from 'yup';
+import { InputError } from './errors.js';
+
+const POLLUTION_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
+
+/** JSON can carry keys that reach an object's prototype; no payload of ours uses them. */
+function hasPollutionKey(value: unknown, depth = 0): boolean {
+  if (!value || typeof value !== 'object' || depth > 32) return false;
+  return Object.keys(value).some((key) => POLLUTION_KEYS.has(key)) || Object.values(value).some((inner) => hasPollutionKey(inner, depth + 1));
+}
 
 export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, body: unknown): Promise<InferType<S>> {
   const input = body && typeof body === 'object' && !Array.isArray(body) ? body : {};
-  return schema.validate(input, { abortEarly: false, stripUnknown: true }) as Promise<InferType<S>>;
+  if (hasPollutionKey(input)) throw new InputError('The request carries a reserved field name (__proto__, constructor or prototype).');
+  try {
+    return (await schema.validate(input, { abortEarly: false, stripUnknown: true })) as InferType<S>;
+  } catch (error) {
+    // Yup's casting calls methods of the value (trim, toString): an object where text belongs throws a TypeError.
+    if (error instanceof TypeError) throw new InputError('A value has the wrong type (an object or list where a single value belongs).');
+    throw error;
+  }
 }
