@@ -1,3 +1,55 @@
-import type { RouteSpec } from '../http/routes.js';
+/**
+ * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
+ * their own sites (other sites answer 404); the statistician and the committee read every site.
+ */
+import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
+import { addAssessment, correctAssessment, listForPatient, needsAttention, removeAssessment } from './assessments.service.js';
 
-export const assessmentsRoutes: RouteSpec[] = [];
+const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
+const WRITERS: Role[] = ['coordinator', 'investigator'];
+const BASE = '/api/trials/:trialId/patients/:patientId/assessments';
+
+const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
+
+export const assessmentsRoutes: RouteSpec[] = [
+  {
+    method: 'get',
+    path: BASE,
+    access: { kind: 'trial', roles: READERS },
+    handler: async (req, res, { db }) => {
+      res.json(await listForPatient(db, requireTrialAccess(req), param(req, 'patientId')));
+    },
+  },
+  {
+    method: 'post',
+    path: BASE,
+    access: { kind: 'trial', roles: WRITERS },
+    handler: async (req, res, { db }) => {
+      res.status(201).json(await addAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), req.body));
+    },
+  },
+  {
+    method: 'patch',
+    path: `${BASE}/:assessmentId`,
+    access: { kind: 'trial', roles: WRITERS },
+    handler: async (req, res, { db }) => {
+      res.json(await correctAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
+    },
+  },
+  {
+    method: 'delete',
+    path: `${BASE}/:assessmentId`,
+    access: { kind: 'trial', roles: WRITERS },
+    handler: async (req, res, { db }) => {
+      res.json(await removeAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/needs-attention',
+    access: { kind: 'trial', roles: READERS },
+    handler: async (req, res, { db }) => {
+      res.json(await needsAttention(db, requireTrialAccess(req)));
+    },
+  },
+];

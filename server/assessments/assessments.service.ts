@@ -1,0 +1,323 @@
+/**
+ * Timepoint assessments and the outcome derived from them. Every change to an assessment
+ * re-derives the patient's best overall response in the same transaction: where the protocol
+ * derives outcomes, the outcome follows (audited as a derived update); where outcomes are entered,
+ * the entered outcome is never overwritten, but a disagreement is flagged and audited.
+ */
+import type { Knex } from 'knex';
+import type { Db } from '../db/knex.js';
+import { writeAudit } from '../audit/audit.js';
+import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { parseBody } from '../http/validate.js';
+import { siteScope, type SessionUser, type TrialAccess } from '../http/routes.js';
+import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
+import {
+  deleteAssessment,
+  findAssessment,
+  findAssessmentOn,
+  findPatient,
+  findPatientById,
+  findTrialSettings,
+  insertAssessment,
+  listAssessments,
+  listAssessmentsOfTrial,
+  listAttentionCandidates,
+  listPatientsOfTrial,
+  listTrialSites,
+  storeDerivation,
+  storeDerivedOutcome,
+  storeOutcomeFlag,
+  updateAssessment,
+  type AssessedPatient,
+  type Assessment,
+  type OutcomeColumns,
+  type TrialSettings,
+} from './assessments.repository.js';
+import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type AttentionItem, type Derivation } from './derivation.js';
+
+export const DISAGREES_FLAG = 'disagrees_with_derivation';
+
+type Actor = { actorUserId?: string | null; today?: string };
+
+function derivationFor(patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
+  return deriveBestOverallResponse({
+    enrolledOn: patient.enrolledOn,
+    assessments: assessments.map((a) => ({ id: a.id, date: a.date, response: a.response })),
+    settings: {
+      confirmationRequired: settings.confirmationRequired,
+      confirmationMinDays: settings.confirmationMinDays,
+      sdMinDays: settings.sdMinDays,
+      neBetweenResponses: settings.neBetweenResponses,
+      assessmentIntervalDays: settings.assessmentIntervalDays,
+    },
+    today,
+    entered: settings.outcomeSource === 'entered' ? { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse } : undefined,
+  });
+}
+
+function derivedOutcome(derivation: Derivation): OutcomeColumns {
+  if (derivation.responder === null) return { outcome: 'pending', bestOverallResponse: null, responseAssessedOn: null };
+  return {
+    outcome: derivation.responder ? 'responder' : 'non_responder',
+    bestOverallResponse: derivation.bestOverallResponse,
+    responseAssessedOn: derivation.basisDate,
+  };
+}
+
+/** Stores one patient's derivation and applies it to the outcome or the flag, with audit rows. */
+async function applyDerivation(trx: Knex.Transaction, patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, actor: Actor): Promise<Derivation> {
+  const derivation = derivationFor(patient, assessments, settings, actor.today);
+  const audit = (action: string, before: unknown, after: unknown) =>
+    writeAudit(trx, { actorUserId: actor.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
+
+  const derivedBefore = { derivedBestOverallResponse: patient.derivedBestOverallResponse, derivedResponder: patient.derivedResponder };
+  const derivedAfter = { derivedBestOverallResponse: derivation.bestOverallResponse, derivedResponder: derivation.responder };
+  await storeDerivation(trx, patient.id, { ...derivedAfter, derivation });
+  if (derivedBefore.derivedBestOverallResponse !== derivedAfter.derivedBestOverallResponse || derivedBefore.derivedResponder !== derivedAfter.derivedResponder) {
+    await audit('derivation_changed', derivedBefore, derivedAfter);
+  }
+
+  let flag: string | null = null;
+  if (settings.outcomeSource === 'derived') {
+    const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
+    const after = derivedOutcome(derivation);
+    if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
+      await storeDerivedOutcome(trx, patient.id, after);
+      await audit('outcome_derived', before, after);
+    }
+  } else if (disagreesWithDerivation({ outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse }, derivation)) {
+    flag = DISAGREES_FLAG;
+  }
+  if (flag !== patient.outcomeFlag) {
+    await storeOutcomeFlag(trx, patient.id, flag);
+    const outcomes = {
+      entered: { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse },
+      derived: { responder: derivation.responder, bestOverallResponse: derivation.bestOverallResponse },
+    };
+    await audit(flag ? 'flagged' : 'flag_cleared', { outcomeFlag: patient.outcomeFlag, ...outcomes }, { outcomeFlag: flag, ...outcomes });
+  }
+  return derivation;
+}
+
+/**
+ * Re-derives one patient's best overall response from their assessments and applies it (derived
+ * outcome, or the disagreement flag). Call it inside the transaction of any change to the
+ * patient's assessments or entered outcome.
+ */
+export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, actor: Actor = {}): Promise<Derivation> {
+  const patient = await findPatientById(trx, patientId);
+  if (!patient) throw new NotFoundError('The patient');
+  const settings = await findTrialSettings(trx, patient.trialId);
+  if (!settings) throw new NotFoundError('The trial');
+  return applyDerivation(trx, patient, await listAssessments(trx, patientId), settings, actor);
+}
+
+/** Re-derives every patient of a trial, for when the protocol's outcome settings change. */
+export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, actor: Actor = {}): Promise<number> {
+  const settings = await findTrialSettings(trx, trialId);
+  if (!settings) throw new NotFoundError('The trial');
+  const patients = await listPatientsOfTrial(trx, trialId);
+  const assessments = await listAssessmentsOfTrial(trx, trialId);
+  for (const patient of patients) await applyDerivation(trx, patient, assessments.get(patient.id) ?? [], settings, actor);
+  return patients.length;
+}
+
+export type PatientSummary = Pick<
+  AssessedPatient,
+  'id' | 'studyId' | 'siteId' | 'enrolledOn' | 'outcome' | 'bestOverallResponse' | 'evaluable' | 'outcomeFlag' | 'derivedBestOverallResponse' | 'derivedResponder' | 'version'
+>;
+
+const summary = (p: AssessedPatient): PatientSummary => ({
+  id: p.id,
+  studyId: p.studyId,
+  siteId: p.siteId,
+  enrolledOn: p.enrolledOn,
+  outcome: p.outcome,
+  bestOverallResponse: p.bestOverallResponse,
+  evaluable: p.evaluable,
+  outcomeFlag: p.outcomeFlag,
+  derivedBestOverallResponse: p.derivedBestOverallResponse,
+  derivedResponder: p.derivedResponder,
+  version: p.version,
+});
+
+/** A patient the caller may see: other sites answer 404, exactly like a patient that does not exist. */
+async function visiblePatient(db: Db | Knex.Transaction, access: TrialAccess, patientId: string, sites: string[] | 'all', lock = false): Promise<AssessedPatient> {
+  const patient = await findPatient(db, access.trialId, patientId, lock);
+  if (!patient || (sites !== 'all' && !sites.includes(patient.siteId))) throw new NotFoundError('The patient');
+  return patient;
+}
+
+/** Writers are the site roles, and they write at their own sites only, whatever other roles they hold. */
+const writableSites = (access: TrialAccess) => access.siteIds;
+
+async function settingsOf(db: Db | Knex.Transaction, trialId: string): Promise<TrialSettings> {
+  const settings = await findTrialSettings(db, trialId);
+  if (!settings) throw new NotFoundError('The trial');
+  return settings;
+}
+
+export type AssessmentsView = {
+  patient: PatientSummary;
+  outcomeSource: TrialSettings['outcomeSource'];
+  settings: Omit<TrialSettings, 'outcomeSource'>;
+  assessments: Assessment[];
+  derivation: Derivation;
+};
+
+async function view(db: Db | Knex.Transaction, trialId: string, patientId: string): Promise<AssessmentsView> {
+  const patient = (await findPatient(db, trialId, patientId)) as AssessedPatient;
+  const { outcomeSource, ...settings } = await settingsOf(db, trialId);
+  const assessments = await listAssessments(db, patientId);
+  // Read fresh, so time-dependent items (a confirmation now overdue) are current.
+  const derivation = derivationFor(patient, assessments, { outcomeSource, ...settings });
+  return { patient: summary(patient), outcomeSource, settings, assessments, derivation };
+}
+
+export async function listForPatient(db: Db, access: TrialAccess, patientId: string): Promise<AssessmentsView> {
+  await visiblePatient(db, access, patientId, siteScope(access));
+  return view(db, access.trialId, patientId);
+}
+
+function duplicateDate(existing: Assessment): ConflictError {
+  return new ConflictError(`This patient already has an assessment dated ${longDate(existing.date)}; correct that one instead.`, {
+    fields: { date: 'An assessment with this date already exists for this patient.' },
+    current: existing,
+  });
+}
+
+const isUniqueViolation = (error: unknown) => (error as { code?: string })?.code === '23505';
+
+export async function addAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
+  return db.transaction(async (trx) => {
+    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    const input = await parseBody(assessmentSchema(patient.enrolledOn), body);
+    const existing = await findAssessmentOn(trx, patientId, input.date);
+    if (existing) throw duplicateDate(existing);
+    let assessment: Assessment;
+    try {
+      assessment = await insertAssessment(trx, {
+        patientId,
+        trialId: access.trialId,
+        date: input.date,
+        response: input.response,
+        notes: input.notes || null,
+        createdBy: user.id,
+      });
+    } catch (error) {
+      if (isUniqueViolation(error)) throw new ConflictError('An assessment with this date was just added for this patient.', { fields: { date: 'Already exists.' } });
+      throw error;
+    }
+    await writeAudit(trx, { actorUserId: user.id, trialId: access.trialId, entityType: 'assessment', entityId: assessment.id, action: 'created', after: assessment });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    return { ...(await view(trx, access.trialId, patientId)), assessment };
+  });
+}
+
+async function currentOrStale(trx: Knex.Transaction, patientId: string, assessmentId: string, version: number): Promise<Assessment> {
+  const current = await findAssessment(trx, patientId, assessmentId);
+  if (!current) throw new NotFoundError('The assessment');
+  if (current.version !== version) {
+    throw new ConflictError('Someone changed this assessment after you opened it. Review the current record and try again.', { current });
+  }
+  return current;
+}
+
+export async function correctAssessment(
+  db: Db,
+  access: TrialAccess,
+  user: SessionUser,
+  patientId: string,
+  assessmentId: string,
+  body: unknown,
+): Promise<AssessmentsView & { assessment: Assessment }> {
+  return db.transaction(async (trx) => {
+    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
+    const input = await parseBody(assessmentCorrectionSchema(patient.enrolledOn), body);
+    const before = await currentOrStale(trx, patientId, assessmentId, input.version);
+    const changes = {
+      date: input.date ?? before.date,
+      response: input.response ?? before.response,
+      notes: input.notes === undefined ? before.notes : input.notes || null,
+    };
+    if (changes.date === before.date && changes.response === before.response && changes.notes === before.notes) {
+      throw new InputError('Nothing to correct: the values are the same as the current record.');
+    }
+    if (changes.date !== before.date) {
+      const clash = await findAssessmentOn(trx, patientId, changes.date);
+      if (clash) throw duplicateDate(clash);
+    }
+    const after = await updateAssessment(trx, assessmentId, input.version, changes);
+    if (!after) throw new ConflictError('Someone changed this assessment after you opened it.', { current: await findAssessment(trx, patientId, assessmentId) });
+    await writeAudit(trx, {
+      actorUserId: user.id,
+      trialId: access.trialId,
+      entityType: 'assessment',
+      entityId: assessmentId,
+      action: 'corrected',
+      before,
+      after,
+      reason: input.reason,
+    });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    return { ...(await view(trx, access.trialId, patientId)), assessment: after };
+  });
+}
+
+export async function removeAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, assessmentId: string, body: unknown): Promise<AssessmentsView> {
+  return db.transaction(async (trx) => {
+    await visiblePatient(trx, access, patientId, writableSites(access), true);
+    if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
+    const input = await parseBody(assessmentRemovalSchema, body);
+    const before = await currentOrStale(trx, patientId, assessmentId, input.version);
+    if (!(await deleteAssessment(trx, assessmentId, input.version))) throw new ConflictError('Someone changed this assessment after you opened it.', { current: before });
+    await writeAudit(trx, {
+      actorUserId: user.id,
+      trialId: access.trialId,
+      entityType: 'assessment',
+      entityId: assessmentId,
+      action: 'removed',
+      before,
+      reason: input.reason,
+    });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    return view(trx, access.trialId, patientId);
+  });
+}
+
+export type NeedsAttentionItem = AttentionItem & { patientId: string; studyId: string };
+export type NeedsAttentionSite = { siteId: string; siteCode: string; siteName: string; items: NeedsAttentionItem[] };
+
+/**
+ * Per site, what needs a look, read from the stored derivations (a trial of thousands of patients
+ * never loads its assessments here). Overdue confirmations are judged against today.
+ */
+export async function needsAttention(db: Db, access: TrialAccess, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
+  const scope = siteScope(access);
+  const sites = await listTrialSites(db, access.trialId, scope);
+  const bySite = new Map<string, NeedsAttentionSite>(sites.map((s) => [s.id, { siteId: s.id, siteCode: s.code, siteName: s.name, items: [] }]));
+  for (const row of await listAttentionCandidates(db, access.trialId, scope)) {
+    const stored = row.derivation?.attention ?? [];
+    const items: AttentionItem[] = stored.filter((a) => a.kind !== 'unconfirmed-past-window' && a.kind !== 'entered-disagrees');
+    for (const open of row.derivation?.pendingConfirmation ?? []) {
+      if (open.upgrade || today <= open.dueBy) continue;
+      items.push({
+        kind: 'unconfirmed-past-window',
+        message: `The ${open.response} on ${longDate(open.date)} is still unconfirmed: the next assessment was due by ${longDate(open.dueBy)}.`,
+        date: open.date,
+        assessmentId: open.assessmentId,
+      });
+    }
+    if (row.outcomeFlag === DISAGREES_FLAG) {
+      items.push(
+        stored.find((a) => a.kind === 'entered-disagrees') ?? { kind: 'entered-disagrees', message: 'The entered outcome disagrees with the one derived from the assessments.' },
+      );
+    }
+    if (items.length === 0) continue;
+    const site = bySite.get(row.siteId) ?? { siteId: row.siteId, siteCode: row.siteCode, siteName: row.siteName, items: [] };
+    bySite.set(row.siteId, site);
+    site.items.push(...items.map((item) => ({ ...item, patientId: row.patientId, studyId: row.studyId })));
+  }
+  return { sites: [...bySite.values()], today };
+}
