@@ -19,11 +19,21 @@ import { apiNotFound, errorHandler } from './http/error-handler.js';
 
 const STATE_CHANGING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
+/** A malformed Referer counts as no Referer (and so is refused), never as a server error. */
+function refererOrigin(referer: string | undefined): string | undefined {
+  if (!referer) return undefined;
+  try {
+    return new URL(referer).origin;
+  } catch {
+    return undefined;
+  }
+}
+
 /** Cookie sessions need a second line of defence against cross-site requests: the Origin header. */
 function originCheck(appOrigin: string): RequestHandler {
   return (req, res, next) => {
     if (!STATE_CHANGING.has(req.method)) return next();
-    const origin = req.get('origin') ?? (req.get('referer') ? new URL(req.get('referer') as string).origin : undefined);
+    const origin = req.get('origin') ?? refererOrigin(req.get('referer'));
     if (origin === appOrigin) return next();
     res.status(403).json({ error: { code: 'bad_origin', message: 'This request did not come from the Orrery application.' } });
   };

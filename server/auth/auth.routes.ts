@@ -6,7 +6,10 @@ import type { OidcClient } from './oidc.js';
 import { provisionUser } from './users.repository.js';
 
 function safeReturnTo(value: unknown): string {
-  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.includes('\\') ? value : '/';
+  // URL parsers drop tabs and newlines, so "/\t/evil.test" would become "//evil.test": refuse control characters too.
+  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.includes('\\') && !/[\u0000-\u001f\u007f]/.test(value)
+    ? value
+    : '/';
 }
 
 function regenerate(req: Request): Promise<void> {
