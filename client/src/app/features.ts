@@ -5,6 +5,7 @@ import { trialOverviewFeature } from '../features/trial-overview/routes';
 import { peopleFeature } from '../features/people/routes';
 import { designStudioFeature } from '../features/design-studio/routes';
 import { patientsFeature } from '../features/patients/routes';
+import { assessmentsFeature } from '../features/assessments/routes';
 import { dataCutFeature } from '../features/data-cut/routes';
 import { committeeReviewFeature } from '../features/committee-review/routes';
 import { accrualFeature } from '../features/accrual/routes';
@@ -17,6 +18,7 @@ export const features: Feature[] = [
   peopleFeature,
   designStudioFeature,
   patientsFeature,
+  assessmentsFeature,
   dataCutFeature,
   committeeReviewFeature,
   accrualFeature,
