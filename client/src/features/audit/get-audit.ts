@@ -1,0 +1,40 @@
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '../../lib/api';
+import { trialQueryOptions } from '../trial-overview/get-trial';
+
+export type AuditEntry = {
+  id: number;
+  at: string;
+  actorEmail: string | null;
+  actorName: string | null;
+  entityType: string;
+  entityId: string;
+  action: string;
+  before: unknown;
+  after: unknown;
+  reason: string | null;
+};
+
+export type AuditPage = {
+  entries: AuditEntry[];
+  total: number;
+  entityTypes: string[];
+  limit: number;
+  offset: number;
+  patientLevelHidden: boolean;
+};
+
+export type AuditFilters = { entityType?: string; entityId?: string; actor?: string; from?: string; to?: string };
+
+export const auditQueryOptions = (trialId: string, filters: AuditFilters, page: { limit: number; offset: number }) => {
+  const params = new URLSearchParams();
+  for (const [key, value] of Object.entries({ ...filters, limit: String(page.limit), offset: String(page.offset) })) if (value) params.set(key, value);
+  return queryOptions({
+    queryKey: [...trialQueryOptions(trialId).queryKey, 'audit', filters, page],
+    queryFn: () => api<AuditPage>(`/api/trials/${trialId}/audit?${params}`),
+    placeholderData: keepPreviousData,
+  });
+};
+
+export const useAudit = (trialId: string, filters: AuditFilters, page: { limit: number; offset: number }) =>
+  useQuery(auditQueryOptions(trialId, filters, page));

@@ -1,0 +1,14 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { api } from '../../lib/api';
+import type { CohortInput } from '../../../../server/trials/trials.schema';
+import type { Cohort } from '../trial-overview/get-trial';
+import { trialsQueryOptions } from '../portfolio/get-trials';
+
+export function useAddCohort(trialId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (input: CohortInput) =>
+      (await api<{ cohort: Cohort }>(`/api/trials/${trialId}/cohorts`, { method: 'POST', body: input })).cohort,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: trialsQueryOptions().queryKey }),
+  });
+}
