@@ -93,6 +93,7 @@ export function projectTarget(input: ProjectionInput): Projection {
   if (input.months.length === 0) notes.push('No complete calendar month of enrolment yet, so no range.');
   else if (slowestMonth && slowestMonth.enrolled === 0) {
     notes.push(`Range from the last ${plural(input.months.length, 'complete month')}: the slowest had no enrolments, so there is no latest date.`);
-  } else notes.push(`Range from the slowest and fastest of the last ${plural(input.months.length, 'complete month')}.`);
+  } else if (input.months.length === 1) notes.push(`Range from the one complete month so far (${input.months[0].month}).`);
+  else notes.push(`Range from the slowest and fastest of the last ${input.months.length} complete months.`);
   return { ...base, reached: false, expected, earliest, latest, ratePerMonth, slowestMonth, fastestMonth, note: notes.join(' ') };
 }

@@ -30,7 +30,7 @@ function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {
     ? [row.design.n1 !== null ? `n1 = ${row.design.n1}` : null, `n = ${row.design.n}`].filter(Boolean).join(', ')
     : 'no design locked';
   const lines = [
-    `  Cohort ${row.cohortCode} (${row.cohortName}): ${row.statusWords}, ${row.stageWords}`,
+    `  ${row.cohortCount > 1 ? `Cohort ${row.cohortCode} (${row.cohortName})` : 'Status'}: ${row.statusWords}${row.design ? `, ${row.design.n1 === null ? 'single-stage' : 'two-stage'} design` : ''}`,
     `    Enrolled ${row.enrolled} (${row.enrolledLastWeek} in the last 7 days), ${row.counted} counting toward ${target}; ${plural(row.pendingOutcomes, 'outcome')} pending`,
     `    Next: ${row.nextMilestone.text}`,
   ];
