@@ -1,3 +1,127 @@
-import type { RouteSpec } from '../http/routes.js';
+/**
+ * Patients and outcomes. Coordinators and investigators work at their own sites only (other sites'
+ * patients answer 404 on every route); statisticians and committee members read every site; trial
+ * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
+ * a statistician reads and analyses but does not enter site data.
+ */
+import multer from 'multer';
+import type { RequestHandler } from 'express';
+import type { Role, RouteSpec } from '../http/routes.js';
+import { AppError, InputError } from '../http/errors.js';
+import { evaluationRoutes } from '../evaluation/evaluation.routes.js';
+import { IMPORT_MAX_BYTES } from './patients.schema.js';
+import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
+import { importPatients, importTemplate, patientsCsv, readCsv } from './patients-import.js';
+import { listPatients } from './patients.repository.js';
 
-export const patientsRoutes: RouteSpec[] = [];
+const READ: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
+const WRITE: Role[] = ['coordinator', 'investigator'];
+
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 10, parts: 12 } });
+
+/** Multer's own errors, in words a coordinator can act on. */
+const uploadCsv: RequestHandler = (req, res, next) => {
+  upload.single('file')(req, res, (error: unknown) => {
+    if (!error) return next();
+    const code = (error as { code?: string }).code;
+    if (code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files and import them one by one.'));
+    if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT') return next(new InputError('Send one CSV file in the field "file".', { file: 'Send one file, in the field "file".' }));
+    next(new InputError(`The upload could not be read: ${(error as Error).message}.`, { file: (error as Error).message }));
+  });
+};
+
+const kickMail = (req: Parameters<RequestHandler>[0]) => (req.app.locals.mail as { kick?: () => void } | undefined)?.kick?.();
+
+function sendCsv(res: Parameters<RequestHandler>[1], filename: string, body: string) {
+  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+  res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.send(body);
+}
+
+export const patientsRoutes: RouteSpec[] = [
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/patients',
+    access: { kind: 'trial', roles: READ },
+    handler: async (req, res, { db }) => {
+      res.json(await listForUser(db, actorFrom(req), req.query));
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/patients',
+    access: { kind: 'trial', roles: WRITE },
+    handler: async (req, res, { db }) => {
+      const { patient, accrual } = await enrol(db, actorFrom(req), req.body);
+      kickMail(req);
+      res.status(201).json({ patient, accrual });
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/patients/import-template.csv',
+    access: { kind: 'trial', roles: READ },
+    handler: async (_req, res) => {
+      sendCsv(res, 'orrery-patients-template.csv', importTemplate());
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/patients/export.csv',
+    access: { kind: 'trial', roles: READ },
+    handler: async (req, res, { db }) => {
+      const actor = actorFrom(req);
+      const { patients } = await listPatients(db, actor.trialId, actor.readScope, { sort: 'studyId', dir: 'asc', page: 1, pageSize: 100_000 });
+      sendCsv(res, 'orrery-patients.csv', patientsCsv(patients));
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/patients/import',
+    access: { kind: 'trial', roles: WRITE },
+    before: [uploadCsv],
+    handler: async (req, res, { db }) => {
+      const rows = readCsv(req.file);
+      const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+      const report = await importPatients(db, actorFrom(req), rows, { dryRun });
+      if (report.committed) kickMail(req);
+      res.json(report);
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/patients/:patientId',
+    access: { kind: 'trial', roles: READ },
+    handler: async (req, res, { db }) => {
+      res.json({ patient: await requireVisiblePatient(db, actorFrom(req), String(req.params.patientId)) });
+    },
+  },
+  {
+    method: 'patch',
+    path: '/api/trials/:trialId/patients/:patientId',
+    access: { kind: 'trial', roles: WRITE },
+    handler: async (req, res, { db }) => {
+      const change = await changeOutcome(db, actorFrom(req), String(req.params.patientId), req.body);
+      if (change.accrual.paused || change.accrual.continuesAtRisk) kickMail(req);
+      res.json(change);
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/patients/:patientId/attestation',
+    access: { kind: 'trial', roles: ['investigator'] },
+    handler: async (req, res, { db, config }) => {
+      res.status(201).json(await attest(db, config, req, actorFrom(req), String(req.params.patientId)));
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/patients/:patientId/history',
+    access: { kind: 'trial', roles: READ },
+    handler: async (req, res, { db }) => {
+      res.json(await history(db, actorFrom(req), String(req.params.patientId)));
+    },
+  },
+  ...evaluationRoutes,
+];

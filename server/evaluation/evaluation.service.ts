@@ -1,0 +1,200 @@
+/**
+ * The live evaluation of every cohort of a trial: counts under the protocol's analysis population,
+ * the response rate with its exact (Clopper–Pearson) interval, the exact one-sided binomial test
+ * against p0, and where the cohort stands against its locked design's rules (including early
+ * determination). Aggregate figures only; a sponsor sees response figures only where the design
+ * lets them. Numbers come straight from the statistics engine, so they match it by construction.
+ */
+import type { Db } from '../db/knex.js';
+import { NotFoundError } from '../http/errors.js';
+import type { Role } from '../http/routes.js';
+import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
+import { countablePatients, trialFacts } from '../patients/patients.repository.js';
+import { countsToward, effectiveOutcome, tally, type CountablePatient, type StageTally } from './counting.js';
+
+/** The cautions of the product brief, shown wherever a result is shown. */
+export const CAUTIONS = [
+  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
+  'Interim figures use data that may not yet be cleaned or source-verified.',
+  'Naive estimates after a two-stage design are biased.',
+  'A deviation from the planned n1 or n changes the operating characteristics.',
+];
+
+export const CONF_LEVEL = 0.95;
+
+export type DesignSummary = Pick<
+  LockedDesign,
+  'version' | 'selection' | 'p0' | 'p1' | 'alpha' | 'beta' | 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation' | 'interimAccrual' | 'typeIError' | 'power'
+>;
+
+export type CohortEvaluation = {
+  cohortId: string;
+  cohortCode: string;
+  cohortName: string;
+  status: string;
+  design: DesignSummary | null;
+  enrolled: number;
+  counted: number;
+  /** Response figures below are null when the caller may not see them. */
+  responseHidden: boolean;
+  decided: number | null;
+  pending: number | null;
+  responders: number | null;
+  notEvaluable: number | null;
+  stage1: StageTally | null;
+  stage2: StageTally | null;
+  rate: { estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
+  test: { x: number; n: number; p0: number; pValue: number; alternative: 'greater' } | null;
+  rule: (InterimStatus & { basis: { responders: number; evaluable: number; stage1Responders?: number } }) | null;
+  earlyDetermination: string | null;
+  accrual: string | null;
+  notes: string[];
+  /** Responders against patients with an outcome, in enrolment order: the path the chart draws. */
+  path: Array<{ evaluable: number; responders: number }>;
+};
+
+function summary(d: LockedDesign): DesignSummary {
+  return {
+    version: d.version,
+    selection: d.selection,
+    p0: d.p0,
+    p1: d.p1,
+    alpha: d.alpha,
+    beta: d.beta,
+    r1: d.r1,
+    n1: d.n1,
+    r: d.r,
+    n: d.n,
+    analysisPopulation: d.analysisPopulation,
+    interimAccrual: d.interimAccrual,
+    typeIError: d.typeIError,
+    power: d.power,
+  };
+}
+
+/** Where the cohort stands against its rules: stage 1 until all n1 stage-1 outcomes are in, then the final rule. */
+export function ruleState(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation'>, patients: CountablePatient[]) {
+  const notes: string[] = [];
+  const counting = [...patients].filter((p) => countsToward(p, design.analysisPopulation)).sort((a, b) => a.enrolmentSeq - b.enrolmentSeq);
+  let used = counting;
+  if (counting.length > design.n) {
+    notes.push(`${counting.length} patients count, more than the design's n = ${design.n}: the rule is applied to the first ${design.n} in enrolment order.`);
+    used = counting.slice(0, design.n);
+  }
+  const t = tally(used, design.n1, design.analysisPopulation);
+  const twoStage = design.r1 !== null && design.n1 !== null;
+  const rule = { r1: design.r1 ?? undefined, n1: design.n1 ?? undefined, r: design.r, n: design.n };
+  let basis: { responders: number; evaluable: number; stage1Responders?: number };
+  if (twoStage && t.stage1.decided < (design.n1 as number)) basis = { responders: t.stage1.responders, evaluable: t.stage1.decided };
+  else if (twoStage) basis = { responders: t.responders, evaluable: t.decided, stage1Responders: t.stage1.responders };
+  else basis = { responders: t.responders, evaluable: t.decided };
+  if (twoStage && t.stage1.decided < (design.n1 as number) && t.stage2.decided > 0) {
+    notes.push(`${t.stage2.decided} stage-2 outcomes are in while ${(design.n1 as number) - t.stage1.decided} stage-1 outcomes are still missing; the stage-1 rule is applied first.`);
+  }
+  return { rule: { ...evaluateTwoStage(rule, basis), basis }, notes };
+}
+
+function earlyDetermination(design: LockedDesign, rule: InterimStatus): { early: string | null; accrual: string | null } {
+  if (!rule.determinedEarly) return { early: null, accrual: null };
+  if (rule.stage === 'stage1' && rule.decision === 'continue' && design.n1 !== null && design.r1 !== null) {
+    return {
+      early: `Stage 1 is settled early: r1 + 1 = ${design.r1 + 1} responders were reached before n1 = ${design.n1} patients were evaluated, so the futility rule can no longer be met.`,
+      accrual:
+        design.interimAccrual === 'continue_at_risk'
+          ? 'The protocol lets accrual continue at risk: enrolment goes on without a pause.'
+          : `The protocol pauses accrual for the interim review: the cohort still pauses at n1 = ${design.n1}, because the committee reviews the interim.`,
+    };
+  }
+  return { early: rule.message, accrual: null };
+}
+
+export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Promise<{ trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] }> {
+  const facts = await trialFacts(db, trialId);
+  if (!facts) throw new NotFoundError('The trial');
+  const cohortIds = facts.cohorts.map((c) => c.id);
+  const designs = await currentDesigns(db, cohortIds);
+  const patients = await countablePatients(db, cohortIds);
+  const sponsorOnly = roles.every((role) => role === 'sponsor');
+  const cohorts = facts.cohorts.map((cohort): CohortEvaluation => {
+    const design = designs.get(cohort.id);
+    const list = patients.get(cohort.id) ?? [];
+    const population = design?.analysisPopulation ?? 'all_enrolled';
+    const t = tally(list, design?.n1 ?? null, population);
+    const hidden = sponsorOnly && !design?.sponsorSeesResponse;
+    const base = {
+      cohortId: cohort.id,
+      cohortCode: cohort.code,
+      cohortName: cohort.name,
+      status: cohort.status,
+      design: design ? summary(design) : null,
+      enrolled: t.enrolled,
+      counted: t.counted,
+      responseHidden: hidden,
+    };
+    if (hidden) {
+      return {
+        ...base,
+        decided: null,
+        pending: null,
+        responders: null,
+        notEvaluable: null,
+        stage1: null,
+        stage2: null,
+        rate: null,
+        test: null,
+        rule: null,
+        earlyDetermination: null,
+        accrual: null,
+        notes: ['Response figures are not released to the sponsor for this cohort.'],
+        path: [],
+      };
+    }
+    const notes: string[] = [];
+    let rule: CohortEvaluation['rule'] = null;
+    let early: string | null = null;
+    let accrual: string | null = null;
+    if (design) {
+      const state = ruleState(design, list);
+      rule = state.rule;
+      notes.push(...state.notes);
+      ({ early, accrual } = earlyDetermination(design, state.rule));
+    } else {
+      notes.push('No locked design yet: the rule state appears once the statistician locks the design.');
+    }
+    if (t.pending > 0) notes.push(`${t.pending} outcomes are pending and not in the figures yet.`);
+    const path: CohortEvaluation['path'] = [];
+    let responders = 0;
+    for (const p of [...list].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq)) {
+      if (!countsToward(p, population)) continue;
+      const outcome = effectiveOutcome(p, population);
+      if (outcome === 'pending') continue;
+      if (outcome === 'responder') responders += 1;
+      path.push({ evaluable: path.length + 1, responders });
+    }
+    const decided = t.decided;
+    return {
+      ...base,
+      decided,
+      pending: t.pending,
+      responders: t.responders,
+      notEvaluable: t.notEvaluable,
+      stage1: t.stage1,
+      stage2: t.stage2,
+      rate:
+        decided > 0
+          ? { estimate: t.responders / decided, ci: proportionInterval(t.responders, decided, { method: 'clopper-pearson', confLevel: CONF_LEVEL }), confLevel: CONF_LEVEL, method: 'clopper-pearson' }
+          : null,
+      test:
+        decided > 0 && design
+          ? { x: t.responders, n: decided, p0: design.p0, pValue: binomialTest(t.responders, decided, design.p0, { alternative: 'greater' }).pValue, alternative: 'greater' }
+          : null,
+      rule,
+      earlyDetermination: early,
+      accrual,
+      notes,
+      path,
+    };
+  });
+  return { trialId, confLevel: CONF_LEVEL, cautions: CAUTIONS, cohorts };
+}

@@ -1,0 +1,99 @@
+/**
+ * The two-stage rule as the server enforces it on accrual. Stages follow enrolment order against
+ * the locked design's n1 (counting patients the way the protocol's analysis population says).
+ * Once stage 1 holds n1 counting patients the cohort moves to interim review, the trial's
+ * statistician(s) and committee members get one e-mail each, and enrolment is refused until the
+ * review ends — unless the design lets accrual continue at risk.
+ */
+import type { Knex } from 'knex';
+import { ConflictError } from '../http/errors.js';
+import { enqueueMail } from '../mail/outbox.js';
+import { currentDesign, type LockedDesign } from '../design-studio/current-design.js';
+import { assignStages, tally } from '../evaluation/counting.js';
+import { transitionCohort } from '../trials/cohort-status.js';
+import type { CohortStatus } from '../trials/trials.repository.js';
+import { countablePatients, currentStages, memberEmails, setStage, type TrialCohort } from './patients.repository.js';
+
+const STATUS_WORDS: Record<CohortStatus, string> = {
+  draft: 'in draft (its design is not locked yet)',
+  enrolling_stage_1: 'enrolling stage 1',
+  interim_review: 'in interim review',
+  enrolling_stage_2: 'enrolling stage 2',
+  final_analysis: 'in its final analysis',
+  completed: 'completed',
+  stopped: 'stopped',
+};
+
+/** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
+export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign | undefined): LockedDesign {
+  if (!design) throw new ConflictError(`Cohort ${cohort.code} has no locked design yet, so it cannot enrol patients.`, { cohortStatus: cohort.status });
+  if (cohort.status === 'enrolling_stage_1' || cohort.status === 'enrolling_stage_2') return design;
+  if (cohort.status === 'interim_review') {
+    if (design.interimAccrual === 'continue_at_risk') return design;
+    throw new ConflictError(
+      `Accrual is paused for the interim review of cohort ${cohort.code}: stage 1 is complete (n1 = ${design.n1}). The protocol does not allow enrolment at risk; enrolment resumes when the review ends and stage 2 opens.`,
+      { cohortStatus: cohort.status },
+    );
+  }
+  throw new ConflictError(`Cohort ${cohort.code} is ${STATUS_WORDS[cohort.status]} and does not enrol patients.`, { cohortStatus: cohort.status });
+}
+
+export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
+
+/**
+ * Re-derives stages and applies the pause after an enrolment or an outcome change, inside the
+ * caller's transaction (the cohort row is locked by `transitionCohort`).
+ */
+export async function applyAccrualRules(
+  trx: Knex.Transaction,
+  input: { trialId: string; trialCode: string; cohortId: string; actorUserId: string },
+): Promise<AccrualOutcome> {
+  const design = await currentDesign(trx, input.cohortId);
+  const patients = (await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [];
+  const n1 = design?.n1 ?? null;
+  const population = design?.analysisPopulation ?? 'all_enrolled';
+  const stages = assignStages(patients, n1, population);
+  const stored = await currentStages(trx, input.cohortId);
+  const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
+  await setStage(trx, moved(1), 1);
+  await setStage(trx, moved(2), 2);
+
+  const none = { paused: false, continuesAtRisk: false };
+  if (!design || n1 === null || design.r1 === null) return none;
+  const cohort = await trx('cohorts').where({ id: input.cohortId }).first('code', 'status');
+  if (cohort.status !== 'enrolling_stage_1') return none;
+  const counts = tally(patients, n1, population);
+  if (counts.stage1.counted < n1) return none;
+
+  await transitionCohort(trx, {
+    cohortId: input.cohortId,
+    from: 'enrolling_stage_1',
+    to: 'interim_review',
+    actorUserId: input.actorUserId,
+    reason: `Stage 1 complete: ${n1} patients counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+  });
+  const atRisk = design.interimAccrual === 'continue_at_risk';
+  const recipients = await memberEmails(trx, input.trialId, ['statistician', 'monitor']);
+  const label = `${input.trialCode} ${cohort.code}`;
+  const accrualLine = atRisk
+    ? 'The protocol lets accrual continue at risk during the review: sites may keep enrolling.'
+    : 'Accrual is paused: the server refuses further enrolment in this cohort until the review ends and stage 2 opens.';
+  await enqueueMail(
+    trx,
+    recipients.map((to) => ({
+      kind: 'interim_review',
+      to,
+      subject: `${label}: stage 1 complete — interim review`,
+      text: [
+        `Stage 1 of ${label} is complete: ${n1} patients are counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+        `So far ${counts.stage1.responders} responders among ${counts.stage1.decided} patients with an outcome; ${counts.stage1.pending} outcomes are pending.`,
+        `The stage-1 rule of the locked design (version ${design.version}): stop for futility with ${design.r1} or fewer responders among ${n1}.`,
+        accrualLine,
+        '',
+        'Decision support only: the decision belongs to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations. Interim figures may not yet be cleaned or source-verified.',
+      ].join('\n'),
+      dedupeKey: `interim-review:${input.cohortId}:v${design.version}:${to}`,
+    })),
+  );
+  return { paused: !atRisk, continuesAtRisk: atRisk };
+}

@@ -1,0 +1,274 @@
+/**
+ * CSV import of patients and outcomes from a site's own spreadsheet. The upload is checked (size,
+ * type, text encoding, exact columns, row count), then every row is applied inside one
+ * transaction through the same service functions as the forms, each row in its own savepoint so
+ * that a bad row is reported without hiding the others. A dry run, or a commit with any bad row,
+ * rolls the whole transaction back: the dry run shows exactly what the commit would do, and a
+ * commit is all-or-nothing. Text cells that start like a spreadsheet formula are stored with a
+ * leading quote; cells of fixed-format columns that do are refused.
+ */
+import { parse } from 'csv-parse/sync';
+import type { Knex } from 'knex';
+import type { Db } from '../db/knex.js';
+import { ValidationError } from 'yup';
+import { AppError, InputError } from '../http/errors.js';
+import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
+import {
+  IMPORT_COLUMNS,
+  IMPORT_MAX_BYTES,
+  IMPORT_MAX_ROWS,
+  isCalendarDay,
+  latestToday,
+  OUTCOME_FIELDS,
+  outcomeSchema,
+  STUDY_ID_PATTERN,
+  type Outcome,
+} from './patients.schema.js';
+import { findPatientByStudyId, trialFacts, type Patient, type TrialFacts } from './patients.repository.js';
+import { enrolPatient, recordOutcome, type Actor } from './patients.service.js';
+
+export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
+export type RowResult = {
+  line: number;
+  studyId: string;
+  result: 'new' | 'update' | 'unchanged' | 'error';
+  errors: Array<{ column: ImportColumn | 'row'; reason: string }>;
+  patientId?: string;
+  correction?: boolean;
+  attestationCleared?: boolean;
+};
+export type ImportCounts = { total: number; new: number; update: number; unchanged: number; error: number };
+export type ImportReport = { dryRun: boolean; committed: boolean; counts: ImportCounts; rows: RowResult[]; pausedCohorts: string[] };
+
+const TEXT_COLUMNS: ImportColumn[] = ['not_evaluable_reason', 'correction_reason'];
+
+export function importTemplate(): string {
+  return toCsv([...IMPORT_COLUMNS], []);
+}
+
+/** Checks the upload is a CSV text file and returns its rows keyed by column; 400 with the reason otherwise. */
+export function readCsv(file: { buffer: Buffer; originalname: string; mimetype: string } | undefined): Array<Record<ImportColumn, string>> {
+  if (!file) throw new InputError('Attach a CSV file in the field "file".', { file: 'No file was sent.' });
+  const isCsv = /\.csv$/i.test(file.originalname) || file.mimetype === 'text/csv';
+  if (!isCsv) throw new InputError('Only CSV files can be imported (a .csv file of type text/csv).', { file: `"${file.originalname}" is not a CSV file.` });
+  if (file.buffer.length > IMPORT_MAX_BYTES) throw new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files.');
+  if (file.buffer.includes(0)) throw new InputError('The file is binary, not CSV text.', { file: 'The file contains NUL bytes: save it as CSV (UTF-8) from your spreadsheet.' });
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
+  } catch {
+    throw new InputError('The file is not UTF-8 text.', { file: 'Save the file as CSV (UTF-8) from your spreadsheet and try again.' });
+  }
+  let records: string[][];
+  try {
+    records = parse(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false });
+  } catch (error) {
+    throw new InputError(`The file is not valid CSV: ${(error as Error).message}`, { file: (error as Error).message });
+  }
+  if (records.length === 0) throw new InputError('The file is empty.', { file: 'The file has no header row.' });
+  const header = records[0].map((h) => h.trim().toLowerCase());
+  const missing = IMPORT_COLUMNS.filter((c) => !header.includes(c));
+  const unknown = header.filter((h) => !(IMPORT_COLUMNS as readonly string[]).includes(h));
+  const repeated = header.filter((h, i) => header.indexOf(h) !== i);
+  if (missing.length || unknown.length || repeated.length) {
+    const parts = [
+      missing.length ? `missing: ${missing.join(', ')}` : '',
+      unknown.length ? `not recognised: ${unknown.join(', ')}` : '',
+      repeated.length ? `repeated: ${[...new Set(repeated)].join(', ')}` : '',
+    ].filter(Boolean);
+    throw new InputError(`The columns do not match the template (${parts.join('; ')}).`, { columns: parts.join('; ') });
+  }
+  const rows = records.slice(1);
+  if (rows.length === 0) throw new InputError('The file has a header but no rows.', { file: 'No rows to import.' });
+  if (rows.length > IMPORT_MAX_ROWS) {
+    throw new InputError(`The file has ${rows.length} rows; at most ${IMPORT_MAX_ROWS} can be imported at once.`, { file: `Split the file into parts of at most ${IMPORT_MAX_ROWS} rows.` });
+  }
+  return rows.map((cells) => Object.fromEntries(header.map((h, i) => [h, cells[i] ?? ''])) as Record<ImportColumn, string>);
+}
+
+const FIELD_COLUMN: Record<string, ImportColumn> = {
+  studyId: 'study_id',
+  siteId: 'site_code',
+  cohortId: 'cohort_code',
+  enrolledOn: 'enrolled_on',
+  outcome: 'outcome',
+  bestOverallResponse: 'best_overall_response',
+  responseAssessedOn: 'response_assessed_on',
+  evaluable: 'evaluable',
+  notEvaluableReason: 'not_evaluable_reason',
+  reason: 'correction_reason',
+  correction_reason: 'correction_reason',
+};
+
+const OUTCOME_WORDS: Record<string, Outcome> = {
+  '': 'pending',
+  pending: 'pending',
+  responder: 'responder',
+  non_responder: 'non_responder',
+  'non-responder': 'non_responder',
+  'non responder': 'non_responder',
+  nonresponder: 'non_responder',
+};
+const YES = new Set(['', 'yes', 'y', 'true', '1']);
+const NO = new Set(['no', 'n', 'false', '0']);
+
+class RowError extends Error {
+  constructor(readonly errors: RowResult['errors']) {
+    super('row error');
+  }
+}
+
+function errorsOf(error: unknown): RowResult['errors'] {
+  if (error instanceof RowError) return error.errors;
+  if (error instanceof ValidationError) {
+    return (error.inner.length ? error.inner : [error]).map((e) => ({ column: FIELD_COLUMN[e.path ?? ''] ?? 'row', reason: e.message }));
+  }
+  if (error instanceof AppError) {
+    const fields = (error.extra.fields ?? {}) as Record<string, string>;
+    const entries = Object.entries(fields);
+    if (entries.length) return entries.map(([field, reason]) => ({ column: FIELD_COLUMN[field] ?? 'row', reason }));
+    return [{ column: error.status === 404 ? 'site_code' : 'row', reason: error.message }];
+  }
+  throw error;
+}
+
+/** The row's cells as service input; format problems are collected per column. */
+async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, actor: Actor) {
+  const errors: RowResult['errors'] = [];
+  for (const column of IMPORT_COLUMNS) {
+    if (!TEXT_COLUMNS.includes(column) && startsLikeFormula(row[column])) {
+      errors.push({ column, reason: `Starts with "${row[column][0]}", as a spreadsheet formula would; this column takes a fixed format, so the cell is refused.` });
+    }
+  }
+  if (errors.length) throw new RowError(errors);
+  const studyId = row.study_id.toUpperCase();
+  if (!STUDY_ID_PATTERN.test(studyId)) errors.push({ column: 'study_id', reason: 'The study ID is the site code, a dash and a number, e.g. RVG-014.' });
+  if (row.enrolled_on && !isCalendarDay(row.enrolled_on)) errors.push({ column: 'enrolled_on', reason: 'The enrolment date must be a real date (YYYY-MM-DD).' });
+  else if (row.enrolled_on > latestToday()) errors.push({ column: 'enrolled_on', reason: 'The enrolment date cannot be in the future.' });
+  const site = facts.sites.find((s) => s.code === row.site_code.toUpperCase());
+  if (!row.site_code) errors.push({ column: 'site_code', reason: 'The site code is required.' });
+  else if (!site || !actor.writeSiteIds.includes(site.id)) errors.push({ column: 'site_code', reason: `${row.site_code} is not one of your sites on this trial; import only your own sites' patients.` });
+  let cohortId: string | null = null;
+  if (row.cohort_code) {
+    const cohort = facts.cohorts.find((c) => c.code.toUpperCase() === row.cohort_code.toUpperCase());
+    if (!cohort) errors.push({ column: 'cohort_code', reason: `No cohort ${row.cohort_code} in this trial.` });
+    else cohortId = cohort.id;
+  } else if (facts.cohorts.length > 1) errors.push({ column: 'cohort_code', reason: 'This trial has several cohorts: give the cohort code.' });
+  const outcome = OUTCOME_WORDS[row.outcome.toLowerCase()];
+  if (!outcome) errors.push({ column: 'outcome', reason: 'Use pending, responder or non_responder.' });
+  const evaluableText = row.evaluable.toLowerCase();
+  if (!YES.has(evaluableText) && !NO.has(evaluableText)) errors.push({ column: 'evaluable', reason: 'Use yes or no.' });
+  if (errors.length) throw new RowError(errors);
+  const fields = await outcomeSchema.validate(
+    {
+      version: 1,
+      outcome,
+      bestOverallResponse: row.best_overall_response.toUpperCase() || null,
+      responseAssessedOn: row.response_assessed_on || null,
+      evaluable: !NO.has(evaluableText),
+      notEvaluableReason: row.not_evaluable_reason ? neutralise(row.not_evaluable_reason) : null,
+      reason: row.correction_reason ? neutralise(row.correction_reason) : null,
+    },
+    { abortEarly: false, context: { enrolledOn: row.enrolled_on || undefined } },
+  );
+  return { studyId, siteId: (site as { id: string }).id, cohortId, fields };
+}
+
+async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
+  const { studyId, siteId, cohortId, fields } = await readRow(row, facts, actor);
+  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.trialId, studyId, { forUpdate: true });
+  if (!existing) {
+    if (!row.enrolled_on) throw new RowError([{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
+    const { patient } = await enrolPatient(
+      trx,
+      actor,
+      {
+        studyId,
+        siteId,
+        cohortId,
+        enrolledOn: row.enrolled_on,
+        outcome: fields.outcome,
+        bestOverallResponse: fields.bestOverallResponse,
+        responseAssessedOn: fields.responseAssessedOn,
+        evaluable: fields.evaluable,
+        notEvaluableReason: fields.notEvaluableReason,
+      },
+      facts,
+    );
+    return { line, studyId, result: 'new', errors: [], patientId: patient.id };
+  }
+  if (!actor.writeSiteIds.includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
+  const identity: RowResult['errors'] = [];
+  if (existing.siteId !== siteId) identity.push({ column: 'site_code', reason: `${studyId} is a patient of ${existing.siteCode}; the site cannot be changed by import.` });
+  if (cohortId && existing.cohortId !== cohortId) identity.push({ column: 'cohort_code', reason: `${studyId} is in cohort ${existing.cohortCode}; the cohort cannot be changed by import.` });
+  if (row.enrolled_on && row.enrolled_on !== existing.enrolledOn) identity.push({ column: 'enrolled_on', reason: `${studyId} was enrolled on ${existing.enrolledOn}; the enrolment date cannot be changed by import.` });
+  if (identity.length) throw new RowError(identity);
+  const same = OUTCOME_FIELDS.every((field) => existing[field] === fields[field]);
+  if (same) return { line, studyId, result: 'unchanged', errors: [], patientId: existing.id };
+  const change = await recordOutcome(trx, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
+  return { line, studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
+}
+
+class RollBack extends Error {}
+
+/** Applies the file in one transaction; rolls back on a dry run or on any row error. */
+export async function importPatients(db: Db, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
+  const report: ImportReport = { dryRun: options.dryRun, committed: false, counts: { total: rows.length, new: 0, update: 0, unchanged: 0, error: 0 }, rows: [], pausedCohorts: [] };
+  const firstLine = new Map<string, number>();
+  try {
+    await db.transaction(async (trx) => {
+      const facts = await trialFacts(trx, actor.trialId);
+      if (!facts) throw new InputError('The trial was not found.');
+      for (const [index, row] of rows.entries()) {
+        const line = index + 2;
+        const studyId = row.study_id.toUpperCase();
+        let result: RowResult;
+        const seenAt = firstLine.get(studyId);
+        if (studyId && seenAt) {
+          result = { line, studyId, result: 'error', errors: [{ column: 'study_id', reason: `${studyId} appears again (first on line ${seenAt}); give each patient one row.` }] };
+        } else {
+          if (studyId) firstLine.set(studyId, line);
+          try {
+            result = await trx.transaction((savepoint) => applyRow(savepoint, actor, facts, row, line));
+          } catch (error) {
+            result = { line, studyId, result: 'error', errors: errorsOf(error) };
+          }
+        }
+        report.rows.push(result);
+        report.counts[result.result] += 1;
+      }
+      const after = await trx('cohorts').where({ trial_id: actor.trialId, status: 'interim_review' }).pluck('code');
+      report.pausedCohorts = after.filter((code: string) => facts.cohorts.find((c) => c.code === code)?.status !== 'interim_review');
+      if (options.dryRun || report.counts.error > 0) throw new RollBack();
+      report.committed = true;
+    });
+  } catch (error) {
+    if (!(error instanceof RollBack)) throw error;
+  }
+  if (!options.dryRun && report.counts.error > 0) {
+    throw new AppError(422, 'import_rejected', `${report.counts.error} of ${report.counts.total} rows have errors, so nothing was imported. Fix them and import again.`, {
+      counts: report.counts,
+      rows: report.rows,
+    });
+  }
+  return report;
+}
+
+/** The user's patients in the import's columns, so a site can edit its export and import it back. */
+export function patientsCsv(patients: Patient[]): string {
+  return toCsv(
+    [...IMPORT_COLUMNS],
+    patients.map((p) => [
+      p.studyId,
+      p.siteCode,
+      p.cohortCode,
+      p.enrolledOn,
+      p.outcome,
+      p.bestOverallResponse,
+      p.responseAssessedOn,
+      p.evaluable ? 'yes' : 'no',
+      p.notEvaluableReason,
+      '',
+    ]),
+  );
+}

@@ -1,0 +1,315 @@
+/**
+ * Patients and outcomes, as a site coordinator or investigator works with them: enrol at one's own
+ * sites, record the outcome, correct it with a reason, attest it with an electronic signature.
+ * Every write runs in the caller's transaction, writes exactly one audit row for the patient, and
+ * then applies the accrual rules (stages, the interim pause). The functions taking a transaction
+ * are composable: the CSV import calls them row by row.
+ */
+import type { Knex } from 'knex';
+import type { Request } from 'express';
+import type { Db } from '../db/knex.js';
+import type { Config } from '../config.js';
+import { writeAudit } from '../audit/audit.js';
+import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
+import { parseBody } from '../http/validate.js';
+import { requireTrialAccess, requireUser, siteScope, type SessionUser } from '../http/routes.js';
+import { recordSignature, requireFreshAuthentication } from '../signatures/signatures.js';
+import { currentDesign } from '../design-studio/current-design.js';
+import { assignStages } from '../evaluation/counting.js';
+import {
+  attestationSchema,
+  enrolSchema,
+  isRecorded,
+  latestToday,
+  listQuerySchema,
+  OUTCOME_FIELDS,
+  outcomeSchema,
+  type EnrolInput,
+  type OutcomeInput,
+} from './patients.schema.js';
+import {
+  countablePatients,
+  findPatient,
+  findPatientByStudyId,
+  insertPatient,
+  listPatients,
+  lockCohort,
+  nextEnrolmentSeq,
+  patientHistory,
+  setAttestation,
+  trialFacts,
+  updateOutcome,
+  type OutcomeFields,
+  type Patient,
+  type SiteScope,
+  type TrialFacts,
+} from './patients.repository.js';
+import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
+import { runPatientWriteHooks } from './patient-hooks.js';
+
+/** Who is acting, and where: read scope for looking, the user's own sites for writing. */
+export type Actor = { user: SessionUser; trialId: string; readScope: SiteScope; writeSiteIds: string[] };
+
+export function actorFrom(req: Request): Actor {
+  const access = requireTrialAccess(req);
+  return { user: requireUser(req), trialId: access.trialId, readScope: siteScope(access), writeSiteIds: access.siteIds };
+}
+
+/** What the audit trail keeps of a patient: the identity and the outcome, never more. */
+export function auditSnapshot(p: Patient) {
+  return {
+    studyId: p.studyId,
+    siteCode: p.siteCode,
+    cohortCode: p.cohortCode,
+    enrolledOn: p.enrolledOn,
+    stage: p.stage,
+    outcome: p.outcome,
+    bestOverallResponse: p.bestOverallResponse,
+    responseAssessedOn: p.responseAssessedOn,
+    evaluable: p.evaluable,
+    notEvaluableReason: p.notEvaluableReason,
+    attestationSignatureId: p.attested?.signatureId ?? null,
+  };
+}
+
+async function requireFacts(db: Db | Knex.Transaction, trialId: string): Promise<TrialFacts> {
+  const facts = await trialFacts(db, trialId);
+  if (!facts) throw new NotFoundError('The trial');
+  return facts;
+}
+
+export async function listForUser(db: Db, actor: Actor, rawQuery: unknown) {
+  const query = await listQuerySchema.validate(rawQuery ?? {}, { abortEarly: false, stripUnknown: true });
+  const facts = await requireFacts(db, actor.trialId);
+  const result = await listPatients(db, actor.trialId, actor.readScope, query);
+  const scope = actor.readScope;
+  return {
+    ...result,
+    page: query.page,
+    pageSize: query.pageSize,
+    sites: facts.sites.filter((s) => scope === 'all' || scope.includes(s.id)),
+    enrolSites: facts.sites.filter((s) => actor.writeSiteIds.includes(s.id)),
+    cohorts: facts.cohorts,
+  };
+}
+
+/** A patient the user may see (404 otherwise, so other sites' records do not leak). */
+export async function requireVisiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, options: { forUpdate?: boolean } = {}): Promise<Patient> {
+  const patient = /^[0-9a-f-]{36}$/i.test(patientId) ? await findPatient(db, actor.trialId, patientId, actor.readScope, options) : undefined;
+  if (!patient) throw new NotFoundError('The patient');
+  return patient;
+}
+
+function requireWritable(actor: Actor, patient: Patient): void {
+  if (!actor.writeSiteIds.includes(patient.siteId)) throw new ForbiddenError('Outcomes are recorded by the coordinator or investigator of the patient’s site.');
+}
+
+export type EnrolRequest = EnrolInput & Partial<OutcomeFields>;
+
+/**
+ * Enrols one patient, optionally with an outcome already known (the CSV import), and applies the
+ * accrual rules. The caller owns the transaction.
+ */
+export async function enrolPatient(
+  trx: Knex.Transaction,
+  actor: Actor,
+  input: EnrolRequest,
+  facts?: TrialFacts,
+): Promise<{ patient: Patient; accrual: AccrualOutcome }> {
+  const trial = facts ?? (await requireFacts(trx, actor.trialId));
+  const site = trial.sites.find((s) => s.id === input.siteId);
+  if (!site || !actor.writeSiteIds.includes(site.id)) throw new NotFoundError('The site');
+  const studyId = input.studyId.trim().toUpperCase();
+  if (!studyId.startsWith(`${site.code}-`)) {
+    throw new InputError('The study ID must start with the site code.', { studyId: `A patient of ${site.code} has a study ID starting "${site.code}-".` });
+  }
+  let cohort = input.cohortId ? trial.cohorts.find((c) => c.id === input.cohortId) : undefined;
+  if (!input.cohortId && trial.cohorts.length === 1) cohort = trial.cohorts[0];
+  if (!cohort) {
+    throw new InputError('Choose the cohort.', { cohortId: input.cohortId ? 'This cohort is not part of the trial.' : 'This trial has several cohorts: choose one.' });
+  }
+  if (input.enrolledOn > latestToday()) throw new InputError('Enrolment date cannot be in the future.', { enrolledOn: 'Enrolment date cannot be in the future.' });
+  if (trial.startDate && input.enrolledOn < trial.startDate) {
+    throw new InputError('Enrolment date is before the trial started.', { enrolledOn: `The trial started on ${trial.startDate}; enrolment cannot be earlier.` });
+  }
+  const outcome = {
+    outcome: input.outcome ?? 'pending',
+    bestOverallResponse: input.bestOverallResponse ?? null,
+    responseAssessedOn: input.responseAssessedOn ?? null,
+    evaluable: input.evaluable ?? true,
+    notEvaluableReason: input.notEvaluableReason ?? null,
+  } satisfies OutcomeFields;
+  if (outcome.responseAssessedOn && outcome.responseAssessedOn < input.enrolledOn) {
+    throw new InputError('The assessment cannot be before enrolment.', { responseAssessedOn: 'The assessment cannot be before enrolment.' });
+  }
+
+  const locked = await lockCohort(trx, cohort.id);
+  const design = assertCohortEnrolling(locked, await currentDesign(trx, cohort.id));
+  if (await findPatientByStudyId(trx, actor.trialId, studyId)) {
+    throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
+  }
+  const enrolmentSeq = await nextEnrolmentSeq(trx, cohort.id);
+  const existing = (await countablePatients(trx, [cohort.id])).get(cohort.id) ?? [];
+  const stage = assignStages([...existing, { id: 'new', enrolmentSeq, outcome: outcome.outcome, evaluable: outcome.evaluable }], design.n1, design.analysisPopulation).get('new') ?? 1;
+  const patientId = await insertPatient(trx, {
+    trialId: actor.trialId,
+    cohortId: cohort.id,
+    siteId: site.id,
+    studyId,
+    enrolledOn: input.enrolledOn,
+    enrolmentSeq,
+    stage,
+    ...outcome,
+    createdBy: actor.user.id,
+  }).catch((error: { code?: string }) => {
+    if (error.code === '23505') throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
+    throw error;
+  });
+  const created = (await findPatient(trx, actor.trialId, patientId, 'all')) as Patient;
+  await writeAudit(trx, {
+    actorUserId: actor.user.id,
+    trialId: actor.trialId,
+    entityType: 'patient',
+    entityId: patientId,
+    action: 'enrolled',
+    after: auditSnapshot(created),
+  });
+  const accrual = await applyAccrualRules(trx, { trialId: actor.trialId, trialCode: trial.code, cohortId: cohort.id, actorUserId: actor.user.id });
+  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
+  return { patient: (await findPatient(trx, actor.trialId, patientId, 'all')) as Patient, accrual };
+}
+
+export async function enrol(db: Db, actor: Actor, body: unknown) {
+  const input = await parseBody(enrolSchema, body);
+  return db.transaction((trx) => enrolPatient(trx, actor, input));
+}
+
+export type OutcomeChange = {
+  patient: Patient;
+  changed: boolean;
+  correction: boolean;
+  attestationCleared: boolean;
+  accrual: AccrualOutcome;
+};
+
+function fieldsOf(p: OutcomeFields): OutcomeFields {
+  return {
+    outcome: p.outcome,
+    bestOverallResponse: p.bestOverallResponse,
+    responseAssessedOn: p.responseAssessedOn,
+    evaluable: p.evaluable,
+    notEvaluableReason: p.notEvaluableReason,
+  };
+}
+
+/**
+ * Records or corrects a patient's outcome. A change to an outcome already recorded is a correction
+ * and needs a reason; a stale version gets 409 with the current record; an attested outcome that
+ * changes loses its attestation.
+ */
+export async function recordOutcome(
+  trx: Knex.Transaction,
+  actor: Actor,
+  patientId: string,
+  input: OutcomeInput,
+  options: { trialCode?: string; reasonField?: string } = {},
+): Promise<OutcomeChange> {
+  const before = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
+  requireWritable(actor, before);
+  if (input.version !== before.version) {
+    throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', { current: before });
+  }
+  const next = fieldsOf(input as OutcomeFields);
+  if (next.responseAssessedOn && next.responseAssessedOn < before.enrolledOn) {
+    throw new InputError('The assessment cannot be before enrolment.', { responseAssessedOn: `The patient was enrolled on ${before.enrolledOn}; the assessment cannot be earlier.` });
+  }
+  if (next.responseAssessedOn && next.responseAssessedOn > latestToday()) {
+    throw new InputError('The assessment date cannot be in the future.', { responseAssessedOn: 'The assessment date cannot be in the future.' });
+  }
+  const previous = fieldsOf(before);
+  const changed = OUTCOME_FIELDS.some((field) => previous[field] !== next[field]);
+  const none = { paused: false, continuesAtRisk: false };
+  if (!changed) return { patient: before, changed: false, correction: false, attestationCleared: false, accrual: none };
+  const correction = isRecorded(previous);
+  if (correction && !input.reason) {
+    const field = options.reasonField ?? 'reason';
+    throw new InputError('Changing a recorded outcome is a correction: give the reason.', { [field]: 'A correction needs a reason.' });
+  }
+  const attestationCleared = before.attested !== null;
+  if (!(await updateOutcome(trx, before.id, before.version, next, { clearAttestation: attestationCleared }))) {
+    throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', {
+      current: await findPatient(trx, actor.trialId, before.id, actor.readScope),
+    });
+  }
+  const after = (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient;
+  const action = correction ? 'outcome_corrected' : 'outcome_recorded';
+  await writeAudit(trx, {
+    actorUserId: actor.user.id,
+    trialId: actor.trialId,
+    entityType: 'patient',
+    entityId: before.id,
+    action,
+    before: auditSnapshot(before),
+    after: { ...auditSnapshot(after), ...(attestationCleared ? { attestationCleared: true } : {}) },
+    reason: input.reason ?? null,
+  });
+  const trialCode = options.trialCode ?? (await requireFacts(trx, actor.trialId)).code;
+  const accrual = await applyAccrualRules(trx, { trialId: actor.trialId, trialCode, cohortId: before.cohortId, actorUserId: actor.user.id });
+  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
+  return { patient: (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
+}
+
+export async function changeOutcome(db: Db, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
+  await requireVisiblePatient(db, actor, patientId);
+  const input = await parseBody(outcomeSchema, body);
+  return db.transaction((trx) => recordOutcome(trx, actor, patientId, input));
+}
+
+export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete`;
+
+/** The investigator of the patient's site signs the recorded outcome (fresh sign-in required). */
+export async function attest(db: Db, config: Config, req: Request, actor: Actor, patientId: string) {
+  const patient = await requireVisiblePatient(db, actor, patientId);
+  const isSiteInvestigator = await db('memberships')
+    .where({ trial_id: actor.trialId, user_id: actor.user.id, role: 'investigator', site_id: patient.siteId, status: 'active' })
+    .first('id');
+  if (!isSiteInvestigator) throw new ForbiddenError('Only the investigator of the patient’s site can attest the outcome.');
+  const { version } = await parseBody(attestationSchema, req.body);
+  const authenticatedAt = requireFreshAuthentication(req, config);
+  return db.transaction(async (trx) => {
+    const current = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
+    if (current.version !== version) {
+      throw new ConflictError('The outcome changed since you opened it. Reload and check it before attesting.', { current });
+    }
+    if (current.outcome === 'pending' && current.evaluable) throw new ConflictError(`There is no outcome to attest for ${current.studyId} yet.`, { current });
+    if (current.attested) throw new ConflictError(`The outcome of ${current.studyId} is already attested.`, { current });
+    const content = { patientId: current.id, studyId: current.studyId, version: current.version, ...fieldsOf(current) };
+    const signature = await recordSignature(trx, {
+      trialId: actor.trialId,
+      signer: { id: actor.user.id, email: actor.user.email },
+      meaning: attestationMeaning(current.studyId),
+      subjectType: 'attestation',
+      subjectId: current.id,
+      content,
+      authenticatedAt,
+    });
+    await setAttestation(trx, current.id, current.version, signature.id);
+    const after = (await findPatient(trx, actor.trialId, current.id, 'all')) as Patient;
+    await writeAudit(trx, {
+      actorUserId: actor.user.id,
+      trialId: actor.trialId,
+      entityType: 'patient',
+      entityId: current.id,
+      action: 'outcome_attested',
+      before: auditSnapshot(current),
+      after: auditSnapshot(after),
+    });
+    await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
+    return { patient: after, signature };
+  });
+}
+
+export async function history(db: Db, actor: Actor, patientId: string) {
+  const patient = await requireVisiblePatient(db, actor, patientId);
+  return { patient, entries: await patientHistory(db, patient.id) };
+}
