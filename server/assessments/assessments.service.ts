@@ -37,7 +37,16 @@ import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type Atte
 
 export const DISAGREES_FLAG = 'disagrees_with_derivation';
 
-type Actor = { actorUserId?: string | null; today?: string };
+type Actor = {
+  actorUserId?: string | null;
+  today?: string;
+  /**
+   * Where outcomes are derived, a patient without any assessment keeps the outcome it has (an
+   * outcome entered before the protocol switched to derived ones is not wiped). Changes to the
+   * assessments themselves set this, so removing the last one returns the outcome to pending.
+   */
+  fromAssessmentChange?: boolean;
+};
 
 function derivationFor(patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
   return deriveBestOverallResponse({
@@ -78,7 +87,7 @@ async function applyDerivation(trx: Knex.Transaction, patient: AssessedPatient, 
   }
 
   let flag: string | null = null;
-  if (settings.outcomeSource === 'derived') {
+  if (settings.outcomeSource === 'derived' && (assessments.length > 0 || actor.fromAssessmentChange)) {
     const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
     const after = derivedOutcome(derivation);
     if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
@@ -209,7 +218,7 @@ export async function addAssessment(db: Db, access: TrialAccess, user: SessionUs
       throw error;
     }
     await writeAudit(trx, { actorUserId: user.id, trialId: access.trialId, entityType: 'assessment', entityId: assessment.id, action: 'created', after: assessment });
-    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
     return { ...(await view(trx, access.trialId, patientId)), assessment };
   });
 }
@@ -260,7 +269,7 @@ export async function correctAssessment(
       after,
       reason: input.reason,
     });
-    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
     return { ...(await view(trx, access.trialId, patientId)), assessment: after };
   });
 }
@@ -281,7 +290,7 @@ export async function removeAssessment(db: Db, access: TrialAccess, user: Sessio
       before,
       reason: input.reason,
     });
-    await recomputeDerivation(trx, patientId, { actorUserId: user.id });
+    await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
     return view(trx, access.trialId, patientId);
   });
 }

@@ -219,9 +219,18 @@ describe('derived outcomes', () => {
     await stack.db.transaction((trx) => recomputeDerivationsForTrial(trx, settingsTrial.trialId));
     expect(await stack.db('patients').where({ id: patient.id }).first()).toMatchObject({ derived_best_overall_response: 'SD', outcome_flag: null });
 
+    const withoutAssessments = await enrolOne(stack.db, settingsTrial, { enrolledOn: ENROLLED, outcome: 'responder', bestOverallResponse: 'CR', responseAssessedOn: day(60) });
     await setOutcomeSettings(stack.db, settingsTrial.trialId, { outcomeSource: 'derived', confirmationRequired: false });
-    expect(await stack.db.transaction((trx) => recomputeDerivationsForTrial(trx, settingsTrial.trialId))).toBe(1);
+    expect(await stack.db.transaction((trx) => recomputeDerivationsForTrial(trx, settingsTrial.trialId))).toBe(2);
     expect(await stack.db('patients').where({ id: patient.id }).first()).toMatchObject({ outcome: 'responder', best_overall_response: 'PR', derived_responder: true });
+    expect(await stack.db('patients').where({ id: withoutAssessments.id }).first()).toMatchObject({ outcome: 'responder', best_overall_response: 'CR', version: 1 });
+  });
+
+  it('when the last assessment of a derived outcome is removed, then the outcome returns to pending', async () => {
+    const patient = await enrolOne(stack.db, derivedTrial, { enrolledOn: ENROLLED });
+    const pd = (await cora.post(durl(patient.id), { date: day(50), response: 'PD' })).body.assessment;
+    const removed = await cora.delete(durl(patient.id, pd.id)).send({ version: 1, reason: 'Scan belonged to another patient' });
+    expect(removed.body.patient).toMatchObject({ outcome: 'pending', bestOverallResponse: null, derivedBestOverallResponse: null, version: 3 });
   });
 });
 
