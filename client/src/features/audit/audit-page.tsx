@@ -60,7 +60,6 @@ export function AuditPage() {
       </Panel>
       {data?.patientLevelHidden && (
         <p className="text-xs text-ink-500">
-          <span aria-hidden>ⓘ </span>
           As trial manager you do not see entries about patients, outcomes, data cuts, analyses or committee recommendations.
         </p>
       )}

@@ -5,7 +5,13 @@ const words = (key: string) => key.replace(/_/g, ' ').replace(/([a-z0-9])([A-Z])
 function show(value: unknown): string {
   if (value === null || value === undefined || value === '') return '—';
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
-  if (typeof value === 'object') return JSON.stringify(value);
+  // Lists of records (a trial's sites, say) read as "code RVG, planned accrual per month 2; …".
+  if (Array.isArray(value)) return value.length === 0 ? 'none' : value.map(show).join('; ');
+  if (typeof value === 'object') {
+    return Object.entries(value as Record<string, unknown>)
+      .map(([key, inner]) => `${words(key)} ${show(inner)}`)
+      .join(', ');
+  }
   return String(value);
 }
 

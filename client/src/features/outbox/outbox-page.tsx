@@ -21,7 +21,7 @@ export function OutboxPage() {
               <ul className="space-y-1 text-sm">
                 {data.queued.map((m) => (
                   <li key={m.id}>
-                    <span aria-hidden>⧗ </span>
+                    <span aria-hidden>○ </span>
                     {m.subject} → {m.to} · attempts {m.attempts}
                     {m.lastError && <span className="text-alert-600"> · last error: {m.lastError}</span>}
                   </li>

@@ -6,7 +6,7 @@ export function MembershipStatus({ status }: { status: 'pending' | 'active' }) {
     </span>
   ) : (
     <span className="inline-flex items-center gap-1 text-xs font-semibold text-brass-700" title="Becomes active at the person's first sign-in">
-      <span aria-hidden>⧗</span>Pending first sign-in
+      <span aria-hidden>○</span>Pending first sign-in
     </span>
   );
 }

@@ -40,7 +40,7 @@ export function SitesPage() {
         subtitle="Sites are shared by every trial. People are invited trial by trial, on each trial's People & sites page."
         actions={
           <Link to="/new-trial" className="inline-flex items-center gap-2 rounded-sm bg-ink-900 px-3 py-1.5 text-sm font-semibold text-white hover:bg-ink-700">
-            <span aria-hidden>＋</span> New trial
+            <span aria-hidden>+</span> New trial
           </Link>
         }
       />
