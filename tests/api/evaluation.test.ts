@@ -1,0 +1,103 @@
+/**
+ * The live evaluation on the Trial overview: its numbers are the statistics engine's on the same
+ * counts, its rule state follows the locked design, and it says when stage 1 is settled early.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startStack, type Stack } from '../support/stack.js';
+import { DEMO, createTrial } from '../support/factories.js';
+import { enrolPatientsDirectly, lockDesignDirectly, type DirectDesign, type DirectPatient } from '../support/patient-factories.js';
+import { binomialTest, evaluateTwoStage, proportionInterval } from '../../server/stats/index.js';
+import type { Session } from '../support/sign-in.js';
+
+let stack: Stack;
+const s = {} as Record<'statistician' | 'sponsor' | 'coordinator' | 'admin', Session>;
+
+const R: DirectPatient = { outcome: 'responder', bestOverallResponse: 'PR' };
+const N: DirectPatient = { outcome: 'non_responder', bestOverallResponse: 'SD' };
+const P: DirectPatient = { outcome: 'pending' };
+const NE: DirectPatient = { outcome: 'pending', evaluable: false, notEvaluableReason: 'No baseline scan' };
+
+beforeAll(async () => {
+  stack = await startStack();
+  for (const role of ['statistician', 'sponsor', 'coordinator', 'admin'] as const) s[role] = await stack.signIn(DEMO[role]);
+}, 120_000);
+afterAll(async () => stack?.close());
+
+async function arrange(design: Omit<DirectDesign, 'trialId' | 'cohortId'>, patients: DirectPatient[]) {
+  const trial = await createTrial(stack.db);
+  await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], ...design });
+  await enrolPatientsDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], siteId: trial.siteIds.SA, patients });
+  return trial;
+}
+
+describe('the live evaluation', () => {
+  it('when a stage-2 cohort is evaluated, then rate, exact interval, one-sided test and rule state equal the engine on the same counts', async () => {
+    // Simon's optimal design for p0 0.20, p1 0.40 (3/13, 12/43): 13 stage-1 patients with 5 responders, then 6 more with 2.
+    const stage1 = [R, N, N, R, N, N, R, N, N, R, N, R, N];
+    const stage2 = [R, N, N, R, N, N, P];
+    const trial = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43 }, [...stage1, ...stage2]);
+    const res = await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`);
+    expect(res.status).toBe(200);
+    const c = res.body.cohorts[0];
+    expect(c).toMatchObject({ enrolled: 20, counted: 20, decided: 19, pending: 1, responders: 7, notEvaluable: 0 });
+    expect(c.stage1).toEqual({ counted: 13, decided: 13, responders: 5, pending: 0 });
+    const [lo, hi] = proportionInterval(7, 19, { method: 'clopper-pearson', confLevel: 0.95 });
+    expect(c.rate.estimate).toBe(7 / 19);
+    expect(c.rate.ci).toEqual([lo, hi]);
+    expect(c.test.pValue).toBe(binomialTest(7, 19, 0.2, { alternative: 'greater' }).pValue);
+    const rule = evaluateTwoStage({ r1: 3, n1: 13, r: 12, n: 43 }, { responders: 7, evaluable: 19, stage1Responders: 5 });
+    expect(c.rule).toMatchObject(rule);
+    expect(c.rule.basis).toEqual({ responders: 7, evaluable: 19, stage1Responders: 5 });
+    expect(res.body.cautions).toHaveLength(4);
+    expect(res.body.cautions.join(' ')).toMatch(/Decision support only/);
+    expect(c.path).toHaveLength(19);
+    expect(c.path.at(-1)).toEqual({ evaluable: 19, responders: 7 });
+  });
+
+  it('when r1 + 1 responders are reached before n1 (common practice: stage 1 is then settled), then the evaluation says so and what happens to accrual', async () => {
+    const trial = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43 }, [R, R, N, R, R, P, P]);
+    const res = await s.coordinator.get(`/api/trials/${trial.trialId}/evaluation`);
+    const c = res.body.cohorts[0];
+    expect(c.rule).toMatchObject({ stage: 'stage1', decision: 'continue', determinedEarly: true, remainingToDecide: 0 });
+    expect(c.rule).toMatchObject(evaluateTwoStage({ r1: 3, n1: 13, r: 12, n: 43 }, { responders: 4, evaluable: 5 }));
+    expect(c.earlyDetermination).toMatch(/^Stage 1 is settled early: r1 \+ 1 = 4 responders were reached before n1 = 13/);
+    expect(c.accrual).toMatch(/still pauses at n1 = 13/);
+    const atRisk = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43, interimAccrual: 'continue_at_risk' }, [R, R, R, R]);
+    const other = (await s.coordinator.get(`/api/trials/${atRisk.trialId}/evaluation`)).body.cohorts[0];
+    expect(other.accrual).toMatch(/continue at risk/);
+  });
+
+  it('when stage 1 ends with r1 or fewer responders, then the futility rule is reported as met', async () => {
+    const trial = await arrange({ p0: 0.1, p1: 0.3, r1: 1, n1: 10, r: 5, n: 29 }, [N, N, R, N, N, N, N, N, N, N]);
+    const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
+    expect(c.rule).toMatchObject({ stage: 'stage1', decision: 'stop-futility', determinedEarly: false });
+    expect(c.rule.message).toMatch(/futility rule is met/);
+  });
+
+  it('when all enrolled count, then a non-evaluable patient is a non-responder in the figures', async () => {
+    const trial = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43 }, [R, NE, N]);
+    const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
+    expect(c).toMatchObject({ decided: 3, responders: 1, notEvaluable: 1 });
+    expect(c.test.pValue).toBe(binomialTest(1, 3, 0.2, { alternative: 'greater' }).pValue);
+  });
+
+  it('when the design is single-stage, then the final rule applies from the start', async () => {
+    const trial = await arrange({ p0: 0.2, p1: 0.4, r1: null, n1: null, r: 10, n: 35 }, [R, N]);
+    const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
+    expect(c.rule).toMatchObject({ ...evaluateTwoStage({ r: 10, n: 35 }, { responders: 1, evaluable: 2 }), stage: 'single' });
+  });
+
+  it('when the design releases response figures to the sponsor, then the sponsor sees them; the admin always sees the aggregate figures', async () => {
+    const hidden = await arrange({}, [R, N]);
+    expect((await s.sponsor.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: true, enrolled: 2, responders: null });
+    expect((await s.admin.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: false, responders: 1 });
+    const shown = await arrange({ sponsorSeesResponse: true }, [R, N]);
+    expect((await s.sponsor.get(`/api/trials/${shown.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: false, responders: 1, decided: 2 });
+  });
+
+  it('when a cohort has no locked design, then counts are given and the rule state is absent', async () => {
+    const trial = await createTrial(stack.db);
+    const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
+    expect(c).toMatchObject({ design: null, enrolled: 0, rule: null, rate: null, test: null });
+  });
+});
