@@ -234,6 +234,10 @@ export async function readCohorts(conn: Conn, trialId: string): Promise<Array<{ 
   return conn('cohorts').where({ trial_id: trialId }).orderBy('position').select('id', 'code', 'name', 'status');
 }
 
+export async function readCohortStatus(conn: Conn, cohortId: string): Promise<{ status: CohortStatus; code: string }> {
+  return conn('cohorts').where({ id: cohortId }).first('status', 'code');
+}
+
 export async function nextSeq(trx: Knex.Transaction, trialId: string): Promise<number> {
   const row = await trx('data_cuts').where({ trial_id: trialId }).max({ seq: 'seq' }).first();
   return Number(row?.seq ?? 0) + 1;
@@ -466,7 +470,7 @@ export async function listDecisions(conn: Conn, cutId: string): Promise<AppliedD
 
 export async function insertDecision(
   trx: Knex.Transaction,
-  input: Omit<AppliedDecision, 'id' | 'cohortCode' | 'appliedByName' | 'appliedAt'>,
+  input: Omit<AppliedDecision, 'id' | 'cohortCode' | 'appliedByName' | 'appliedAt'> & { appliedAt?: Date },
 ): Promise<string> {
   const [row] = await trx('data_cut_decisions')
     .insert({
@@ -478,6 +482,7 @@ export async function insertDecision(
       stop_category: input.stopCategory,
       reason: input.reason,
       applied_by: input.appliedBy,
+      ...(input.appliedAt ? { applied_at: input.appliedAt } : {}),
     })
     .returning('id');
   return row.id;
@@ -490,6 +495,11 @@ export async function decisionRecipients(conn: Conn, trialId: string): Promise<A
     .whereIn('role', ['coordinator', 'investigator', 'sponsor'])
     .distinct('email', 'role')
     .orderBy(['email', 'role']);
+}
+
+export async function statisticianEmails(conn: Conn, trialId: string): Promise<string[]> {
+  const rows: Array<{ email: string }> = await conn('memberships').where({ trial_id: trialId, role: 'statistician', status: 'active' }).distinct('email');
+  return rows.map((row) => row.email);
 }
 
 export async function findUserName(conn: Conn, userId: string): Promise<string | null> {

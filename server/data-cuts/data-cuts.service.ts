@@ -29,7 +29,9 @@ import {
   nextSeq,
   readCohorts,
   readCutPatients,
+  readCohortStatus,
   readLivePatients,
+  statisticianEmails,
   releaseToSponsor,
   updatePrior,
   type CutPatient,
@@ -55,94 +57,105 @@ export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 
 
 const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).join(', ');
 
+/**
+ * A cut of the past, for building the demo history only: its time, the patients enrolled by then,
+ * and the cohort status the cut saw.
+ */
+export type HistoricalCut = { cutAt: Date; enrolledOnOrBefore: string; cohortStatusAtCut: CohortStatus };
+
 export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Actor): Promise<DataCut> {
   // Repeatable read: every patient and assessment is copied as of one instant.
-  return db.transaction(
-    async (trx) => {
-      const trial = await lockTrial(trx, input.trialId);
-      if (!trial) throw new NotFoundError('The trial');
-      const cohorts = await readCohorts(trx, input.trialId);
-      const scope = input.cohortId ? cohorts.filter((c) => c.id === input.cohortId) : cohorts;
-      if (input.cohortId && scope.length === 0) throw new InputError('That cohort is not part of this trial.', { cohortId: 'Choose a cohort of this trial.' });
-      const designs = await currentDesigns(trx, scope.map((c) => c.id));
-      if (designs.size === 0) {
-        throw new InputError('No cohort in this cut has a locked design yet: lock a design first.', { cohortId: 'This cohort has no locked design.' });
-      }
-      const snapshot: CutSnapshot = {
-        trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsor_name },
-        cohorts: scope.map((c) => {
-          const d = designs.get(c.id);
-          return {
-            id: c.id,
-            code: c.code,
-            name: c.name,
-            status: c.status,
-            design: d
-              ? {
-                  id: d.id,
-                  version: d.version,
-                  selection: d.selection,
-                  p0: d.p0,
-                  p1: d.p1,
-                  alpha: d.alpha,
-                  beta: d.beta,
-                  nmax: d.nmax,
-                  r1: d.r1,
-                  n1: d.n1,
-                  r: d.r,
-                  n: d.n,
-                  en0: d.en0,
-                  pet0: d.pet0,
-                  typeIError: d.typeIError,
-                  power: d.power,
-                  analysisPopulation: d.analysisPopulation,
-                  interimAccrual: d.interimAccrual,
-                  sponsorSeesResponse: d.sponsorSeesResponse,
-                  protocolReference: d.protocolReference,
-                }
-              : null,
-          };
-        }),
+  return db.transaction((trx) => freezeWithin(trx, input, actor), { isolationLevel: 'repeatable read' });
+}
+
+export async function freezeWithin(
+  trx: Knex.Transaction,
+  input: CreateDataCutInput & { trialId: string },
+  actor: Actor,
+  history?: HistoricalCut,
+): Promise<DataCut> {
+  const trial = await lockTrial(trx, input.trialId);
+  if (!trial) throw new NotFoundError('The trial');
+  const cohorts = await readCohorts(trx, input.trialId);
+  const scope = input.cohortId ? cohorts.filter((c) => c.id === input.cohortId) : cohorts;
+  if (input.cohortId && scope.length === 0) throw new InputError('That cohort is not part of this trial.', { cohortId: 'Choose a cohort of this trial.' });
+  const designs = await currentDesigns(trx, scope.map((c) => c.id));
+  if (designs.size === 0) {
+    throw new InputError('No cohort in this cut has a locked design yet: lock a design first.', { cohortId: 'This cohort has no locked design.' });
+  }
+  const snapshot: CutSnapshot = {
+    trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsor_name },
+    cohorts: scope.map((c) => {
+      const d = designs.get(c.id);
+      return {
+        id: c.id,
+        code: c.code,
+        name: c.name,
+        status: history?.cohortStatusAtCut ?? c.status,
+        design: d
+          ? {
+              id: d.id,
+              version: d.version,
+              selection: d.selection,
+              p0: d.p0,
+              p1: d.p1,
+              alpha: d.alpha,
+              beta: d.beta,
+              nmax: d.nmax,
+              r1: d.r1,
+              n1: d.n1,
+              r: d.r,
+              n: d.n,
+              en0: d.en0,
+              pet0: d.pet0,
+              typeIError: d.typeIError,
+              power: d.power,
+              analysisPopulation: d.analysisPopulation,
+              interimAccrual: d.interimAccrual,
+              sponsorSeesResponse: d.sponsorSeesResponse,
+              protocolReference: d.protocolReference,
+            }
+          : null,
       };
-      const patients = await readLivePatients(trx, scope.map((c) => c.id));
-      const base = {
-        trialId: input.trialId,
-        cohortId: input.cohortId ?? null,
-        kind: input.kind,
-        cutAt: new Date().toISOString(),
-        snapshot,
-      };
-      const counts = {
-        patients: patients.length,
-        pending: patients.filter((p) => p.outcome === 'pending').length,
-        unattested: patients.filter((p) => p.outcome !== 'pending' && !p.attested).length,
-        flagged: patients.filter((p) => p.outcomeFlag).length,
-        notEvaluable: patients.filter((p) => !p.evaluable).length,
-      };
-      const cut = await insertDataCut(
-        trx,
-        {
-          ...base,
-          seq: await nextSeq(trx, input.trialId),
-          designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
-          createdBy: actor.id,
-          contentHash: contentHash(cutContent(base, patients)),
-          counts,
-        },
-        patients,
-      );
-      await writeAudit(trx, {
-        actorUserId: actor.id,
-        trialId: input.trialId,
-        entityType: 'data_cut',
-        entityId: cut.id,
-        action: 'frozen',
-        after: { seq: cut.seq, kind: cut.kind, cohortId: cut.cohortId, cutAt: cut.cutAt, contentHash: cut.contentHash, counts },
-      });
-      return cut;
+    }),
+  };
+  const live = await readLivePatients(trx, scope.map((c) => c.id));
+  const patients = history ? live.filter((p) => p.enrolledOn <= history.enrolledOnOrBefore) : live;
+  const base = {
+    trialId: input.trialId,
+    cohortId: input.cohortId ?? null,
+    kind: input.kind,
+    cutAt: (history?.cutAt ?? new Date()).toISOString(),
+    snapshot,
+  };
+  const counts = {
+    patients: patients.length,
+    pending: patients.filter((p) => p.outcome === 'pending').length,
+    unattested: patients.filter((p) => p.outcome !== 'pending' && !p.attested).length,
+    flagged: patients.filter((p) => p.outcomeFlag).length,
+    notEvaluable: patients.filter((p) => !p.evaluable).length,
+  };
+  const cut = await insertDataCut(
+    trx,
+    {
+      ...base,
+      seq: await nextSeq(trx, input.trialId),
+      designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
+      createdBy: actor.id,
+      contentHash: contentHash(cutContent(base, patients)),
+      counts,
     },
-    { isolationLevel: 'repeatable read' },
+    patients,
   );
+  await writeAudit(trx, {
+    actorUserId: actor.id,
+    trialId: input.trialId,
+    entityType: 'data_cut',
+    entityId: cut.id,
+    action: 'frozen',
+    after: { seq: cut.seq, kind: cut.kind, cohortId: cut.cohortId, cutAt: cut.cutAt, contentHash: cut.contentHash, counts },
+  });
+  return cut;
 }
 
 export async function listCuts(db: Db, trialId: string) {
@@ -214,50 +227,62 @@ export async function recommend(
   }
   const authTime = authenticatedAt();
   try {
-    return await db.transaction(async (trx) => {
-      const label = RECOMMENDATION_LABELS[input.decision];
-      const signature = await recordSignature(trx, {
-        trialId: cut.trialId,
-        signer,
-        meaning: `I recommend "${label}" for ${cut.snapshot.trial.code} cohort ${cohortLabel(cut)} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis.`,
-        subjectType: 'recommendation',
-        subjectId: cut.id,
-        content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
-        authenticatedAt: authTime,
-      });
-      const id = await insertRecommendation(trx, {
-        dataCutId: cut.id,
-        memberUserId: signer.id,
-        decision: input.decision,
-        rationale: input.rationale,
-        signatureId: signature.id,
-      });
-      await writeAudit(trx, {
-        actorUserId: signer.id,
-        trialId: cut.trialId,
-        entityType: 'recommendation',
-        entityId: id,
-        action: 'signed',
-        after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
-      });
-      const statisticians = await trx('memberships').where({ trial_id: cut.trialId, role: 'statistician', status: 'active' }).distinct('email');
-      await enqueueMail(
-        trx,
-        statisticians.map(({ email }: { email: string }) => ({
-          kind: 'recommendation_signed',
-          to: email,
-          subject: `${cut.snapshot.trial.code}: a committee recommendation was signed on data cut ${cut.seq}`,
-          text: `A member of the data monitoring committee signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.`,
-          dedupeKey: `recommendation:${id}:${email}`,
-        })),
-      );
-      return { id, signatureId: signature.id };
-    });
+    return await db.transaction((trx) => signWithin(trx, cut, input, signer, authTime));
   } catch (error) {
     // Two tabs signing at once: the unique key decides, the second is told plainly.
     if ((error as { code?: string }).code === '23505') throw new ConflictError('You have already signed a recommendation on this data cut.');
     throw error;
   }
+}
+
+/** Records a member's signed recommendation on a cut and tells the statisticians, inside the caller's transaction. */
+export async function signWithin(
+  trx: Knex.Transaction,
+  cut: DataCut,
+  input: RecommendationInput,
+  signer: Actor,
+  authenticatedAt: Date,
+  options: { notify?: boolean } = {},
+): Promise<{ id: string; signatureId: string }> {
+  const label = RECOMMENDATION_LABELS[input.decision];
+  const signature = await recordSignature(trx, {
+    trialId: cut.trialId,
+    signer,
+    meaning: `I recommend "${label}" for ${cut.snapshot.trial.code} cohort ${cohortLabel(cut)} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis.`,
+    subjectType: 'recommendation',
+    subjectId: cut.id,
+    content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
+    authenticatedAt,
+  });
+  const id = await insertRecommendation(trx, {
+    dataCutId: cut.id,
+    memberUserId: signer.id,
+    decision: input.decision,
+    rationale: input.rationale,
+    signatureId: signature.id,
+  });
+  await writeAudit(trx, {
+    actorUserId: signer.id,
+    trialId: cut.trialId,
+    entityType: 'recommendation',
+    entityId: id,
+    action: 'signed',
+    after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
+  });
+  if (options.notify !== false) {
+    const statisticians = await statisticianEmails(trx, cut.trialId);
+    await enqueueMail(
+      trx,
+      statisticians.map((email) => ({
+        kind: 'recommendation_signed',
+        to: email,
+        subject: `${cut.snapshot.trial.code}: a committee recommendation was signed on data cut ${cut.seq}`,
+        text: `A member of the data monitoring committee signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.`,
+        dedupeKey: `recommendation:${id}:${email}`,
+      })),
+    );
+  }
+  return { id, signatureId: signature.id };
 }
 
 export async function recommendations(db: Db, cutId: string) {
@@ -266,7 +291,7 @@ export async function recommendations(db: Db, cutId: string) {
   return { recommendations: list, committeeSize, signed: list.length };
 }
 
-const TARGET: Record<DecisionAction, CohortStatus> = {
+export const DECISION_TARGET: Record<DecisionAction, CohortStatus> = {
   resume_stage_2: 'enrolling_stage_2',
   stop: 'stopped',
   final_analysis: 'final_analysis',
@@ -287,50 +312,55 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
 }
 
 export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
-  return db.transaction(async (trx) => {
-    const cut = await requireCut(trx, cutId, true);
-    const cohortIds = cut.snapshot.cohorts.map((c) => c.id);
-    const cohortId = cut.cohortId ?? (cohortIds.length === 1 ? cohortIds[0] : input.cohortId);
-    if (!cohortId || !cohortIds.includes(cohortId)) {
-      throw new InputError('This data cut covers several cohorts: choose the one the decision applies to.', { cohortId: 'Choose a cohort of this data cut.' });
-    }
-    const signed = await listRecommendations(trx, cutId);
-    if (cut.kind === 'interim' && signed.length === 0) {
-      throw new ConflictError('No committee member has signed a recommendation on this interim data cut yet.');
-    }
-    if ((await listDecisions(trx, cutId)).some((d) => d.cohortId === cohortId)) {
-      throw new ConflictError('A decision on this cohort has already been applied from this data cut.');
-    }
-    const current = await trx('cohorts').where({ id: cohortId }).first('status', 'code');
-    const to = TARGET[input.action];
-    const reason = input.reason;
-    const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
-    // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
-    if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
-      await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
-    }
-    const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory: stopCategory as StopCategory | null });
-    const decisionId = await insertDecision(trx, {
-      dataCutId: cutId,
-      cohortId,
-      action: input.action,
-      fromStatus: current.status,
-      toStatus: moved.to,
-      stopCategory,
-      reason,
-      appliedBy: actor.id,
-    });
-    await releaseToSponsor(trx, cutId);
-    await writeAudit(trx, {
-      actorUserId: actor.id,
-      trialId: cut.trialId,
-      entityType: 'data_cut',
-      entityId: cutId,
-      action: 'decision_applied',
-      before: { cohortStatus: current.status },
-      after: { decisionId, cohortId, action: input.action, cohortStatus: moved.to, stopCategory, recommendations: signed.map((r) => r.decision) },
-      reason,
-    });
+  return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
+}
+
+/** Moves the cohort as decided, records the decision, releases the figures and queues the mail, inside the caller's transaction. */
+export async function applyWithin(trx: Knex.Transaction, cutId: string, input: DecisionInput, actor: Actor, options: { notify?: boolean } = {}) {
+  const cut = await requireCut(trx, cutId, true);
+  const cohortIds = cut.snapshot.cohorts.map((c) => c.id);
+  const cohortId = cut.cohortId ?? (cohortIds.length === 1 ? cohortIds[0] : input.cohortId);
+  if (!cohortId || !cohortIds.includes(cohortId)) {
+    throw new InputError('This data cut covers several cohorts: choose the one the decision applies to.', { cohortId: 'Choose a cohort of this data cut.' });
+  }
+  const signed = await listRecommendations(trx, cutId);
+  if (cut.kind === 'interim' && signed.length === 0) {
+    throw new ConflictError('No committee member has signed a recommendation on this interim data cut yet.');
+  }
+  if ((await listDecisions(trx, cutId)).some((d) => d.cohortId === cohortId)) {
+    throw new ConflictError('A decision on this cohort has already been applied from this data cut.');
+  }
+  const current = await readCohortStatus(trx, cohortId);
+  const to = DECISION_TARGET[input.action];
+  const reason = input.reason;
+  const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
+  // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
+  if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
+    await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+  }
+  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory: stopCategory as StopCategory | null });
+  const decisionId = await insertDecision(trx, {
+    dataCutId: cutId,
+    cohortId,
+    action: input.action,
+    fromStatus: current.status,
+    toStatus: moved.to,
+    stopCategory,
+    reason,
+    appliedBy: actor.id,
+  });
+  await releaseToSponsor(trx, cutId);
+  await writeAudit(trx, {
+    actorUserId: actor.id,
+    trialId: cut.trialId,
+    entityType: 'data_cut',
+    entityId: cutId,
+    action: 'decision_applied',
+    before: { cohortStatus: current.status },
+    after: { decisionId, cohortId, action: input.action, cohortStatus: moved.to, stopCategory, recommendations: signed.map((r) => r.decision) },
+    reason,
+  });
+  if (options.notify !== false) {
     const recipients = await decisionRecipients(trx, cut.trialId);
     const mail = decisionMail(cut.snapshot.trial.code, current.code, input.action, reason, cut, stopCategory);
     await enqueueMail(
@@ -343,6 +373,6 @@ export async function applyDecision(db: Db, cutId: string, input: DecisionInput,
         dedupeKey: `decision:${decisionId}:${email}`,
       })),
     );
-    return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
-  });
+  }
+  return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
 }

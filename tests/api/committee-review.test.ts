@@ -3,6 +3,7 @@ import { eventually, startStack, type Stack } from '../support/stack.js';
 import { DEMO, addMember, createTrial, type TrialFixture } from '../support/factories.js';
 import type { Session } from '../support/sign-in.js';
 import { arrangeCohort, freezeCutDirectly, outcomes, recommendDirectly } from '../support/data-cut-factories.js';
+import { lockDesignDirectly } from '../support/patient-factories.js';
 
 let stack: Stack;
 let sam: Session;
@@ -31,6 +32,23 @@ async function pausedAtInterim(stage1: { responders: number; nonResponders: numb
     patients: { SA: outcomes(stage1.responders, stage1.nonResponders) },
   });
   return { trial, cohortId };
+}
+
+/** The coordinator enrols at site SA through the API and records each outcome, as a site would. */
+async function enrolWithOutcomes(cora: Session, trial: TrialFixture, results: Array<'responder' | 'non_responder'>) {
+  for (const [i, outcome] of results.entries()) {
+    const enrolledOn = `2026-02-${String(i + 1).padStart(2, '0')}`;
+    const enrolled = await cora.post(`/api/trials/${trial.trialId}/patients`, { studyId: `SA-${String(i + 1).padStart(3, '0')}`, siteId: trial.siteIds.SA, enrolledOn });
+    expect(enrolled.status, JSON.stringify(enrolled.body)).toBe(201);
+    const recorded = await cora.patch(`/api/trials/${trial.trialId}/patients/${enrolled.body.patient.id}`, {
+      version: enrolled.body.patient.version,
+      outcome,
+      bestOverallResponse: outcome === 'responder' ? 'PR' : 'SD',
+      responseAssessedOn: '2026-06-01',
+      evaluable: true,
+    });
+    expect(recorded.status, JSON.stringify(recorded.body)).toBe(200);
+  }
 }
 
 const continueRecommendation = { decision: 'continue', rationale: 'Four responders among thirteen: stage 1 passed, no safety concern.' };
@@ -146,22 +164,32 @@ describe('applying the decision', () => {
     expect(bad.body.error.fields.stopCategory).toBeTruthy();
   });
 
-  it('the interim cycle: stage 1 complete → paused → cut → "continue" signed → decision applied → stage 2 enrolling, sites and sponsors told', async () => {
-    const { trial, cohortId } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
+  it('the interim cycle through the API: n1 enrolled with outcomes → paused → cut → "continue" signed → applied → stage-2 enrolment succeeds, sites and sponsors told', async () => {
+    const trial = await createTrial(stack.db);
+    const cohortId = trial.cohortIds[0];
+    await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId });
+    const cora = await stack.signIn(DEMO.coordinator);
+    await enrolWithOutcomes(cora, trial, [...Array(4).fill('responder'), ...Array(9).fill('non_responder')]);
+    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('interim_review');
+    const paused = await cora.post(`/api/trials/${trial.trialId}/patients`, { studyId: 'SA-014', siteId: trial.siteIds.SA, enrolledOn: '2026-03-20' });
+    expect(paused.status).toBe(409);
+
     const frozen = await sam.post(`/api/trials/${trial.trialId}/data-cuts`, { cohortId, kind: 'interim' });
     expect(frozen.status).toBe(201);
     const cutId = frozen.body.id;
+    expect(frozen.body.dataCut.counts).toMatchObject({ patients: 13, pending: 0, unattested: 13 });
     const analysis = (await mona.get(`/api/data-cuts/${cutId}/analysis`)).body.analysis;
     expect(analysis.cohorts[0].rule.decision).toBe('continue');
     expect((await mona.post(`/api/data-cuts/${cutId}/recommendations`, continueRecommendation)).status).toBe(201);
     const applied = await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Committee recommends continuing; stage 1 passed.' });
     expect(applied.status).toBe(201);
     expect(applied.body.decision).toMatchObject({ action: 'resume_stage_2', fromStatus: 'interim_review', toStatus: 'enrolling_stage_2' });
-    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('enrolling_stage_2');
-    const cut = await stack.db('data_cuts').where({ id: cutId }).first();
-    expect(cut.released_to_sponsor_at).not.toBeNull();
-    const twice = await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Again.' });
-    expect(twice.status).toBe(409);
+    expect((await stack.db('data_cuts').where({ id: cutId }).first()).released_to_sponsor_at).not.toBeNull();
+    expect((await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Again.' })).status).toBe(409);
+
+    const resumed = await cora.post(`/api/trials/${trial.trialId}/patients`, { studyId: 'SA-014', siteId: trial.siteIds.SA, enrolledOn: '2026-03-20' });
+    expect(resumed.status).toBe(201);
+    expect(resumed.body.patient.stage).toBe(2);
     const mail = await eventually(() => {
       const got = stack.catcher.messages.filter((m) => m.subject.startsWith(`${trial.code} MAIN: resume accrual`));
       return got.length >= 3 && got;
@@ -172,9 +200,13 @@ describe('applying the decision', () => {
     expect(detail.body.decisions).toHaveLength(1);
   });
 
-  it('the futility path: "stop for futility" signed → cohort stopped with the category, e-mails in the catcher', async () => {
-    const { trial, cohortId } = await pausedAtInterim({ responders: 2, nonResponders: 11 });
-    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+  it('the futility path through the API: "stop for futility" signed → cohort stopped, enrolment refused, e-mails in the catcher', async () => {
+    const trial = await createTrial(stack.db);
+    const cohortId = trial.cohortIds[0];
+    await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId });
+    const cora = await stack.signIn(DEMO.coordinator);
+    await enrolWithOutcomes(cora, trial, [...Array(2).fill('responder'), ...Array(11).fill('non_responder')]);
+    const cut = (await sam.post(`/api/trials/${trial.trialId}/data-cuts`, { cohortId, kind: 'interim' })).body.dataCut;
     const analysis = (await mona.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis;
     expect(analysis.cohorts[0].rule.decision).toBe('stop-futility');
     const signed = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, {
@@ -186,14 +218,17 @@ describe('applying the decision', () => {
     expect(applied.status).toBe(201);
     const cohort = await stack.db('cohorts').where({ id: cohortId }).first();
     expect(cohort).toMatchObject({ status: 'stopped', stop_category: 'futility', stop_reason: 'Futility rule met at stage 1.' });
+    const refused = await cora.post(`/api/trials/${trial.trialId}/patients`, { studyId: 'SA-014', siteId: trial.siteIds.SA, enrolledOn: '2026-03-20' });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.message).toMatch(/stopped/);
     const mail = await eventually(() => {
       const got = stack.catcher.messages.filter((m) => m.subject.startsWith(`${trial.code} MAIN: stop the cohort`));
       return got.length >= 3 && got;
     });
     expect(mail[0].text).toMatch(/Do not enrol further patients/);
-    const statisticianMail = stack.catcher.messages.filter((m) => m.to.includes(DEMO.statistician) && m.subject.includes(trial.code));
-    expect(statisticianMail.length).toBeGreaterThanOrEqual(1);
-    const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).first();
+    const statisticianMail = stack.catcher.messages.filter((m) => m.to.includes(DEMO.statistician) && m.subject.includes(`${trial.code}: a committee recommendation`));
+    expect(statisticianMail.length).toBe(1);
+    const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).orderBy('id', 'desc').first();
     expect(audit.after.status).toBe('stopped');
   });
 

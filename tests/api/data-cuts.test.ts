@@ -102,9 +102,17 @@ describe('a frozen cut does not move', () => {
     const { trial, cohortId } = await stage1Trial();
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
     const before = (await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis;
-    const patient = await stack.db('patients').where({ cohort_id: cohortId, outcome: 'non_responder' }).first();
-    await stack.db('patients').where({ id: patient.id }).update({ outcome: 'responder', best_overall_response: 'CR', version: patient.version + 1 });
-    await stack.db('assessments').insert({ patient_id: patient.id, trial_id: trial.trialId, assessed_on: '2026-06-01', response: 'CR' });
+    const patient = await stack.db('patients').where({ cohort_id: cohortId, site_id: trial.siteIds.SA, outcome: 'non_responder' }).first();
+    const cora = await stack.signIn(DEMO.coordinator);
+    const corrected = await cora.patch(`/api/trials/${trial.trialId}/patients/${patient.id}`, {
+      version: patient.version,
+      outcome: 'responder',
+      bestOverallResponse: 'CR',
+      responseAssessedOn: patient.response_assessed_on,
+      evaluable: true,
+      reason: 'Source verification: the scan read as CR.',
+    });
+    expect(corrected.status, JSON.stringify(corrected.body)).toBe(200);
     const after = (await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis;
     expect(after.integrity).toEqual({ contentHash: cut.contentHash, recomputedHash: cut.contentHash, intact: true });
     expect(after.cohorts).toEqual(before.cohorts);
