@@ -1,49 +1,82 @@
-import { Link } from 'react-router-dom';
-import { EmptyState, ErrorNotice, Loading, PageHeader, Panel, StatusTag } from '../../components/ui';
-import { ROLE_LABELS } from '../../lib/roles';
-import { useTrials } from './get-trials';
+import { useState } from 'react';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel, statusLabel } from '../../components/ui';
+import { day } from '../../lib/format';
+import { allRoles, useMe } from '../auth/get-me';
+import { COHORT_STATUSES, type PortfolioFilter } from '../../../../server/portfolio/portfolio.schema';
+import { usePortfolio } from './get-portfolio';
+import { PortfolioTable } from './portfolio-table';
+import { DigestPreviewPanel } from './digest-preview';
 
+const selectClass = 'rounded-sm border border-ink-300 bg-white px-2 py-1 text-sm';
+
+/** Portfolio: every trial and cohort the user takes part in, as a sponsor's operations lead reads it on a Monday. */
 export function PortfolioPage() {
-  const { data: trials, isPending, error } = useTrials();
+  const [filter, setFilter] = useState<PortfolioFilter>({});
+  const { data, isPending, error, isFetching } = usePortfolio(filter);
+  const { data: me } = useMe();
+  const showDigest = !!me?.environment.outbox && allRoles(me).includes('sponsor');
+  const rows = data?.rows ?? [];
+  const trials = new Set(rows.map((r) => r.trialId)).size;
+  const anyHidden = rows.some((r) => r.responseFiguresHidden);
   return (
-    <div>
-      <PageHeader title="Portfolio" subtitle="Every trial you take part in." />
+    <div className="grid gap-4">
+      <PageHeader title="Portfolio" subtitle={data ? `Every trial you take part in, as of ${day(data.asOf)}.` : 'Every trial you take part in.'} />
       {isPending ? (
         <Loading label="Loading your trials" />
       ) : error ? (
         <ErrorNotice error={error} />
-      ) : trials.length === 0 ? (
+      ) : data.indications.length === 0 ? (
         <EmptyState>You are not a member of any trial yet. A trial manager can invite you.</EmptyState>
       ) : (
-        <Panel>
-          <table className="w-full text-sm">
-            <thead>
-              <tr className="border-b border-ink-200 text-left text-xs tracking-wide text-ink-500 uppercase">
-                <th className="py-2 pr-4">Trial</th>
-                <th className="py-2 pr-4">Indication</th>
-                <th className="py-2 pr-4">Status</th>
-                <th className="py-2">Your roles</th>
-              </tr>
-            </thead>
-            <tbody>
-              {trials.map((trial) => (
-                <tr key={trial.id} className="border-b border-ink-100 last:border-0">
-                  <td className="py-2 pr-4">
-                    <Link to={`/trials/${trial.id}`} className="font-semibold text-ink-900 underline-offset-2 hover:underline">
-                      {trial.code}
-                    </Link>
-                    <div className="text-xs text-ink-500">{trial.title}</div>
-                  </td>
-                  <td className="py-2 pr-4">{trial.indication}</td>
-                  <td className="py-2 pr-4">
-                    <StatusTag status={trial.status} />
-                  </td>
-                  <td className="py-2 text-xs text-ink-600">{trial.myRoles.map((r) => ROLE_LABELS[r]).join(', ')}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </Panel>
+        <>
+          <div className="flex flex-wrap gap-8">
+            <Figure label="Trials" value={trials} />
+            <Figure label="Cohorts" value={rows.length} />
+            <Figure label="Enrolled" value={rows.reduce((n, r) => n + r.enrolled, 0)} />
+            <Figure label="This week" value={rows.reduce((n, r) => n + r.enrolledLastWeek, 0)} hint="enrolled in the last 7 days" />
+            <Figure label="Outcomes pending" value={rows.reduce((n, r) => n + r.pendingOutcomes, 0)} />
+          </div>
+          <Panel
+            title="Trials and cohorts"
+            actions={
+              <div className="flex flex-wrap items-center gap-3">
+                <label className="flex items-center gap-1 text-xs font-semibold text-ink-700 uppercase">
+                  Status
+                  <select className={selectClass} value={filter.status ?? ''} onChange={(e) => setFilter({ ...filter, status: (e.target.value || undefined) as PortfolioFilter['status'] })}>
+                    <option value="">Any</option>
+                    {COHORT_STATUSES.map((s) => (
+                      <option key={s} value={s}>
+                        {statusLabel(s)}
+                      </option>
+                    ))}
+                  </select>
+                </label>
+                <label className="flex items-center gap-1 text-xs font-semibold text-ink-700 uppercase">
+                  Indication
+                  <select className={selectClass} value={filter.indication ?? ''} onChange={(e) => setFilter({ ...filter, indication: e.target.value || undefined })}>
+                    <option value="">Any</option>
+                    {data.indications.map((i) => (
+                      <option key={i} value={i}>
+                        {i}
+                      </option>
+                    ))}
+                  </select>
+                </label>
+                {isFetching && <span className="text-xs text-ink-500">Updating…</span>}
+              </div>
+            }
+          >
+            <PortfolioTable rows={rows} />
+            {anyHidden && (
+              <p className="mt-3 text-xs text-ink-500">
+                <span aria-hidden>⊘ </span>
+                Not released: response figures reach sponsors only when the protocol allows it or the statistician releases a data cut.
+              </p>
+            )}
+          </Panel>
+          {showDigest && <DigestPreviewPanel />}
+          <Cautions />
+        </>
       )}
     </div>
   );
