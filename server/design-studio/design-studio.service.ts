@@ -1,0 +1,204 @@
+/**
+ * The Design studio's rules: compare candidate designs, lock one with an electronic signature,
+ * revise it before the first enrolment or amend it after (always with a reason and a new
+ * signature), and open or stop accrual for a cohort.
+ *
+ * The design's numbers are always recomputed here from p0, p1, α, β, nmax and the selection; the
+ * client names a choice, never the numbers that get signed.
+ */
+import { randomUUID } from 'node:crypto';
+import type { Db } from '../db/knex.js';
+import { writeAudit } from '../audit/audit.js';
+import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
+import { hasRole, type TrialAccess } from '../http/routes.js';
+import { recordSignature } from '../signatures/signatures.js';
+import type { OperatingPoint } from '../stats/index.js';
+import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
+import type { CohortStatus } from '../trials/trials.repository.js';
+import { currentDesign, currentDesigns, type LockedDesign } from './current-design.js';
+import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type Selection, type SignatureKind } from './design-studio.schema.js';
+import { curveFor, responseGrid } from './candidates.js';
+import { runChosenDesign } from './candidates-pool.js';
+import {
+  countEnrolled,
+  findCohort,
+  findTrialCode,
+  insertDesignVersion,
+  listCohorts,
+  listDesignVersions,
+  restagePatients,
+  type DesignCohort,
+  type DesignVersion,
+} from './design-studio.repository.js';
+
+export type CohortDesigns = DesignCohort & {
+  enrolled: number;
+  versions: DesignVersion[];
+  /** Operating characteristics of the design in force, for the charts. */
+  currentCurve: OperatingPoint[] | null;
+};
+
+export async function listTrialDesigns(db: Db, trialId: string): Promise<CohortDesigns[]> {
+  const cohorts = await listCohorts(db, trialId);
+  const ids = cohorts.map((c) => c.id);
+  const [versions, enrolled] = await Promise.all([listDesignVersions(db, ids), countEnrolled(db, ids)]);
+  return cohorts.map((cohort) => {
+    const mine = versions.filter((v) => v.cohortId === cohort.id);
+    const current = mine[0];
+    return {
+      ...cohort,
+      enrolled: enrolled.get(cohort.id) ?? 0,
+      versions: mine,
+      currentCurve: current ? curveFor({ ...current, en0: current.en0 ?? current.n, pet0: current.pet0 ?? 0 }, responseGrid(current.p0, current.p1)) : null,
+    };
+  });
+}
+
+const summary = (d: LockedDesign | undefined) =>
+  d && { version: d.version, selection: d.selection, p0: d.p0, p1: d.p1, alpha: d.alpha, beta: d.beta, r1: d.r1, n1: d.n1, r: d.r, n: d.n };
+
+export type SignDesignInput = {
+  trialId: string;
+  cohortId: string;
+  signer: { id: string; email: string };
+  /** 'lock': version 1, or a new version before the first enrolment; 'amendment': after it. */
+  route: 'lock' | 'amendment';
+  body: DesignLockInput;
+  /** The time of a fresh sign-in; throws (and so writes nothing) when the sign-in is too old. */
+  authenticate: () => Date;
+};
+
+/** Signs a new design version for a cohort: version 1, a revision before enrolment, or an amendment. */
+export async function signDesign(db: Db, input: SignDesignInput): Promise<DesignVersion> {
+  const { body } = input;
+  const settings = { p0: body.p0, p1: body.p1, alpha: body.alpha, beta: body.beta, nmax: body.nmax };
+  const numbers = await runChosenDesign(settings, body.selection as Selection, body.admissibleIndex ?? null);
+  const reason = body.reason?.trim() || null;
+  return db.transaction(async (trx) => {
+    const cohort = await findCohort(trx, input.trialId, input.cohortId, { lock: true });
+    if (!cohort) throw new NotFoundError('The cohort');
+    if (cohort.status === 'stopped' || cohort.status === 'completed') {
+      throw new ConflictError(`Cohort ${cohort.code} is ${cohort.status === 'stopped' ? 'stopped' : 'completed'}: its design can no longer change.`);
+    }
+    const current = await currentDesign(trx, cohort.id);
+    if (body.basedOnVersion !== undefined && body.basedOnVersion !== (current?.version ?? 0)) {
+      throw new ConflictError(
+        current
+          ? `The design of cohort ${cohort.code} is now at version ${current.version}, signed after you opened it. Review it before signing.`
+          : `Cohort ${cohort.code} has no locked design any more than when you opened it; reload and review.`,
+        { current: current ?? null },
+      );
+    }
+    const enrolled = (await countEnrolled(trx, [cohort.id])).get(cohort.id) ?? 0;
+    let kind: SignatureKind;
+    if (input.route === 'lock') {
+      if (enrolled > 0) {
+        throw new ConflictError(
+          `${enrolled} patient${enrolled === 1 ? ' is' : 's are'} enrolled in cohort ${cohort.code}: the design is locked, and a change now is an amendment with a reason.`,
+        );
+      }
+      if (current && !reason) {
+        const message = 'A new version of a locked design needs a reason.';
+        throw new InputError(message, { reason: message });
+      }
+      kind = current ? 'revision' : 'lock';
+    } else {
+      if (!current) throw new ConflictError(`Cohort ${cohort.code} has no locked design yet: lock one first.`);
+      if (enrolled === 0) {
+        throw new ConflictError(
+          `No patient is enrolled in cohort ${cohort.code} yet: sign a new version from the lock form instead (it also needs a reason).`,
+        );
+      }
+      kind = 'amendment';
+    }
+    const authenticatedAt = input.authenticate();
+    const trialCode = (await findTrialCode(trx, input.trialId)) ?? '';
+    const version = (current?.version ?? 0) + 1;
+    const designId = randomUUID();
+    const protocolReference = body.protocolReference.trim();
+    const meaning = signatureMeaning({ kind, version, protocolReference, trialCode, cohortCode: cohort.code });
+    const design = {
+      id: designId,
+      cohortId: cohort.id,
+      version,
+      selection: body.selection as Selection,
+      ...settings,
+      ...numbers,
+      analysisPopulation: body.analysisPopulation as LockedDesign['analysisPopulation'],
+      interimAccrual: body.interimAccrual as LockedDesign['interimAccrual'],
+      sponsorSeesResponse: body.sponsorSeesResponse,
+      protocolReference,
+      amendmentReason: version === 1 ? null : reason,
+      createdBy: input.signer.id,
+    };
+    const signature = await recordSignature(trx, {
+      trialId: input.trialId,
+      signer: input.signer,
+      meaning,
+      subjectType: kind === 'amendment' ? 'amendment' : 'design',
+      subjectId: designId,
+      content: { trialId: input.trialId, trialCode, cohortCode: cohort.code, meaning, ...design },
+      authenticatedAt,
+    });
+    const saved = await insertDesignVersion(trx, { ...design, signatureId: signature.id });
+    if (current && (current.n1 !== saved.n1 || current.analysisPopulation !== saved.analysisPopulation)) {
+      await restagePatients(trx, cohort.id, saved.n1, saved.analysisPopulation);
+    }
+    await writeAudit(trx, {
+      actorUserId: input.signer.id,
+      trialId: input.trialId,
+      entityType: 'design',
+      entityId: designId,
+      action: kind === 'lock' ? 'design_locked' : kind === 'revision' ? 'design_revised' : 'design_amended',
+      before: summary(current) ?? null,
+      after: { ...summary(saved), cohortId: cohort.id, signatureId: signature.id, meaning },
+      reason: saved.amendmentReason,
+    });
+    const [withSignature] = (await listDesignVersions(trx, [cohort.id])).filter((v) => v.id === designId);
+    return withSignature;
+  });
+}
+
+/** Moves made by the patients and data-cut features, and where a person finds them. */
+const ELSEWHERE: Partial<Record<CohortStatus, string>> = {
+  draft: 'A cohort never returns to draft.',
+  interim_review: 'A cohort moves to interim review when stage 1 is full; that happens on the Patients page, not here.',
+  enrolling_stage_2: 'Continuing to stage 2 follows the committee review of a data cut; it is recorded on the Data cut pages, not here.',
+  final_analysis: 'The final analysis starts from a data cut once accrual is complete; it is recorded on the Data cut pages, not here.',
+  completed: 'A cohort is completed from its final analysis on the Data cut pages, not here.',
+};
+
+/** Stopping for futility or efficacy rests on the statistician's analysis; the trial manager records the rest. */
+const ADMIN_STOP_CATEGORIES: StopCategory[] = ['safety', 'sponsor', 'other'];
+
+export async function moveCohort(
+  db: Db,
+  input: { trialId: string; cohortId: string; access: TrialAccess; actorUserId: string; body: CohortTransitionInput },
+): Promise<DesignCohort> {
+  const to = input.body.to as CohortStatus;
+  const elsewhere = ELSEWHERE[to];
+  if (elsewhere) throw new ConflictError(elsewhere);
+  const category = (input.body.stopCategory ?? null) as StopCategory | null;
+  if (to === 'enrolling_stage_1' && !hasRole(input.access, 'statistician')) {
+    throw new ForbiddenError('Only the trial statistician opens accrual.');
+  }
+  if (to === 'stopped' && !hasRole(input.access, 'statistician') && !(category && ADMIN_STOP_CATEGORIES.includes(category))) {
+    throw new ForbiddenError('Stopping for futility or efficacy follows the statistician’s analysis: the statistician records it.');
+  }
+  return db.transaction(async (trx) => {
+    const cohort = await findCohort(trx, input.trialId, input.cohortId, { lock: true });
+    if (!cohort) throw new NotFoundError('The cohort');
+    if (to === 'enrolling_stage_1' && cohort.status === 'draft' && !(await currentDesigns(trx, [cohort.id])).has(cohort.id)) {
+      throw new ConflictError(`Cohort ${cohort.code} has no locked design: lock and sign a design before opening accrual.`);
+    }
+    await transitionCohort(trx, {
+      cohortId: cohort.id,
+      to,
+      actorUserId: input.actorUserId,
+      reason: input.body.reason?.trim() || null,
+      stopCategory: to === 'stopped' ? category : null,
+      from: input.body.from as CohortStatus | undefined,
+    });
+    return (await findCohort(trx, input.trialId, cohort.id)) as DesignCohort;
+  });
+}
