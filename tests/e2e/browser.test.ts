@@ -1,0 +1,180 @@
+/**
+ * Browser tests: the built client served by the real server, driven in Debian's Chromium. Each
+ * demo role signs in through the identity provider's page and sees the navigation its roles
+ * open (computed from the client's own feature list); every main page passes axe-core with no
+ * serious or critical finding and is saved as a screenshot in test-artifacts/screens; signing out
+ * ends the session. Then the trial's journey through the pages, as far as the pages exist.
+ */
+import { rmSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { startStack, type Stack } from '../support/stack.js';
+import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
+import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
+import { buildClient, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
+import { globalNav, trialNav } from '../../client/src/app/features.js';
+import type { NavItem } from '../../client/src/app/feature.js';
+
+const ROLES = Object.keys(DEMO) as RoleName[];
+
+let stack: Stack;
+let browser: Browser;
+let clientDir: string;
+let trial: TrialFixture;
+
+beforeAll(async () => {
+  [clientDir, browser] = await Promise.all([buildClient(), launchChromium()]);
+  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000' });
+  trial = await createTrial(stack.db, { code: 'E2E-101', sites: ['RVX', 'HCX'] });
+  await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0] });
+  await enrolPatientsDirectly(stack.db, {
+    trialId: trial.trialId,
+    cohortId: trial.cohortIds[0],
+    siteId: trial.siteIds.RVX,
+    patients: [{ outcome: 'responder' }, { outcome: 'non_responder' }, { outcome: 'pending' }, {}],
+    firstEnrolledOn: '2026-02-02',
+  });
+}, 180_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await stack?.close();
+  if (clientDir) rmSync(clientDir, { recursive: true, force: true });
+});
+
+const visible = (items: NavItem[], roles: string[], outbox: boolean) =>
+  items.filter((item) => (!item.roles || item.roles.some((r) => roles.includes(r))) && (!item.devOnly || outbox)).map((item) => item.label);
+
+async function navLabels(page: Page, name: string): Promise<string[]> {
+  const nav = page.getByRole('navigation', { name });
+  await nav.waitFor();
+  return (await nav.getByRole('link').allInnerTexts()).map((t) => t.trim());
+}
+
+/** Waits until a page has finished loading its data (no spinner left, network quiet). */
+async function settle(page: Page) {
+  await page.waitForLoadState('networkidle');
+  await page.getByRole('status').filter({ hasText: /^Loading/ }).first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => undefined);
+}
+
+/** Opens a page, checks it with axe-core and saves its picture; returns the serious findings, labelled. */
+async function inspect(page: Page, url: string, name: string): Promise<string[]> {
+  await page.goto(url);
+  await settle(page);
+  await screenshot(page, name);
+  return (await seriousAccessibilityProblems(page)).map((v) => `${name}: ${v.impact} ${v.id} (${v.help}) at ${v.nodes.join(' | ')}`);
+}
+
+describe('each demo role in the browser', () => {
+  it('when the signed-out app is opened, then the sign-in page passes axe-core', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    const problems = await inspect(page, stack.url, 'sign-in');
+    await context.close();
+    expect(problems).toEqual([]);
+  }, 60_000);
+
+  it.each(ROLES)(
+    'when %s signs in through the identity provider, then the navigation matches the role, every main page passes axe-core, and sign-out ends the session',
+    async (role) => {
+      const context: BrowserContext = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+      const page = await context.newPage();
+      const pageErrors = watchConsole(page);
+      try {
+        await signInThroughPages(page, stack.url, DEMO[role]);
+        expect(await navLabels(page, 'Main')).toEqual(visible(globalNav, [role], true));
+
+        const problems: string[] = [];
+        for (const item of globalNav.filter((i) => visible([i], [role], true).length > 0)) {
+          problems.push(...(await inspect(page, new URL(item.path, stack.url).href, `${role}-${item.label}`)));
+        }
+
+        await page.goto(`${stack.url}/trials/${trial.trialId}`);
+        expect(await navLabels(page, 'Trial pages')).toEqual(visible(trialNav, [role], true));
+        for (const item of trialNav.filter((i) => visible([i], [role], true).length > 0)) {
+          const url = `${stack.url}/trials/${trial.trialId}${item.path ? `/${item.path}` : ''}`;
+          problems.push(...(await inspect(page, url, `${role}-trial-${item.label}`)));
+        }
+        expect(problems).toEqual([]);
+        expect(pageErrors).toEqual([]);
+
+        await page.getByRole('button', { name: 'Sign out' }).click();
+        await page.getByRole('link', { name: /sign in with your organisation account/i }).waitFor({ timeout: 20_000 });
+        const me = await context.request.get(`${stack.url}/api/me`);
+        expect(me.status()).toBe(401);
+      } finally {
+        await context.close();
+      }
+    },
+    120_000,
+  );
+
+  it('when sign-in is started with a return address on another site, then the browser still lands on Orrery', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    try {
+      await page.goto(`${stack.url}/auth/login?returnTo=${encodeURIComponent('//evil.test/phish')}`);
+      await page.getByLabel('E-mail').fill(DEMO.monitor);
+      await page.getByLabel('Password').fill('demo');
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.waitForURL((url) => url.origin === new URL(stack.url).origin);
+      await page.getByRole('navigation', { name: 'Main' }).waitFor();
+      expect(new URL(page.url()).origin).toBe(new URL(stack.url).origin);
+    } finally {
+      await context.close();
+    }
+  }, 60_000);
+});
+
+describe("the trial's journey through the pages", () => {
+  it('when the admin sets up a new trial and invites its people, then they are members of it in the roles given', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.admin);
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People & sites' }).click();
+      await page.getByRole('link', { name: /new trial/i }).click();
+      await page.getByLabel('Protocol code').fill('E2E-201');
+      await page.getByLabel('Title').fill('Journey trial in recurrent disease');
+      await page.getByLabel('Indication').fill('Recurrent test indication');
+      await page.getByLabel('Sponsor').fill('Tessaly Bio');
+      await page.getByLabel('Planned accrual (patients per month, all sites)').fill('4');
+      await page.getByLabel('Start date').fill('2026-03-02');
+      for (const [index, code] of ['RVX', 'HCX'].entries()) {
+        await page.getByRole('button', { name: 'Add a site' }).click();
+        await page.getByLabel(`Site ${index + 1}`, { exact: true }).selectOption({ label: `${code} — ${code} Hospital (Testland)` });
+      }
+      await screenshot(page, 'journey-1-new-trial');
+      await page.getByRole('button', { name: 'Create trial' }).click();
+      await page.waitForURL(/\/trials\/[0-9a-f-]{36}\/people$/);
+      const trialId = /\/trials\/([0-9a-f-]{36})\//.exec(page.url())![1];
+
+      const invitations: Array<[RoleName, string | undefined]> = [
+        ['statistician', undefined],
+        ['coordinator', 'RVX'],
+        ['investigator', 'HCX'],
+        ['monitor', undefined],
+        ['sponsor', undefined],
+      ];
+      for (const [role, site] of invitations) {
+        await page.getByLabel('E-mail').fill(DEMO[role]);
+        await page.getByLabel('Role', { exact: true }).selectOption(role);
+        if (site) await page.getByLabel('Site', { exact: true }).selectOption({ label: `${site} — ${site} Hospital` });
+        await page.getByRole('button', { name: 'Invite', exact: true }).click();
+        await page.getByText(new RegExp(`${DEMO[role].replace('.', '\\.')} is (a member now|invited)`)).waitFor();
+      }
+      await settle(page);
+      await screenshot(page, 'journey-2-people');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(pageErrors).toEqual([]);
+
+      const members: Array<{ role: string; email: string; site_id: string | null }> = await stack.db('memberships').where({ trial_id: trialId }).select('role', 'email', 'site_id');
+      for (const [role, site] of invitations) {
+        expect(members).toContainEqual(expect.objectContaining({ role, email: DEMO[role], site_id: site ? trial.siteIds[site] : null }));
+      }
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+});

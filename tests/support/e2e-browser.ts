@@ -1,0 +1,115 @@
+/**
+ * Browser tests on real parts: the client built by Vite and served by the real server, Debian's
+ * Chromium driven by playwright-core (never a downloaded browser), sign-in typed into the local
+ * identity provider's page, axe-core for accessibility, and screenshots for people to look at.
+ */
+import { execFile } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { gzipSync } from 'node:zlib';
+import { promisify } from 'node:util';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+const run = promisify(execFile);
+const require = createRequire(import.meta.url);
+export const ROOT = path.resolve(import.meta.dirname, '../..');
+export const ARTIFACTS = path.join(ROOT, 'test-artifacts');
+
+export const CHROMIUM = '/usr/bin/chromium';
+const CHROMIUM_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
+
+/**
+ * Builds the client into a folder of its own (never dist/client, which `npm start` and other
+ * checks use), so concurrent builds cannot trample each other. Returns the folder.
+ */
+export async function buildClient(): Promise<string> {
+  const outDir = mkdtempSync(path.join(tmpdir(), 'orrery-client-'));
+  await run(path.join(ROOT, 'node_modules/.bin/vite'), ['build', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'warn'], {
+    cwd: ROOT,
+    maxBuffer: 16 * 1024 * 1024,
+  });
+  return outDir;
+}
+
+/** The JavaScript a first visit downloads: the entry scripts named in index.html and the chunks they preload, gzipped. */
+export function initialJavaScript(outDir: string): { files: string[]; bytes: number; gzipBytes: number } {
+  const html = readFileSync(path.join(outDir, 'index.html'), 'utf8');
+  const files = [...html.matchAll(/(?:src|href)="\/?(assets\/[^"]+\.js)"/g)].map((m) => m[1]);
+  let bytes = 0;
+  let gzipBytes = 0;
+  for (const file of files) {
+    const content = readFileSync(path.join(outDir, file));
+    bytes += content.length;
+    gzipBytes += gzipSync(content, { level: 9 }).length;
+  }
+  return { files, bytes, gzipBytes };
+}
+
+/** Every JavaScript file of the build, for comparison with the initial set (charts load on demand). */
+export function allJavaScript(outDir: string): { files: number; bytes: number } {
+  const assets = path.join(outDir, 'assets');
+  const js = readdirSync(assets).filter((f) => f.endsWith('.js'));
+  return { files: js.length, bytes: js.reduce((sum, f) => sum + statSync(path.join(assets, f)).size, 0) };
+}
+
+export function launchChromium(): Promise<Browser> {
+  return chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS, headless: true });
+}
+
+/** Signs in the way a person does: the app's sign-in button, then e-mail and password typed into the identity provider's page. */
+export async function signInThroughPages(page: Page, appUrl: string, email: string, password = 'demo'): Promise<void> {
+  await page.goto(appUrl);
+  await page.getByRole('link', { name: /sign in with your organisation account/i }).click();
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.href.startsWith(appUrl));
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
+/** Confirms identity again at the identity provider (before a signature), when the page sends us there. */
+export async function confirmIdentity(page: Page, appUrl: string, password = 'demo'): Promise<void> {
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.href.startsWith(appUrl));
+}
+
+export type AxeViolation = { id: string; impact: string; help: string; nodes: string[] };
+
+/** axe-core on the page as it stands; only serious and critical findings are returned. */
+export async function seriousAccessibilityProblems(page: Page): Promise<AxeViolation[]> {
+  // Evaluated through the debugging protocol: the app's CSP (rightly) refuses an injected inline script tag.
+  if (!(await page.evaluate(() => 'axe' in window))) await page.evaluate(readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8'));
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (context: Document, options: object) => Promise<{ violations: Array<{ id: string; impact: string; help: string; nodes: Array<{ target: string[] }> }> }> } }).axe;
+    const result = await axe.run(document, { resultTypes: ['violations'] });
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.slice(0, 5).map((n) => n.target.join(' ')) }));
+  });
+  return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+}
+
+export async function screenshot(page: Page, name: string): Promise<void> {
+  const dir = path.join(ARTIFACTS, 'screens');
+  mkdirSync(dir, { recursive: true });
+  await page.screenshot({ path: path.join(dir, `${name.replace(/[^a-z0-9-]+/gi, '-').toLowerCase()}.png`), fullPage: true });
+}
+
+/** Uncaught page errors and Content-Security-Policy refusals (a strict CSP must not break the app). */
+export function watchConsole(page: Page): string[] {
+  const problems: string[] = [];
+  page.on('console', (message) => {
+    if (message.type() === 'error' && /Content Security Policy|Refused to/i.test(message.text())) problems.push(message.text());
+  });
+  page.on('pageerror', (error) => problems.push(error.message));
+  return problems;
+}
