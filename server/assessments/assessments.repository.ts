@@ -151,6 +151,11 @@ export async function findPatient(db: Conn, trialId: string, patientId: string, 
   return row && toPatient(row);
 }
 
+export async function findPatientByStudyId(trx: Knex.Transaction, trialId: string, studyId: string): Promise<AssessedPatient | undefined> {
+  const row: PatientRow | undefined = await trx('patients').where({ trial_id: trialId }).whereRaw('upper(study_id) = ?', [studyId.toUpperCase()]).first(PATIENT_COLUMNS).forUpdate();
+  return row && toPatient(row);
+}
+
 export async function findPatientById(trx: Knex.Transaction, patientId: string): Promise<AssessedPatient | undefined> {
   const row: PatientRow | undefined = await trx('patients').where({ id: patientId }).first(PATIENT_COLUMNS).forUpdate();
   return row && toPatient(row);

@@ -2,14 +2,36 @@
  * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
  * their own sites (other sites answer 404); the statistician and the committee read every site.
  */
+import multer from 'multer';
+import type { RequestHandler, Response } from 'express';
 import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
+import { AppError, InputError } from '../http/errors.js';
 import { addAssessment, correctAssessment, listForPatient, needsAttention, removeAssessment } from './assessments.service.js';
+import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITERS: Role[] = ['coordinator', 'investigator'];
 const BASE = '/api/trials/:trialId/patients/:patientId/assessments';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
+
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: ASSESSMENT_IMPORT_MAX_BYTES, files: 1, fields: 10, parts: 12 } });
+
+/** Multer's own refusals, in words a coordinator can act on. */
+const uploadCsv: RequestHandler = (req, res, next) => {
+  upload.single('file')(req, res, (error: unknown) => {
+    if (!error) return next();
+    const code = (error as { code?: string }).code;
+    if (code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files and import them one by one.'));
+    next(new InputError('Send one CSV file in the field "file".', { file: (error as Error).message }));
+  });
+};
+
+function sendCsv(res: Response, filename: string, body: string) {
+  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+  res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
+  res.send(body);
+}
 
 export const assessmentsRoutes: RouteSpec[] = [
   {
@@ -42,6 +64,25 @@ export const assessmentsRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: WRITERS },
     handler: async (req, res, { db }) => {
       res.json(await removeAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/assessments/import-template.csv',
+    access: { kind: 'trial', roles: READERS },
+    handler: async (_req, res) => {
+      sendCsv(res, 'orrery-assessments-template.csv', assessmentImportTemplate());
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/trials/:trialId/assessments/import',
+    access: { kind: 'trial', roles: WRITERS },
+    before: [uploadCsv],
+    handler: async (req, res, { db }) => {
+      const rows = readAssessmentCsv(req.file);
+      const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+      res.json(await importAssessments(db, requireTrialAccess(req), requireUser(req), rows, { dryRun }));
     },
   },
   {

@@ -197,27 +197,40 @@ function duplicateDate(existing: Assessment): ConflictError {
 
 const isUniqueViolation = (error: unknown) => (error as { code?: string })?.code === '23505';
 
+export type NewAssessment = { date: string; response: Assessment['response']; notes: string | null };
+
+/** Inserts one checked assessment of a locked patient and audits it; the caller re-derives. */
+export async function createAssessment(trx: Knex.Transaction, patient: AssessedPatient, input: NewAssessment, userId: string, reason?: string): Promise<Assessment> {
+  const existing = await findAssessmentOn(trx, patient.id, input.date);
+  if (existing) throw duplicateDate(existing);
+  let assessment: Assessment;
+  try {
+    assessment = await insertAssessment(trx, { patientId: patient.id, trialId: patient.trialId, ...input, createdBy: userId });
+  } catch (error) {
+    if (isUniqueViolation(error)) throw new ConflictError('An assessment with this date was just added for this patient.', { fields: { date: 'Already exists.' } });
+    throw error;
+  }
+  await writeAudit(trx, { actorUserId: userId, trialId: patient.trialId, entityType: 'assessment', entityId: assessment.id, action: 'created', after: assessment, reason });
+  return assessment;
+}
+
+/** Applies a correction to the current version of an assessment and audits it with its reason; the caller re-derives. */
+export async function applyCorrection(trx: Knex.Transaction, before: Assessment, changes: NewAssessment, userId: string, reason: string): Promise<Assessment> {
+  if (changes.date !== before.date) {
+    const clash = await findAssessmentOn(trx, before.patientId, changes.date);
+    if (clash) throw duplicateDate(clash);
+  }
+  const after = await updateAssessment(trx, before.id, before.version, changes);
+  if (!after) throw new ConflictError('Someone changed this assessment after you opened it.', { current: await findAssessment(trx, before.patientId, before.id) });
+  await writeAudit(trx, { actorUserId: userId, trialId: before.trialId, entityType: 'assessment', entityId: before.id, action: 'corrected', before, after, reason });
+  return after;
+}
+
 export async function addAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
   return db.transaction(async (trx) => {
     const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
     const input = await parseBody(assessmentSchema(patient.enrolledOn), body);
-    const existing = await findAssessmentOn(trx, patientId, input.date);
-    if (existing) throw duplicateDate(existing);
-    let assessment: Assessment;
-    try {
-      assessment = await insertAssessment(trx, {
-        patientId,
-        trialId: access.trialId,
-        date: input.date,
-        response: input.response,
-        notes: input.notes || null,
-        createdBy: user.id,
-      });
-    } catch (error) {
-      if (isUniqueViolation(error)) throw new ConflictError('An assessment with this date was just added for this patient.', { fields: { date: 'Already exists.' } });
-      throw error;
-    }
-    await writeAudit(trx, { actorUserId: user.id, trialId: access.trialId, entityType: 'assessment', entityId: assessment.id, action: 'created', after: assessment });
+    const assessment = await createAssessment(trx, patient, { date: input.date, response: input.response, notes: input.notes || null }, user.id);
     await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
     return { ...(await view(trx, access.trialId, patientId)), assessment };
   });
@@ -253,22 +266,7 @@ export async function correctAssessment(
     if (changes.date === before.date && changes.response === before.response && changes.notes === before.notes) {
       throw new InputError('Nothing to correct: the values are the same as the current record.');
     }
-    if (changes.date !== before.date) {
-      const clash = await findAssessmentOn(trx, patientId, changes.date);
-      if (clash) throw duplicateDate(clash);
-    }
-    const after = await updateAssessment(trx, assessmentId, input.version, changes);
-    if (!after) throw new ConflictError('Someone changed this assessment after you opened it.', { current: await findAssessment(trx, patientId, assessmentId) });
-    await writeAudit(trx, {
-      actorUserId: user.id,
-      trialId: access.trialId,
-      entityType: 'assessment',
-      entityId: assessmentId,
-      action: 'corrected',
-      before,
-      after,
-      reason: input.reason,
-    });
+    const after = await applyCorrection(trx, before, changes, user.id, input.reason);
     await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
     return { ...(await view(trx, access.trialId, patientId)), assessment: after };
   });

@@ -1,0 +1,201 @@
+/**
+ * CSV import of timepoint assessments, one row per assessment (study_id, date, response, notes,
+ * correction_reason). The upload is checked (type, size, UTF-8, exact columns, row count); every
+ * row is applied in its own savepoint inside one transaction, through the same checks as the form,
+ * so each bad row is reported and the others still run. A row for a date the patient already has
+ * is unchanged when it matches, a correction when it differs and gives a reason, an error
+ * otherwise. Each touched patient is re-derived once at the end. A dry run, or a commit with any
+ * bad row, rolls everything back. Notes that start like a spreadsheet formula are stored with a
+ * leading quote; fixed-format cells that do are refused.
+ */
+import { parse } from 'csv-parse/sync';
+import type { Knex } from 'knex';
+import { ValidationError } from 'yup';
+import type { Db } from '../db/knex.js';
+import { AppError, InputError } from '../http/errors.js';
+import type { SessionUser, TrialAccess } from '../http/routes.js';
+import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
+import { assessmentSchema } from './assessments.schema.js';
+import { findAssessmentOn, findPatientById, findPatientByStudyId } from './assessments.repository.js';
+import { applyCorrection, createAssessment, recomputeDerivation } from './assessments.service.js';
+
+export const ASSESSMENT_IMPORT_COLUMNS = ['study_id', 'date', 'response', 'notes', 'correction_reason'] as const;
+export const ASSESSMENT_IMPORT_MAX_BYTES = 1024 * 1024;
+export const ASSESSMENT_IMPORT_MAX_ROWS = 5000;
+
+type Column = (typeof ASSESSMENT_IMPORT_COLUMNS)[number];
+type CsvRow = Record<Column, string>;
+const REQUIRED: Column[] = ['study_id', 'date', 'response'];
+const TEXT_COLUMNS: Column[] = ['notes', 'correction_reason'];
+
+export type AssessmentRowResult = {
+  line: number;
+  studyId: string;
+  date: string;
+  result: 'new' | 'update' | 'unchanged' | 'error';
+  errors: Array<{ column: Column | 'row'; reason: string }>;
+  patientId?: string;
+};
+export type AssessmentImportReport = {
+  dryRun: boolean;
+  committed: boolean;
+  counts: { total: number; new: number; update: number; unchanged: number; error: number };
+  rows: AssessmentRowResult[];
+  /** Patients whose derived best overall response changed with this file. */
+  derivationsChanged: number;
+};
+
+export function assessmentImportTemplate(): string {
+  return toCsv([...ASSESSMENT_IMPORT_COLUMNS], []);
+}
+
+/** The upload as rows keyed by column; 400 (413 when too large) with the reason otherwise. */
+export function readAssessmentCsv(file: { buffer: Buffer; originalname: string; mimetype: string } | undefined): CsvRow[] {
+  if (!file) throw new InputError('Attach a CSV file in the field "file".', { file: 'No file was sent.' });
+  if (!/\.csv$/i.test(file.originalname) && file.mimetype !== 'text/csv') {
+    throw new InputError('Only CSV files can be imported (a .csv file of type text/csv).', { file: `"${file.originalname}" is not a CSV file.` });
+  }
+  if (file.buffer.length > ASSESSMENT_IMPORT_MAX_BYTES) throw new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files.');
+  let text: string;
+  try {
+    if (file.buffer.includes(0)) throw new Error('binary');
+    text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
+  } catch {
+    throw new InputError('The file is not UTF-8 text.', { file: 'Save the file as CSV (UTF-8) from your spreadsheet and try again.' });
+  }
+  let records: string[][];
+  try {
+    records = parse(text, { bom: true, skip_empty_lines: true, trim: true });
+  } catch (error) {
+    throw new InputError(`The file is not valid CSV: ${(error as Error).message}`, { file: (error as Error).message });
+  }
+  if (records.length < 2) throw new InputError('The file has no rows to import.', { file: 'A header row and at least one assessment are needed.' });
+  const header = records[0].map((h) => h.trim().toLowerCase());
+  const missing = REQUIRED.filter((c) => !header.includes(c));
+  const unknown = header.filter((h) => !(ASSESSMENT_IMPORT_COLUMNS as readonly string[]).includes(h));
+  const repeated = header.filter((h, i) => header.indexOf(h) !== i);
+  if (missing.length || unknown.length || repeated.length) {
+    const parts = [
+      missing.length ? `missing: ${missing.join(', ')}` : '',
+      unknown.length ? `not recognised: ${unknown.join(', ')}` : '',
+      repeated.length ? `repeated: ${[...new Set(repeated)].join(', ')}` : '',
+    ].filter(Boolean);
+    throw new InputError(`The columns do not match the template (${parts.join('; ')}).`, { columns: parts.join('; ') });
+  }
+  const rows = records.slice(1);
+  if (rows.length > ASSESSMENT_IMPORT_MAX_ROWS) {
+    throw new InputError(`The file has ${rows.length} rows; at most ${ASSESSMENT_IMPORT_MAX_ROWS} can be imported at once.`, {
+      file: `Split the file into parts of at most ${ASSESSMENT_IMPORT_MAX_ROWS} rows.`,
+    });
+  }
+  return rows.map((cells) => Object.fromEntries(ASSESSMENT_IMPORT_COLUMNS.map((c) => [c, header.includes(c) ? (cells[header.indexOf(c)] ?? '') : ''])) as CsvRow);
+}
+
+class RowError extends Error {
+  constructor(readonly errors: AssessmentRowResult['errors']) {
+    super('row error');
+  }
+}
+
+const FIELD_COLUMN: Record<string, Column> = { date: 'date', response: 'response', notes: 'notes', reason: 'correction_reason' };
+
+function errorsOf(error: unknown): AssessmentRowResult['errors'] {
+  if (error instanceof RowError) return error.errors;
+  if (error instanceof ValidationError) {
+    return (error.inner.length ? error.inner : [error]).map((e) => ({ column: FIELD_COLUMN[e.path ?? ''] ?? 'row', reason: e.message }));
+  }
+  if (error instanceof AppError) {
+    const fields = Object.entries((error.extra.fields ?? {}) as Record<string, string>);
+    if (fields.length) return fields.map(([field, reason]) => ({ column: FIELD_COLUMN[field] ?? 'row', reason: `${error.message} ${reason}` }));
+    return [{ column: 'row', reason: error.message }];
+  }
+  throw error;
+}
+
+async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: SessionUser, row: CsvRow): Promise<Omit<AssessmentRowResult, 'line' | 'errors'>> {
+  const refused = ASSESSMENT_IMPORT_COLUMNS.filter((c) => !TEXT_COLUMNS.includes(c) && startsLikeFormula(row[c]));
+  if (refused.length) {
+    throw new RowError(refused.map((column) => ({ column, reason: `Starts with "${row[column][0]}", as a spreadsheet formula would; this column takes a fixed format.` })));
+  }
+  const studyId = row.study_id.toUpperCase();
+  if (!studyId) throw new RowError([{ column: 'study_id', reason: 'The study ID is required.' }]);
+  const patient = await findPatientByStudyId(trx, access.trialId, studyId);
+  if (!patient || !access.siteIds.includes(patient.siteId)) {
+    throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites on this trial.` }]);
+  }
+  const input = await assessmentSchema(patient.enrolledOn).validate(
+    { date: row.date, response: row.response.toUpperCase(), notes: row.notes ? neutralise(row.notes) : null },
+    { abortEarly: false, stripUnknown: true },
+  );
+  const values = { date: input.date, response: input.response, notes: input.notes || null };
+  const base = { studyId, date: values.date, patientId: patient.id };
+  const existing = await findAssessmentOn(trx, patient.id, values.date);
+  if (!existing) {
+    await createAssessment(trx, patient, values, user.id, 'Imported from a CSV file');
+    return { ...base, result: 'new' };
+  }
+  if (existing.response === values.response && existing.notes === values.notes) return { ...base, result: 'unchanged' };
+  if (!row.correction_reason) {
+    throw new RowError([
+      {
+        column: 'response',
+        reason: `${studyId} already has ${existing.response} on ${existing.date}${existing.notes !== values.notes ? ' with other notes' : ''}; give a correction_reason to change it.`,
+      },
+    ]);
+  }
+  await applyCorrection(trx, existing, values, user.id, neutralise(row.correction_reason));
+  return { ...base, result: 'update' };
+}
+
+class RollBack extends Error {}
+
+/** Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with the report). */
+export async function importAssessments(db: Db, access: TrialAccess, user: SessionUser, rows: CsvRow[], options: { dryRun: boolean }): Promise<AssessmentImportReport> {
+  const report: AssessmentImportReport = {
+    dryRun: options.dryRun,
+    committed: false,
+    counts: { total: rows.length, new: 0, update: 0, unchanged: 0, error: 0 },
+    rows: [],
+    derivationsChanged: 0,
+  };
+  const seen = new Map<string, number>();
+  try {
+    await db.transaction(async (trx) => {
+      const touched = new Set<string>();
+      for (const [index, row] of rows.entries()) {
+        const line = index + 2;
+        const key = `${row.study_id.toUpperCase()} ${row.date}`;
+        let result: AssessmentRowResult;
+        if (seen.has(key)) {
+          result = { line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: [{ column: 'date', reason: `The same patient and date appear on line ${seen.get(key)}.` }] };
+        } else {
+          seen.set(key, line);
+          try {
+            result = { line, errors: [], ...(await trx.transaction((savepoint) => applyRow(savepoint, access, user, row))) };
+            if (result.result !== 'unchanged' && result.patientId) touched.add(result.patientId);
+          } catch (error) {
+            result = { line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: errorsOf(error) };
+          }
+        }
+        report.rows.push(result);
+        report.counts[result.result] += 1;
+      }
+      for (const patientId of touched) {
+        const before = await findPatientById(trx, patientId);
+        const after = await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
+        if (before?.derivedBestOverallResponse !== after.bestOverallResponse || before?.derivedResponder !== after.responder) report.derivationsChanged += 1;
+      }
+      if (options.dryRun || report.counts.error > 0) throw new RollBack();
+      report.committed = true;
+    });
+  } catch (error) {
+    if (!(error instanceof RollBack)) throw error;
+  }
+  if (!options.dryRun && report.counts.error > 0) {
+    throw new AppError(422, 'import_rejected', `${report.counts.error} of ${report.counts.total} rows have errors, so nothing was imported. Fix them and import again.`, {
+      counts: report.counts,
+      rows: report.rows,
+    });
+  }
+  return report;
+}
