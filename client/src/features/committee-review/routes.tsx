@@ -1,3 +1,6 @@
 import type { Feature } from '../../app/feature';
+import { ReviewPage } from './review-page';
 
-export const committeeReviewFeature: Feature = {};
+export const committeeReviewFeature: Feature = {
+  trialRoutes: [{ path: 'data-cuts/:cutId/review', element: <ReviewPage /> }],
+};

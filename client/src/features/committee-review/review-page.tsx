@@ -1,0 +1,122 @@
+/**
+ * Committee review of one data cut: what was frozen, who has signed and what, the recommendation
+ * form for committee members, the decision panel for the statistician, then the full analysis with
+ * its cautions and the open data issues at the cut.
+ */
+import { Link, useParams } from 'react-router-dom';
+import { Cautions, ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
+import { dateTime } from '../../lib/format';
+import { hasAnyRole } from '../../lib/roles';
+import { RECOMMENDATION_LABELS, DECISION_LABELS } from '../../../../server/data-cuts/data-cuts.schema';
+import { useMe } from '../auth/get-me';
+import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useDataCut } from '../data-cut/get-data-cut';
+import { useAnalysis } from '../data-cut/get-analysis';
+import { AnalysisView } from '../data-cut/analysis-view';
+import { CutHeader, Downloads } from '../data-cut/cut-page';
+import { useRecommendations } from './get-recommendations';
+import { RECOMMENDATION_ICONS, RecommendationForm } from './recommendation-form';
+import { DECISION_ICONS, DecisionPanel } from './decision-panel';
+
+export function ReviewPage() {
+  const trial = useTrialContext();
+  const { cutId = '' } = useParams();
+  const { data: me } = useMe();
+  const detail = useDataCut(cutId);
+  const signed = useRecommendations(cutId);
+  const analysis = useAnalysis(cutId);
+  if (detail.isPending || signed.isPending) return <Loading label="Loading the committee review" />;
+  if (detail.error || signed.error) return <ErrorNotice error={detail.error ?? signed.error} title="This review could not be opened" />;
+  const cut = detail.data.dataCut;
+  const { recommendations, committeeSize } = signed.data;
+  const mine = recommendations.find((r) => r.memberUserId === me?.user.id);
+  const isMonitor = hasAnyRole(trial.myRoles, ['monitor']);
+  const isStatistician = hasAnyRole(trial.myRoles, ['statistician']);
+  const cohorts = cut.snapshot.cohorts.map((c) => c.code).join(', ');
+  return (
+    <div className="grid gap-4">
+      <PageHeader
+        title={`Committee review · data cut ${cut.seq}`}
+        subtitle={`${trial.code} cohort ${cohorts} · ${cut.kind === 'final' ? 'final' : 'interim'} analysis`}
+        actions={
+          <Link to=".." relative="path" className="rounded-sm border border-ink-300 px-3 py-1.5 text-sm font-semibold text-ink-900 hover:border-ink-500">
+            Analysis of the cut
+          </Link>
+        }
+      />
+      <CutHeader cut={cut} analysis={analysis.data} />
+      <Panel
+        title="Recommendations"
+        actions={
+          <span role="status" className="text-sm font-semibold text-ink-900 tabular-nums">
+            <span aria-hidden>✍ </span>
+            {recommendations.length} of {committeeSize} committee {committeeSize === 1 ? 'member has' : 'members have'} signed
+          </span>
+        }
+      >
+        {recommendations.length === 0 ? (
+          <p className="text-sm text-ink-500">No recommendation signed yet.</p>
+        ) : (
+          <ul className="divide-y divide-ink-100">
+            {recommendations.map((r) => (
+              <li key={r.id} className="py-2 text-sm">
+                <p className="font-semibold">
+                  <span aria-hidden>{RECOMMENDATION_ICONS[r.decision]} </span>
+                  {RECOMMENDATION_LABELS[r.decision]} — {r.memberName ?? r.memberEmail}
+                </p>
+                <p className="text-ink-700">{r.rationale}</p>
+                <p className="text-xs text-ink-500">
+                  Signed {dateTime(r.signature.signedAt)} after a fresh sign-in at {dateTime(r.signature.authenticatedAt)} · “{r.signature.meaning}”
+                </p>
+              </li>
+            ))}
+          </ul>
+        )}
+      </Panel>
+      {isMonitor && (
+        <Panel title="Your recommendation">
+          {mine ? (
+            <p className="text-sm">
+              <span aria-hidden>✓ </span>You signed “{RECOMMENDATION_LABELS[mine.decision]}” on {dateTime(mine.signature.signedAt)}. A member signs once per data cut.
+            </p>
+          ) : (
+            <RecommendationForm
+              cutId={cut.id}
+              trialId={trial.id}
+              meaning={`“I recommend <your choice> for ${trial.code} cohort ${cohorts} on data cut ${cut.seq}, having reviewed its analysis.”`}
+            />
+          )}
+        </Panel>
+      )}
+      {(isStatistician || detail.data.decisions.length > 0) && (
+        <Panel title="Decision">
+          {detail.data.decisions.length > 0 && (
+            <ul className="mb-3 space-y-1 text-sm">
+              {detail.data.decisions.map((d) => (
+                <li key={d.id}>
+                  <span aria-hidden>{DECISION_ICONS[d.action]} </span>
+                  <strong>
+                    Cohort {d.cohortCode}: {DECISION_LABELS[d.action]}
+                  </strong>
+                  {d.stopCategory ? ` (${d.stopCategory})` : ''} — applied {dateTime(d.appliedAt)} by {d.appliedByName ?? 'the statistician'}. {d.reason}
+                </li>
+              ))}
+            </ul>
+          )}
+          {isStatistician && <DecisionPanel detail={detail.data} trialId={trial.id} />}
+        </Panel>
+      )}
+      <Panel title="Report and exports">
+        <Downloads cut={cut} />
+      </Panel>
+      {analysis.isPending ? (
+        <Loading label="Computing the analysis" />
+      ) : analysis.error ? (
+        <ErrorNotice error={analysis.error} title="The analysis could not be computed" />
+      ) : (
+        <AnalysisView analysis={analysis.data} />
+      )}
+      <Cautions />
+    </div>
+  );
+}

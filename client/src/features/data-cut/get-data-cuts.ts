@@ -1,0 +1,11 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '../../lib/api';
+import type { DataCutListItem } from './types';
+
+export const dataCutsQueryOptions = (trialId: string) =>
+  queryOptions({
+    queryKey: ['trials', trialId, 'data-cuts'],
+    queryFn: () => api<{ dataCuts: DataCutListItem[]; committeeSize: number }>(`/api/trials/${trialId}/data-cuts`),
+  });
+
+export const useDataCuts = (trialId: string) => useQuery(dataCutsQueryOptions(trialId));
