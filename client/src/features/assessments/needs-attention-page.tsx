@@ -1,7 +1,8 @@
 /**
  * Needs attention: per site, what in the assessments wants a look — responses waiting past their
  * confirmation window, SD before the minimum, assessments dated before enrolment, gaps longer
- * than the schedule, entered outcomes that disagree with the derivation. Site roles see their sites.
+ * than the schedule, entered outcomes that disagree with the derivation. Site roles see their sites,
+ * and import assessments from a CSV file here.
  */
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
@@ -9,7 +10,9 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
+import { hasAnyRole } from '../../lib/roles';
 import { useTrialContext } from '../trial-overview/use-trial-context';
+import { ImportPanel } from './import-panel';
 import { useNeedsAttention, type NeedsAttentionItem } from './get-needs-attention';
 import { ATTENTION_WORDS, Tag } from './words';
 import type { AttentionKind } from './types';
@@ -78,6 +81,7 @@ export function NeedsAttentionPage() {
           </Panel>
         );
       })}
+      {hasAnyRole(trial.myRoles, ['coordinator', 'investigator']) && <ImportPanel trialId={trial.id} />}
       <Cautions items={[CAUTIONS[1], CAUTIONS[0]]} />
     </div>
   );

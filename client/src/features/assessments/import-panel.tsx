@@ -1,0 +1,111 @@
+/**
+ * Import assessments from a CSV file (one row per assessment): check it first (a dry run shows
+ * each row's result), then import; a file with any bad row imports nothing.
+ */
+import { useMemo, useState } from 'react';
+import { createColumnHelper } from '@tanstack/react-table';
+import { ApiError } from '../../lib/api';
+import { day } from '../../lib/format';
+import { Button, ErrorNotice, Figure, Panel, Spinner } from '../../components/ui';
+import { DataTable } from '../../components/data-table';
+import { useImportAssessments, type ImportReport, type ImportRow } from './use-import-assessments';
+import { Tag } from './words';
+
+const RESULT_WORDS: Record<ImportRow['result'], { label: string; icon: string }> = {
+  new: { label: 'New', icon: '+' },
+  update: { label: 'Correction', icon: '✎' },
+  unchanged: { label: 'Unchanged', icon: '=' },
+  error: { label: 'Error', icon: '⚠' },
+};
+
+const column = createColumnHelper<ImportRow>();
+const columns = [
+  column.accessor('line', { header: 'Line', cell: (c) => <span className="tabular-nums">{c.getValue()}</span> }),
+  column.accessor('studyId', { header: 'Patient', cell: (c) => <span className="font-mono">{c.getValue()}</span> }),
+  column.accessor('date', { header: 'Date', cell: (c) => <span className="tabular-nums">{/^\d{4}-\d{2}-\d{2}$/.test(c.getValue()) ? day(c.getValue()) : c.getValue()}</span> }),
+  column.accessor((r) => RESULT_WORDS[r.result].label, { id: 'result', header: 'Result', cell: (c) => <Tag {...RESULT_WORDS[c.row.original.result]} /> }),
+  column.accessor((r) => r.errors.map((e) => `${e.column}: ${e.reason}`).join(' '), {
+    id: 'errors',
+    header: 'Why',
+    cell: (c) => (
+      <ul className="text-xs">
+        {c.row.original.errors.map((e) => (
+          <li key={`${e.column}-${e.reason}`}>
+            <strong>{e.column}</strong>: {e.reason}
+          </li>
+        ))}
+      </ul>
+    ),
+  }),
+];
+
+function rejectedReport(error: unknown): ImportReport | undefined {
+  if (!(error instanceof ApiError) || error.status !== 422) return undefined;
+  const { counts, rows } = error.details as Pick<ImportReport, 'counts' | 'rows'>;
+  return { dryRun: false, committed: false, counts, rows, derivationsChanged: 0 };
+}
+
+export function ImportPanel({ trialId }: { trialId: string }) {
+  const [file, setFile] = useState<File | null>(null);
+  const run = useImportAssessments(trialId);
+  const report = run.data ?? rejectedReport(run.error);
+  const checkedClean = !!report && report.dryRun && report.counts.error === 0;
+  const rows = useMemo(() => report?.rows ?? [], [report]);
+
+  return (
+    <Panel title="Import assessments from a CSV file" actions={<a className="text-xs underline" href={`/api/trials/${trialId}/assessments/import-template.csv`}>Download the template</a>}>
+      <div className="grid gap-3">
+        <p className="text-sm text-ink-700">
+          One row per assessment: <code>study_id, date, response, notes, correction_reason</code>. Dates as YYYY-MM-DD; responses CR, PR, SD, PD or NE. A row
+          that changes a recorded assessment needs a correction reason. Check the file first; a file with any bad row imports nothing.
+        </p>
+        <div className="flex flex-wrap items-end gap-3">
+          <div className="flex flex-col gap-1">
+            <label htmlFor="assessments-file" className="text-xs font-semibold tracking-wide text-ink-700 uppercase">
+              CSV file
+            </label>
+            <input
+              id="assessments-file"
+              type="file"
+              accept=".csv,text/csv"
+              onChange={(event) => {
+                setFile(event.target.files?.[0] ?? null);
+                run.reset();
+              }}
+              className="text-sm"
+            />
+          </div>
+          <Button variant="secondary" disabled={!file || run.isPending} onClick={() => file && run.mutate({ file, dryRun: true })}>
+            Check the file
+          </Button>
+          <Button disabled={!file || !checkedClean || run.isPending} onClick={() => file && run.mutate({ file, dryRun: false })}>
+            Import
+          </Button>
+          {run.isPending && <Spinner label={run.variables?.dryRun ? 'Checking the file' : 'Importing'} />}
+        </div>
+        {run.error && !rejectedReport(run.error) && <ErrorNotice error={run.error} title="The file was not imported" />}
+        {report && (
+          <>
+            <p role="status" className="text-sm font-semibold">
+              {report.committed
+                ? `Imported. ${report.derivationsChanged} patient${report.derivationsChanged === 1 ? '' : 's'} had the derived best overall response change.`
+                : report.dryRun
+                  ? report.counts.error === 0
+                    ? 'The file is ready to import.'
+                    : 'Fix the rows with errors, then check the file again.'
+                  : 'Nothing was imported: some rows have errors.'}
+            </p>
+            <div className="flex flex-wrap gap-6">
+              <Figure label="Rows" value={report.counts.total} />
+              <Figure label="New" value={report.counts.new} />
+              <Figure label="Corrections" value={report.counts.update} />
+              <Figure label="Unchanged" value={report.counts.unchanged} />
+              <Figure label="Errors" value={report.counts.error} />
+            </div>
+            <DataTable data={rows} columns={columns} label="Import rows" filterLabel="Filter rows" initialSorting={[{ id: 'line', desc: false }]} />
+          </>
+        )}
+      </div>
+    </Panel>
+  );
+}
