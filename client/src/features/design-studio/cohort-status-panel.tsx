@@ -1,0 +1,112 @@
+/**
+ * The start of the cohort's life: the statistician opens accrual once a design is locked; the
+ * statistician, or the trial manager for reasons that are not statistical, may stop the cohort.
+ * The other moves (interim review, stage 2, final analysis) happen on the Patients and Data cut pages.
+ */
+import { useState } from 'react';
+import { Form, Formik } from 'formik';
+import { Button, ErrorNotice, StatusTag } from '../../components/ui';
+import { SelectField, TextAreaField } from '../../components/field';
+import { dateTime } from '../../lib/format';
+import { cohortTransitionSchema } from '../../../../server/design-studio/design-studio.schema';
+import { useTransitionCohort } from './use-transition-cohort';
+import type { CohortDesigns } from './types';
+
+const CATEGORY_LABELS: Record<string, string> = {
+  futility: 'Futility',
+  efficacy: 'Efficacy (early decision)',
+  safety: 'Safety',
+  sponsor: 'Sponsor decision',
+  other: 'Other',
+};
+
+export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: { trialId: string; cohort: CohortDesigns; isStatistician: boolean; isAdmin: boolean }) {
+  const transition = useTransitionCohort(trialId, cohort.id);
+  const [confirmOpen, setConfirmOpen] = useState(false);
+  const [stopOpen, setStopOpen] = useState(false);
+  const locked = cohort.versions.length > 0;
+  const finished = cohort.status === 'stopped' || cohort.status === 'completed';
+  const categories = isStatistician ? Object.keys(CATEGORY_LABELS) : ['safety', 'sponsor', 'other'];
+  return (
+    <div className="grid gap-3 text-sm">
+      <p className="flex flex-wrap items-center gap-2">
+        <StatusTag status={cohort.status} /> since {dateTime(cohort.statusChangedAt)}
+      </p>
+      {cohort.status === 'stopped' && (
+        <p>
+          Stopped for {CATEGORY_LABELS[cohort.stopCategory ?? 'other']?.toLowerCase()}: {cohort.stopReason}
+        </p>
+      )}
+      {transition.error && <ErrorNotice error={transition.error} title="The cohort did not move" />}
+      {isStatistician && cohort.status === 'draft' && (
+        <div className="grid gap-2">
+          {!locked && <p className="text-ink-500">Accrual opens once a design is locked and signed.</p>}
+          {!confirmOpen ? (
+            <div>
+              <Button disabled={!locked} onClick={() => setConfirmOpen(true)}>
+                Open accrual
+              </Button>
+            </div>
+          ) : (
+            <div role="group" aria-label="Confirm opening accrual" className="flex flex-wrap items-center gap-2">
+              <span>Open accrual for cohort {cohort.code}? Sites can then enrol patients.</span>
+              <Button
+                disabled={transition.isPending}
+                onClick={() => transition.mutate({ to: 'enrolling_stage_1', from: 'draft' }, { onSuccess: () => setConfirmOpen(false) })}
+              >
+                {transition.isPending ? 'Opening…' : 'Confirm'}
+              </Button>
+              <Button variant="secondary" onClick={() => setConfirmOpen(false)}>
+                Cancel
+              </Button>
+            </div>
+          )}
+        </div>
+      )}
+      {(isStatistician || isAdmin) && !finished && (
+        <div>
+          {!stopOpen ? (
+            <Button variant="quiet" onClick={() => setStopOpen(true)}>
+              Stop this cohort…
+            </Button>
+          ) : (
+            <Formik
+              initialValues={{ to: 'stopped', stopCategory: isStatistician ? 'futility' : 'sponsor', reason: '' }}
+              validationSchema={cohortTransitionSchema}
+              onSubmit={(values) =>
+                transition
+                  .mutateAsync({ ...values, from: cohort.status })
+                  .then(() => setStopOpen(false))
+                  // The failure is shown from the mutation's own error above.
+                  .catch(() => undefined)
+              }
+            >
+              {({ isSubmitting }) => (
+                <Form noValidate className="grid max-w-lg gap-3 border border-alert-600/30 p-3">
+                  <SelectField name="stopCategory" label="Why the cohort stops">
+                    {categories.map((c) => (
+                      <option key={c} value={c}>
+                        {CATEGORY_LABELS[c]}
+                      </option>
+                    ))}
+                  </SelectField>
+                  <TextAreaField name="reason" label="Reason" hint="Recorded in the audit trail." />
+                  {!isStatistician && <p className="text-xs text-ink-500">Stopping for futility or efficacy follows the statistician’s analysis and is recorded by the statistician.</p>}
+                  <div className="flex gap-2">
+                    <Button type="submit" variant="danger" disabled={isSubmitting}>
+                      {isSubmitting ? 'Stopping…' : 'Stop the cohort'}
+                    </Button>
+                    <Button variant="secondary" onClick={() => setStopOpen(false)}>
+                      Cancel
+                    </Button>
+                  </div>
+                </Form>
+              )}
+            </Formik>
+          )}
+        </div>
+      )}
+      <p className="text-xs text-ink-500">Interim review, stage 2 and the final analysis are recorded on the Patients and Data cut pages.</p>
+    </div>
+  );
+}

@@ -1,0 +1,209 @@
+/**
+ * Design studio: one tab per cohort. The statistician compares candidate designs for p0, p1, α, β
+ * and nmax, signs one (version 1), signs new versions with a reason, and opens accrual; the trial
+ * manager and the committee read the design in force and its signed history.
+ */
+import { useState, type KeyboardEvent } from 'react';
+import { useSearchParams } from 'react-router-dom';
+import { Formik, useFormikContext } from 'formik';
+import { Cautions, EmptyState, ErrorNotice, Loading, PageHeader, Panel, Spinner, StatusTag } from '../../components/ui';
+import { designFormSchema, type SignatureKind } from '../../../../server/design-studio/design-studio.schema';
+import { useTrialContext } from '../trial-overview/use-trial-context';
+import type { Trial } from '../trial-overview/get-trial';
+import { useDesigns } from './get-designs';
+import { useDesignCandidates } from './get-design-candidates';
+import { DesignForm } from './design-form';
+import { CandidatesPanel } from './candidates-panel';
+import { SignDialog } from './sign-dialog';
+import { LockedDesign } from './locked-design';
+import { VersionHistory } from './version-history';
+import { CohortStatusPanel } from './cohort-status-panel';
+import { candidateList, type CandidateDesign, type CohortDesigns, type DesignSettings } from './types';
+import { comparedSettings, initialValues, withValues, type StudioValues } from './url-state';
+
+export function DesignStudioPage() {
+  const trial = useTrialContext();
+  const { data: cohorts, isPending, error } = useDesigns(trial.id);
+  const [params, setParams] = useSearchParams();
+  if (isPending) return <Loading label="Loading the designs" />;
+  if (error) return <ErrorNotice error={error} title="The designs could not be loaded" />;
+  if (cohorts.length === 0) return <EmptyState>This trial has no cohort yet. A trial manager adds cohorts on the trial’s set-up.</EmptyState>;
+  const selected = cohorts.find((c) => c.id === params.get('cohort')) ?? cohorts[0];
+  const choose = (cohortId: string) => setParams({ cohort: cohortId });
+  const onTabKey = (event: KeyboardEvent<HTMLButtonElement>, index: number) => {
+    const step = event.key === 'ArrowRight' ? 1 : event.key === 'ArrowLeft' ? -1 : 0;
+    if (!step) return;
+    const next = cohorts[(index + step + cohorts.length) % cohorts.length];
+    choose(next.id);
+    document.getElementById(`cohort-tab-${next.id}`)?.focus();
+  };
+  return (
+    <div>
+      <PageHeader title="Design studio" subtitle="Compare exact single- and two-stage designs, lock one with your signature, amend it with a reason." />
+      {cohorts.length > 1 && (
+        <div role="tablist" aria-label="Cohorts" className="mb-4 flex flex-wrap gap-1 border-b border-ink-200">
+          {cohorts.map((cohort, index) => (
+            <button
+              key={cohort.id}
+              id={`cohort-tab-${cohort.id}`}
+              type="button"
+              role="tab"
+              aria-selected={cohort.id === selected.id}
+              aria-controls="cohort-panel"
+              tabIndex={cohort.id === selected.id ? 0 : -1}
+              onClick={() => choose(cohort.id)}
+              onKeyDown={(event) => onTabKey(event, index)}
+              className={`-mb-px flex items-center gap-2 border-b-2 px-3 py-2 text-sm ${cohort.id === selected.id ? 'border-brass-500 font-semibold text-ink-950' : 'border-transparent text-ink-500 hover:text-ink-900'}`}
+            >
+              <span className="font-mono text-xs">{cohort.code}</span> {cohort.name}
+              <StatusTag status={cohort.status} />
+            </button>
+          ))}
+        </div>
+      )}
+      <div id="cohort-panel" role={cohorts.length > 1 ? 'tabpanel' : undefined} aria-labelledby={cohorts.length > 1 ? `cohort-tab-${selected.id}` : undefined}>
+        <Formik key={selected.id} initialValues={initialValues(params, selected.versions[0])} validationSchema={designFormSchema} onSubmit={() => undefined}>
+          <CohortWorkspace trial={trial} cohort={selected} />
+        </Formik>
+      </div>
+    </div>
+  );
+}
+
+const SETTING_KEYS = ['p0', 'p1', 'alpha', 'beta', 'nmax'] as const;
+const sameSettings = (values: StudioValues, settings: DesignSettings) => SETTING_KEYS.every((key) => values[key] === settings[key]);
+
+function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesigns }) {
+  const [params, setParams] = useSearchParams();
+  const formik = useFormikContext<StudioValues>();
+  const [chooseProblem, setChooseProblem] = useState<string | null>(null);
+  const isStatistician = trial.myRoles.includes('statistician');
+  const isAdmin = trial.myRoles.includes('admin');
+  const current = cohort.versions[0];
+  const finished = cohort.status === 'stopped' || cohort.status === 'completed';
+  const canSign = isStatistician && !finished;
+  const kind: SignatureKind = !current ? 'lock' : cohort.enrolled > 0 ? 'amendment' : 'revision';
+  const settings = isStatistician ? comparedSettings(params) : null;
+  const candidates = useDesignCandidates(trial.id, settings);
+  const compare = (params.get('compare') ?? '').split(',').filter(Boolean);
+  const signing = candidates.data && params.get('sign') ? candidateList(candidates.data).find((c) => c.key === params.get('sign')) : undefined;
+
+  const update = (change: (next: URLSearchParams) => void) =>
+    setParams(
+      (previous) => {
+        const next = new URLSearchParams(previous);
+        next.set('cohort', cohort.id);
+        change(next);
+        return next;
+      },
+      { replace: true },
+    );
+
+  const onChoose = async (candidate: CandidateDesign) => {
+    setChooseProblem(null);
+    await formik.setTouched(Object.fromEntries(Object.keys(formik.values).map((key) => [key, true])));
+    const errors = await formik.validateForm();
+    if (Object.keys(errors).length > 0) {
+      setChooseProblem('Complete the design settings and protocol settings above before signing.');
+      return;
+    }
+    if (!candidates.data || !sameSettings(formik.values, candidates.data.settings)) {
+      setChooseProblem('The settings changed since the comparison: compare designs again before signing.');
+      return;
+    }
+    update((next) => {
+      withValues(next, formik.values).forEach((value, key) => next.set(key, value));
+      next.set('sign', candidate.key);
+    });
+  };
+
+  const chooseLabel = kind === 'lock' ? 'Lock…' : kind === 'amendment' ? 'Amend to this…' : 'Sign as new version…';
+  const differentUser = params.get('signInError') === 'different-user';
+
+  return (
+    <div className="grid gap-4">
+      {differentUser && (
+        <ErrorNotice
+          title="Signature not made"
+          error={new Error('The fresh sign-in was made by a different account. A signature must come from the person signed in to Orrery.')}
+        />
+      )}
+      <div className="grid gap-4 lg:grid-cols-5">
+        {isStatistician && !finished && (
+          <Panel title={current ? 'New version of the design' : 'Design settings'} className="lg:col-span-3">
+            <DesignForm
+              computing={candidates.isFetching}
+              onCompare={(values) =>
+                update((next) => {
+                  withValues(next, values).forEach((value, key) => next.set(key, value));
+                  next.set('run', '1');
+                  next.delete('sign');
+                })
+              }
+            />
+          </Panel>
+        )}
+        <Panel title={`Cohort ${cohort.code} status`} className={isStatistician && !finished ? 'lg:col-span-2' : 'lg:col-span-5'}>
+          <CohortStatusPanel trialId={trial.id} cohort={cohort} isStatistician={isStatistician} isAdmin={isAdmin} />
+        </Panel>
+      </div>
+
+      <Panel title="Design in force">
+        {current ? <LockedDesign cohort={cohort} design={current} /> : <EmptyState>No design is locked for this cohort yet.</EmptyState>}
+      </Panel>
+
+      {isStatistician && settings && (
+        <Panel
+          title="Candidate designs"
+          actions={candidates.isFetching ? <Spinner label="Searching every design up to nmax" /> : undefined}
+        >
+          {candidates.error ? (
+            <ErrorNotice error={candidates.error} title="No designs for these settings" />
+          ) : !candidates.data ? (
+            <Loading label="Searching every design up to nmax" />
+          ) : (
+            <div className={candidates.isFetching ? 'opacity-60' : undefined} aria-busy={candidates.isFetching}>
+              {chooseProblem && <ErrorNotice error={new Error(chooseProblem)} title="Not ready to sign" />}
+              {kind === 'amendment' && canSign && (
+                <p className="mb-3 text-sm text-ink-600">
+                  <span aria-hidden>ⓘ </span>
+                  {cohort.enrolled} patient{cohort.enrolled === 1 ? ' is' : 's are'} enrolled: a change now is an amendment, with a reason and
+                  a new signature. The earlier versions stay on record.
+                </p>
+              )}
+              <CandidatesPanel
+                candidates={candidates.data}
+                compare={compare}
+                onCompareChange={(keys) => update((next) => (keys.length ? next.set('compare', keys.join(',')) : next.delete('compare')))}
+                onChoose={canSign ? (candidate) => void onChoose(candidate) : undefined}
+                chooseLabel={chooseLabel}
+              />
+            </div>
+          )}
+        </Panel>
+      )}
+
+      <Panel title="Version history">
+        {cohort.versions.length === 0 ? <EmptyState>No signed version yet.</EmptyState> : <VersionHistory versions={cohort.versions} />}
+      </Panel>
+
+      <Cautions />
+
+      {signing && canSign && candidates.data && (
+        <SignDialog
+          trialId={trial.id}
+          trialCode={trial.code}
+          cohort={cohort}
+          candidate={signing}
+          settings={candidates.data.settings}
+          values={formik.values}
+          kind={kind}
+          currentVersion={current?.version ?? 0}
+          returnTo={`${window.location.pathname}${window.location.search}`}
+          onClose={() => update((next) => next.delete('sign'))}
+          onSigned={() => update((next) => next.delete('sign'))}
+        />
+      )}
+    </div>
+  );
+}
