@@ -6,7 +6,8 @@ import multer from 'multer';
 import type { RequestHandler, Response } from 'express';
 import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
 import { AppError, InputError } from '../http/errors.js';
-import { addAssessment, correctAssessment, listForPatient, needsAttention, removeAssessment } from './assessments.service.js';
+import { registerPatientWriteHook } from '../patients/patient-hooks.js';
+import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';
 import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
@@ -14,6 +15,12 @@ const WRITERS: Role[] = ['coordinator', 'investigator'];
 const BASE = '/api/trials/:trialId/patients/:patientId/assessments';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
+
+// An enrolment or an entered outcome re-derives too, so a disagreement is flagged the moment it appears.
+registerPatientWriteHook(async (trx, write) => {
+  if (write.action === 'outcome_attested') return;
+  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
+});
 
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: ASSESSMENT_IMPORT_MAX_BYTES, files: 1, fields: 10, parts: 12 } });
 

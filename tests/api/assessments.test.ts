@@ -183,6 +183,32 @@ describe('entered outcomes against the derivation', () => {
   });
 });
 
+describe('outcomes entered through the patient record', () => {
+  it('when an entered outcome disagrees with the assessments, then the patient record carries the flag and the derivation', async () => {
+    const patient = await enrolOne(stack.db, trial, { enrolledOn: ENROLLED });
+    await cora.post(url(patient.id), { date: day(56), response: 'PR' });
+    await cora.post(url(patient.id), { date: day(112), response: 'SD' });
+    const entered = await cora.patch(`/api/trials/${trial.trialId}/patients/${patient.id}`, {
+      version: 1,
+      outcome: 'responder',
+      bestOverallResponse: 'PR',
+      responseAssessedOn: day(56),
+      evaluable: true,
+      notEvaluableReason: null,
+    });
+    expect(entered.status).toBe(200);
+    const record = await sam.get(`/api/trials/${trial.trialId}/patients/${patient.id}`);
+    expect(record.body.patient).toMatchObject({
+      outcome: 'responder',
+      derivedBestOverallResponse: 'SD',
+      derivedResponder: false,
+      outcomeFlag: 'disagrees_with_derivation',
+      derivation: expect.objectContaining({ bestOverallResponse: 'SD', explanation: expect.any(Array) }),
+    });
+    expect(await stack.db('audit_log').where({ entity_id: patient.id, action: 'flagged' })).toHaveLength(1);
+  });
+});
+
 describe('derived outcomes', () => {
   let derivedTrial: TrialFixture;
   beforeAll(async () => {
