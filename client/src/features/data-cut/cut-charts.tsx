@@ -33,7 +33,8 @@ const pct = (v: number) => `${(v * 100).toFixed(1)}%`;
 export function BoundaryChart({ cohort }: { cohort: CohortAnalysis }) {
   const design = cohort.design;
   if (!design) return null;
-  const futility = cohort.boundaries.filter((b) => b.futility !== null).map((b) => ({ x: b.evaluable, y: b.futility as number }));
+  // NaN leaves a gap: the futility line exists only where the negative outcome can already be settled.
+  const futility = cohort.boundaries.map((b) => ({ x: b.evaluable, y: b.futility ?? Number.NaN }));
   const success = cohort.boundaries.map((b) => ({ x: b.evaluable, y: b.success }));
   const last = cohort.path.at(-1);
   const data: ChartData<'scatter'> = {
