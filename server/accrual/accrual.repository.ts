@@ -2,12 +2,9 @@
  * Enrolment counts for the Accrual page, the Portfolio and the weekly digest. Every query
  * aggregates in PostgreSQL (GROUP BY, count … filter): no patient row ever reaches Node.
  */
-import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { RATE_WINDOW_DAYS, RANGE_MONTHS } from './projection.js';
 import { addDays, addMonths, firstOfMonth, monthOf } from './calendar.js';
-
-type Queryable = Db | Knex.Transaction;
 
 /** A cohort's patients counted every way the rules need; "pending" and "responders" count evaluable patients only. */
 export type CohortTally = {
@@ -50,7 +47,7 @@ export const emptyTally = (cohortId: string): CohortTally => ({
   lastWeekEnrolled: 0,
 });
 
-export async function cohortTallies(db: Queryable, cohortIds: string[], today: string): Promise<Map<string, CohortTally>> {
+export async function cohortTallies(db: Db, cohortIds: string[], today: string): Promise<Map<string, CohortTally>> {
   if (cohortIds.length === 0) return new Map();
   const windowFrom = addDays(today, -(RATE_WINDOW_DAYS - 1));
   const weekFrom = addDays(today, -6);
@@ -99,7 +96,7 @@ export async function cohortTallies(db: Queryable, cohortIds: string[], today: s
 }
 
 /** Enrolments per cohort and calendar month over the months the projection range looks at. */
-export async function recentMonthCounts(db: Queryable, cohortIds: string[], today: string): Promise<MonthCount[]> {
+export async function recentMonthCounts(db: Db, cohortIds: string[], today: string): Promise<MonthCount[]> {
   if (cohortIds.length === 0) return [];
   const from = firstOfMonth(addMonths(monthOf(today), -RANGE_MONTHS));
   const rows = await db('patients')
@@ -123,7 +120,7 @@ export async function recentMonthCounts(db: Queryable, cohortIds: string[], toda
 
 export type AccrualSettings = { inactivityWarningWeeks: number };
 
-export async function accrualSettings(db: Queryable, trialId: string): Promise<AccrualSettings | undefined> {
+export async function accrualSettings(db: Db, trialId: string): Promise<AccrualSettings | undefined> {
   const row = await db('trials').where({ id: trialId }).first('inactivity_warning_weeks');
   return row ? { inactivityWarningWeeks: row.inactivity_warning_weeks } : undefined;
 }
@@ -144,7 +141,7 @@ export type SiteTally = {
 };
 
 /** Every site of the trial (listed or with patients) with its enrolment counts. */
-export async function siteTallies(db: Queryable, trialId: string, today: string): Promise<SiteTally[]> {
+export async function siteTallies(db: Db, trialId: string, today: string): Promise<SiteTally[]> {
   const { rows } = await db.raw(
     `with counts as (
        select site_id,
@@ -183,7 +180,7 @@ export async function siteTallies(db: Queryable, trialId: string, today: string)
 export type PeriodCount = { siteId: string; period: string; enrolled: number };
 
 /** Enrolments per site and calendar month ('YYYY-MM'). */
-export async function monthlyBySite(db: Queryable, trialId: string, today: string): Promise<PeriodCount[]> {
+export async function monthlyBySite(db: Db, trialId: string, today: string): Promise<PeriodCount[]> {
   const rows = await db('patients')
     .where({ trial_id: trialId })
     .where('enrolled_on', '<=', today)
@@ -193,7 +190,7 @@ export async function monthlyBySite(db: Queryable, trialId: string, today: strin
 }
 
 /** Enrolments per ISO week ('YYYY-Www', the year of the week's Thursday), all sites together. */
-export async function weeklyCounts(db: Queryable, trialId: string, today: string): Promise<Map<string, number>> {
+export async function weeklyCounts(db: Db, trialId: string, today: string): Promise<Map<string, number>> {
   const rows = await db('patients')
     .where({ trial_id: trialId })
     .where('enrolled_on', '<=', today)

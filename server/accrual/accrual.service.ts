@@ -5,7 +5,6 @@
  * are no response figures here, so every role of the trial reads the same kind of content
  * (site roles see their own sites' rows).
  */
-import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
 import { findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
@@ -26,8 +25,6 @@ import {
 import { daysBetween, firstOfMonth } from './calendar.js';
 import { projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
 import { cumulativeSeries, type Plan, type SeriesPoint } from './timeline.js';
-
-type Queryable = Db | Knex.Transaction;
 
 /** A cohort's counts under its protocol's analysis population (see server/evaluation/counting.ts). */
 export type CohortCounts = {
@@ -186,7 +183,7 @@ function timelineStart(trial: Trial, months: string[]): string | null {
 }
 
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
-export async function trialAccrual(db: Queryable, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
+export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
   const { today } = options;
   const [trial, settings] = await Promise.all([findTrial(db, trialId), accrualSettings(db, trialId)]);
   if (!trial || !settings) throw new NotFoundError('The trial');

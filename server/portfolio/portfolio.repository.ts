@@ -3,10 +3,7 @@
  * still waiting for review, and whether a cut was released to the sponsor. A cut without a
  * cohort covers every cohort of its trial. One aggregate query for all cohorts at once.
  */
-import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-
-type Queryable = Db | Knex.Transaction;
 
 export type CommitteeState = {
   cohortId: string;
@@ -17,7 +14,7 @@ export type CommitteeState = {
   lastRecommendation: { decision: string; on: string } | null;
 };
 
-export async function committeeStates(db: Queryable, cohortIds: string[]): Promise<Map<string, CommitteeState>> {
+export async function committeeStates(db: Db, cohortIds: string[]): Promise<Map<string, CommitteeState>> {
   if (cohortIds.length === 0) return new Map();
   const { rows } = await db.raw(
     `with cuts as (
@@ -62,7 +59,7 @@ export async function committeeStates(db: Queryable, cohortIds: string[]): Promi
 export type SponsorRecipient = { userId: string; email: string; name: string | null; trialIds: string[] };
 
 /** Everyone holding an active sponsor membership, with the trials they sponsor. */
-export async function sponsorRecipients(db: Queryable): Promise<SponsorRecipient[]> {
+export async function sponsorRecipients(db: Db): Promise<SponsorRecipient[]> {
   const rows = await db('memberships as m')
     .join('users as u', 'u.id', 'm.user_id')
     .where({ 'm.role': 'sponsor', 'm.status': 'active' })

@@ -8,7 +8,6 @@
  * see response or a data cut of the cohort was released to the sponsor; otherwise the keys are
  * left out of the row entirely and `responseFiguresHidden` says why.
  */
-import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import type { Role } from '../http/routes.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
@@ -20,8 +19,6 @@ import { committeeStates, type CommitteeState } from './portfolio.repository.js'
 import { nextMilestone, type Milestone } from './milestone.js';
 import { STATUS_WORDS } from './words.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
-
-type Queryable = Db | Knex.Transaction;
 
 export type Progress = { counted: number; target: number; fraction: number };
 
@@ -101,7 +98,7 @@ function decisionWords(decision: string): string {
 
 /** One row per cohort; `sponsorViewAlways` renders every row as a sponsor sees it (the digest). */
 export async function portfolioRows(
-  db: Queryable,
+  db: Db,
   trials: TrialForUser[],
   options: { today: string; sponsorViewAlways?: boolean },
 ): Promise<PortfolioRow[]> {
@@ -172,8 +169,8 @@ export async function portfolioRows(
   });
 }
 
-export async function portfolioFor(db: Queryable, userId: string, filter: PortfolioFilter, today: string): Promise<Portfolio> {
-  const trials = await listTrialsForUser(db as Db, userId);
+export async function portfolioFor(db: Db, userId: string, filter: PortfolioFilter, today: string): Promise<Portfolio> {
+  const trials = await listTrialsForUser(db, userId);
   const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
   const wanted = filter.indication?.toLowerCase();
   const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;
