@@ -42,6 +42,12 @@ export function toAppError(error: unknown): AppError | undefined {
 }
 
 export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
+  // A failure after the answer went out (a session touch as the server shuts down): nothing left to tell the client.
+  if (res.headersSent) {
+    req.log?.warn({ err: (error as Error)?.message }, 'error after the response was sent');
+    if (!res.writableEnded) res.destroy();
+    return;
+  }
   const known = toAppError(error);
   if (!known) {
     req.log?.error({ err: error }, 'unhandled error');
