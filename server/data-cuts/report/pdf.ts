@@ -26,6 +26,8 @@ const RULE = '#c9ccd3';
 const PAGE_BOTTOM = 780;
 const LEFT = 50;
 const WIDTH = 495;
+/** A large trial's issues would fill dozens of pages; the rest are in the export. */
+const ISSUES_LISTED = 200;
 
 /** The standard PDF fonts speak WinAnsi only: spell out the symbols they lack. */
 export function pdfText(text: string): string {
@@ -297,7 +299,12 @@ export async function renderCutReport(input: ReportInput): Promise<Buffer> {
 
   heading(doc, `Open data issues at the cut (${analysis.openIssues.length})`);
   if (analysis.openIssues.length === 0) paragraph(doc, 'None.');
-  else table(doc, [['Study ID', 'Site', 'Cohort', 'Issue', 'Detail'], ...analysis.openIssues.map((i) => [i.studyId, i.siteCode, i.cohortCode, i.issue.replace(/_/g, ' '), i.detail])], [1, 0.7, 0.8, 1.3, 2.5]);
+  else {
+    const listed = analysis.openIssues.slice(0, ISSUES_LISTED);
+    table(doc, [['Study ID', 'Site', 'Cohort', 'Issue', 'Detail'], ...listed.map((i) => [i.studyId, i.siteCode, i.cohortCode, i.issue.replace(/_/g, ' '), i.detail])], [1, 0.7, 0.8, 1.3, 2.5]);
+    const rest = analysis.openIssues.length - listed.length;
+    if (rest > 0) paragraph(doc, `... and ${rest} more: every issue is in the analysis and in the patients export of this cut.`, { color: MUTED });
+  }
 
   heading(doc, 'Cautions');
   for (const caution of analysis.cautions) paragraph(doc, `- ${caution}`);
