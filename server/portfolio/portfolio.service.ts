@@ -6,7 +6,9 @@
  * Sponsors (users whose only role on a trial is sponsor) get aggregate counts. Response figures
  * (responders, known outcomes, response rate) reach them only where the design lets the sponsor
  * see response or a data cut of the cohort was released to the sponsor; otherwise the keys are
- * left out of the row entirely and `responseFiguresHidden` says why.
+ * left out of the row entirely and `responseFiguresHidden` says why. Site staff (coordinators and
+ * investigators without a trial-wide role) follow the same rule: their scope is their own
+ * sites, so trial-wide response figures are theirs only once released.
  */
 import type { Db } from '../db/knex.js';
 import type { Role } from '../http/routes.js';
@@ -31,8 +33,8 @@ export type PortfolioRow = {
   indication: string;
   sponsorName: string | null;
   myRoles: Role[];
-  /** 'sponsor' when the user's only role on the trial is sponsor. */
-  view: 'full' | 'sponsor';
+  /** 'sponsor' when the user's only role on the trial is sponsor; 'site' for site staff without a trial-wide role. */
+  view: RowView;
   cohortId: string;
   cohortCode: string;
   cohortName: string;
@@ -66,19 +68,29 @@ export type Portfolio = {
   indications: string[];
 };
 
-export const isSponsorView = (roles: readonly Role[]) => roles.length > 0 && roles.every((role) => role === 'sponsor');
+export type RowView = 'full' | 'sponsor' | 'site';
+
+const TRIAL_WIDE_ROLES: readonly Role[] = ['admin', 'statistician', 'monitor'];
+
+/** How a user with these roles on a trial sees its rows. */
+export function viewFor(roles: readonly Role[]): RowView {
+  if (roles.some((role) => TRIAL_WIDE_ROLES.includes(role))) return 'full';
+  return roles.every((role) => role === 'sponsor') ? 'sponsor' : 'site';
+}
+
+const HIDDEN_REASON: Record<Exclude<RowView, 'full'>, string> = {
+  sponsor: 'Response figures are shown to sponsors only when the protocol allows it or the statistician releases a data cut.',
+  site: 'Trial-wide response figures are shown to site staff only when the protocol allows it or the statistician releases a data cut; your own patients are on the Patients page.',
+};
 
 /** Whether response figures may be shown, and if not, why. */
 export function responseVisibility(
-  sponsorView: boolean,
+  view: RowView,
   design: Pick<LockedDesign, 'sponsorSeesResponse'> | undefined,
   committee: Pick<CommitteeState, 'releasedToSponsorAt'> | undefined,
 ): { visible: true } | { visible: false; reason: string } {
-  if (!sponsorView || design?.sponsorSeesResponse || committee?.releasedToSponsorAt) return { visible: true };
-  return {
-    visible: false,
-    reason: 'Response figures are shown to sponsors only when the protocol allows it or the statistician releases a data cut.',
-  };
+  if (view === 'full' || design?.sponsorSeesResponse || committee?.releasedToSponsorAt) return { visible: true };
+  return { visible: false, reason: HIDDEN_REASON[view] };
 }
 
 function stageOf(status: Cohort['status'], design: LockedDesign | undefined, counted: number): PortfolioRow['stage'] {
@@ -106,14 +118,14 @@ export async function portfolioRows(
   const cohortIds = trials.flatMap((t) => t.cohorts.map((c) => c.id));
   const [designs, tallies, committee] = await Promise.all([currentDesigns(db, cohortIds), cohortTallies(db, cohortIds, today), committeeStates(db, cohortIds)]);
   return trials.flatMap((trial) => {
-    const sponsorView = options.sponsorViewAlways || isSponsorView(trial.myRoles);
+    const view = options.sponsorViewAlways ? 'sponsor' : viewFor(trial.myRoles);
     return trial.cohorts.map((cohort): PortfolioRow => {
       const design = designs.get(cohort.id);
       const tally = tallies.get(cohort.id) ?? emptyTally(cohort.id);
       const counts = countsUnder(tally, design?.analysisPopulation ?? 'all_enrolled');
       const state = committee.get(cohort.id);
       const stage = stageOf(cohort.status, design, counts.counted);
-      const visibility = responseVisibility(sponsorView, design, state);
+      const visibility = responseVisibility(view, design, state);
       const row: PortfolioRow = {
         trialId: trial.id,
         trialCode: trial.code,
@@ -121,7 +133,7 @@ export async function portfolioRows(
         indication: trial.indication,
         sponsorName: trial.sponsorName,
         myRoles: trial.myRoles,
-        view: sponsorView ? 'sponsor' : 'full',
+        view,
         cohortId: cohort.id,
         cohortCode: cohort.code,
         cohortName: cohort.name,

@@ -67,6 +67,16 @@ describe('GET /api/portfolio', () => {
     expect(row.responseFiguresHiddenReason).toMatch(/sponsor/);
   });
 
+  it('when site staff read a trial whose protocol hides response, then they get counts without trial-wide response figures', async () => {
+    for (const email of [DEMO.coordinator, DEMO.investigator]) {
+      const res = await (await stack.signIn(email)).get('/api/portfolio');
+      const row = res.body.portfolio.rows.find((r: Row) => r.trialId === hidden.trialId);
+      expect(RESPONSE_KEYS.filter((k) => keysDeep(row).has(k))).toEqual([]);
+      expect(row).toMatchObject({ view: 'site', responseFiguresHidden: true, enrolled: 8 });
+      expect(rowOf(res.body.portfolio.rows, open)).toMatchObject({ view: 'site', responders: 3 });
+    }
+  });
+
   it('when the protocol lets the sponsor see response, then the sponsor receives the response figures', async () => {
     const row = rowOf(await portfolio(sponsor), open);
     expect(row).toMatchObject({ view: 'sponsor', responseFiguresHidden: false, responders: 3, outcomesKnown: 5, responseRate: 0.6 });

@@ -13,7 +13,7 @@ export type PortfolioRow = {
   indication: string;
   sponsorName: string | null;
   myRoles: Role[];
-  view: 'full' | 'sponsor';
+  view: 'full' | 'sponsor' | 'site';
   cohortId: string;
   cohortCode: string;
   cohortName: string;

@@ -70,7 +70,7 @@ export function PortfolioPage() {
             {anyHidden && (
               <p className="mt-3 text-xs text-ink-500">
                 <span aria-hidden>⊘ </span>
-                Not released: response figures reach sponsors only when the protocol allows it or the statistician releases a data cut.
+                Not released: for your role on that trial, response figures appear only when the protocol allows it or the statistician releases a data cut.
               </p>
             )}
           </Panel>
