@@ -24,16 +24,15 @@ function labelOf(c: CandidateDesign) {
 type Props = {
   candidates: DesignCandidates;
   compare: string[];
-  onCompareChange: (keys: string[]) => void;
+  onToggleCompare: (key: string) => void;
   /** Absent when the user may not sign or the cohort can no longer change. */
   onChoose?: (candidate: CandidateDesign) => void;
   chooseLabel: string;
 };
 
-export function CandidatesPanel({ candidates, compare, onCompareChange, onChoose, chooseLabel }: Props) {
+export function CandidatesPanel({ candidates, compare, onToggleCompare, onChoose, chooseLabel }: Props) {
   const list = useMemo(() => candidateList(candidates), [candidates]);
   const { p0, p1 } = candidates.settings;
-  const toggle = (key: string) => onCompareChange(compare.includes(key) ? compare.filter((k) => k !== key) : [...compare, key].slice(-2));
   const columns = [
     column.accessor((c) => labelOf(c), {
       id: 'design',
@@ -54,7 +53,7 @@ export function CandidatesPanel({ candidates, compare, onCompareChange, onChoose
         const c = info.row.original;
         return (
           <label className="inline-flex items-center gap-1 text-xs">
-            <input type="checkbox" checked={compare.includes(c.key)} onChange={() => toggle(c.key)} className="h-4 w-4 accent-ink-900" />
+            <input type="checkbox" checked={compare.includes(c.key)} onChange={() => onToggleCompare(c.key)} className="h-4 w-4 accent-ink-900" />
             <span className="sr-only">Compare {labelOf(c)}</span>
           </label>
         );

@@ -28,8 +28,8 @@ export function DesignForm({ onCompare, computing }: { onCompare: (values: Studi
         <legend className="mb-2 text-xs font-semibold tracking-wide text-ink-500 uppercase">Hypotheses and errors</legend>
         <TextField name="p0" label="p0" type="number" step="0.01" min="0" max="1" hint="Null response rate" />
         <TextField name="p1" label="p1" type="number" step="0.01" min="0" max="1" hint="Target response rate" />
-        <TextField name="alpha" label="α" type="number" step="0.01" min="0" max="1" hint="Type I error" />
-        <TextField name="beta" label="β" type="number" step="0.01" min="0" max="1" hint="Type II error" />
+        <TextField name="alpha" label={<span className="normal-case">α</span>} type="number" step="0.01" min="0" max="1" hint="Type I error" />
+        <TextField name="beta" label={<span className="normal-case">β</span>} type="number" step="0.01" min="0" max="1" hint="Type II error" />
         <TextField name="nmax" label="nmax" type="number" step="1" min="2" max={NMAX_LIMIT} hint={`Largest size searched (≤ ${NMAX_LIMIT})`} />
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-2">

@@ -85,7 +85,8 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
   const kind: SignatureKind = !current ? 'lock' : cohort.enrolled > 0 ? 'amendment' : 'revision';
   const settings = isStatistician ? comparedSettings(params) : null;
   const candidates = useDesignCandidates(trial.id, settings);
-  const compare = (params.get('compare') ?? '').split(',').filter(Boolean);
+  // Held here for an immediate tick in the checkbox, and mirrored into the address for a shared link.
+  const [compare, setCompare] = useState(() => (params.get('compare') ?? '').split(',').filter(Boolean));
   const signing = candidates.data && params.get('sign') ? candidateList(candidates.data).find((c) => c.key === params.get('sign')) : undefined;
 
   const update = (change: (next: URLSearchParams) => void) =>
@@ -174,7 +175,11 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
               <CandidatesPanel
                 candidates={candidates.data}
                 compare={compare}
-                onCompareChange={(keys) => update((next) => (keys.length ? next.set('compare', keys.join(',')) : next.delete('compare')))}
+                onToggleCompare={(key) => {
+                  const chosen = compare.includes(key) ? compare.filter((k) => k !== key) : [...compare, key].slice(-2);
+                  setCompare(chosen);
+                  update((next) => (chosen.length > 0 ? next.set('compare', chosen.join(',')) : next.delete('compare')));
+                }}
                 onChoose={canSign ? (candidate) => void onChoose(candidate) : undefined}
                 chooseLabel={chooseLabel}
               />

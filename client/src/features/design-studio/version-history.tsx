@@ -10,7 +10,7 @@ const columns = [
   column.accessor('version', { header: 'Version', cell: (info) => <span className="font-semibold">v{info.getValue()}</span> }),
   column.accessor((v) => `${SELECTION_LABELS[v.selection]} ${ruleText(v)}`, { id: 'design', header: 'Design' }),
   column.accessor((v) => `${v.p0} / ${v.p1}`, { id: 'rates', header: 'p0 / p1' }),
-  column.accessor((v) => `${v.alpha} / ${v.beta}`, { id: 'errors', header: 'α / β' }),
+  column.accessor((v) => `${v.alpha} / ${v.beta}`, { id: 'errors', header: () => <span className="normal-case">α / β</span> }),
   column.accessor('typeIError', { header: 'Type I error', cell: (info) => decimal(info.getValue(), 4) }),
   column.accessor('power', { header: 'Power', cell: (info) => decimal(info.getValue(), 4) }),
   column.accessor((v) => v.amendmentReason ?? (v.version === 1 ? 'First lock' : '—'), { id: 'reason', header: 'Reason' }),
