@@ -174,7 +174,11 @@ export async function listAssessments(db: Conn, patientId: string): Promise<Asse
 export async function listAssessmentsOfTrial(db: Conn, trialId: string): Promise<Map<string, Assessment[]>> {
   const rows: AssessmentRow[] = await db('assessments').where({ trial_id: trialId }).orderBy(['patient_id', 'assessed_on']);
   const byPatient = new Map<string, Assessment[]>();
-  for (const row of rows) byPatient.set(row.patient_id, [...(byPatient.get(row.patient_id) ?? []), toAssessment(row)]);
+  for (const row of rows) {
+    const list = byPatient.get(row.patient_id) ?? [];
+    list.push(toAssessment(row));
+    byPatient.set(row.patient_id, list);
+  }
   return byPatient;
 }
 
@@ -224,38 +228,45 @@ export async function deleteAssessment(trx: Knex.Transaction, id: string, versio
 }
 
 export type DerivedColumns = {
+  patientId: string;
   derivedBestOverallResponse: TimepointResponse | null;
   derivedResponder: boolean | null;
   derivation: Derivation;
 };
 
-export async function storeDerivation(trx: Knex.Transaction, patientId: string, columns: DerivedColumns): Promise<void> {
-  await trx('patients')
-    .where({ id: patientId })
-    .update({
-      derived_best_overall_response: columns.derivedBestOverallResponse,
-      derived_responder: columns.derivedResponder,
-      derivation: JSON.stringify(columns.derivation),
-    });
+const CHUNK = 500;
+const chunks = <T>(rows: T[]) => Array.from({ length: Math.ceil(rows.length / CHUNK) }, (_, i) => rows.slice(i * CHUNK, (i + 1) * CHUNK));
+
+/** Stores derivations of many patients in a few statements (a trial-wide recompute touches thousands). */
+export async function storeDerivations(trx: Knex.Transaction, rows: DerivedColumns[]): Promise<void> {
+  for (const part of chunks(rows)) {
+    await trx.raw(
+      `update patients as p
+          set derived_best_overall_response = v.bor, derived_responder = v.responder, derivation = v.derivation
+         from (values ${part.map(() => '(?::uuid, ?::text, ?::boolean, ?::jsonb)').join(', ')}) as v(id, bor, responder, derivation)
+        where p.id = v.id`,
+      part.flatMap((r) => [r.patientId, r.derivedBestOverallResponse, r.derivedResponder, JSON.stringify(r.derivation)]),
+    );
+  }
 }
 
 export type OutcomeColumns = { outcome: Outcome; bestOverallResponse: TimepointResponse | null; responseAssessedOn: string | null };
 
-/** The outcome written by the derivation; bumps the version like any other change to the outcome. */
-export async function storeDerivedOutcome(trx: Knex.Transaction, patientId: string, outcome: OutcomeColumns): Promise<void> {
-  await trx('patients')
-    .where({ id: patientId })
-    .update({
-      outcome: outcome.outcome,
-      best_overall_response: outcome.bestOverallResponse,
-      response_assessed_on: outcome.responseAssessedOn,
-      version: trx.raw('version + 1'),
-      updated_at: trx.fn.now(),
-    });
+/** Outcomes written by the derivation; each bumps the version like any other change to an outcome. */
+export async function storeDerivedOutcomes(trx: Knex.Transaction, rows: Array<OutcomeColumns & { patientId: string }>): Promise<void> {
+  for (const part of chunks(rows)) {
+    await trx.raw(
+      `update patients as p
+          set outcome = v.outcome, best_overall_response = v.bor, response_assessed_on = v.assessed_on, version = p.version + 1, updated_at = now()
+         from (values ${part.map(() => '(?::uuid, ?::text, ?::text, ?::date)').join(', ')}) as v(id, outcome, bor, assessed_on)
+        where p.id = v.id`,
+      part.flatMap((r) => [r.patientId, r.outcome, r.bestOverallResponse, r.responseAssessedOn]),
+    );
+  }
 }
 
-export async function storeOutcomeFlag(trx: Knex.Transaction, patientId: string, flag: string | null): Promise<void> {
-  await trx('patients').where({ id: patientId }).update({ outcome_flag: flag });
+export async function storeOutcomeFlags(trx: Knex.Transaction, patientIds: string[], flag: string | null): Promise<void> {
+  for (const part of chunks(patientIds)) await trx('patients').whereIn('id', part).update({ outcome_flag: flag });
 }
 
 export type AttentionRow = {
@@ -264,15 +275,15 @@ export type AttentionRow = {
   siteId: string;
   siteCode: string;
   siteName: string;
-  outcome: Outcome;
-  bestOverallResponse: TimepointResponse | null;
   outcomeFlag: string | null;
-  derivation: Derivation | null;
+  attention: Derivation['attention'];
+  pendingConfirmation: Derivation['pendingConfirmation'];
 };
 
 /**
- * Patients that may need a look, from the stored derivation alone (no assessment is loaded): any
- * attention item, a response awaiting confirmation, or a flagged outcome.
+ * Patients that may need a look, from the stored derivation alone (no assessment is loaded, and
+ * only the two parts of the derivation needed here leave the database): any attention item, a
+ * response awaiting confirmation, or a flagged outcome.
  */
 export async function listAttentionCandidates(db: Conn, trialId: string, siteIds: string[] | 'all'): Promise<AttentionRow[]> {
   const query = db('patients as p')
@@ -285,7 +296,16 @@ export async function listAttentionCandidates(db: Conn, trialId: string, siteIds
         .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb)) > 0"),
     )
     .orderBy(['s.code', 'p.study_id'])
-    .select('p.id', 'p.study_id', 'p.site_id', 's.code as site_code', 's.name as site_name', 'p.outcome', 'p.best_overall_response', 'p.outcome_flag', 'p.derivation');
+    .select(
+      'p.id',
+      'p.study_id',
+      'p.site_id',
+      's.code as site_code',
+      's.name as site_name',
+      'p.outcome_flag',
+      db.raw("coalesce(p.derivation->'attention', '[]'::jsonb) as attention"),
+      db.raw("coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb) as pending_confirmation"),
+    );
   if (siteIds !== 'all') query.whereIn('p.site_id', siteIds);
   const rows: Array<{
     id: string;
@@ -293,10 +313,9 @@ export async function listAttentionCandidates(db: Conn, trialId: string, siteIds
     site_id: string;
     site_code: string;
     site_name: string;
-    outcome: Outcome;
-    best_overall_response: TimepointResponse | null;
     outcome_flag: string | null;
-    derivation: Derivation | null;
+    attention: Derivation['attention'];
+    pending_confirmation: Derivation['pendingConfirmation'];
   }> = await query;
   return rows.map((row) => ({
     patientId: row.id,
@@ -304,10 +323,9 @@ export async function listAttentionCandidates(db: Conn, trialId: string, siteIds
     siteId: row.site_id,
     siteCode: row.site_code,
     siteName: row.site_name,
-    outcome: row.outcome,
-    bestOverallResponse: row.best_overall_response,
     outcomeFlag: row.outcome_flag,
-    derivation: row.derivation,
+    attention: row.attention,
+    pendingConfirmation: row.pending_confirmation,
   }));
 }
 

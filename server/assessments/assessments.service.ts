@@ -24,9 +24,9 @@ import {
   listAttentionCandidates,
   listPatientsOfTrial,
   listTrialSites,
-  storeDerivation,
-  storeDerivedOutcome,
-  storeOutcomeFlag,
+  storeDerivations,
+  storeDerivedOutcomes,
+  storeOutcomeFlags,
   updateAssessment,
   type AssessedPatient,
   type Assessment,
@@ -73,39 +73,55 @@ function derivedOutcome(derivation: Derivation): OutcomeColumns {
   };
 }
 
-/** Stores one patient's derivation and applies it to the outcome or the flag, with audit rows. */
-async function applyDerivation(trx: Knex.Transaction, patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, actor: Actor): Promise<Derivation> {
-  const derivation = derivationFor(patient, assessments, settings, actor.today);
-  const audit = (action: string, before: unknown, after: unknown) =>
-    writeAudit(trx, { actorUserId: actor.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
+type Subject = { patient: AssessedPatient; assessments: Assessment[] };
 
-  const derivedBefore = { derivedBestOverallResponse: patient.derivedBestOverallResponse, derivedResponder: patient.derivedResponder };
-  const derivedAfter = { derivedBestOverallResponse: derivation.bestOverallResponse, derivedResponder: derivation.responder };
-  await storeDerivation(trx, patient.id, { ...derivedAfter, derivation });
-  if (derivedBefore.derivedBestOverallResponse !== derivedAfter.derivedBestOverallResponse || derivedBefore.derivedResponder !== derivedAfter.derivedResponder) {
-    await audit('derivation_changed', derivedBefore, derivedAfter);
-  }
-
-  let flag: string | null = null;
-  if (settings.outcomeSource === 'derived' && (assessments.length > 0 || actor.fromAssessmentChange)) {
-    const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
-    const after = derivedOutcome(derivation);
-    if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
-      await storeDerivedOutcome(trx, patient.id, after);
-      await audit('outcome_derived', before, after);
+/**
+ * Derives each patient and applies the results in a few statements: the stored derivation, the
+ * outcome where the protocol derives it, or the disagreement flag where outcomes are entered; every
+ * change to an outcome or a flag gets its audit row.
+ */
+async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, actor: Actor): Promise<Derivation[]> {
+  const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, actor.today));
+  await storeDerivations(
+    trx,
+    subjects.map(({ patient }, i) => ({
+      patientId: patient.id,
+      derivedBestOverallResponse: derivations[i].bestOverallResponse,
+      derivedResponder: derivations[i].responder,
+      derivation: derivations[i],
+    })),
+  );
+  const outcomes: Array<OutcomeColumns & { patientId: string }> = [];
+  const flags = new Map<string | null, string[]>();
+  const audits: Array<{ patient: AssessedPatient; action: string; before: unknown; after: unknown }> = [];
+  subjects.forEach(({ patient, assessments }, i) => {
+    const derivation = derivations[i];
+    let flag: string | null = null;
+    if (settings.outcomeSource === 'derived' && (assessments.length > 0 || actor.fromAssessmentChange)) {
+      const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
+      const after = derivedOutcome(derivation);
+      if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
+        outcomes.push({ patientId: patient.id, ...after });
+        audits.push({ patient, action: 'outcome_derived', before, after });
+      }
+    } else if (disagreesWithDerivation({ outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse }, derivation)) {
+      flag = DISAGREES_FLAG;
     }
-  } else if (disagreesWithDerivation({ outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse }, derivation)) {
-    flag = DISAGREES_FLAG;
+    if (flag !== patient.outcomeFlag) {
+      flags.set(flag, [...(flags.get(flag) ?? []), patient.id]);
+      const compared = {
+        entered: { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse },
+        derived: { responder: derivation.responder, bestOverallResponse: derivation.bestOverallResponse },
+      };
+      audits.push({ patient, action: flag ? 'flagged' : 'flag_cleared', before: { outcomeFlag: patient.outcomeFlag, ...compared }, after: { outcomeFlag: flag, ...compared } });
+    }
+  });
+  await storeDerivedOutcomes(trx, outcomes);
+  for (const [flag, ids] of flags) await storeOutcomeFlags(trx, ids, flag);
+  for (const { patient, action, before, after } of audits) {
+    await writeAudit(trx, { actorUserId: actor.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
   }
-  if (flag !== patient.outcomeFlag) {
-    await storeOutcomeFlag(trx, patient.id, flag);
-    const outcomes = {
-      entered: { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse },
-      derived: { responder: derivation.responder, bestOverallResponse: derivation.bestOverallResponse },
-    };
-    await audit(flag ? 'flagged' : 'flag_cleared', { outcomeFlag: patient.outcomeFlag, ...outcomes }, { outcomeFlag: flag, ...outcomes });
-  }
-  return derivation;
+  return derivations;
 }
 
 /**
@@ -118,7 +134,8 @@ export async function recomputeDerivation(trx: Knex.Transaction, patientId: stri
   if (!patient) throw new NotFoundError('The patient');
   const settings = await findTrialSettings(trx, patient.trialId);
   if (!settings) throw new NotFoundError('The trial');
-  return applyDerivation(trx, patient, await listAssessments(trx, patientId), settings, actor);
+  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, actor);
+  return derivation;
 }
 
 /** Re-derives every patient of a trial, for when the protocol's outcome settings change. */
@@ -127,7 +144,12 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
   if (!settings) throw new NotFoundError('The trial');
   const patients = await listPatientsOfTrial(trx, trialId);
   const assessments = await listAssessmentsOfTrial(trx, trialId);
-  for (const patient of patients) await applyDerivation(trx, patient, assessments.get(patient.id) ?? [], settings, actor);
+  await applyDerivations(
+    trx,
+    patients.map((patient) => ({ patient, assessments: assessments.get(patient.id) ?? [] })),
+    settings,
+    actor,
+  );
   return patients.length;
 }
 
@@ -305,9 +327,9 @@ export async function needsAttention(db: Db, access: TrialAccess, today = new Da
   const sites = await listTrialSites(db, access.trialId, scope);
   const bySite = new Map<string, NeedsAttentionSite>(sites.map((s) => [s.id, { siteId: s.id, siteCode: s.code, siteName: s.name, items: [] }]));
   for (const row of await listAttentionCandidates(db, access.trialId, scope)) {
-    const stored = row.derivation?.attention ?? [];
+    const stored = row.attention;
     const items: AttentionItem[] = stored.filter((a) => a.kind !== 'unconfirmed-past-window' && a.kind !== 'entered-disagrees');
-    for (const open of row.derivation?.pendingConfirmation ?? []) {
+    for (const open of row.pendingConfirmation) {
       if (open.upgrade || today <= open.dueBy) continue;
       items.push({
         kind: 'unconfirmed-past-window',

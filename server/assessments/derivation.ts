@@ -96,13 +96,35 @@ export type Derivation = {
   derivedOn: string;
 };
 
-/** '2026-03-03' → '3 March 2026', the way the explanation reads. */
-export function longDate(iso: string): string {
-  return format(parseISO(iso), 'd MMMM yyyy');
+/**
+ * Date parsing and formatting cost tens of microseconds each and a trial-wide recompute makes
+ * hundreds of thousands of calls over a few hundred distinct dates, so results are remembered.
+ */
+function remembered<T>(compute: (key: string) => T): (key: string) => T {
+  const cache = new Map<string, T>();
+  return (key) => {
+    let value = cache.get(key);
+    if (value === undefined) {
+      if (cache.size > 20_000) cache.clear();
+      value = compute(key);
+      cache.set(key, value);
+    }
+    return value;
+  };
 }
 
-const plusDays = (iso: string, days: number) => format(addDays(parseISO(iso), days), 'yyyy-MM-dd');
-const daysBetween = (from: string, to: string) => differenceInCalendarDays(parseISO(to), parseISO(from));
+const EPOCH = parseISO('2000-01-01');
+const dayNumber = remembered((iso) => differenceInCalendarDays(parseISO(iso), EPOCH));
+
+/** '2026-03-03' → '3 March 2026', the way the explanation reads. */
+export const longDate = remembered((iso) => format(parseISO(iso), 'd MMMM yyyy'));
+
+const shifted = remembered((key) => {
+  const [iso, days] = key.split('|');
+  return format(addDays(parseISO(iso), Number(days)), 'yyyy-MM-dd');
+});
+const plusDays = (iso: string, days: number) => shifted(`${iso}|${days}`);
+const daysBetween = (from: string, to: string) => dayNumber(to) - dayNumber(from);
 const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? '' : 's'}`;
 const outcomeWords = (responder: boolean) => (responder ? 'responder' : 'non-responder');
 
