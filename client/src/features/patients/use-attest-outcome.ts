@@ -1,0 +1,12 @@
+import { useMutation } from '@tanstack/react-query';
+import { api } from '../../lib/api';
+import type { Patient } from './types';
+import { useAfterPatientWrite } from './use-after-patient-write';
+
+export function useAttestOutcome(trialId: string, patientId: string) {
+  const after = useAfterPatientWrite(trialId);
+  return useMutation({
+    mutationFn: (version: number) => api<{ patient: Patient }>(`/api/trials/${trialId}/patients/${patientId}/attestation`, { method: 'POST', body: { version } }),
+    onSuccess: after,
+  });
+}
