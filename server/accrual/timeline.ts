@@ -39,9 +39,6 @@ function periods(granularity: Granularity, from: string, today: string): Array<{
   return out;
 }
 
-/** The period key an enrolment date falls in, matching the SQL that counts them. */
-export const periodOf = (granularity: Granularity, day: string) => (granularity === 'month' ? monthOf(day) : isoWeekOf(day));
-
 export function cumulativeSeries(input: {
   granularity: Granularity;
   from: string | null;
