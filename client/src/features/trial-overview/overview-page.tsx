@@ -1,7 +1,8 @@
-import { Cautions, Panel, StatusTag } from '../../components/ui';
+import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import { ROLE_LABELS } from '../../lib/roles';
 import { useTrialContext } from './use-trial-context';
+import { EvaluationPanel } from './evaluation-panel';
 
 export function OverviewPage() {
   const trial = useTrialContext();
@@ -34,7 +35,7 @@ export function OverviewPage() {
         </ul>
       </Panel>
       <div className="lg:col-span-3">
-        <Cautions />
+        <EvaluationPanel trialId={trial.id} />
       </div>
     </div>
   );
