@@ -11,11 +11,12 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
-import { buildClient, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
+import { buildClient, confirmIdentity, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
 import { globalNav, trialNav } from '../../client/src/app/features.js';
 import type { NavItem } from '../../client/src/app/feature.js';
 
 const ROLES = Object.keys(DEMO) as RoleName[];
+const FRESHNESS_SECONDS = 8;
 
 let stack: Stack;
 let browser: Browser;
@@ -24,7 +25,8 @@ let trial: TrialFixture;
 
 beforeAll(async () => {
   [clientDir, browser] = await Promise.all([buildClient(), launchChromium()]);
-  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000' });
+  // Signatures need a sign-in younger than 8 s here, so the journey's design lock asks for a fresh one.
+  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000', SIGNATURE_FRESHNESS_SECONDS: String(FRESHNESS_SECONDS) });
   trial = await createTrial(stack.db, { code: 'E2E-101', sites: ['RVX', 'HCX'] });
   await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0] });
   await enrolPatientsDirectly(stack.db, {
@@ -127,6 +129,9 @@ describe('each demo role in the browser', () => {
 });
 
 describe("the trial's journey through the pages", () => {
+  /** The trial the admin creates in the first step; each later step works on it. */
+  let journeyTrialId: string;
+
   it('when the admin sets up a new trial and invites its people, then they are members of it in the roles given', async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
@@ -149,6 +154,7 @@ describe("the trial's journey through the pages", () => {
       await page.getByRole('button', { name: 'Create trial' }).click();
       await page.waitForURL(/\/trials\/[0-9a-f-]{36}\/people$/);
       const trialId = /\/trials\/([0-9a-f-]{36})\//.exec(page.url())![1];
+      journeyTrialId = trialId;
 
       const invitations: Array<[RoleName, string | undefined]> = [
         ['statistician', undefined],
@@ -173,6 +179,60 @@ describe("the trial's journey through the pages", () => {
       for (const [role, site] of invitations) {
         expect(members).toContainEqual(expect.objectContaining({ role, email: DEMO[role], site_id: site ? trial.siteIds[site] : null }));
       }
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it('when the statistician compares designs and locks one, then the signature needs a fresh sign-in and the locked design is recorded with it', async () => {
+    expect(journeyTrialId).toBeDefined();
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.statistician);
+      const signedInAt = Date.now();
+      await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Design studio' }).click();
+      await page.getByLabel('p0', { exact: true }).fill('0.2');
+      await page.getByLabel('p1', { exact: true }).fill('0.4');
+      await page.getByLabel('α', { exact: true }).fill('0.05');
+      await page.getByLabel('β', { exact: true }).fill('0.2');
+      await page.getByLabel('Protocol reference').fill('E2E-PRT v1.0');
+      await page.getByRole('button', { name: 'Compare designs' }).click();
+      await page.getByRole('table', { name: 'Candidate designs' }).waitFor({ timeout: 30_000 });
+      await page.getByLabel('Compare Simon optimal').check();
+      await page.getByLabel('Compare Simon minimax').check();
+      await page.getByRole('region', { name: 'Two designs compared' }).waitFor();
+      await settle(page);
+      await screenshot(page, 'journey-3-design-studio');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+
+      // Let the sign-in age past the freshness a signature needs.
+      await page.waitForTimeout(Math.max(0, FRESHNESS_SECONDS * 1000 + 1000 - (Date.now() - signedInAt)));
+      await page.getByRole('button', { name: /^Lock…: Simon optimal/ }).click();
+      const dialog = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      await dialog.getByLabel('I sign with the meaning stated above.').check();
+      await screenshot(page, 'journey-4-sign-dialog');
+      await dialog.getByRole('button', { name: 'Sign', exact: true }).click();
+
+      await page.waitForURL(/\/interaction\//);
+      await page.getByText('Confirm it is you').waitFor();
+      await confirmIdentity(page, stack.url, DEMO.statistician);
+      const reopened = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      await reopened.getByLabel('I sign with the meaning stated above.').check();
+      await reopened.getByRole('button', { name: 'Sign', exact: true }).click();
+      await reopened.waitFor({ state: 'detached' });
+      await settle(page);
+      await screenshot(page, 'journey-5-design-locked');
+      expect(pageErrors).toEqual([]);
+
+      const cohort = await stack.db('cohorts').where({ trial_id: journeyTrialId }).first('id');
+      const design = await stack.db('design_versions').where({ cohort_id: cohort.id }).first();
+      expect(design).toMatchObject({ version: 1, selection: 'optimal', r1: 3, n1: 13, r: 12, n: 43 });
+      const signature = await stack.db('signatures').where({ id: design.signature_id }).first();
+      expect(signature.signer_email).toBe(DEMO.statistician);
+      expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThan(signedInAt + FRESHNESS_SECONDS * 1000);
     } finally {
       await context.close();
     }

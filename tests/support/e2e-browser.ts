@@ -73,15 +73,16 @@ export async function signInThroughPages(page: Page, appUrl: string, email: stri
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => url.href.startsWith(appUrl));
+  await page.waitForURL((url) => url.origin === new URL(appUrl).origin);
   await page.getByRole('navigation', { name: 'Main' }).waitFor();
 }
 
 /** Confirms identity again at the identity provider (before a signature), when the page sends us there. */
-export async function confirmIdentity(page: Page, appUrl: string, password = 'demo'): Promise<void> {
+export async function confirmIdentity(page: Page, appUrl: string, email: string, password = 'demo'): Promise<void> {
+  await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => url.href.startsWith(appUrl));
+  await page.waitForURL((url) => url.origin === new URL(appUrl).origin);
 }
 
 export type AxeViolation = { id: string; impact: string; help: string; nodes: string[] };
