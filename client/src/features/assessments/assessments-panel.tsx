@@ -119,7 +119,7 @@ export function AssessmentsPanel({ trialId, patientId }: { trialId: string; pati
         cell: (c) => {
           const step = c.row.original.step;
           return step ? (
-            <div className="grid gap-1">
+            <div className="grid justify-items-start gap-1">
               <Tag {...STEP_WORDS[step.role]} />
               <span className="text-xs text-ink-500">{step.note}</span>
             </div>
