@@ -5,7 +5,7 @@
 import { CategoryScale, Chart, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip, type ChartDataset } from 'chart.js';
 import { Line } from 'react-chartjs-2';
 import { format, parseISO } from 'date-fns';
-import type { SeriesPoint, SiteAccrual } from './get-accrual';
+import type { SeriesPoint, SiteRow } from './get-accrual';
 
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Legend, Tooltip);
 
@@ -44,7 +44,7 @@ function OverallChart({ points, granularity }: { points: SeriesPoint[]; granular
   );
 }
 
-function SitesChart({ sites }: { sites: SiteAccrual[] }) {
+function SitesChart({ sites }: { sites: SiteRow[] }) {
   const periods = sites[0]?.monthly.map((p) => p.period) ?? [];
   const datasets: ChartDataset<'line', (number | null)[]>[] = sites.flatMap((site, i) => {
     const color = INK[i % INK.length];
@@ -78,6 +78,6 @@ function SitesChart({ sites }: { sites: SiteAccrual[] }) {
   );
 }
 
-export default function AccrualCharts(props: { kind: 'overall'; points: SeriesPoint[]; granularity: 'month' | 'week' } | { kind: 'sites'; sites: SiteAccrual[] }) {
+export default function AccrualCharts(props: { kind: 'overall'; points: SeriesPoint[]; granularity: 'month' | 'week' } | { kind: 'sites'; sites: SiteRow[] }) {
   return props.kind === 'overall' ? <OverallChart points={props.points} granularity={props.granularity} /> : <SitesChart sites={props.sites} />;
 }

@@ -2,13 +2,13 @@ import { useMemo } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
-import type { SiteAccrual } from './get-accrual';
+import type { SiteRow } from './get-accrual';
 
-const column = createColumnHelper<SiteAccrual>();
+const column = createColumnHelper<SiteRow>();
 const figure = (value: number | null) => <span className="tabular-nums">{value ?? '—'}</span>;
 
 /** Per-site accrual: enrolled, evaluable, pending outcomes and days since the last enrolment. */
-export function SiteTable({ sites, warningWeeks }: { sites: SiteAccrual[]; warningWeeks: number }) {
+export function SiteTable({ sites, warningWeeks }: { sites: SiteRow[]; warningWeeks: number }) {
   const columns = useMemo(
     () => [
       column.accessor('code', {

@@ -1,50 +1,9 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import type { Role } from '../../lib/roles';
 import type { PortfolioFilter } from '../../../../server/portfolio/portfolio.schema';
+import type { Portfolio } from '../../../../server/portfolio/portfolio.service';
 
-export type Progress = { counted: number; target: number; fraction: number };
-export type Milestone = { kind: string; text: string; patientsToGo?: number; outcomesPending?: number; since?: string };
-
-export type PortfolioRow = {
-  trialId: string;
-  trialCode: string;
-  trialTitle: string;
-  indication: string;
-  sponsorName: string | null;
-  myRoles: Role[];
-  view: 'full' | 'sponsor' | 'site';
-  cohortId: string;
-  cohortCode: string;
-  cohortName: string;
-  cohortCount: number;
-  status: string;
-  statusWords: string;
-  stage: 1 | 2 | null;
-  stageWords: string;
-  design: { selection: string; n1: number | null; n: number; analysisPopulation: string } | null;
-  enrolled: number;
-  counted: number;
-  evaluable: number;
-  pendingOutcomes: number;
-  enrolledLastWeek: number;
-  sitesEnrolling: number;
-  lastEnrolledOn: string | null;
-  progress: { n1: Progress | null; n: Progress | null };
-  nextMilestone: Milestone;
-  lastRecommendation: { decision: string; words: string; on: string } | null;
-  committeeReviewPendingSince: string | null;
-  releasedToSponsorAt: string | null;
-  responseFiguresHidden: boolean;
-  responseFiguresHiddenReason?: string;
-  /** Present only where the user may see response figures. */
-  responders?: number;
-  outcomesKnown?: number;
-  responseRate?: number | null;
-  stage1Responders?: number;
-};
-
-export type Portfolio = { asOf: string; rows: PortfolioRow[]; indications: string[] };
+export type { PortfolioRow, Progress } from '../../../../server/portfolio/portfolio.service';
 
 const search = (filter: PortfolioFilter) => {
   const params = new URLSearchParams();
