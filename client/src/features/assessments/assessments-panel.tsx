@@ -69,7 +69,7 @@ function DerivationSummary({ view }: { view: AssessmentsView }) {
           <ul className="space-y-1 text-sm">
             {derivation.needed.map((sentence) => (
               <li key={sentence}>
-                <span aria-hidden>⧗ </span>
+                <span aria-hidden>→ </span>
                 {sentence}
               </li>
             ))}

@@ -2,13 +2,13 @@
 import type { AttentionKind, DerivationStep } from './types';
 
 export const STEP_WORDS: Record<DerivationStep['role'], { label: string; icon: string }> = {
-  'made-response': { label: 'Made the response', icon: '◆' },
+  'made-response': { label: 'Made the response', icon: '▸' },
   confirmed: { label: 'Confirmed it', icon: '✓' },
   supporting: { label: 'Within the response', icon: '·' },
   unconfirmed: { label: 'Not confirmed', icon: '✗' },
-  'awaiting-confirmation': { label: 'Awaits confirmation', icon: '⧗' },
+  'awaiting-confirmation': { label: 'Awaits confirmation', icon: '…' },
   stable: { label: 'Stable disease', icon: '=' },
-  'too-early-for-sd': { label: 'Too early for SD', icon: '⧖' },
+  'too-early-for-sd': { label: 'Too early for SD', icon: '‹' },
   progression: { label: 'Progression', icon: '▲' },
   'not-evaluable': { label: 'Not evaluable', icon: '?' },
   ignored: { label: 'After progression', icon: '–' },
@@ -16,15 +16,15 @@ export const STEP_WORDS: Record<DerivationStep['role'], { label: string; icon: s
 };
 
 export const ATTENTION_WORDS: Record<AttentionKind, { label: string; icon: string }> = {
-  'unconfirmed-past-window': { label: 'Confirmation overdue', icon: '⧗' },
-  'sd-before-minimum': { label: 'SD before the minimum', icon: '⧖' },
+  'unconfirmed-past-window': { label: 'Confirmation overdue', icon: '!' },
+  'sd-before-minimum': { label: 'SD before the minimum', icon: '‹' },
   'assessment-before-enrolment': { label: 'Dated before enrolment', icon: '⚠' },
   'gap-longer-than-schedule': { label: 'Gap longer than the schedule', icon: '↔' },
   'entered-disagrees': { label: 'Entered ≠ derived', icon: '⚑' },
 };
 
 export function responderWords(responder: boolean | null): { label: string; icon: string } {
-  if (responder === null) return { label: 'Pending', icon: '⧗' };
+  if (responder === null) return { label: 'Pending', icon: '…' };
   return responder ? { label: 'Responder', icon: '✓' } : { label: 'Non-responder', icon: '✗' };
 }
 
