@@ -8,12 +8,13 @@
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { startStack, type Stack } from '../support/stack.js';
+import { eventually, startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
 import { buildClient, confirmIdentity, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
 import { globalNav, trialNav } from '../../client/src/app/features.js';
 import type { NavItem } from '../../client/src/app/feature.js';
+import { IMPORT_COLUMNS } from '../../server/patients/patients.schema.js';
 
 const ROLES = Object.keys(DEMO) as RoleName[];
 const FRESHNESS_SECONDS = 8;
@@ -184,7 +185,7 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the statistician compares designs and locks one, then the signature needs a fresh sign-in and the locked design is recorded with it', async () => {
+  it('when the statistician compares designs and locks one, then the signature needs a fresh sign-in, the locked design is recorded with it and accrual opens', async () => {
     expect(journeyTrialId).toBeDefined();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
@@ -225,6 +226,11 @@ describe("the trial's journey through the pages", () => {
       await reopened.waitFor({ state: 'detached' });
       await settle(page);
       await screenshot(page, 'journey-5-design-locked');
+
+      await page.getByRole('button', { name: 'Open accrual' }).click();
+      const confirm = page.getByRole('group', { name: 'Confirm opening accrual' });
+      await confirm.getByRole('button', { name: 'Confirm' }).click();
+      await confirm.waitFor({ state: 'detached' });
       expect(pageErrors).toEqual([]);
 
       const cohort = await stack.db('cohorts').where({ trial_id: journeyTrialId }).first('id');
@@ -233,6 +239,61 @@ describe("the trial's journey through the pages", () => {
       const signature = await stack.db('signatures').where({ id: design.signature_id }).first();
       expect(signature.signer_email).toBe(DEMO.statistician);
       expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThan(signedInAt + FRESHNESS_SECONDS * 1000);
+      expect(await stack.db('cohorts').where({ id: cohort.id }).first('status')).toEqual({ status: 'enrolling_stage_1' });
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it('when the coordinator enrols the stage-1 cohort and records outcomes, one by the form and the rest by CSV import, then accrual pauses for the interim review', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    const problems: string[] = [];
+    try {
+      await signInThroughPages(page, stack.url, DEMO.coordinator);
+      await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Patients' }).click();
+      await page.getByRole('button', { name: 'Enrol a patient' }).click();
+      const enrol = page.getByRole('form', { name: 'Enrol a patient' });
+      await enrol.getByLabel('Study ID').fill('RVX-1');
+      await enrol.getByLabel('Enrolment date').fill('2026-09-01');
+      await enrol.getByRole('button', { name: 'Enrol' }).click();
+      const first = await eventually(() => stack.db('patients').where({ trial_id: journeyTrialId, study_id: 'RVX-1' }).first('id'));
+      await settle(page);
+      problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `patients: ${v.id}`));
+      await screenshot(page, 'journey-6-patients');
+
+      await page.goto(`${stack.url}/trials/${journeyTrialId}/patients/${first.id}`);
+      const outcome = page.getByRole('form', { name: 'Outcome of RVX-1' });
+      await outcome.getByLabel('Outcome', { exact: true }).selectOption('responder');
+      await outcome.getByLabel('Best overall response').selectOption('PR');
+      await outcome.getByLabel('Date of the response assessment').fill('2026-10-15');
+      await outcome.getByRole('button', { name: 'Save the outcome' }).click();
+      await outcome.getByRole('status').getByText('Outcome saved.').waitFor();
+      problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `patient: ${v.id}`));
+      await screenshot(page, 'journey-7-outcome-form');
+
+      // The other twelve of stage 1 (n1 = 13), with their outcomes, from the site's spreadsheet.
+      const rows = Array.from({ length: 12 }, (_, i) => {
+        const responder = i % 4 === 0;
+        return `RVX-${i + 2},RVX,MAIN,2026-09-${String(i + 2).padStart(2, '0')},${responder ? 'responder,PR' : 'non_responder,SD'},2026-10-20,yes,,`;
+      });
+      await page.goto(`${stack.url}/trials/${journeyTrialId}/patients/import`);
+      await page.getByLabel('CSV file').setInputFiles({ name: 'rvx-stage-1.csv', mimeType: 'text/csv', buffer: Buffer.from([IMPORT_COLUMNS.join(','), ...rows].join('\n') + '\n') });
+      await page.getByRole('button', { name: 'Check the file' }).click();
+      await page.getByRole('button', { name: 'Import 12 rows' }).click();
+      await page.getByText('3 · Imported').waitFor({ timeout: 30_000 });
+      await settle(page);
+      problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `import: ${v.id}`));
+      await screenshot(page, 'journey-8-import');
+      expect(problems).toEqual([]);
+      expect(pageErrors).toEqual([]);
+
+      const patients = await stack.db('patients').where({ trial_id: journeyTrialId }).select('outcome');
+      expect(patients).toHaveLength(13);
+      expect(patients.filter((p) => p.outcome === 'responder')).toHaveLength(4);
+      expect(await stack.db('cohorts').where({ trial_id: journeyTrialId }).first('status')).toEqual({ status: 'interim_review' });
     } finally {
       await context.close();
     }
