@@ -145,12 +145,18 @@ export function isEnrolling(cohorts: Cohort[], designs: Map<string, LockedDesign
   );
 }
 
+/** The part of a cohort's design that accrual and the Portfolio show: its targets. */
+export type DesignTargets = Pick<LockedDesign, 'selection' | 'n1' | 'n' | 'analysisPopulation'>;
+
+export const designTargets = (design: LockedDesign | undefined): DesignTargets | null =>
+  design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null;
+
 export type CohortAccrual = {
   cohortId: string;
   code: string;
   name: string;
   status: Cohort['status'];
-  design: { selection: LockedDesign['selection']; n1: number | null; n: number; analysisPopulation: AnalysisPopulation } | null;
+  design: DesignTargets | null;
   enrolled: number;
   counted: number;
   evaluable: number;
@@ -242,7 +248,7 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
       code: cohort.code,
       name: cohort.name,
       status: cohort.status,
-      design: design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null,
+      design: designTargets(design),
       enrolled: counts.enrolled,
       counted: counts.counted,
       evaluable: counts.evaluable,

@@ -3,16 +3,7 @@
  * Kept free of server-only imports: the client imports this file directly.
  */
 import { object, string, type InferType } from 'yup';
-
-export const COHORT_STATUSES = [
-  'draft',
-  'enrolling_stage_1',
-  'interim_review',
-  'enrolling_stage_2',
-  'final_analysis',
-  'completed',
-  'stopped',
-] as const;
+import { COHORT_STATUSES } from '../design-studio/design-studio.schema.js';
 
 export const portfolioFilterSchema = object({
   status: string().oneOf([...COHORT_STATUSES], 'Choose one of the listed statuses.').optional(),

@@ -16,7 +16,7 @@ import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/tri
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
 import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
 import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
-import { countsUnder } from '../accrual/accrual.service.js';
+import { countsUnder, designTargets, type DesignTargets } from '../accrual/accrual.service.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import { STATUS_WORDS } from './words.js';
@@ -43,7 +43,7 @@ export type PortfolioRow = {
   statusWords: string;
   stage: 1 | 2 | null;
   stageWords: string;
-  design: { selection: LockedDesign['selection']; n1: number | null; n: number; analysisPopulation: LockedDesign['analysisPopulation'] } | null;
+  design: DesignTargets | null;
   enrolled: number;
   counted: number;
   evaluable: number;
@@ -142,7 +142,7 @@ export async function portfolioRows(
         statusWords: STATUS_WORDS[cohort.status],
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
-        design: design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null,
+        design: designTargets(design),
         enrolled: counts.enrolled,
         counted: counts.counted,
         evaluable: counts.evaluable,
