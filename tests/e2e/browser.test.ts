@@ -298,4 +298,93 @@ describe("the trial's journey through the pages", () => {
       await context.close();
     }
   }, 120_000);
+
+  /** The interim data cut the statistician freezes; the committee reviews it. */
+  let cutId: string;
+
+  it('when the statistician freezes a data cut at the interim, then the cut page shows the frozen analysis', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.statistician);
+      await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Data cuts' }).click();
+      await page.getByRole('button', { name: 'Freeze a data cut' }).click();
+      await page.waitForURL(/\/data-cuts\/[0-9a-f-]{36}$/);
+      cutId = /\/data-cuts\/([0-9a-f-]{36})$/.exec(page.url())![1];
+      await settle(page);
+      await screenshot(page, 'journey-9-data-cut');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(pageErrors).toEqual([]);
+      expect(await stack.db('data_cuts').where({ id: cutId }).first('kind')).toEqual({ kind: 'interim' });
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it('when the monitor reviews the cut and signs "continue", then the signed recommendation is recorded', async () => {
+    expect(cutId).toBeDefined();
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.monitor);
+      await page.goto(`${stack.url}/trials/${journeyTrialId}/data-cuts/${cutId}/review`);
+      const form = page.getByRole('form', { name: 'Sign a recommendation' });
+      await form.getByLabel('Continue to stage 2').check();
+      await form.getByLabel('Rationale').fill('Four responders among thirteen: the futility rule is not met. Continue to stage 2 as planned.');
+      await settle(page);
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      await form.getByRole('button', { name: 'Sign the recommendation' }).click();
+      await form.waitFor({ state: 'detached' });
+      await settle(page);
+      await screenshot(page, 'journey-10-committee-review');
+      expect(pageErrors).toEqual([]);
+      const recommendation = await stack.db('recommendations').where({ data_cut_id: cutId }).first();
+      expect(recommendation).toMatchObject({ decision: 'continue' });
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it('when the statistician applies the decision, then accrual resumes for stage 2', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.statistician);
+      await page.goto(`${stack.url}/trials/${journeyTrialId}/data-cuts/${cutId}/review`);
+      const form = page.getByRole('form', { name: 'Apply the decision' });
+      await form.getByLabel('Decision').selectOption('resume_stage_2');
+      await form.getByLabel('Reason').fill('The committee recommends continuing; stage 2 opens as the protocol plans.');
+      await form.getByRole('button', { name: 'Apply the decision' }).click();
+      await eventually(async () => (await stack.db('cohorts').where({ trial_id: journeyTrialId }).first('status')).status === 'enrolling_stage_2', 20_000);
+      await settle(page);
+      await screenshot(page, 'journey-11-decision');
+      expect(pageErrors).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it('when the sponsor signs in, then Portfolio and Accrual show the trial', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const pageErrors = watchConsole(page);
+    try {
+      await signInThroughPages(page, stack.url, DEMO.sponsor);
+      await settle(page);
+      await page.getByRole('main').getByText('E2E-201').first().waitFor();
+      await screenshot(page, 'journey-12-portfolio');
+      await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Accrual' }).click();
+      await settle(page);
+      await screenshot(page, 'journey-13-accrual');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(pageErrors).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
 });
