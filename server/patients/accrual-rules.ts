@@ -12,7 +12,7 @@ import { currentDesign, type LockedDesign } from '../design-studio/current-desig
 import { assignStages, tally } from '../evaluation/counting.js';
 import { transitionCohort } from '../trials/cohort-status.js';
 import type { CohortStatus } from '../trials/trials.repository.js';
-import { countablePatients, currentStages, memberEmails, setStage, type TrialCohort } from './patients.repository.js';
+import { countablePatients, countCounting, currentStages, memberEmails, setStage, type TrialCohort } from './patients.repository.js';
 
 const STATUS_WORDS: Record<CohortStatus, string> = {
   draft: 'in draft (its design is not locked yet)',
@@ -41,29 +41,33 @@ export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
 
 /**
- * Re-derives stages and applies the pause after an enrolment or an outcome change, inside the
- * caller's transaction (the cohort row is locked by `transitionCohort`).
+ * Applies the accrual rules after an enrolment or an outcome change, inside the caller's
+ * transaction (the cohort row is locked by `transitionCohort`). Stages are re-derived only when an
+ * evaluability change can move them (evaluable population); otherwise a new patient's stage, set
+ * at enrolment, never changes.
  */
 export async function applyAccrualRules(
   trx: Knex.Transaction,
-  input: { trialId: string; trialCode: string; cohortId: string; actorUserId: string },
+  input: { trialId: string; trialCode: string; cohortId: string; actorUserId: string; evaluabilityChanged?: boolean },
 ): Promise<AccrualOutcome> {
   const design = await currentDesign(trx, input.cohortId);
-  const patients = (await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [];
   const n1 = design?.n1 ?? null;
   const population = design?.analysisPopulation ?? 'all_enrolled';
-  const stages = assignStages(patients, n1, population);
-  const stored = await currentStages(trx, input.cohortId);
-  const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
-  await setStage(trx, moved(1), 1);
-  await setStage(trx, moved(2), 2);
+  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) {
+    const patients = (await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [];
+    const stages = assignStages(patients, n1, population);
+    const stored = await currentStages(trx, input.cohortId);
+    const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
+    await setStage(trx, moved(1), 1);
+    await setStage(trx, moved(2), 2);
+  }
 
   const none = { paused: false, continuesAtRisk: false };
   if (!design || n1 === null || design.r1 === null) return none;
   const cohort = await trx('cohorts').where({ id: input.cohortId }).first('code', 'status');
   if (cohort.status !== 'enrolling_stage_1') return none;
-  const counts = tally(patients, n1, population);
-  if (counts.stage1.counted < n1) return none;
+  if ((await countCounting(trx, input.cohortId, population)) < n1) return none;
+  const counts = tally((await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [], n1, population);
 
   await transitionCohort(trx, {
     cohortId: input.cohortId,

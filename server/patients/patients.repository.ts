@@ -248,6 +248,14 @@ export async function countablePatients(db: Conn, cohortIds: string[]): Promise<
   return byCohort;
 }
 
+/** Patients of the cohort that count under the population (every one, or the evaluable ones). */
+export async function countCounting(db: Conn, cohortId: string, population: 'all_enrolled' | 'evaluable'): Promise<number> {
+  const query = db('patients').where({ cohort_id: cohortId });
+  if (population === 'evaluable') query.where({ evaluable: true });
+  const [{ count }] = await query.count({ count: '*' });
+  return Number(count);
+}
+
 export async function currentStages(trx: Knex.Transaction, cohortId: string): Promise<Map<string, number>> {
   const rows: Array<{ id: string; stage: number }> = await trx('patients').where({ cohort_id: cohortId }).select('id', 'stage');
   return new Map(rows.map((r) => [r.id, r.stage]));

@@ -15,7 +15,6 @@ import { parseBody } from '../http/validate.js';
 import { requireTrialAccess, requireUser, siteScope, type SessionUser } from '../http/routes.js';
 import { recordSignature, requireFreshAuthentication } from '../signatures/signatures.js';
 import { currentDesign } from '../design-studio/current-design.js';
-import { assignStages } from '../evaluation/counting.js';
 import {
   attestationSchema,
   enrolSchema,
@@ -28,7 +27,7 @@ import {
   type OutcomeInput,
 } from './patients.schema.js';
 import {
-  countablePatients,
+  countCounting,
   findPatient,
   findPatientByStudyId,
   insertPatient,
@@ -149,8 +148,8 @@ export async function enrolPatient(
     throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
   }
   const enrolmentSeq = await nextEnrolmentSeq(trx, cohort.id);
-  const existing = (await countablePatients(trx, [cohort.id])).get(cohort.id) ?? [];
-  const stage = assignStages([...existing, { id: 'new', enrolmentSeq, outcome: outcome.outcome, evaluable: outcome.evaluable }], design.n1, design.analysisPopulation).get('new') ?? 1;
+  // Stage 1 holds the first n1 counting patients; the newcomer is last in enrolment order.
+  const stage: 1 | 2 = design.n1 === null || (await countCounting(trx, cohort.id, design.analysisPopulation)) < design.n1 ? 1 : 2;
   const patientId = await insertPatient(trx, {
     trialId: actor.trialId,
     cohortId: cohort.id,
@@ -254,7 +253,13 @@ export async function recordOutcome(
     reason: input.reason ?? null,
   });
   const trialCode = options.trialCode ?? (await requireFacts(trx, actor.trialId)).code;
-  const accrual = await applyAccrualRules(trx, { trialId: actor.trialId, trialCode, cohortId: before.cohortId, actorUserId: actor.user.id });
+  const accrual = await applyAccrualRules(trx, {
+    trialId: actor.trialId,
+    trialCode,
+    cohortId: before.cohortId,
+    actorUserId: actor.user.id,
+    evaluabilityChanged: previous.evaluable !== next.evaluable,
+  });
   await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
   return { patient: (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
 }
