@@ -17,7 +17,6 @@ export type CohortTally = {
   stage1Evaluable: number;
   stage1Pending: number;
   stage1Responders: number;
-  sites: number;
   firstEnrolledOn: string | null;
   lastEnrolledOn: string | null;
   /** Enrolments in the rate window ending today (all, and evaluable only). */
@@ -39,7 +38,6 @@ export const emptyTally = (cohortId: string): CohortTally => ({
   stage1Evaluable: 0,
   stage1Pending: 0,
   stage1Responders: 0,
-  sites: 0,
   firstEnrolledOn: null,
   lastEnrolledOn: null,
   windowEnrolled: 0,
@@ -64,7 +62,6 @@ export async function cohortTallies(db: Db, cohortIds: string[], today: string):
       db.raw('count(*) filter (where stage = 1 and evaluable)::int as stage1_evaluable'),
       db.raw(`count(*) filter (where stage = 1 and evaluable and outcome = 'pending')::int as stage1_pending`),
       db.raw(`count(*) filter (where stage = 1 and evaluable and outcome = 'responder')::int as stage1_responders`),
-      db.raw('count(distinct site_id)::int as sites'),
       db.raw('min(enrolled_on) as first_enrolled_on'),
       db.raw('max(enrolled_on) as last_enrolled_on'),
       db.raw('count(*) filter (where enrolled_on between ? and ?)::int as window_enrolled', [windowFrom, today]),
@@ -84,7 +81,6 @@ export async function cohortTallies(db: Db, cohortIds: string[], today: string):
         stage1Evaluable: row.stage1_evaluable as number,
         stage1Pending: row.stage1_pending as number,
         stage1Responders: row.stage1_responders as number,
-        sites: row.sites as number,
         firstEnrolledOn: row.first_enrolled_on as string | null,
         lastEnrolledOn: row.last_enrolled_on as string | null,
         windowEnrolled: row.window_enrolled as number,

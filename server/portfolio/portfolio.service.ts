@@ -49,7 +49,6 @@ export type PortfolioRow = {
   evaluable: number;
   pendingOutcomes: number;
   enrolledLastWeek: number;
-  sitesEnrolling: number;
   lastEnrolledOn: string | null;
   progress: { n1: Progress | null; n: Progress | null };
   nextMilestone: Milestone;
@@ -148,7 +147,6 @@ export async function portfolioRows(
         evaluable: counts.evaluable,
         pendingOutcomes: counts.pending,
         enrolledLastWeek: counts.lastWeekEnrolled,
-        sitesEnrolling: tally.sites,
         lastEnrolledOn: tally.lastEnrolledOn,
         progress: { n1: progress(counts.counted, design?.n1), n: progress(counts.counted, design?.n) },
         nextMilestone: nextMilestone({
