@@ -34,9 +34,9 @@ export function signInPage(input: { uid: string; email?: string; error?: string;
      <p class="note">${escape(lead)}</p>
      <form method="post" action="/interaction/${escape(input.uid)}/login" autocomplete="on">
        <label for="email">E-mail</label>
-       <input id="email" name="email" type="email" required autofocus value="${escape(input.email ?? '')}">
+       <input id="email" name="email" type="email" required ${input.email ? '' : 'autofocus'} value="${escape(input.email ?? '')}">
        <label for="password">Password</label>
-       <input id="password" name="password" type="password" required>
+       <input id="password" name="password" type="password" required ${input.email ? 'autofocus' : ''}>
        ${input.error ? `<div class="error" role="alert">${escape(input.error)}</div>` : ''}
        <button type="submit">Sign in</button>
      </form>`,

@@ -37,7 +37,9 @@ export function authRoutes(client: OidcClient): RouteSpec[] {
         };
         req.session.login = login;
         await save(req);
-        const url = await client.authorizationUrl({ ...login, forceLogin: reauth });
+        // A signature confirms the person already signed in: offer their e-mail, ask only for the password.
+        const loginHint = reauth ? req.session.email : undefined;
+        const url = await client.authorizationUrl({ ...login, forceLogin: reauth, loginHint });
         res.redirect(url.href);
       },
     },

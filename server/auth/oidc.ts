@@ -7,7 +7,7 @@ import type { Config } from '../config.js';
 
 export type OidcClient = {
   redirectUri: string;
-  authorizationUrl: (input: { state: string; nonce: string; codeVerifier: string; forceLogin: boolean }) => Promise<URL>;
+  authorizationUrl: (input: { state: string; nonce: string; codeVerifier: string; forceLogin: boolean; loginHint?: string }) => Promise<URL>;
   exchange: (
     currentUrl: URL,
     checks: { state: string; nonce: string; codeVerifier: string },
@@ -34,7 +34,7 @@ export function createOidcClient(config: Config): OidcClient {
 
   return {
     redirectUri,
-    async authorizationUrl({ state, nonce, codeVerifier, forceLogin }) {
+    async authorizationUrl({ state, nonce, codeVerifier, forceLogin, loginHint }) {
       const parameters: Record<string, string> = {
         redirect_uri: redirectUri,
         scope: 'openid email profile',
@@ -47,6 +47,7 @@ export function createOidcClient(config: Config): OidcClient {
         parameters.prompt = 'login';
         parameters.max_age = '0';
       }
+      if (loginHint) parameters.login_hint = loginHint;
       return oidc.buildAuthorizationUrl(await configuration(), parameters);
     },
     async exchange(currentUrl, checks) {

@@ -5,6 +5,7 @@
  */
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
+import { recomputeDerivationsForTrial } from '../assessments/assessments.service.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import {
   countPatients,
@@ -30,6 +31,7 @@ import {
   type TrialCreateInput,
   type TrialUpdateInput,
 } from './trials.schema.js';
+
 
 type Actor = { id: string; email: string };
 
@@ -197,6 +199,8 @@ export async function updateProtocolSettings(db: Db, actor: Actor, trialId: stri
     const { reason, version: _version, ...settings } = input;
     await updateProtocolSettingsRow(trx, trialId, settings as TrialDetail['protocolSettings']);
     const after = (await findTrialDetail(trx, trialId)) as TrialDetail;
+    // The outcome rules changed: every stored derivation (and, when derived, outcome) follows now.
+    await recomputeDerivationsForTrial(trx, trialId, { actorUserId: actor.id });
     await writeAudit(trx, {
       actorUserId: actor.id,
       trialId,

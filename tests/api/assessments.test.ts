@@ -252,6 +252,29 @@ describe('derived outcomes', () => {
     expect(await stack.db('patients').where({ id: withoutAssessments.id }).first()).toMatchObject({ outcome: 'responder', best_overall_response: 'CR', version: 1 });
   });
 
+  it('when the statistician switches the protocol to derived outcomes, then the same request re-derives every patient', async () => {
+    const switched = await createTrial(stack.db);
+    const patient = await enrolOne(stack.db, switched, { enrolledOn: ENROLLED });
+    await addAssessmentsDirectly(stack.db, { trialId: switched.trialId, patientId: patient.id, assessments: [{ date: day(56), response: 'PR' }, { date: day(112), response: 'PR' }] });
+    const response = await sam.patch(`/api/trials/${switched.trialId}/protocol-settings`, {
+      version: 1,
+      outcomeSource: 'derived',
+      confirmationRequired: true,
+      confirmationMinDays: 28,
+      sdMinDays: 42,
+      neBetweenResponses: 'ignore',
+      assessmentIntervalDays: 56,
+      inactivityWarningWeeks: 6,
+      reason: 'Protocol amendment: outcomes follow the assessments',
+    });
+    expect(response.status).toBe(200);
+    expect(await stack.db('patients').where({ id: patient.id }).first()).toMatchObject({
+      outcome: 'responder',
+      best_overall_response: 'PR',
+      derived_best_overall_response: 'PR',
+    });
+  });
+
   it('when the last assessment of a derived outcome is removed, then the outcome returns to pending', async () => {
     const patient = await enrolOne(stack.db, derivedTrial, { enrolledOn: ENROLLED });
     const pd = (await cora.post(durl(patient.id), { date: day(50), response: 'PD' })).body.assessment;
