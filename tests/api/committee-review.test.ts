@@ -226,7 +226,11 @@ describe('applying the decision', () => {
       return got.length >= 3 && got;
     });
     expect(mail[0].text).toMatch(/Do not enrol further patients/);
-    const statisticianMail = stack.catcher.messages.filter((m) => m.to.includes(DEMO.statistician) && m.subject.includes(`${trial.code}: a committee recommendation`));
+    // Queued mail may be retried and arrive after later messages: wait for it rather than assume order.
+    const statisticianMail = await eventually(() => {
+      const got = stack.catcher.messages.filter((m) => m.to.includes(DEMO.statistician) && m.subject.includes(`${trial.code}: a committee recommendation`));
+      return got.length >= 1 && got;
+    });
     expect(statisticianMail.length).toBe(1);
     const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).orderBy('id', 'desc').first();
     expect(audit.after.status).toBe('stopped');
