@@ -259,7 +259,7 @@ describe("the trial's journey through the pages", () => {
       await enrol.getByLabel('Study ID').fill('RVX-1');
       await enrol.getByLabel('Enrolment date').fill('2026-09-01');
       await enrol.getByRole('button', { name: 'Enrol' }).click();
-      const first = await eventually(() => stack.db('patients').where({ trial_id: journeyTrialId, study_id: 'RVX-1' }).first('id'));
+      const first = await eventually(async (): Promise<{ id: string } | undefined> => stack.db('patients').where({ trial_id: journeyTrialId, study_id: 'RVX-1' }).first('id'));
       await settle(page);
       problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `patients: ${v.id}`));
       await screenshot(page, 'journey-6-patients');
