@@ -234,8 +234,11 @@ export function hostileJsonPayload(fields: string[]): fc.Arbitrary<RawPayload> {
   );
 }
 
-/** Hostile uploads for multipart routes: binary, oversized, wrong columns, formula cells, wrong field. */
-export function hostileUpload(field: string): fc.Arbitrary<UploadPayload> {
+/**
+ * Hostile uploads for multipart routes: binary, oversized, wrong columns, formula cells, wrong
+ * field, and — under `header`, the route's own columns — rows of hostile cells.
+ */
+export function hostileUpload(field: string, header: readonly string[] = []): fc.Arbitrary<UploadPayload> {
   const csv = (kind: string, text: string) => ({ kind, field, filename: 'outcomes.csv', contentType: 'text/csv', content: Buffer.from(text) });
   return fc.oneof(
     fc.uint8Array({ minLength: 1, maxLength: 4_096 }).map((bytes) => ({
@@ -251,6 +254,9 @@ export function hostileUpload(field: string): fc.Arbitrary<UploadPayload> {
     fc
       .array(fc.tuple(fc.constantFrom(...HOSTILE_STRINGS.slice(0, 24)), hostileString), { minLength: 1, maxLength: 20 })
       .map((rows) => csv('wrong columns with hostile cells', `alpha,beta\n${rows.map(([a, b]) => `"${a.replace(/"/g, '""')}","${String(b).replace(/"/g, '""')}"`).join('\n')}\n`)),
+    fc
+      .array(fc.array(fc.constantFrom(...HOSTILE_STRINGS.slice(0, 40)), { minLength: header.length, maxLength: header.length }), { minLength: 1, maxLength: 30 })
+      .map((rows) => csv('right columns, hostile cells', `${header.join(',')}\n${rows.map((cells) => cells.map((c) => `"${c.replace(/"/g, '""')}"`).join(',')).join('\n')}\n`)),
     fc.constant(csv('unterminated quote', 'study_id,outcome\n"X-001,responder\n')),
     fc.constant(csv('very many rows', `study_id,outcome\n${'ZZ-999,responder\n'.repeat(200_000)}`)),
     fc.constant(csv('oversized', 'x'.repeat(12 * 1024 * 1024))),
