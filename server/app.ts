@@ -84,7 +84,9 @@ export function createApp(config: Config, db: Db, logger: Logger): AppParts {
       handler: (_req, res) => res.status(429).json({ error: { code: 'rate_limited', message } }),
     });
   app.use('/auth/login', limited(config.signInRateLimitPerMinute, 'Too many sign-in attempts. Wait a minute and try again.'));
-  app.use('/api', limited(config.rateLimitPerMinute, 'Too many requests. Wait a minute and try again.'));
+  const apiLimiter = limited(config.rateLimitPerMinute, 'Too many requests. Wait a minute and try again.');
+  // Load balancers poll the health route; it must never be throttled into looking down.
+  app.use('/api', (req, res, next) => (req.path === '/health' ? next() : apiLimiter(req, res, next)));
 
   const sessions = createSessionMiddleware(config);
   const withSession: RequestHandler = (req, res, next) => (req.path === '/api/health' ? next() : sessions.middleware(req, res, next));
