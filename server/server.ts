@@ -21,7 +21,7 @@ export type RunningServer = {
 };
 
 export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
-  const db = createDb(config.databaseUrl);
+  const db = createDb(config.databaseUrl, { logger: { warn: (m) => logger.warn(m), error: (m) => logger.warn(m) } });
   const { app, routes, close: closeApp } = createApp(config, db, logger);
   const mail = startMailWorker(db, config, logger);
   app.locals.mail = mail;

@@ -12,7 +12,10 @@ pg.types.setTypeParser(1700, (value: string) => Number(value));
 
 export type Db = Knex;
 
-export function createDb(connectionString: string, options: { poolMax?: number } = {}): Db {
+type LogSink = { warn: (message: string) => void; error: (message: string) => void };
+
+export function createDb(connectionString: string, options: { poolMax?: number; logger?: LogSink } = {}): Db {
+  const logger = options.logger;
   return knexFactory({
     client: 'pg',
     connection: {
@@ -24,6 +27,17 @@ export function createDb(connectionString: string, options: { poolMax?: number }
     pool: { min: 0, max: options.poolMax ?? 10, acquireTimeoutMillis: 2500, createTimeoutMillis: 2000 },
     acquireConnectionTimeout: 2500,
     migrations: { migrationSource },
+    // Connection drops are reported as 503s by the error handler; keep Knex's own notes in the log.
+    ...(logger
+      ? {
+          log: {
+            warn: (message: unknown) => logger.warn(String(message)),
+            error: (message: unknown) => logger.error(String(message)),
+            deprecate: (message: unknown) => logger.warn(String(message)),
+            debug: () => {},
+          },
+        }
+      : {}),
   });
 }
 
