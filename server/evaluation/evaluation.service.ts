@@ -10,8 +10,8 @@ import { NotFoundError } from '../http/errors.js';
 import type { Role } from '../http/routes.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
-import { countablePatients, trialFacts } from '../patients/patients.repository.js';
-import { countsToward, effectiveOutcome, tally, type CountablePatient, type StageTally } from './counting.js';
+import { countingGroups, responderPaths, trialFacts, type CountingGroup, type CountingRule } from '../patients/patients.repository.js';
+import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
 
 /** The cautions of the product brief, shown wherever a result is shown. */
 export const CAUTIONS = [
@@ -22,6 +22,9 @@ export const CAUTIONS = [
 ];
 
 export const CONF_LEVEL = 0.95;
+
+/** The chart's path is thinned to about this many points: a line of thousands of points draws no better and weighs far more. */
+export const PATH_POINTS = 500;
 
 export type DesignSummary = Pick<
   LockedDesign,
@@ -50,7 +53,10 @@ export type CohortEvaluation = {
   earlyDetermination: string | null;
   accrual: string | null;
   notes: string[];
-  /** Responders against patients with an outcome, in enrolment order: the path the chart draws. */
+  /**
+   * Responders against patients with an outcome, in enrolment order: the path the chart draws,
+   * thinned to about PATH_POINTS evenly spaced points; the first and the last are always exact.
+   */
   path: Array<{ evaluable: number; responders: number }>;
 };
 
@@ -75,14 +81,20 @@ function summary(d: LockedDesign): DesignSummary {
 
 /** Where the cohort stands against its rules: stage 1 until all n1 stage-1 outcomes are in, then the final rule. */
 export function ruleState(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation'>, patients: CountablePatient[]) {
-  const notes: string[] = [];
   const counting = [...patients].filter((p) => countsToward(p, design.analysisPopulation)).sort((a, b) => a.enrolmentSeq - b.enrolmentSeq);
-  let used = counting;
-  if (counting.length > design.n) {
-    notes.push(`${counting.length} patients count, more than the design's n = ${design.n}: the rule is applied to the first ${design.n} in enrolment order.`);
-    used = counting.slice(0, design.n);
+  return ruleFromTally(design, counting.length, tally(counting.slice(0, design.n), design.n1, design.analysisPopulation));
+}
+
+/**
+ * The rule state from `used`, the tally of the first n counting patients in enrolment order (all of
+ * them when no more than n count), and `counting`, how many patients count in all.
+ */
+export function ruleFromTally(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation'>, counting: number, used: Tally) {
+  const notes: string[] = [];
+  if (counting > design.n) {
+    notes.push(`${counting} patients count, more than the design's n = ${design.n}: the rule is applied to the first ${design.n} in enrolment order.`);
   }
-  const t = tally(used, design.n1, design.analysisPopulation);
+  const t = used;
   const twoStage = design.r1 !== null && design.n1 !== null;
   const rule = { r1: design.r1 ?? undefined, n1: design.n1 ?? undefined, r: design.r, n: design.n };
   let basis: { responders: number; evaluable: number; stage1Responders?: number };
@@ -93,6 +105,27 @@ export function ruleState(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | '
     notes.push(`${t.stage2.decided} stage-2 outcomes are in while ${(design.n1 as number) - t.stage1.decided} stage-1 outcomes are still missing; the stage-1 rule is applied first.`);
   }
   return { rule: { ...evaluateTwoStage(rule, basis), basis }, notes };
+}
+
+/** The tally of the patients in `groups` (one cohort's), from the grouped counts. */
+function tallyOfGroups(groups: CountingGroup[]): Tally {
+  const empty = (): StageTally => ({ counted: 0, decided: 0, responders: 0, pending: 0 });
+  const total = empty();
+  const byStage = { 1: empty(), 2: empty() };
+  let enrolled = 0;
+  let notEvaluable = 0;
+  for (const g of groups) {
+    enrolled += g.patients;
+    if (!g.evaluable) notEvaluable += g.patients;
+    if (!g.counts) continue;
+    for (const bucket of [total, byStage[g.stage]]) {
+      bucket.counted += g.patients;
+      if (g.outcome === 'pending') bucket.pending += g.patients;
+      else bucket.decided += g.patients;
+      if (g.outcome === 'responder') bucket.responders += g.patients;
+    }
+  }
+  return { ...total, enrolled, notEvaluable, stage1: byStage[1], stage2: byStage[2] };
 }
 
 function earlyDetermination(design: LockedDesign, rule: InterimStatus): { early: string | null; accrual: string | null } {
@@ -114,13 +147,16 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
   if (!facts) throw new NotFoundError('The trial');
   const cohortIds = facts.cohorts.map((c) => c.id);
   const designs = await currentDesigns(db, cohortIds);
-  const patients = await countablePatients(db, cohortIds);
+  const rules: CountingRule[] = cohortIds.map((cohortId) => {
+    const design = designs.get(cohortId);
+    return { cohortId, population: design?.analysisPopulation ?? 'all_enrolled', n1: design?.n1 ?? null, n: design?.n ?? null };
+  });
+  const [groups, points] = await Promise.all([countingGroups(db, rules), responderPaths(db, rules, PATH_POINTS)]);
   const sponsorOnly = roles.every((role) => role === 'sponsor');
   const cohorts = facts.cohorts.map((cohort): CohortEvaluation => {
     const design = designs.get(cohort.id);
-    const list = patients.get(cohort.id) ?? [];
-    const population = design?.analysisPopulation ?? 'all_enrolled';
-    const t = tally(list, design?.n1 ?? null, population);
+    const mine = groups.filter((g) => g.cohortId === cohort.id);
+    const t = tallyOfGroups(mine);
     const hidden = sponsorOnly && !design?.sponsorSeesResponse;
     const base = {
       cohortId: cohort.id,
@@ -155,7 +191,7 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
     let early: string | null = null;
     let accrual: string | null = null;
     if (design) {
-      const state = ruleState(design, list);
+      const state = ruleFromTally(design, t.counted, tallyOfGroups(mine.filter((g) => g.withinN)));
       rule = state.rule;
       notes.push(...state.notes);
       ({ early, accrual } = earlyDetermination(design, state.rule));
@@ -163,15 +199,7 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
       notes.push('No locked design yet: the rule state appears once the statistician locks the design.');
     }
     if (t.pending > 0) notes.push(`${t.pending} outcomes are pending and not in the figures yet.`);
-    const path: CohortEvaluation['path'] = [];
-    let responders = 0;
-    for (const p of [...list].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq)) {
-      if (!countsToward(p, population)) continue;
-      const outcome = effectiveOutcome(p, population);
-      if (outcome === 'pending') continue;
-      if (outcome === 'responder') responders += 1;
-      path.push({ evaluable: path.length + 1, responders });
-    }
+    const path = points.filter((p) => p.cohortId === cohort.id).map((p) => ({ evaluable: p.evaluable, responders: p.responders }));
     const decided = t.decided;
     return {
       ...base,

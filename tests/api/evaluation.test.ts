@@ -8,6 +8,9 @@ import { DEMO, createTrial } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly, type DirectDesign, type DirectPatient } from '../support/patient-factories.js';
 import { binomialTest, evaluateTwoStage, proportionInterval } from '../../server/stats/index.js';
 import type { Session } from '../support/sign-in.js';
+import { tally } from '../../server/evaluation/counting.js';
+import { PATH_POINTS, ruleState } from '../../server/evaluation/evaluation.service.js';
+import { countablePatients } from '../../server/patients/patients.repository.js';
 
 let stack: Stack;
 const s = {} as Record<'statistician' | 'sponsor' | 'coordinator' | 'admin', Session>;
@@ -100,4 +103,34 @@ describe('the live evaluation', () => {
     const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
     expect(c).toMatchObject({ design: null, enrolled: 0, rule: null, rate: null, test: null });
   });
+  it('when a cohort has more decided patients than the chart draws, then the figures equal a patient-by-patient count and the thinned path keeps exact points and ends at the totals', async () => {
+    // A fixed pseudo-random mix, evaluable population, more counting patients than n (the over-run rule applies).
+    let seed = 7;
+    const next = () => (seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31;
+    const mix = Array.from({ length: 1_400 }, () => {
+      const u = next();
+      return u < 0.3 ? R : u < 0.8 ? N : u < 0.9 ? P : NE;
+    });
+    const design = { p0: 0.2, p1: 0.4, r1: 40, n1: 300, r: 300, n: 1_100, analysisPopulation: 'evaluable' as const };
+    const trial = await arrange(design, mix);
+    const c = (await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`)).body.cohorts[0];
+    const patients = (await countablePatients(stack.db, [trial.cohortIds[0]])).get(trial.cohortIds[0]) ?? [];
+    const t = tally(patients, design.n1, design.analysisPopulation);
+    expect(c).toMatchObject({ enrolled: t.enrolled, counted: t.counted, decided: t.decided, pending: t.pending, responders: t.responders, notEvaluable: t.notEvaluable });
+    expect({ stage1: c.stage1, stage2: c.stage2 }).toEqual({ stage1: t.stage1, stage2: t.stage2 });
+    const state = ruleState(design, patients);
+    expect(c.rule).toEqual(state.rule);
+    expect(c.notes.slice(0, state.notes.length)).toEqual(state.notes);
+    const full: Array<{ evaluable: number; responders: number }> = [];
+    let responders = 0;
+    for (const p of patients.filter((p) => p.evaluable && p.outcome !== 'pending')) {
+      if (p.outcome === 'responder') responders += 1;
+      full.push({ evaluable: full.length + 1, responders });
+    }
+    expect(full.length).toBeGreaterThan(PATH_POINTS);
+    expect(c.path.length).toBeLessThanOrEqual(PATH_POINTS + 2);
+    expect(c.path[0]).toEqual(full[0]);
+    expect(c.path.at(-1)).toEqual({ evaluable: t.decided, responders: t.responders });
+    for (const point of c.path) expect(point).toEqual(full[point.evaluable - 1]);
+  }, 60_000);
 });
