@@ -1,21 +1,9 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import { trialQueryOptions } from '../trial-overview/get-trial';
+import type { AssessmentImportReport, AssessmentRowResult } from '../../../../server/assessments/assessments-import';
 
-export type ImportRow = {
-  line: number;
-  studyId: string;
-  date: string;
-  result: 'new' | 'update' | 'unchanged' | 'error';
-  errors: Array<{ column: string; reason: string }>;
-};
-export type ImportReport = {
-  dryRun: boolean;
-  committed: boolean;
-  counts: { total: number; new: number; update: number; unchanged: number; error: number };
-  rows: ImportRow[];
-  derivationsChanged: number;
-};
+export type { AssessmentRowResult as ImportRow, AssessmentImportReport as ImportReport };
 
 export function useImportAssessments(trialId: string) {
   const queryClient = useQueryClient();
@@ -23,7 +11,7 @@ export function useImportAssessments(trialId: string) {
     mutationFn: ({ file, dryRun }: { file: File; dryRun: boolean }) => {
       const formData = new FormData();
       formData.append('file', file);
-      return api<ImportReport>(`/api/trials/${trialId}/assessments/import${dryRun ? '?dryRun=1' : ''}`, { method: 'POST', formData });
+      return api<AssessmentImportReport>(`/api/trials/${trialId}/assessments/import${dryRun ? '?dryRun=1' : ''}`, { method: 'POST', formData });
     },
     onSuccess: (report) => (report.committed ? queryClient.invalidateQueries({ queryKey: trialQueryOptions(trialId).queryKey }) : undefined),
   });

@@ -1,19 +1,9 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import { trialQueryOptions } from '../trial-overview/get-trial';
+import type { AuditEntry } from '../../../../server/audit/audit.repository';
 
-export type AuditEntry = {
-  id: number;
-  at: string;
-  actorEmail: string | null;
-  actorName: string | null;
-  entityType: string;
-  entityId: string;
-  action: string;
-  before: unknown;
-  after: unknown;
-  reason: string | null;
-};
+export type { AuditEntry };
 
 export type AuditPage = {
   entries: AuditEntry[];

@@ -1,21 +1,9 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import type { Role } from '../../lib/roles';
+import type { Membership } from '../../../../server/people/people.repository';
 import { trialQueryOptions } from '../trial-overview/get-trial';
 
-export type Membership = {
-  id: string;
-  trialId: string;
-  email: string;
-  role: Role;
-  status: 'pending' | 'active';
-  siteId: string | null;
-  siteCode: string | null;
-  userId: string | null;
-  name: string | null;
-  version: number;
-  createdAt: string;
-};
+export type { Membership };
 
 export const membershipsQueryOptions = (trialId: string) =>
   queryOptions({

@@ -1,31 +1,12 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { Role } from '../../lib/roles';
+import type { Cohort, Trial as TrialRecord } from '../../../../server/trials/trials.repository';
 
-export type Cohort = {
-  id: string;
-  code: string;
-  name: string;
-  position: number;
-  status: string;
-  stopCategory: string | null;
-  stopReason: string | null;
-  statusChangedAt: string;
-  version: number;
-};
+export type { Cohort };
 
-export type Trial = {
-  id: string;
-  code: string;
-  title: string;
-  indication: string;
-  endpointDefinition: string;
-  plannedAccrualPerMonth: number | null;
-  startDate: string | null;
-  sponsorName: string | null;
-  version: number;
-  cohorts: Cohort[];
-  status: string;
+/** The trial as GET /api/trials/:id answers it: the record plus the reader's own roles and sites. */
+export type Trial = TrialRecord & {
   myRoles: Role[];
   mySiteIds: string[];
 };
