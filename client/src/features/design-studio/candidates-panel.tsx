@@ -3,7 +3,7 @@ import { lazy, Suspense, useMemo } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
 import { Button, Loading } from '../../components/ui';
 import { decimal } from '../../lib/format';
-import { DataTable } from './data-table';
+import { DataTable } from '../../components/data-table';
 import { candidateList, ruleText, type CandidateDesign, type DesignCandidates } from './types';
 
 const DesignCharts = lazy(() => import('./design-charts'));
@@ -82,7 +82,7 @@ export function CandidatesPanel({ candidates, compare, onToggleCompare, onChoose
           No single-stage design: {candidates.singleStageNote}
         </p>
       )}
-      <DataTable data={list} columns={columns} caption="Candidate designs" filterLabel="Filter designs" />
+      <DataTable data={list} columns={columns} label="Candidate designs" filterLabel="Filter designs" pageSize={10} empty="Nothing matches the filter." />
       <p className="text-xs text-ink-500">
         Reject the null hypothesis (declare the treatment promising) when more than r of n patients respond; stop after stage 1 when r1 or
         fewer of n1 respond. Admissible designs minimise q·n + (1 − q)·EN0 over their q range; the ones equal to the optimal or minimax

@@ -1,7 +1,7 @@
 /** Every signed version of a cohort's design, newest first, with who signed it, what it meant and when. */
 import { createColumnHelper } from '@tanstack/react-table';
 import { dateTime, decimal } from '../../lib/format';
-import { DataTable } from './data-table';
+import { DataTable } from '../../components/data-table';
 import { ruleText, SELECTION_LABELS, type DesignVersion } from './types';
 
 const column = createColumnHelper<DesignVersion>();
@@ -30,5 +30,5 @@ const columns = [
 ];
 
 export function VersionHistory({ versions }: { versions: DesignVersion[] }) {
-  return <DataTable data={versions} columns={columns} caption="Design versions" filterLabel="Filter versions" />;
+  return <DataTable data={versions} columns={columns} label="Design versions" filterLabel="Filter versions" pageSize={10} empty="Nothing matches the filter." />;
 }
