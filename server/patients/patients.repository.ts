@@ -171,7 +171,8 @@ export async function listPatients(
     if (query.status === 'flagged') q.whereNotNull('p.outcome_flag');
     return q;
   };
-  const [countRow] = await filtered(baseQuery(db)).select(
+  // The filters read patients' own columns only, so the counts need no joins.
+  const [countRow] = await filtered(db('patients as p')).select(
     db.raw('count(*)::int as total'),
     db.raw(`count(*) filter (where p.outcome = 'pending')::int as pending`),
     db.raw(`count(*) filter (where p.outcome = 'responder')::int as responder`),
@@ -187,16 +188,18 @@ export async function listPatients(
     notEvaluable: countRow.not_evaluable,
     unattested: countRow.unattested,
   };
-  const page = filtered(baseQuery(db));
-  if (query.outcome) page.where('p.outcome', query.outcome);
   const total = query.outcome ? (query.outcome === 'pending' ? counts.pending : query.outcome === 'responder' ? counts.responder : counts.nonResponder) : counts.total;
+  // The page is chosen on the narrow rows first; only its patients get the joined columns.
+  const page = filtered(db('patients as p'));
+  if (query.sort === 'siteCode') page.join('sites as s', 's.id', 'p.site_id');
+  if (query.sort === 'cohortCode') page.join('cohorts as c', 'c.id', 'p.cohort_id');
+  if (query.outcome) page.where('p.outcome', query.outcome);
   const direction = query.dir === 'desc' ? 'desc' : 'asc';
   for (const expression of SORT_SQL[query.sort]) page.orderByRaw(`${expression} ${direction} nulls last`);
   page.orderBy('p.cohort_id').orderBy('p.enrolment_seq');
-  const rows: PatientRow[] = await page
-    .select(COLUMNS)
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize);
+  const ids: string[] = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize).pluck('p.id')) as string[];
+  const byId = new Map(((ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : []) as PatientRow[]).map((row) => [row.id, row]));
+  const rows = ids.map((id) => byId.get(id)).filter((row): row is PatientRow => row !== undefined);
   return { patients: rows.map(toPatient), total, counts };
 }
 
@@ -213,6 +216,12 @@ export async function findPatientByStudyId(db: Conn, trialId: string, studyId: s
   if (options.forUpdate) query.forUpdate('p');
   const row: PatientRow | undefined = await query;
   return row ? toPatient(row) : undefined;
+}
+
+/** The trial's code alone, for writes that only name the trial. */
+export async function trialCode(db: Conn, trialId: string): Promise<string | undefined> {
+  const trial = await db('trials').where({ id: trialId }).first('code');
+  return trial?.code;
 }
 
 export type TrialSite = { id: string; code: string; name: string };

@@ -36,6 +36,7 @@ import {
   nextEnrolmentSeq,
   patientHistory,
   setAttestation,
+  trialCode,
   trialFacts,
   updateOutcome,
   type OutcomeFields,
@@ -252,10 +253,11 @@ export async function recordOutcome(
     after: { ...auditSnapshot(after), ...(attestationCleared ? { attestationCleared: true } : {}) },
     reason: input.reason ?? null,
   });
-  const trialCode = options.trialCode ?? (await requireFacts(trx, actor.trialId)).code;
+  const code = options.trialCode ?? (await trialCode(trx, actor.trialId));
+  if (code === undefined) throw new NotFoundError('The trial');
   const accrual = await applyAccrualRules(trx, {
     trialId: actor.trialId,
-    trialCode,
+    trialCode: code,
     cohortId: before.cohortId,
     actorUserId: actor.user.id,
     evaluabilityChanged: previous.evaluable !== next.evaluable,
