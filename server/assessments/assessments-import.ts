@@ -8,13 +8,13 @@
  * bad row, rolls everything back. Notes that start like a spreadsheet formula are stored with a
  * leading quote; fixed-format cells that do are refused.
  */
-import { parse } from 'csv-parse/sync';
 import type { Knex } from 'knex';
 import { ValidationError } from 'yup';
 import type { Db } from '../db/knex.js';
-import { AppError, InputError } from '../http/errors.js';
+import { AppError } from '../http/errors.js';
 import type { SessionUser, TrialAccess } from '../http/routes.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
+import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import { assessmentSchema } from './assessments.schema.js';
 import { findAssessmentOn, findPatientById, findPatientByStudyId } from './assessments.repository.js';
 import { applyCorrection, createAssessment, recomputeDerivation } from './assessments.service.js';
@@ -50,45 +50,13 @@ export function assessmentImportTemplate(): string {
 }
 
 /** The upload as rows keyed by column; 400 (413 when too large) with the reason otherwise. */
-export function readAssessmentCsv(file: { buffer: Buffer; originalname: string; mimetype: string } | undefined): CsvRow[] {
-  if (!file) throw new InputError('Attach a CSV file in the field "file".', { file: 'No file was sent.' });
-  if (!/\.csv$/i.test(file.originalname) && file.mimetype !== 'text/csv') {
-    throw new InputError('Only CSV files can be imported (a .csv file of type text/csv).', { file: `"${file.originalname}" is not a CSV file.` });
-  }
-  if (file.buffer.length > ASSESSMENT_IMPORT_MAX_BYTES) throw new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files.');
-  let text: string;
-  try {
-    if (file.buffer.includes(0)) throw new Error('binary');
-    text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
-  } catch {
-    throw new InputError('The file is not UTF-8 text.', { file: 'Save the file as CSV (UTF-8) from your spreadsheet and try again.' });
-  }
-  let records: string[][];
-  try {
-    records = parse(text, { bom: true, skip_empty_lines: true, trim: true });
-  } catch (error) {
-    throw new InputError(`The file is not valid CSV: ${(error as Error).message}`, { file: (error as Error).message });
-  }
-  if (records.length < 2) throw new InputError('The file has no rows to import.', { file: 'A header row and at least one assessment are needed.' });
-  const header = records[0].map((h) => h.trim().toLowerCase());
-  const missing = REQUIRED.filter((c) => !header.includes(c));
-  const unknown = header.filter((h) => !(ASSESSMENT_IMPORT_COLUMNS as readonly string[]).includes(h));
-  const repeated = header.filter((h, i) => header.indexOf(h) !== i);
-  if (missing.length || unknown.length || repeated.length) {
-    const parts = [
-      missing.length ? `missing: ${missing.join(', ')}` : '',
-      unknown.length ? `not recognised: ${unknown.join(', ')}` : '',
-      repeated.length ? `repeated: ${[...new Set(repeated)].join(', ')}` : '',
-    ].filter(Boolean);
-    throw new InputError(`The columns do not match the template (${parts.join('; ')}).`, { columns: parts.join('; ') });
-  }
-  const rows = records.slice(1);
-  if (rows.length > ASSESSMENT_IMPORT_MAX_ROWS) {
-    throw new InputError(`The file has ${rows.length} rows; at most ${ASSESSMENT_IMPORT_MAX_ROWS} can be imported at once.`, {
-      file: `Split the file into parts of at most ${ASSESSMENT_IMPORT_MAX_ROWS} rows.`,
-    });
-  }
-  return rows.map((cells) => Object.fromEntries(ASSESSMENT_IMPORT_COLUMNS.map((c) => [c, header.includes(c) ? (cells[header.indexOf(c)] ?? '') : ''])) as CsvRow);
+export function readAssessmentCsv(file: UploadedFile | undefined): CsvRow[] {
+  return readUploadedCsv(file, {
+    columns: ASSESSMENT_IMPORT_COLUMNS,
+    required: REQUIRED,
+    maxBytes: ASSESSMENT_IMPORT_MAX_BYTES,
+    maxRows: ASSESSMENT_IMPORT_MAX_ROWS,
+  });
 }
 
 class RowError extends Error {

@@ -2,10 +2,9 @@
  * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
  * their own sites (other sites answer 404); the statistician and the committee read every site.
  */
-import multer from 'multer';
-import type { RequestHandler, Response } from 'express';
+import type { Response } from 'express';
 import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
-import { AppError, InputError } from '../http/errors.js';
+import { csvUpload } from '../csv/upload.js';
 import { registerPatientWriteHook } from '../patients/patient-hooks.js';
 import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';
 import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
@@ -22,17 +21,7 @@ registerPatientWriteHook(async (trx, write) => {
   await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
 });
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: ASSESSMENT_IMPORT_MAX_BYTES, files: 1, fields: 10, parts: 12 } });
-
-/** Multer's own refusals, in words a coordinator can act on. */
-const uploadCsv: RequestHandler = (req, res, next) => {
-  upload.single('file')(req, res, (error: unknown) => {
-    if (!error) return next();
-    const code = (error as { code?: string }).code;
-    if (code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files and import them one by one.'));
-    next(new InputError('Send one CSV file in the field "file".', { file: (error as Error).message }));
-  });
-};
+const uploadCsv = csvUpload(ASSESSMENT_IMPORT_MAX_BYTES);
 
 function sendCsv(res: Response, filename: string, body: string) {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
