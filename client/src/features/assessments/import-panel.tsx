@@ -7,6 +7,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { ApiError } from '../../lib/api';
 import { day } from '../../lib/format';
 import { Button, ErrorNotice, Figure, Panel, Spinner } from '../../components/ui';
+import { CsvFileInput } from '../../components/csv-file-input';
 import { DataTable } from '../../components/data-table';
 import { useImportAssessments, type ImportReport, type ImportRow } from './use-import-assessments';
 import { Tag } from './words';
@@ -60,21 +61,13 @@ export function ImportPanel({ trialId }: { trialId: string }) {
           that changes a recorded assessment needs a correction reason. Check the file first; a file with any bad row imports nothing.
         </p>
         <div className="flex flex-wrap items-end gap-3">
-          <div className="flex flex-col gap-1">
-            <label htmlFor="assessments-file" className="text-xs font-semibold tracking-wide text-ink-700 uppercase">
-              CSV file
-            </label>
-            <input
-              id="assessments-file"
-              type="file"
-              accept=".csv,text/csv"
-              onChange={(event) => {
-                setFile(event.target.files?.[0] ?? null);
-                run.reset();
-              }}
-              className="text-sm"
-            />
-          </div>
+          <CsvFileInput
+            id="assessments-file"
+            onChange={(chosen) => {
+              setFile(chosen);
+              run.reset();
+            }}
+          />
           <Button variant="secondary" disabled={!file || run.isPending} onClick={() => file && run.mutate({ file, dryRun: true })}>
             Check the file
           </Button>

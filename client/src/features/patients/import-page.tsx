@@ -7,6 +7,7 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { createColumnHelper } from '@tanstack/react-table';
 import { Button, ErrorNotice, Figure, PageHeader, Panel, Spinner } from '../../components/ui';
+import { CsvFileInput } from '../../components/csv-file-input';
 import { DataTable } from '../../components/data-table';
 import { ApiError } from '../../lib/api';
 import { IMPORT_MAX_ROWS } from '../../../../server/patients/patients.schema';
@@ -107,23 +108,15 @@ export function ImportPage() {
             a recorded outcome needs a correction_reason. Cells that start like a spreadsheet formula (=, +, -, @) are kept as text.
           </p>
           <div className="flex flex-wrap items-end gap-3">
-            <div className="flex flex-col gap-1">
-              <label htmlFor="import-file" className="text-xs font-semibold tracking-wide text-ink-700 uppercase">
-                CSV file
-              </label>
-              <input
-                id="import-file"
-                type="file"
-                accept=".csv,text/csv"
-                onChange={(e) => {
-                  setFile(e.target.files?.[0] ?? null);
-                  setChecked(null);
-                  setDone(null);
-                  importer.reset();
-                }}
-                className="text-sm"
-              />
-            </div>
+            <CsvFileInput
+              id="import-file"
+              onChange={(chosen) => {
+                setFile(chosen);
+                setChecked(null);
+                setDone(null);
+                importer.reset();
+              }}
+            />
             <Button onClick={() => run(true)} disabled={!file || importer.isPending}>
               Check the file
             </Button>
