@@ -5,6 +5,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import type { LockedDesign } from '../design-studio/current-design.js';
 import type { Outcome } from '../evaluation/counting.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
 import type { CohortStatus } from '../trials/trials.repository.js';
@@ -39,29 +40,30 @@ export type CutPatient = {
   assessments: CutAssessment[];
 };
 
-/** The design of a cohort as it stood at the cut. */
-export type CutDesign = {
-  id: string;
-  version: number;
-  selection: string;
-  p0: number;
-  p1: number;
-  alpha: number;
-  beta: number;
-  nmax: number | null;
-  r1: number | null;
-  n1: number | null;
-  r: number;
-  n: number;
-  en0: number | null;
-  pet0: number | null;
-  typeIError: number;
-  power: number;
-  analysisPopulation: 'all_enrolled' | 'evaluable';
-  interimAccrual: 'pause' | 'continue_at_risk';
-  sponsorSeesResponse: boolean;
-  protocolReference: string | null;
-};
+/** The design of a cohort as it stood at the cut: the locked design's numbers and rules, without its signing details. */
+export type CutDesign = Pick<
+  LockedDesign,
+  | 'id'
+  | 'version'
+  | 'selection'
+  | 'p0'
+  | 'p1'
+  | 'alpha'
+  | 'beta'
+  | 'nmax'
+  | 'r1'
+  | 'n1'
+  | 'r'
+  | 'n'
+  | 'en0'
+  | 'pet0'
+  | 'typeIError'
+  | 'power'
+  | 'analysisPopulation'
+  | 'interimAccrual'
+  | 'sponsorSeesResponse'
+  | 'protocolReference'
+>;
 
 export type CutCohort = { id: string; code: string; name: string; status: CohortStatus; design: CutDesign | null };
 
