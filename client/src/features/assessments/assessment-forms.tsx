@@ -3,9 +3,10 @@
  * (with a reason). Each validates with the server's own schema as you type and shows the server's
  * field messages when it still refuses.
  */
-import { Form, Formik, setIn, type FormikHelpers } from 'formik';
+import { Form, Formik } from 'formik';
 import { useQueryClient } from '@tanstack/react-query';
 import { ApiError } from '../../lib/api';
+import { showServerError } from '../../lib/form-errors';
 import { Button, ErrorNotice } from '../../components/ui';
 import { SelectField, TextAreaField, TextField } from '../../components/field';
 import {
@@ -22,15 +23,6 @@ import { useAddAssessment } from './use-add-assessment';
 import { useCorrectAssessment } from './use-correct-assessment';
 import { useRemoveAssessment } from './use-remove-assessment';
 import type { Assessment } from './types';
-
-function showServerError<T>(error: unknown, helpers: FormikHelpers<T>) {
-  if (error instanceof ApiError && Object.keys(error.fields).length > 0) {
-    const entries = Object.entries(error.fields);
-    helpers.setErrors(entries.reduce((errors, [field, message]) => setIn(errors, field, message), {}));
-    helpers.setTouched(entries.reduce((touched, [field]) => setIn(touched, field, true), {}), false);
-  }
-  helpers.setStatus(error);
-}
 
 /** A stale version (409) means someone else changed the record: reload it so the form shows theirs. */
 function useReloadOnConflict(trialId: string, patientId: string) {

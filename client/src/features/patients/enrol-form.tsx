@@ -8,7 +8,7 @@ import { Button, ErrorNotice } from '../../components/ui';
 import { SelectField, TextField } from '../../components/field';
 import { ApiError } from '../../lib/api';
 import { isoDay } from '../../lib/format';
-import { showServerError } from '../people/form-errors';
+import { showServerError } from '../../lib/form-errors';
 import { enrolSchema, type EnrolInput } from '../../../../server/patients/patients.schema';
 import { useEnrolPatient, type EnrolResult } from './use-enrol-patient';
 import type { TrialCohort, TrialSite } from './types';

@@ -9,7 +9,7 @@ import { Button, ErrorNotice } from '../../components/ui';
 import { CheckboxField, SelectField, TextAreaField, TextField } from '../../components/field';
 import { ApiError } from '../../lib/api';
 import { isoDay } from '../../lib/format';
-import { showServerError } from '../people/form-errors';
+import { showServerError } from '../../lib/form-errors';
 import { OUTCOME_FIELDS, OUTCOMES, RESPONSES_FOR, isRecorded, outcomeSchema, type BestOverallResponse, type Outcome, type OutcomeInput } from '../../../../server/patients/patients.schema';
 import { useRecordOutcome, type OutcomeResult } from './use-record-outcome';
 import { ConflictView } from './conflict-view';

@@ -3,7 +3,7 @@ import { Button, ErrorNotice, Panel, StatusTag } from '../../components/ui';
 import { TextField } from '../../components/field';
 import type { Cohort } from '../trial-overview/get-trial';
 import { cohortSchema, cohortUpdateSchema } from '../../../../server/trials/trials.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import type { TrialSetup } from './trial-setup';
 import { useAddCohort } from './use-add-cohort';
 import { useUpdateCohort } from './use-update-cohort';

@@ -2,7 +2,7 @@ import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { TextField } from '../../components/field';
 import { membershipInviteSchema } from '../../../../server/people/people.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import { RoleSiteFields } from './role-site-fields';
 import type { TrialSite } from './trial-setup';
 import { useInviteMember } from './use-invite-member';

@@ -1,7 +1,7 @@
 import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { membershipUpdateSchema } from '../../../../server/people/people.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import type { Membership } from './get-memberships';
 import { RoleSiteFields } from './role-site-fields';
 import type { TrialSite } from './trial-setup';

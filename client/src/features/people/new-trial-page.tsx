@@ -1,7 +1,7 @@
 import { useNavigate } from 'react-router-dom';
 import { PageHeader, Panel } from '../../components/ui';
 import { trialCreateSchema } from '../../../../server/trials/trials.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import { TrialForm } from './trial-form';
 import { useCreateTrial } from './use-create-trial';
 

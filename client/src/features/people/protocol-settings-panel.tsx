@@ -2,7 +2,7 @@ import { Form, Formik } from 'formik';
 import { Button, ErrorNotice, Panel } from '../../components/ui';
 import { CheckboxField, SelectField, TextAreaField, TextField } from '../../components/field';
 import { protocolSettingsSchema } from '../../../../server/trials/trials.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import type { ProtocolSettings, TrialSetup } from './trial-setup';
 import { useUpdateProtocolSettings } from './use-update-protocol-settings';
 

@@ -2,7 +2,7 @@ import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { TextField } from '../../components/field';
 import { siteSchema, siteUpdateSchema } from '../../../../server/people/people.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import type { Site } from './get-sites';
 import { useCreateSite } from './use-create-site';
 import { useUpdateSite } from './use-update-site';

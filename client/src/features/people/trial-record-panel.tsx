@@ -1,7 +1,7 @@
 import { Button, Panel } from '../../components/ui';
 import { day } from '../../lib/format';
 import { trialUpdateSchema } from '../../../../server/trials/trials.schema';
-import { showServerError } from './form-errors';
+import { showServerError } from '../../lib/form-errors';
 import { TrialForm } from './trial-form';
 import type { TrialSetup } from './trial-setup';
 import { useUpdateTrial } from './use-update-trial';

@@ -1,6 +1,6 @@
 /** Puts the server's field messages (400/409) under the matching form fields and keeps the whole error for the form's notice. */
 import { setIn, type FormikHelpers } from 'formik';
-import { ApiError } from '../../lib/api';
+import { ApiError } from './api';
 
 export function showServerError<T>(error: unknown, helpers: FormikHelpers<T>): void {
   if (error instanceof ApiError) {
