@@ -7,12 +7,12 @@
  * commit is all-or-nothing. Text cells that start like a spreadsheet formula are stored with a
  * leading quote; cells of fixed-format columns that do are refused.
  */
-import { parse } from 'csv-parse/sync';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { ValidationError } from 'yup';
 import { AppError, InputError } from '../http/errors.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
+import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import {
   IMPORT_COLUMNS,
   IMPORT_MAX_BYTES,
@@ -46,45 +46,9 @@ export function importTemplate(): string {
   return toCsv([...IMPORT_COLUMNS], []);
 }
 
-/** Checks the upload is a CSV text file and returns its rows keyed by column; 400 with the reason otherwise. */
-export function readCsv(file: { buffer: Buffer; originalname: string; mimetype: string } | undefined): Array<Record<ImportColumn, string>> {
-  if (!file) throw new InputError('Attach a CSV file in the field "file".', { file: 'No file was sent.' });
-  const isCsv = /\.csv$/i.test(file.originalname) || file.mimetype === 'text/csv';
-  if (!isCsv) throw new InputError('Only CSV files can be imported (a .csv file of type text/csv).', { file: `"${file.originalname}" is not a CSV file.` });
-  if (file.buffer.length > IMPORT_MAX_BYTES) throw new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files.');
-  if (file.buffer.includes(0)) throw new InputError('The file is binary, not CSV text.', { file: 'The file contains NUL bytes: save it as CSV (UTF-8) from your spreadsheet.' });
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
-  } catch {
-    throw new InputError('The file is not UTF-8 text.', { file: 'Save the file as CSV (UTF-8) from your spreadsheet and try again.' });
-  }
-  let records: string[][];
-  try {
-    records = parse(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false });
-  } catch (error) {
-    throw new InputError(`The file is not valid CSV: ${(error as Error).message}`, { file: (error as Error).message });
-  }
-  if (records.length === 0) throw new InputError('The file is empty.', { file: 'The file has no header row.' });
-  const header = records[0].map((h) => h.trim().toLowerCase());
-  const missing = IMPORT_COLUMNS.filter((c) => !header.includes(c));
-  const unknown = header.filter((h) => !(IMPORT_COLUMNS as readonly string[]).includes(h));
-  const repeated = header.filter((h, i) => header.indexOf(h) !== i);
-  if (missing.length || unknown.length || repeated.length) {
-    const parts = [
-      missing.length ? `missing: ${missing.join(', ')}` : '',
-      unknown.length ? `not recognised: ${unknown.join(', ')}` : '',
-      repeated.length ? `repeated: ${[...new Set(repeated)].join(', ')}` : '',
-    ].filter(Boolean);
-    throw new InputError(`The columns do not match the template (${parts.join('; ')}).`, { columns: parts.join('; ') });
-  }
-  const rows = records.slice(1);
-  if (rows.length === 0) throw new InputError('The file has a header but no rows.', { file: 'No rows to import.' });
-  if (rows.length > IMPORT_MAX_ROWS) {
-    throw new InputError(`The file has ${rows.length} rows; at most ${IMPORT_MAX_ROWS} can be imported at once.`, { file: `Split the file into parts of at most ${IMPORT_MAX_ROWS} rows.` });
-  }
-  return rows.map((cells) => Object.fromEntries(header.map((h, i) => [h, cells[i] ?? ''])) as Record<ImportColumn, string>);
-}
+/** Checks the upload is a CSV text file with exactly the template's columns; 400 (413 when too large) otherwise. */
+export const readCsv = (file: UploadedFile | undefined): Array<Record<ImportColumn, string>> =>
+  readUploadedCsv(file, { columns: IMPORT_COLUMNS, maxBytes: IMPORT_MAX_BYTES, maxRows: IMPORT_MAX_ROWS });
 
 const FIELD_COLUMN: Record<string, ImportColumn> = {
   studyId: 'study_id',

@@ -4,10 +4,9 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import multer from 'multer';
 import type { RequestHandler } from 'express';
 import type { Role, RouteSpec } from '../http/routes.js';
-import { AppError, InputError } from '../http/errors.js';
+import { csvUpload } from '../csv/upload.js';
 import { evaluationRoutes } from '../evaluation/evaluation.routes.js';
 import { IMPORT_MAX_BYTES } from './patients.schema.js';
 import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
@@ -17,18 +16,7 @@ import { listPatients } from './patients.repository.js';
 const READ: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITE: Role[] = ['coordinator', 'investigator'];
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 10, parts: 12 } });
-
-/** Multer's own errors, in words a coordinator can act on. */
-const uploadCsv: RequestHandler = (req, res, next) => {
-  upload.single('file')(req, res, (error: unknown) => {
-    if (!error) return next();
-    const code = (error as { code?: string }).code;
-    if (code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', 'The file is larger than 1 MB. Split it into smaller files and import them one by one.'));
-    if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT') return next(new InputError('Send one CSV file in the field "file".', { file: 'Send one file, in the field "file".' }));
-    next(new InputError(`The upload could not be read: ${(error as Error).message}.`, { file: (error as Error).message }));
-  });
-};
+const uploadCsv = csvUpload(IMPORT_MAX_BYTES);
 
 const kickMail = (req: Parameters<RequestHandler>[0]) => (req.app.locals.mail as { kick?: () => void } | undefined)?.kick?.();
 
