@@ -75,8 +75,9 @@ export function RateChart({ rows, title }: { rows: RateRow[]; title: string }) {
     datasets: [
       { type: 'bar', label: '95% exact interval', data: shown.map((r) => r.ci as [number, number]), backgroundColor: 'rgba(20,33,61,0.25)', borderColor: INK, borderWidth: 1, barPercentage: 0.25 },
       { type: 'line', label: 'Response rate', data: shown.map((r) => r.estimate), showLine: false, pointStyle: 'rectRot', pointRadius: 6, borderColor: INK, backgroundColor: INK },
-      { type: 'line', label: 'p0 (null rate)', data: shown.map((r) => r.p0), borderColor: SLATE, backgroundColor: SLATE, borderDash: [2, 3], pointRadius: 0, stepped: 'middle' },
-      { type: 'line', label: 'p1 (target rate)', data: shown.map((r) => r.p1), borderColor: BRASS, backgroundColor: BRASS, borderDash: [8, 4], pointRadius: 0, stepped: 'middle' },
+      // Each group gets its own p0/p1 marks (cohorts differ): a wide horizontal mark across its column.
+      { type: 'line', label: 'p0 (null rate)', data: shown.map((r) => r.p0), borderColor: SLATE, backgroundColor: SLATE, showLine: false, pointStyle: 'line', pointRadius: 34, pointHoverRadius: 34, pointBorderWidth: 2 },
+      { type: 'line', label: 'p1 (target rate)', data: shown.map((r) => r.p1), borderColor: BRASS, backgroundColor: BRASS, showLine: false, pointStyle: 'line', pointRadius: 34, pointHoverRadius: 34, pointBorderWidth: 4 },
     ],
   };
   const options: ChartOptions<'bar' | 'line'> = {
