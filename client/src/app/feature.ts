@@ -3,6 +3,7 @@
  * /trials/:trialId) and its navigation entries with the roles that see them. Each feature folder
  * exports one `Feature` from its `routes.tsx`; `app/features.ts` lists them.
  */
+import type { ComponentType } from 'react';
 import type { RouteObject } from 'react-router-dom';
 import type { Role } from '../lib/roles';
 
@@ -22,3 +23,8 @@ export type Feature = {
   nav?: NavItem[];
   trialNav?: NavItem[];
 };
+
+/** A page loaded on first visit, so each feature's code stays out of the initial bundle. */
+export const lazyPage = (load: () => Promise<ComponentType>): Pick<RouteObject, 'lazy'> => ({
+  lazy: async () => ({ Component: await load() }),
+});

@@ -1,7 +1,6 @@
-import type { Feature } from '../../app/feature';
-import { AccrualPage } from './accrual-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const accrualFeature: Feature = {
-  trialRoutes: [{ path: 'accrual', element: <AccrualPage /> }],
+  trialRoutes: [{ path: 'accrual', ...lazyPage(() => import('./accrual-page').then((m) => m.AccrualPage)) }],
   trialNav: [{ path: 'accrual', label: 'Accrual', order: 60 }],
 };

@@ -1,7 +1,6 @@
-import type { Feature } from '../../app/feature';
-import { NeedsAttentionPage } from './needs-attention-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const assessmentsFeature: Feature = {
-  trialRoutes: [{ path: 'needs-attention', element: <NeedsAttentionPage /> }],
+  trialRoutes: [{ path: 'needs-attention', ...lazyPage(() => import('./needs-attention-page').then((m) => m.NeedsAttentionPage)) }],
   trialNav: [{ path: 'needs-attention', label: 'Needs attention', roles: ['coordinator', 'investigator', 'statistician', 'monitor'], order: 35 }],
 };

@@ -1,7 +1,6 @@
-import type { Feature } from '../../app/feature';
-import { AuditPage } from './audit-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const auditFeature: Feature = {
-  trialRoutes: [{ path: 'audit', element: <AuditPage /> }],
+  trialRoutes: [{ path: 'audit', ...lazyPage(() => import('./audit-page').then((m) => m.AuditPage)) }],
   trialNav: [{ path: 'audit', label: 'Audit trail', roles: ['statistician', 'admin'], order: 85 }],
 };

@@ -1,6 +1,5 @@
-import type { Feature } from '../../app/feature';
-import { ReviewPage } from './review-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const committeeReviewFeature: Feature = {
-  trialRoutes: [{ path: 'data-cuts/:cutId/review', element: <ReviewPage /> }],
+  trialRoutes: [{ path: 'data-cuts/:cutId/review', ...lazyPage(() => import('./review-page').then((m) => m.ReviewPage)) }],
 };

@@ -1,11 +1,9 @@
-import type { Feature } from '../../app/feature';
-import { DataCutsPage } from './data-cuts-page';
-import { CutPage } from './cut-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const dataCutFeature: Feature = {
   trialRoutes: [
-    { path: 'data-cuts', element: <DataCutsPage /> },
-    { path: 'data-cuts/:cutId', element: <CutPage /> },
+    { path: 'data-cuts', ...lazyPage(() => import('./data-cuts-page').then((m) => m.DataCutsPage)) },
+    { path: 'data-cuts/:cutId', ...lazyPage(() => import('./cut-page').then((m) => m.CutPage)) },
   ],
   trialNav: [{ path: 'data-cuts', label: 'Data cuts', roles: ['statistician', 'monitor'], order: 50 }],
 };

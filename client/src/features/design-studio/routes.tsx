@@ -1,7 +1,6 @@
-import type { Feature } from '../../app/feature';
-import { DesignStudioPage } from './design-studio-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const designStudioFeature: Feature = {
-  trialRoutes: [{ path: 'design', element: <DesignStudioPage /> }],
+  trialRoutes: [{ path: 'design', ...lazyPage(() => import('./design-studio-page').then((m) => m.DesignStudioPage)) }],
   trialNav: [{ path: 'design', label: 'Design studio', roles: ['statistician', 'admin', 'monitor'], order: 20 }],
 };

@@ -1,7 +1,6 @@
-import type { Feature } from '../../app/feature';
-import { OutboxPage } from './outbox-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const outboxFeature: Feature = {
-  routes: [{ path: 'outbox', element: <OutboxPage /> }],
+  routes: [{ path: 'outbox', ...lazyPage(() => import('./outbox-page').then((m) => m.OutboxPage)) }],
   nav: [{ path: '/outbox', label: 'Outbox', order: 90, devOnly: true }],
 };

@@ -1,13 +1,10 @@
-import type { Feature } from '../../app/feature';
-import { PatientsPage } from './patients-page';
-import { PatientPage } from './patient-page';
-import { ImportPage } from './import-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const patientsFeature: Feature = {
   trialRoutes: [
-    { path: 'patients', element: <PatientsPage /> },
-    { path: 'patients/import', element: <ImportPage /> },
-    { path: 'patients/:patientId', element: <PatientPage /> },
+    { path: 'patients', ...lazyPage(() => import('./patients-page').then((m) => m.PatientsPage)) },
+    { path: 'patients/import', ...lazyPage(() => import('./import-page').then((m) => m.ImportPage)) },
+    { path: 'patients/:patientId', ...lazyPage(() => import('./patient-page').then((m) => m.PatientPage)) },
   ],
   trialNav: [{ path: 'patients', label: 'Patients', roles: ['coordinator', 'investigator', 'statistician', 'monitor'], order: 30 }],
 };

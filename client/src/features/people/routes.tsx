@@ -1,14 +1,11 @@
-import type { Feature } from '../../app/feature';
-import { NewTrialPage } from './new-trial-page';
-import { SitesPage } from './sites-page';
-import { TrialPeoplePage } from './trial-people-page';
+import { lazyPage, type Feature } from '../../app/feature';
 
 export const peopleFeature: Feature = {
   routes: [
-    { path: 'people', element: <SitesPage /> },
-    { path: 'new-trial', element: <NewTrialPage /> },
+    { path: 'people', ...lazyPage(() => import('./sites-page').then((m) => m.SitesPage)) },
+    { path: 'new-trial', ...lazyPage(() => import('./new-trial-page').then((m) => m.NewTrialPage)) },
   ],
   nav: [{ path: '/people', label: 'People & sites', roles: ['admin'], order: 80 }],
-  trialRoutes: [{ path: 'people', element: <TrialPeoplePage /> }],
+  trialRoutes: [{ path: 'people', ...lazyPage(() => import('./trial-people-page').then((m) => m.TrialPeoplePage)) }],
   trialNav: [{ path: 'people', label: 'People & sites', roles: ['admin', 'statistician'], order: 80 }],
 };
