@@ -12,7 +12,11 @@ export type ScheduledJob = {
   name: string;
   /** The period a moment belongs to, e.g. an ISO week '2026-W49'. */
   periodOf: (now: Date) => string;
-  run: (db: Db, context: { period: string; now: Date; config: Config; logger: Logger }) => Promise<void>;
+  /**
+   * `trx` holds the period's claim: writes go through it so they commit with the claim. `reader`
+   * is the pool, for reads that may run in parallel (one transaction's connection cannot).
+   */
+  run: (trx: Db, context: { period: string; now: Date; config: Config; logger: Logger; reader: Db }) => Promise<void>;
 };
 
 export type Jobs = { runDue: (now?: Date) => Promise<string[]>; stop: () => Promise<void> };
@@ -31,7 +35,7 @@ export async function runDueJobs(
     const claimed = await db.transaction(async (trx) => {
       const inserted = await trx('job_runs').insert({ job: job.name, period }).onConflict(['job', 'period']).ignore().returning('job');
       if (inserted.length === 0) return false;
-      await job.run(trx as unknown as Db, { period, now, config, logger });
+      await job.run(trx as unknown as Db, { period, now, config, logger, reader: db });
       await trx('job_runs').where({ job: job.name, period }).update({ finished_at: trx.fn.now() });
       return true;
     });

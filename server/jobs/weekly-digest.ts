@@ -96,13 +96,13 @@ export async function digestFor(db: Db, userId: string, now: Date): Promise<Dige
 export const weeklyDigestJob: ScheduledJob = {
   name: DIGEST_JOB,
   periodOf: (now) => isoWeekOf(toDay(now)),
-  run: async (db, { period, now }) => {
+  run: async (trx, { period, now, reader }) => {
     const cache: TrialCache = new Map();
     const mails: QueuedMail[] = [];
-    for (const recipient of await sponsorRecipients(db)) {
-      const digest = await composeDigest(db, recipient, now, cache);
+    for (const recipient of await sponsorRecipients(reader)) {
+      const digest = await composeDigest(reader, recipient, now, cache);
       if (digest) mails.push({ kind: DIGEST_JOB, to: digest.to, subject: digest.subject, text: digest.text, dedupeKey: `${DIGEST_JOB}:${period}:${recipient.userId}` });
     }
-    await enqueueMail(db, mails);
+    await enqueueMail(trx, mails);
   },
 };
