@@ -88,7 +88,7 @@ export function createApp(config: Config, db: Db, logger: Logger): AppParts {
   // Load balancers poll the health route; it must never be throttled into looking down.
   app.use('/api', (req, res, next) => (req.path === '/health' ? next() : apiLimiter(req, res, next)));
 
-  const sessions = createSessionMiddleware(config);
+  const sessions = createSessionMiddleware(config, logger);
   const withSession: RequestHandler = (req, res, next) => (req.path === '/api/health' ? next() : sessions.middleware(req, res, next));
   app.use(['/api', '/auth'], withSession, (req, _res, next) => {
     const { userId, email, name } = req.session ?? {};

@@ -3,6 +3,7 @@ import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import pg from 'pg';
 import type { RequestHandler } from 'express';
+import type { Logger } from 'pino';
 import type { Config } from '../config.js';
 
 declare module 'express-session' {
@@ -19,13 +20,20 @@ declare module 'express-session' {
 
 export const SESSION_COOKIE = 'orrery.sid';
 
-export function createSessionMiddleware(config: Config): { middleware: RequestHandler; close: () => Promise<void> } {
+export function createSessionMiddleware(config: Config, logger: Logger): { middleware: RequestHandler; close: () => Promise<void> } {
   const pool = new pg.Pool({ connectionString: config.databaseUrl, max: 5, connectionTimeoutMillis: 2000 });
   pool.on('error', () => {
     // Idle clients dropped by a restarting database are replaced on the next checkout.
   });
   const PgStore = connectPgSimple(session);
-  const store = new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 });
+  const store = new PgStore({
+    pool,
+    tableName: 'session',
+    createTableIfMissing: false,
+    pruneSessionInterval: 15 * 60,
+    // The store's own failures (a database outage, a shutdown mid-request) belong in the server log.
+    errorLog: (...args: unknown[]) => logger.warn({ err: args.map(String).join(' ') }, 'session store error'),
+  });
   const middleware = session({
     name: SESSION_COOKIE,
     secret: config.sessionSecret,
