@@ -74,7 +74,11 @@ export function DataTable<T>({
             id={`${label}-filter`}
             type="search"
             value={filter}
-            onChange={(event) => setFilter(event.target.value)}
+            onChange={(event) => {
+              setFilter(event.target.value);
+              // A narrower filter can leave the current page empty: start again from the first page.
+              setPagination((current) => ({ ...current, pageIndex: 0 }));
+            }}
             className="w-64 rounded-sm border border-ink-300 bg-white px-2 py-1 text-sm"
           />
         </div>

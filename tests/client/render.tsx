@@ -1,0 +1,41 @@
+/**
+ * Renders a component as the app would (a fresh query client without retries, a memory router)
+ * and answers `fetch` with canned JSON, so tests stop at the network boundary and need no server.
+ */
+import type { ReactElement } from 'react';
+import { render } from '@testing-library/react';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { MemoryRouter } from 'react-router-dom';
+import { vi } from 'vitest';
+
+export function renderWithApp(ui: ReactElement, { path = '/' }: { path?: string } = {}) {
+  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  return render(
+    <QueryClientProvider client={queryClient}>
+      <MemoryRouter initialEntries={[path]}>{ui}</MemoryRouter>
+    </QueryClientProvider>,
+  );
+}
+
+export type CannedResponse = { status: number; body?: unknown };
+
+/** Replaces `fetch` with one that answers each call with the next canned response, in order. */
+export function stubFetch(...responses: CannedResponse[]) {
+  const queue = [...responses];
+  const fetchMock = vi.fn(async (_input: RequestInfo | URL, _init?: RequestInit) => {
+    const next = queue.shift();
+    if (!next) throw new Error('An unexpected request reached the network.');
+    return new Response(next.body === undefined ? null : JSON.stringify(next.body), {
+      status: next.status,
+      headers: next.body === undefined ? {} : { 'content-type': 'application/json' },
+    });
+  });
+  vi.stubGlobal('fetch', fetchMock);
+  return fetchMock;
+}
+
+/** The JSON body the app sent with a stubbed call. */
+export function sentBody(fetchMock: ReturnType<typeof stubFetch>, call = 0): unknown {
+  const init = fetchMock.mock.calls[call]?.[1];
+  return init?.body ? JSON.parse(String(init.body)) : undefined;
+}

@@ -1,0 +1,10 @@
+/** Client component tests: jest-dom matchers, and a clean DOM and clean mocks after each test. */
+import '@testing-library/jest-dom/vitest';
+import { cleanup } from '@testing-library/react';
+import { afterEach, vi } from 'vitest';
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+  vi.restoreAllMocks();
+});
