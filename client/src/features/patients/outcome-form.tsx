@@ -60,8 +60,9 @@ export function OutcomeForm({ trialId, patient, canWrite }: { trialId: string; p
   const form = useRef<FormikProps<Values>>(null);
 
   // A newer version arrived (an attestation, another user's save): take it unless the user is mid-edit.
+  // Only newer: after a reload from a conflict or a save, the prop is older until its query refetches.
   useEffect(() => {
-    if (patient.version !== base.version && !form.current?.dirty) {
+    if (patient.version > base.version && !form.current?.dirty) {
       setBase(patient);
       form.current?.resetForm({ values: toValues(patient) });
     }
