@@ -102,9 +102,10 @@ describe('OutcomeForm', () => {
 
     const outcomeRow = within(conflict).getByRole('row', { name: /^Outcome/ });
     const cells = within(outcomeRow).getAllByRole('cell');
-    expect(cells[0]).toHaveTextContent(/^pending$/);
-    expect(cells[1]).toHaveTextContent('non_responder (changed by someone else)');
-    expect(cells[2]).toHaveTextContent(/^responder$/);
+    // Outcomes read as words, not stored codes.
+    expect(cells[0]).toHaveTextContent(/^Pending$/);
+    expect(cells[1]).toHaveTextContent('Non-responder (changed by someone else)');
+    expect(cells[2]).toHaveTextContent(/^Responder$/);
     const evaluableRow = within(conflict).getByRole('row', { name: /^Evaluable/ });
     expect(evaluableRow).not.toHaveTextContent('changed by someone else');
 

@@ -26,6 +26,9 @@ function Frame({ name, label, hint, error, children }: Common & { error?: string
   );
 }
 
+/** Screen readers announce the field's message: its error when there is one, else its hint. */
+const describedBy = (name: string, error: string | undefined, hint: ReactNode) => (error ? `${name}-error` : hint ? `${name}-hint` : undefined);
+
 const inputClass = 'rounded-sm border border-ink-300 bg-white px-2 py-1.5 text-sm text-ink-900 tabular-nums aria-[invalid=true]:border-alert-600';
 
 export function TextField({ name, label, hint, ...props }: Common & InputHTMLAttributes<HTMLInputElement>) {
@@ -38,7 +41,7 @@ export function TextField({ name, label, hint, ...props }: Common & InputHTMLAtt
         {...field}
         value={field.value ?? ''}
         aria-invalid={!!error}
-        aria-describedby={error ? `${name}-error` : hint ? `${name}-hint` : undefined}
+        aria-describedby={describedBy(name, error, hint)}
         className={inputClass}
         {...props}
       />
@@ -51,7 +54,7 @@ export function SelectField({ name, label, hint, children, ...props }: Common & 
   const error = meta.touched && meta.error ? meta.error : undefined;
   return (
     <Frame name={name} label={label} hint={hint} error={error}>
-      <select id={name} {...field} value={field.value ?? ''} aria-invalid={!!error} className={inputClass} {...props}>
+      <select id={name} {...field} value={field.value ?? ''} aria-invalid={!!error} aria-describedby={describedBy(name, error, hint)} className={inputClass} {...props}>
         {children}
       </select>
     </Frame>
@@ -63,7 +66,7 @@ export function TextAreaField({ name, label, hint, ...props }: Common & Textarea
   const error = meta.touched && meta.error ? meta.error : undefined;
   return (
     <Frame name={name} label={label} hint={hint} error={error}>
-      <textarea id={name} {...field} value={field.value ?? ''} aria-invalid={!!error} className={inputClass} rows={3} {...props} />
+      <textarea id={name} {...field} value={field.value ?? ''} aria-invalid={!!error} aria-describedby={describedBy(name, error, hint)} className={inputClass} rows={3} {...props} />
     </Frame>
   );
 }

@@ -2,11 +2,16 @@
 import { Button } from '../../components/ui';
 import { OUTCOME_FIELDS } from '../../../../server/patients/patients.schema';
 import type { Patient } from './types';
-import { FIELD_LABELS } from './words';
+import { FIELD_LABELS, OUTCOME_WORDS } from './words';
 
 type Entry = Record<(typeof OUTCOME_FIELDS)[number], unknown>;
 
-const show = (value: unknown) => (value === null || value === undefined || value === '' ? '—' : value === true ? 'Yes' : value === false ? 'No' : String(value));
+const show = (value: unknown) => {
+  if (value === null || value === undefined || value === '') return '—';
+  if (typeof value === 'boolean') return value ? 'Yes' : 'No';
+  // Outcomes read as the words the rest of the page uses, not their stored codes.
+  return OUTCOME_WORDS[value as keyof typeof OUTCOME_WORDS]?.label ?? String(value);
+};
 
 export function ConflictView({ mine, loaded, current, onReload, onKeepMine }: { mine: Entry; loaded: Patient; current: Patient; onReload: () => void; onKeepMine: () => void }) {
   return (
