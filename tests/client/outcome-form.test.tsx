@@ -35,6 +35,16 @@ describe('OutcomeForm', () => {
     expect(fetchMock).not.toHaveBeenCalled();
   });
 
+  it('when the protocol derives outcomes from assessments, then only evaluability can be entered here and the form says why', () => {
+    stubFetch();
+    renderWithApp(<OutcomeForm trialId={TRIAL_ID} patient={patientRecord()} canWrite derived />);
+    expect(screen.getByLabelText('Outcome')).toBeDisabled();
+    expect(screen.getByLabelText('Best overall response')).toBeDisabled();
+    expect(screen.getByLabelText('Date of the response assessment')).toBeDisabled();
+    expect(screen.getByLabelText('Evaluable')).toBeEnabled();
+    expect(screen.getByText(/derives the outcome from the timepoint assessments/)).toBeInTheDocument();
+  });
+
   it('when a non-responder with SD becomes a responder, then SD is cleared because a responder is CR or PR', async () => {
     stubFetch();
     const recorded = patientRecord({ outcome: 'non_responder', bestOverallResponse: 'SD', responseAssessedOn: '2026-05-04', version: 3 });

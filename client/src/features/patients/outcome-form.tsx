@@ -51,7 +51,8 @@ const differs = (v: Values, p: Patient) => {
   return OUTCOME_FIELDS.some((field) => input[field] !== p[field]);
 };
 
-export function OutcomeForm({ trialId, patient, canWrite }: { trialId: string; patient: Patient; canWrite: boolean }) {
+/** `derived`: the protocol derives outcomes from timepoint assessments, so only evaluability is entered here. */
+export function OutcomeForm({ trialId, patient, canWrite, derived = false }: { trialId: string; patient: Patient; canWrite: boolean; derived?: boolean }) {
   const record = useRecordOutcome(trialId, patient.id);
   const [base, setBase] = useState(patient);
   const [conflict, setConflict] = useState<{ mine: Values; current: Patient } | null>(null);
@@ -105,9 +106,15 @@ export function OutcomeForm({ trialId, patient, canWrite }: { trialId: string; p
         return (
           <Form aria-label={`Outcome of ${patient.studyId}`} className="grid gap-3">
             <fieldset disabled={!canWrite} className="grid gap-3 sm:grid-cols-3">
+              {derived && (
+                <p className="text-xs text-ink-600 sm:col-span-3">
+                  <span aria-hidden>↻ </span>This protocol derives the outcome from the timepoint assessments below: record or correct an assessment to change it.
+                </p>
+              )}
               <SelectField
                 name="outcome"
                 label="Outcome"
+                disabled={derived}
                 onChange={(e) => {
                   const next = e.target.value as Outcome;
                   void setFieldValue('outcome', next);
@@ -121,7 +128,7 @@ export function OutcomeForm({ trialId, patient, canWrite }: { trialId: string; p
                   </option>
                 ))}
               </SelectField>
-              <SelectField name="bestOverallResponse" label="Best overall response" disabled={values.outcome === 'pending'}>
+              <SelectField name="bestOverallResponse" label="Best overall response" disabled={derived || values.outcome === 'pending'}>
                 <option value="">{values.outcome === 'pending' ? 'Not yet' : 'Choose…'}</option>
                 {allowed.map((r) => (
                   <option key={r} value={r}>
@@ -129,7 +136,7 @@ export function OutcomeForm({ trialId, patient, canWrite }: { trialId: string; p
                   </option>
                 ))}
               </SelectField>
-              <TextField name="responseAssessedOn" label="Date of the response assessment" type="date" min={base.enrolledOn} max={isoDay(new Date())} disabled={values.outcome === 'pending'} />
+              <TextField name="responseAssessedOn" label="Date of the response assessment" type="date" min={base.enrolledOn} max={isoDay(new Date())} disabled={derived || values.outcome === 'pending'} />
               <div className="sm:col-span-3">
                 <CheckboxField name="evaluable" label="Evaluable" hint="Untick when the patient cannot be assessed for response; give the reason." />
               </div>

@@ -32,7 +32,7 @@ export function PatientPage() {
       />
       <div className="grid gap-4 lg:grid-cols-3">
         <Panel title="Outcome" className="lg:col-span-2">
-          <OutcomeForm key={patient.id} trialId={trial.id} patient={patient} canWrite={canWrite} />
+          <OutcomeForm key={patient.id} trialId={trial.id} patient={patient} canWrite={canWrite} derived={trial.protocolSettings.outcomeSource === 'derived'} />
         </Panel>
         <Panel title="Attestation">
           <AttestationPanel trialId={trial.id} patient={patient} canAttest={canAttest} />

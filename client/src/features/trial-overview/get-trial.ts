@@ -1,12 +1,12 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { Role } from '../../lib/roles';
-import type { Cohort, Trial as TrialRecord } from '../../../../server/trials/trials.repository';
+import type { Cohort, TrialDetail } from '../../../../server/trials/trials.repository';
 
 export type { Cohort };
 
 /** The trial as GET /api/trials/:id answers it: the record plus the reader's own roles and sites. */
-export type Trial = TrialRecord & {
+export type Trial = TrialDetail & {
   myRoles: Role[];
   mySiteIds: string[];
 };
