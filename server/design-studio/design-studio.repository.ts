@@ -5,45 +5,14 @@ import { isUuid } from '../http/routes.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
 import { assignStages, type AnalysisPopulation, type Outcome } from '../evaluation/counting.js';
 import { toLockedDesign, type DesignRow, type LockedDesign } from './current-design.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import { toCohort as toTrialCohort, type Cohort, type CohortRow } from '../trials/trials.repository.js';
 
 type Conn = Db | Knex.Transaction;
 
-export type DesignCohort = {
-  id: string;
-  trialId: string;
-  code: string;
-  name: string;
-  position: number;
-  status: CohortStatus;
-  stopCategory: string | null;
-  stopReason: string | null;
-  statusChangedAt: string;
-};
+/** A cohort as the Design studio shows it: the trial's cohort record and the trial it belongs to. */
+export type DesignCohort = Cohort & { trialId: string };
 
-type CohortRow = {
-  id: string;
-  trial_id: string;
-  code: string;
-  name: string;
-  position: number;
-  status: CohortStatus;
-  stop_category: string | null;
-  stop_reason: string | null;
-  status_changed_at: Date;
-};
-
-const toCohort = (row: CohortRow): DesignCohort => ({
-  id: row.id,
-  trialId: row.trial_id,
-  code: row.code,
-  name: row.name,
-  position: row.position,
-  status: row.status,
-  stopCategory: row.stop_category,
-  stopReason: row.stop_reason,
-  statusChangedAt: row.status_changed_at.toISOString(),
-});
+const toCohort = (row: CohortRow): DesignCohort => ({ ...toTrialCohort(row), trialId: row.trial_id });
 
 export type SignedBy = Signature & { signerName: string | null };
 export type DesignVersion = LockedDesign & { signature: SignedBy | null };

@@ -50,7 +50,7 @@ type TrialRow = {
   version: number;
 };
 
-type CohortRow = {
+export type CohortRow = {
   id: string;
   trial_id: string;
   code: string;
