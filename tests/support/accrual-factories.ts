@@ -7,6 +7,8 @@ import { randomUUID } from 'node:crypto';
 import type { Db } from '../../server/db/knex.js';
 import { addDays, toDay } from '../../server/accrual/calendar.js';
 import { DEMO, ensureUser } from './factories.js';
+import { recommendDirectly as recommendCut } from './data-cut-factories.js';
+import type { RecommendationDecision } from '../../server/data-cuts/data-cuts.schema.js';
 
 export const today = () => toDay(new Date());
 /** The day `days` days before today. */
@@ -56,36 +58,16 @@ export async function cutDataDirectly(
   return row.id;
 }
 
-/** A committee member's signed recommendation on a data cut. */
+/** A committee recommendation on a cut, back-dated with `at` (the data-cut factories write it). */
 export async function recommendDirectly(
   db: Db,
-  input: { trialId: string; cutId: string; decision: 'continue' | 'stop_futility' | 'stop_other' | 'modify_protocol'; at?: Date; memberEmail?: string },
+  input: { trialId: string; cutId: string; decision: RecommendationDecision; at?: Date; memberEmail?: string },
 ): Promise<string> {
-  const email = input.memberEmail ?? DEMO.monitor;
-  const memberId = await ensureUser(db, email);
-  const [signature] = await db('signatures')
-    .insert({
-      trial_id: input.trialId,
-      signer_user_id: memberId,
-      signer_email: email,
-      meaning: 'I record this recommendation (test fixture)',
-      subject_type: 'recommendation',
-      subject_id: input.cutId,
-      content_hash: 'test-fixture',
-      authenticated_at: input.at ?? new Date(),
-    })
-    .returning('id');
-  const [row] = await db('recommendations')
-    .insert({
-      data_cut_id: input.cutId,
-      member_user_id: memberId,
-      decision: input.decision,
-      rationale: 'Recorded by a test fixture.',
-      signature_id: signature.id,
-      created_at: input.at ?? new Date(),
-    })
-    .returning('id');
-  return row.id;
+  const cut = await db('data_cuts').where({ id: input.cutId }).first('id', 'trial_id', 'seq', 'content_hash');
+  return recommendCut(db, { id: cut.id, trialId: cut.trial_id, seq: cut.seq, contentHash: cut.content_hash }, input.memberEmail ?? DEMO.monitor, input.decision, {
+    rationale: 'Recorded by a test fixture.',
+    at: input.at,
+  });
 }
 
 /**

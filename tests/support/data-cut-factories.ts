@@ -48,7 +48,15 @@ export async function freezeCutDirectly(db: Db, trial: TrialFixture, options: { 
 }
 
 /** A signed recommendation written straight to the database, as if the member had signed it. */
-export async function recommendDirectly(db: Db, cut: DataCut, email: string, decision: RecommendationDecision, rationale = 'Reviewed at the committee meeting.') {
+/** A signed recommendation written straight to the database; `at` back-dates it (signature and row). */
+export async function recommendDirectly(
+  db: Db,
+  cut: Pick<DataCut, 'id' | 'trialId' | 'seq' | 'contentHash'>,
+  email: string,
+  decision: RecommendationDecision,
+  options: { rationale?: string; at?: Date } = {},
+) {
+  const { rationale = 'Reviewed at the committee meeting.', at = new Date() } = options;
   const userId = await ensureUser(db, email);
   const [signature] = await db('signatures')
     .insert({
@@ -59,11 +67,11 @@ export async function recommendDirectly(db: Db, cut: DataCut, email: string, dec
       subject_type: 'recommendation',
       subject_id: cut.id,
       content_hash: cut.contentHash,
-      authenticated_at: new Date(),
+      authenticated_at: at,
     })
     .returning('id');
   const [row] = await db('recommendations')
-    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signature.id })
+    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signature.id, created_at: at })
     .returning('id');
   return row.id as string;
 }
