@@ -151,18 +151,22 @@ export type DesignTargets = Pick<LockedDesign, 'selection' | 'n1' | 'n' | 'analy
 export const designTargets = (design: LockedDesign | undefined): DesignTargets | null =>
   design ? { selection: design.selection, n1: design.n1, n: design.n, analysisPopulation: design.analysisPopulation } : null;
 
-export type CohortAccrual = {
-  cohortId: string;
-  code: string;
-  name: string;
-  status: Cohort['status'];
-  design: DesignTargets | null;
+/** A cohort's enrolment counts, as Accrual and the Portfolio both show them. */
+export type EnrolmentCounts = {
   enrolled: number;
   counted: number;
   evaluable: number;
   pendingOutcomes: number;
   enrolledLastWeek: number;
   lastEnrolledOn: string | null;
+};
+
+export type CohortAccrual = EnrolmentCounts & {
+  cohortId: string;
+  code: string;
+  name: string;
+  status: Cohort['status'];
+  design: DesignTargets | null;
   projections: CohortProjections;
 };
 

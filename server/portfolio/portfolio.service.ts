@@ -16,7 +16,7 @@ import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/tri
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
 import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
 import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
-import { countsUnder, designTargets, type DesignTargets } from '../accrual/accrual.service.js';
+import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/accrual.service.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import { STATUS_WORDS } from './words.js';
@@ -26,7 +26,7 @@ export type Progress = { counted: number; target: number; fraction: number };
 
 export type ResponseFigures = { responders: number; outcomesKnown: number; responseRate: number | null; stage1Responders: number };
 
-export type PortfolioRow = {
+export type PortfolioRow = EnrolmentCounts & {
   trialId: string;
   trialCode: string;
   trialTitle: string;
@@ -44,12 +44,6 @@ export type PortfolioRow = {
   stage: 1 | 2 | null;
   stageWords: string;
   design: DesignTargets | null;
-  enrolled: number;
-  counted: number;
-  evaluable: number;
-  pendingOutcomes: number;
-  enrolledLastWeek: number;
-  lastEnrolledOn: string | null;
   progress: { n1: Progress | null; n: Progress | null };
   nextMilestone: Milestone;
   lastRecommendation: { decision: string; words: string; on: string } | null;
