@@ -66,11 +66,7 @@ export function AddAssessmentForm({ trialId, patientId, enrolledOn }: Ids) {
     >
       {({ isSubmitting, status }) => (
         <Form aria-label="Add an assessment" className="grid gap-3 sm:grid-cols-[10rem_14rem_1fr_auto] sm:items-start">
-          <TextField name="date" label="Assessment date" type="date" min={enrolledOn} max={latestToday()} />
-          <SelectField name="response" label="Overall timepoint response">
-            <ResponseOptions />
-          </SelectField>
-          <TextField name="notes" label="Notes (optional)" maxLength={NOTES_MAX} />
+          <AssessmentFields enrolledOn={enrolledOn} notesLabel="Notes (optional)" />
           <div className="sm:pt-5">
             <Button type="submit" disabled={isSubmitting}>
               {isSubmitting ? 'Saving…' : 'Add assessment'}
@@ -114,11 +110,7 @@ export function CorrectAssessmentForm({ trialId, patientId, enrolledOn, assessme
     >
       {({ isSubmitting, status }) => (
         <Form aria-label="Correct the assessment" className="grid gap-3 border-l-2 border-brass-500 bg-ink-50 p-3 sm:grid-cols-3">
-          <TextField name="date" label="Assessment date" type="date" min={enrolledOn} max={latestToday()} />
-          <SelectField name="response" label="Overall timepoint response">
-            <ResponseOptions />
-          </SelectField>
-          <TextField name="notes" label="Notes" maxLength={NOTES_MAX} />
+          <AssessmentFields enrolledOn={enrolledOn} notesLabel="Notes" />
           <div className="sm:col-span-3">
             <TextAreaField name="reason" label="Reason for the correction" hint="Kept in the audit trail with the values before and after." />
           </div>
@@ -176,5 +168,18 @@ export function RemoveAssessmentForm({ trialId, patientId, assessment, onDone }:
         </Form>
       )}
     </Formik>
+  );
+}
+
+/** The three fields an assessment has, the same when adding one and when correcting it. */
+function AssessmentFields({ enrolledOn, notesLabel }: { enrolledOn: string; notesLabel: string }) {
+  return (
+    <>
+      <TextField name="date" label="Assessment date" type="date" min={enrolledOn} max={latestToday()} />
+      <SelectField name="response" label="Overall timepoint response">
+        <ResponseOptions />
+      </SelectField>
+      <TextField name="notes" label={notesLabel} maxLength={NOTES_MAX} />
+    </>
   );
 }
