@@ -2,9 +2,8 @@
  * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
  * their own sites (other sites answer 404); the statistician and the committee read every site.
  */
-import type { Response } from 'express';
 import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
-import { csvUpload } from '../csv/upload.js';
+import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
 import { registerPatientWriteHook } from '../patients/patient-hooks.js';
 import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';
 import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
@@ -22,12 +21,6 @@ registerPatientWriteHook(async (trx, write) => {
 });
 
 const uploadCsv = csvUpload(ASSESSMENT_IMPORT_MAX_BYTES);
-
-function sendCsv(res: Response, filename: string, body: string) {
-  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-  res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
-  res.send(body);
-}
 
 export const assessmentsRoutes: RouteSpec[] = [
   {
@@ -77,7 +70,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     before: [uploadCsv],
     handler: async (req, res, { db }) => {
       const rows = readAssessmentCsv(req.file);
-      const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+      const dryRun = isDryRun(req);
       res.json(await importAssessments(db, requireTrialAccess(req), requireUser(req), rows, { dryRun }));
     },
   },

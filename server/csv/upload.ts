@@ -4,7 +4,7 @@
  * NUL bytes, UTF-8, exactly the expected columns, and not too many rows.
  */
 import multer from 'multer';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import { parse } from 'csv-parse/sync';
 import { AppError, InputError } from '../http/errors.js';
 
@@ -72,4 +72,15 @@ export function readUploadedCsv<C extends string>(file: UploadedFile | undefined
     throw new InputError(`The file has ${rows.length} rows; at most ${maxRows} can be imported at once.`, { file: `Split the file into parts of at most ${maxRows} rows.` });
   }
   return rows.map((cells) => Object.fromEntries(columns.map((c) => [c, header.includes(c) ? (cells[header.indexOf(c)] ?? '') : ''])) as Record<C, string>);
+}
+
+/** `?dryRun=1` (or true/yes): check every row and write nothing. */
+export const isDryRun = (req: Request): boolean => ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+
+/** Sends a CSV download (its cells already neutralised by `toCsv`). */
+export function sendCsv(res: Response, filename: string, body: string) {
+  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+  res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.send(body);
 }

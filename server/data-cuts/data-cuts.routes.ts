@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import { number, object } from 'yup';
 import type { Request, Response } from 'express';
 import type { Db } from '../db/knex.js';
-import type { MailWorker } from '../mail/outbox.js';
+import { kickMail } from '../mail/outbox.js';
 import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
 import { requireFreshAuthentication } from '../signatures/signatures.js';
@@ -106,7 +106,7 @@ export const dataCutsRoutes: RouteSpec[] = [
       const input = await parseBody(recommendationSchema, req.body);
       const user = requireUser(req);
       const signed = await recommend(db, cutId(req), input, user, () => requireFreshAuthentication(req, config));
-      (req.app.locals.mail as MailWorker | undefined)?.kick();
+      kickMail(req);
       res.status(201).json({ recommendation: signed, ...(await recommendations(db, cutId(req))) });
     },
   },
@@ -117,7 +117,7 @@ export const dataCutsRoutes: RouteSpec[] = [
     handler: async (req, res, { db }) => {
       const input = await parseBody(decisionSchema, req.body);
       const result = await applyDecision(db, cutId(req), input, requireUser(req));
-      (req.app.locals.mail as MailWorker | undefined)?.kick();
+      kickMail(req);
       res.status(201).json(result);
     },
   },

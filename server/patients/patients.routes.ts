@@ -4,9 +4,9 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import type { RequestHandler } from 'express';
 import type { Role, RouteSpec } from '../http/routes.js';
-import { csvUpload } from '../csv/upload.js';
+import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
+import { kickMail } from '../mail/outbox.js';
 import { evaluationRoutes } from '../evaluation/evaluation.routes.js';
 import { IMPORT_MAX_BYTES } from './patients.schema.js';
 import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
@@ -17,15 +17,6 @@ const READ: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITE: Role[] = ['coordinator', 'investigator'];
 
 const uploadCsv = csvUpload(IMPORT_MAX_BYTES);
-
-const kickMail = (req: Parameters<RequestHandler>[0]) => (req.app.locals.mail as { kick?: () => void } | undefined)?.kick?.();
-
-function sendCsv(res: Parameters<RequestHandler>[1], filename: string, body: string) {
-  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-  res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
-  res.setHeader('X-Content-Type-Options', 'nosniff');
-  res.send(body);
-}
 
 export const patientsRoutes: RouteSpec[] = [
   {
@@ -71,7 +62,7 @@ export const patientsRoutes: RouteSpec[] = [
     before: [uploadCsv],
     handler: async (req, res, { db }) => {
       const rows = readCsv(req.file);
-      const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+      const dryRun = isDryRun(req);
       const report = await importPatients(db, actorFrom(req), rows, { dryRun });
       if (report.committed) kickMail(req);
       res.json(report);

@@ -7,7 +7,7 @@ import type { Request } from 'express';
 import { isUuid, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import type { MailWorker } from '../mail/outbox.js';
+import { kickMail } from '../mail/outbox.js';
 import { listMemberships, listSites } from './people.repository.js';
 import { membershipInviteSchema, membershipUpdateSchema, siteSchema, siteUpdateSchema } from './people.schema.js';
 import { createSite, inviteMember, removeMember, updateMember, updateSite } from './people.service.js';
@@ -19,7 +19,6 @@ function recordId(req: Request, name: string, what: string): string {
 }
 
 /** Queued mail goes out promptly once the transaction that queued it has committed. */
-const kickMail = (req: Request) => (req.app.locals.mail as MailWorker | undefined)?.kick();
 
 export const peopleRoutes: RouteSpec[] = [
   {
