@@ -1,5 +1,6 @@
 /** Accrual of one trial: enrolment over time against the plan, by site, with projections. Every role of the trial. */
-import { ROLES, requireTrialAccess, siteScope, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, type RouteSpec } from '../http/routes.js';
+import { ROLES, siteScope } from '../auth/access.js';
 import { toDay } from './calendar.js';
 import { trialAccrual } from './accrual.service.js';
 

@@ -12,7 +12,7 @@ import type { Knex } from 'knex';
 import { ValidationError } from 'yup';
 import type { Db } from '../db/knex.js';
 import { AppError } from '../http/errors.js';
-import type { SessionUser, TrialAccess } from '../http/routes.js';
+import type { SessionUser, TrialAccess } from '../auth/access.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
 import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import { assessmentSchema } from './assessments.schema.js';

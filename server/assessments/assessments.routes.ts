@@ -2,7 +2,8 @@
  * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
  * their own sites (other sites answer 404); the statistician and the committee read every site.
  */
-import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { type Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
 import { registerPatientWriteHook } from '../patients/patient-hooks.js';
 import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';

@@ -9,7 +9,7 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { siteScope, type SessionUser, type TrialAccess } from '../http/routes.js';
+import { siteScope, type SessionUser, type TrialAccess } from '../auth/access.js';
 import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
 import {
   deleteAssessment,

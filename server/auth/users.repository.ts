@@ -1,7 +1,7 @@
 /** Users are provisioned from the identity provider's claims; pending invitations attach on first sign-in. */
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
-import type { SessionUser } from '../http/routes.js';
+import type { SessionUser } from './access.js';
 
 export async function provisionUser(db: Db, claims: { subject: string; email: string; name: string | null }): Promise<SessionUser> {
   return db.transaction(async (trx) => {

@@ -1,7 +1,7 @@
 /** The Design studio's reads and writes: cohorts, their design versions with signatures, enrolment counts. */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { isUuid } from '../http/routes.js';
+import { isUuid } from '../auth/access.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
 import { assignStages, type AnalysisPopulation, type Outcome } from '../evaluation/counting.js';
 import { toLockedDesign, type DesignRow, type LockedDesign } from './current-design.js';

@@ -2,7 +2,8 @@
  * Design studio routes. The statistician compares and signs designs; the trial manager (admin)
  * and the committee (monitor) read them; site roles and sponsors never reach a design route.
  */
-import { requireTrialAccess, requireUser, type Role, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { type Role } from '../auth/access.js';
 import { parseBody } from '../http/validate.js';
 import { requireFreshAuthentication } from '../signatures/signatures.js';
 import { cohortTransitionSchema, designAmendmentSchema, designLockSchema, designSettingsSchema } from './design-studio.schema.js';

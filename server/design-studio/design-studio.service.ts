@@ -10,7 +10,7 @@ import { randomUUID } from 'node:crypto';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
-import { hasRole, type TrialAccess } from '../http/routes.js';
+import { hasRole, type TrialAccess } from '../auth/access.js';
 import { recordSignature } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
 import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';

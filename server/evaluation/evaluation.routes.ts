@@ -2,7 +2,8 @@
  * The live evaluation of a trial's cohorts. Every member may read it: it is aggregate, never
  * patient-level; sponsors get response figures only where the design releases them to sponsors.
  */
-import { ROLES, requireTrialAccess, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, type RouteSpec } from '../http/routes.js';
+import { ROLES } from '../auth/access.js';
 import { evaluateTrial } from './evaluation.service.js';
 
 export const evaluationRoutes: RouteSpec[] = [

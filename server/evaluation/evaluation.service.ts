@@ -7,7 +7,7 @@
  */
 import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
 import { countingGroups, responderPaths, trialFacts, type CountingGroup, type CountingRule } from '../patients/patients.repository.js';

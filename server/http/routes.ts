@@ -16,10 +16,7 @@ import type { NextFunction, Request, RequestHandler, Response, Router } from 'ex
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
-
-export const ROLES = ['admin', 'statistician', 'coordinator', 'investigator', 'monitor', 'sponsor'] as const;
-export type Role = (typeof ROLES)[number];
-export const SITE_ROLES: readonly Role[] = ['coordinator', 'investigator'];
+import { isUuid, type Actor, type Role, type SessionUser, type TrialAccess } from '../auth/access.js';
 
 export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string | undefined>;
 
@@ -28,16 +25,6 @@ export type Access =
   | { kind: 'signed-in' }
   | { kind: 'role-anywhere'; roles: readonly Role[] }
   | { kind: 'trial'; roles: readonly Role[]; trialOf?: TrialOf };
-
-export type SessionUser = { id: string; email: string; name: string | null };
-
-/** What the signed-in user may do on the trial a route concerns. */
-export type TrialAccess = {
-  trialId: string;
-  roles: Role[];
-  /** Sites the user holds a site role at; irrelevant for roles that read every site. */
-  siteIds: string[];
-};
 
 export type Deps = { db: Db; config: Config };
 export type Handler = (req: Request, res: Response, deps: Deps) => Promise<void> | void;
@@ -60,18 +47,6 @@ declare module 'express-serve-static-core' {
   }
 }
 
-export const isUuid = (value: unknown): value is string =>
-  typeof value === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);
-
-export function hasRole(access: TrialAccess | undefined, ...roles: Role[]): boolean {
-  return !!access && access.roles.some((role) => roles.includes(role));
-}
-
-/** Site roles see their own sites only; every other role that reaches patient data sees all. */
-export function siteScope(access: TrialAccess): string[] | 'all' {
-  return access.roles.some((role) => !SITE_ROLES.includes(role)) ? 'all' : access.siteIds;
-}
-
 export function requireTrialAccess(req: Request): TrialAccess {
   if (!req.trialAccess) throw new Error('route is not declared with trial access');
   return req.trialAccess;
@@ -80,6 +55,11 @@ export function requireTrialAccess(req: Request): TrialAccess {
 export function requireUser(req: Request): SessionUser {
   if (!req.user) throw new UnauthenticatedError();
   return req.user;
+}
+
+/** The actor of a trial route: the signed-in user with their access to the route's trial. */
+export function actorOf(req: Request): Actor {
+  return { user: requireUser(req), access: requireTrialAccess(req) };
 }
 
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {

@@ -4,7 +4,8 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import type { Role, RouteSpec } from '../http/routes.js';
+import type { RouteSpec } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
 import { kickMail } from '../mail/outbox.js';
 import { evaluationRoutes } from '../evaluation/evaluation.routes.js';

@@ -12,7 +12,8 @@ import type { Config } from '../config.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { requireTrialAccess, requireUser, siteScope, type SessionUser } from '../http/routes.js';
+import { requireTrialAccess, requireUser } from '../http/routes.js';
+import { siteScope, type SessionUser } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication } from '../signatures/signatures.js';
 import { currentDesign } from '../design-studio/current-design.js';
 import {

@@ -1,6 +1,6 @@
 /** Sites and memberships as plain domain objects; the only place in People & sites that touches Knex. */
 import type { Db } from '../db/knex.js';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 
 export type Site = {
   id: string;

@@ -4,7 +4,8 @@
  * see who else works on the trial.
  */
 import type { Request } from 'express';
-import { isUuid, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { kickMail } from '../mail/outbox.js';

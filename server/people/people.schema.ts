@@ -3,7 +3,7 @@
  * routes and the client's forms, so this file imports nothing but Yup (and types).
  */
 import * as yup from 'yup';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 
 /** The site code is the prefix of its patients' study IDs. */
 export const SITE_CODE = /^[A-Z0-9]{2,8}$/;

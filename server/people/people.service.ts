@@ -7,7 +7,7 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 import {
   countPatientsAtSite,
   deleteMembership,

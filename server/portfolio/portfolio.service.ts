@@ -11,7 +11,7 @@
  * sites, so trial-wide response figures are theirs only once released.
  */
 import type { Db } from '../db/knex.js';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
 import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';

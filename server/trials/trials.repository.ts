@@ -1,6 +1,6 @@
 /** Reads trials and their cohorts as plain domain objects. */
 import type { Db } from '../db/knex.js';
-import type { Role } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
 
 export type CohortStatus =
   | 'draft'

@@ -1,5 +1,6 @@
 /** Trials: the ones a user can see, one trial's record, and setting a trial up (admin; protocol settings: statistician). */
-import { ROLES, isUuid, requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { ROLES, isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { findTrialDetail, listTrialsForUser } from './trials.repository.js';

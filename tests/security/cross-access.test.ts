@@ -12,7 +12,7 @@ import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
 import type { Session } from '../support/sign-in.js';
 import type { RouteSpec } from '../../server/http/routes.js';
-import { SITE_ROLES } from '../../server/http/routes.js';
+import { SITE_ROLES } from '../../server/auth/access.js';
 import { countChanges, tableCounts } from '../support/fuzz-counts.js';
 import { WRITE_METHODS, allowedRoles, fillPath, paramFiller, pathParams, routeLabel, unfillable } from '../support/fuzz-routes.js';
 import { validBodies } from '../support/fuzz-samples.js';

@@ -3,8 +3,9 @@
  * roles may call them, and filling their path parameters with real ids (from matrix-params.ts) of
  * a chosen trial fixture.
  */
-import type { RouteSpec, Role } from '../../server/http/routes.js';
-import { ROLES } from '../../server/http/routes.js';
+import type { RouteSpec } from '../../server/http/routes.js';
+import type { Role } from '../../server/auth/access.js';
+import { ROLES } from '../../server/auth/access.js';
 import type { Stack } from './stack.js';
 import type { TrialFixture } from './factories.js';
 import { paramFixtures } from './matrix-params.js';

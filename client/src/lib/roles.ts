@@ -1,6 +1,7 @@
-/** Roles as the server names them, and how people read them. */
-export const ROLES = ['admin', 'statistician', 'coordinator', 'investigator', 'monitor', 'sponsor'] as const;
-export type Role = (typeof ROLES)[number];
+/** Roles come from the server's access module; here only how people read them. */
+import type { Role } from '../../../server/auth/access';
+
+export { ROLES, hasAnyRole, type Role } from '../../../server/auth/access';
 
 export const ROLE_LABELS: Record<Role, string> = {
   admin: 'Trial manager (admin)',
@@ -10,6 +11,3 @@ export const ROLE_LABELS: Record<Role, string> = {
   monitor: 'Committee member',
   sponsor: 'Sponsor',
 };
-
-export const hasAnyRole = (mine: readonly string[] | undefined, allowed: readonly Role[]) =>
-  !!mine && mine.some((role) => (allowed as readonly string[]).includes(role));

@@ -1,0 +1,38 @@
+/**
+ * The domain's words for who may do what: roles, a user's access to one trial, and the actor a
+ * service acts for. Pure and free of Express, so services, stores, shared schemas and the client
+ * import it alike; `server/http/` only mounts routes and authorises against it.
+ */
+export const ROLES = ['admin', 'statistician', 'coordinator', 'investigator', 'monitor', 'sponsor'] as const;
+export type Role = (typeof ROLES)[number];
+
+/** Roles held at a site: they see and write their own sites' patients only. */
+export const SITE_ROLES: readonly Role[] = ['coordinator', 'investigator'];
+
+export type SessionUser = { id: string; email: string; name: string | null };
+
+/** What the signed-in user may do on one trial. */
+export type TrialAccess = {
+  trialId: string;
+  roles: Role[];
+  /** Sites the user holds a site role at; irrelevant for roles that read every site. */
+  siteIds: string[];
+};
+
+/** Who a service acts for: the signed-in user and their access to the trial concerned. */
+export type Actor = { user: SessionUser; access: TrialAccess };
+
+export const isUuid = (value: unknown): value is string =>
+  typeof value === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);
+
+export function hasRole(access: TrialAccess | undefined, ...roles: Role[]): boolean {
+  return !!access && access.roles.some((role) => roles.includes(role));
+}
+
+export const hasAnyRole = (mine: readonly string[] | undefined, allowed: readonly Role[]) =>
+  !!mine && mine.some((role) => (allowed as readonly string[]).includes(role));
+
+/** Site roles see their own sites only; every other role that reaches patient data sees all. */
+export function siteScope(access: TrialAccess): string[] | 'all' {
+  return access.roles.some((role) => !SITE_ROLES.includes(role)) ? 'all' : access.siteIds;
+}
