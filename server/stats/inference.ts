@@ -1,12 +1,16 @@
 /**
  * Inference at the end of a two-stage trial, where the naive binomial p-value and interval ignore the
- * stopping rule.
+ * stopping rule. This is the primary analysis behind a final verdict.
  *
- * Stage-wise ordering (Koyama & Chen 2008): every outcome that stopped after stage 1 ranks below every
- * outcome that went on; stage-1 outcomes are ordered by x1, stage-2 outcomes by the total x1 + x2.
+ * Stage-wise ordering over the attained design: every outcome that stopped after stage 1 ranks below
+ * every outcome that went on; stage-1 outcomes are ordered by x1, stage-2 outcomes by the total x1 + x2.
  * The p-value is P(outcome at least as high | p0); the interval inverts the two tail probabilities,
- * which are monotone in p. The UMVUE is Jung & Kim's (2004) Rao–Blackwell estimator. An actual stage 2
- * of a size other than planned (n2Actual) is analysed as the sample space it produced.
+ * which are monotone in p. The UMVUE is Jung & Kim's (2004) Rao–Blackwell estimator. With the planned
+ * stage 2 this is the ordering Koyama & Chen (2008) use; an actual stage 2 of another size (n2Actual = m2)
+ * applies the same ordering to the sample space with the attained m2, as if m2 had been planned, which is
+ * valid when m2 does not depend on the data. Koyama & Chen's own answer to m2 ≠ n2 (their §4: planned
+ * design kept, stage 2 carried through a conditional p-value) is `koyamaChenPValue` (koyama-chen.ts), the
+ * sensitivity figure reported beside this one.
  */
 import { StatsInputError, requireAtMost, requireCount, requireOpenUnit } from './errors.js';
 import { binomialCdf, binomialSf, proportionInterval } from './binomial.js';
@@ -82,7 +86,7 @@ function logSumExp(terms: number[]): number {
   return top + Math.log(sum);
 }
 
-function validateDesign(design: InferenceDesign): void {
+export function validateDesign(design: InferenceDesign): void {
   if (typeof design !== 'object' || design === null) throw new StatsInputError('design', 'A design with r1, n1, r, n and p0 is required.');
   const n = requireCount('n', design.n, 1);
   const n1 = requireCount('n1', design.n1, 1);
