@@ -14,13 +14,13 @@
  *
  * With m2 = n2 it equals the stage-wise p-value only on the planned boundary (x1 + x2 = r + 1, x1 ≤ r);
  * both then put p ≤ attained α exactly when x1 + x2 > r, but elsewhere they differ, because this family of
- * tests is not ordered by the total. After x1 > r the planned design has already succeeded (A = 1), so the
- * figure is P(X1 > r | p0) whatever stage 2 shows. This follows the authors' published R function
- * `pval.st2`, including its limits; where A(x1) = 0 (the planned stage 2 could not reach r + 1) that
- * function is undefined and π* = 1, its limit, is used.
+ * tests is not ordered by the total. This follows the authors' published R function `pval.st2`, including
+ * π* = 0 once x1 > r: the planned design has then already succeeded (A = 1), so the figure is
+ * P(X1 > r | p0) whatever stage 2 shows. Where the planned stage 2 could not reach r + 1 (A(x1) = 0),
+ * π* = 1, the limit of the construction, is used.
  */
 import { StatsInputError, requireAtMost, requireCount } from './errors.js';
-import { binomialCdf, binomialSf } from './binomial.js';
+import { binomialSf } from './binomial.js';
 import { validateDesign, type InferenceDesign } from './inference.js';
 import { betaQuantile, binomialLogPmf } from './special.js';
 
@@ -37,11 +37,8 @@ export interface KoyamaChenObservation {
 function rateMatchingConditionalPValue(needed: number, n2: number, x2: number, m2: number, p0: number): number {
   if (needed <= 0) return 0;
   if (needed > n2) return 1;
-  const upper = binomialSf(x2 - 1, m2, p0);
-  // P(Bin(n2, π) ≥ k) is the lower tail of Beta(k, n2 − k + 1) at π; invert through the smaller tail.
-  return upper <= 0.5
-    ? betaQuantile(upper, needed, n2 - needed + 1)
-    : betaQuantile(binomialCdf(x2 - 1, m2, p0), needed, n2 - needed + 1, true);
+  // P(Bin(n2, π) ≥ k) is the lower tail of Beta(k, n2 − k + 1) at π.
+  return betaQuantile(binomialSf(x2 - 1, m2, p0), needed, n2 - needed + 1);
 }
 
 export function koyamaChenPValue(design: InferenceDesign, observed: KoyamaChenObservation): number {
