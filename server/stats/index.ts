@@ -26,3 +26,5 @@ export { adjustPValues } from './multiplicity.js';
 export type { AdjustMethod } from './multiplicity.js';
 export { heterogeneity } from './heterogeneity.js';
 export type { HeterogeneityResult } from './heterogeneity.js';
+export { toxicityBoundary, toxicityBoundaryCharacteristics, TOXICITY_BOUNDARY_NMAX } from './toxicity-boundary.js';
+export type { ToxicityBoundarySettings, ToxicityBoundary, ToxicityOperatingPoint } from './toxicity-boundary.js';
