@@ -18,13 +18,15 @@
  * The search covers n ≤ nmax, 1 ≤ n1 < n, 0 ≤ r1 < n1, 0 ≤ t1 < n1 (both stage-1 rules can stop),
  * r1 ≤ r < n, t1 ≤ t < n, exactly.
  *
- * Speed: binomial tables are built once per rate. For each (n1, n) the objective depends on (r1, t1)
- * only: it falls as r1 rises and grows with t1, and P(X1 > r1 | pR1) · P(Y1 ≤ t1 | acceptable) caps the
- * power, so r1 walks down, t1 walks up from the least value that power allows, and the walk stops as
- * soon as the objective cannot beat the best design so far. Only then are the response table
- * R(r1, ·) and the toxicity table T(t1, ·) extended (one row from the previous one in n steps), and
- * the final cut-offs found in one pass: as r rises R falls, so the least t reaching the power only
- * rises.
+ * Speed: binomial tables are built once per rate. A size n at which even the Neyman–Pearson test
+ * cannot separate the two response rates (or the two toxicity rates) holds no design and is skipped.
+ * For each (n1, n) the objective depends on (r1, t1) only: it falls as r1 rises and grows with t1, and
+ * P(X1 > r1 | pR1) · P(Y1 ≤ t1 | acceptable) caps the power, so r1 walks down, t1 walks up from the
+ * least value that power allows, and the walk stops as soon as the objective cannot beat the best
+ * design so far. Only then are the response table R(r1, ·) and the toxicity table T(t1, ·) extended
+ * (each row from the one before in n steps), each part checked on its own (its two probabilities
+ * must be able to meet α / (1 − β) apart), and the final cut-offs found in one pass: as r rises R
+ * falls, so the least t reaching the power only rises.
  *
  * With an odds ratio ψ of association between a patient's response and toxicity,
  * `bryantDayCharacteristics` evaluates a design exactly over the four response × toxicity cells; the
@@ -260,24 +262,28 @@ export function bryantDayDesigns(settings: BryantDaySettings, options: { onProgr
     return best;
   };
 
+  /** The best design of size n below `bound`, or null; a size that cannot separate either pair of rates holds none. */
+  const bestOfSize = (n: number, bound: number): Found | null => {
+    if (!canDiscriminate(good, poor, n, power, alphaR) || !canDiscriminate(safeA, safeU, n, power, alphaT)) return null;
+    let best: Found | null = null;
+    let least = bound;
+    // The objective is at least n1.
+    for (let n1 = 1; n1 < n && n1 < least; n1++) {
+      best = bestStage(n, n1, least) ?? best;
+      least = best?.objective ?? bound;
+    }
+    return best;
+  };
+
   let optimal: Found | null = null;
   let minimax: Found | null = null;
   const totalWork = (nmax * (nmax + 1)) ** 2;
   for (let n = 2; n <= nmax; n++) {
-    let bestHere: Found | null = null;
-    if (!canDiscriminate(good, poor, n, power, alphaR) || !canDiscriminate(safeA, safeU, n, power, alphaT)) {
-      options.onProgress?.((n * (n + 1)) ** 2 / totalWork);
-      continue;
-    }
-    for (let n1 = 1; n1 < n; n1++) {
-      const bound = Math.min(optimal?.objective ?? Infinity, bestHere?.objective ?? Infinity);
-      // The objective is at least n1.
-      if (n1 >= bound) break;
-      bestHere = bestStage(n, n1, bound) ?? bestHere;
-    }
+    // Only a design better than the optimal so far is returned.
+    const bestHere = bestOfSize(n, optimal?.objective ?? Infinity);
     if (bestHere) {
       minimax ??= bestHere;
-      if (!optimal || bestHere.objective < optimal.objective) optimal = bestHere;
+      optimal = bestHere;
     }
     // The work up to n grows about as the sum of m³, which is (n(n + 1) / 2)².
     options.onProgress?.((n * (n + 1)) ** 2 / totalWork);
