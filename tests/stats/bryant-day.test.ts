@@ -117,9 +117,9 @@ const paper: BryantDaySettings = { pR0: 0.3, pR1: 0.5, toxAcceptable: 0.2, toxUn
 
 describe('bryantDayDesigns reproduces the worked example of Bryant & Day (1995), p. 1379', () => {
   // Source of the cut-offs: the open implementation github.com/gjmzajac/BayesMultiStage, file
-  // bryant_day_example.R, which transcribes the example as "N1 = 19, N2 = 33, CR1 = 5, CR2 = 12,
-  // CT1 = 11, CT2 = 22" with response rates 0.3 / 0.5 and NON-toxicity rates 0.6 / 0.8, each cut-off the
-  // largest count that fails. Converted to toxicities: stop at stage 1 when non-toxic ≤ 11 of 19, i.e.
+  // bryant_day_example.R, which transcribes the example as "N1 = 19, N2, = 33, CR1 = 5, CR2 = 12,
+  // CT1 = 11, CT2 = 22" (N2 there is the total size) with response rates 0.3 / 0.5 and NON-toxicity
+  // rates 0.6 / 0.8, each cut-off the largest count that fails. Converted to toxicities: stop at stage 1 when non-toxic ≤ 11 of 19, i.e.
   // toxicities ≥ 8, so t1 = 7; not promising when non-toxic ≤ 22 of 33, i.e. toxicities ≥ 11, so t = 10.
   // The error levels αR = αT = β = 0.15 are issue 15's wording of the paper; the open implementation does
   // not state them, so they are confirmed here only by the exact search returning this design at them.
