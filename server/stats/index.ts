@@ -28,3 +28,14 @@ export { adjustPValues } from './multiplicity.js';
 export type { AdjustMethod } from './multiplicity.js';
 export { heterogeneity } from './heterogeneity.js';
 export type { HeterogeneityResult } from './heterogeneity.js';
+export { toxicityBoundary, toxicityBoundaryCharacteristics, TOXICITY_BOUNDARY_NMAX } from './toxicity-boundary.js';
+export type { ToxicityBoundarySettings, ToxicityBoundary, ToxicityOperatingPoint } from './toxicity-boundary.js';
+export { bryantDayDesigns, bryantDayCharacteristics, BRYANT_DAY_NMAX_LIMIT } from './bryant-day.js';
+export type {
+  BryantDaySettings,
+  BryantDayRule,
+  BryantDayDesign,
+  BryantDayDesigns,
+  BryantDayScenario,
+  BryantDayPoint,
+} from './bryant-day.js';

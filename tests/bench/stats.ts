@@ -1,11 +1,12 @@
 /**
  * Statistics engine benchmarks: simonDesigns against a plain four-nested-loop search, and
- * binomialTest at n = 10^7 against @stdlib/stats-binomial-test, both timed in the same run.
+ * binomialTest at n = 10^7 against @stdlib/stats-binomial-test, both timed in the same run; the
+ * Bryant–Day search and the toxicity boundary against their time budgets.
  * Run alone with `npx tsx tests/bench/stats.ts`; `npm run bench` collects the same figures.
  */
 import { pathToFileURL } from 'node:url';
 import stdlibBinomialTest from '@stdlib/stats-binomial-test';
-import { binomialTest, simonDesigns } from '../../server/stats/index.js';
+import { binomialTest, bryantDayDesigns, simonDesigns, toxicityBoundary } from '../../server/stats/index.js';
 import type { BenchFigure } from './figures.js';
 
 const SETTINGS = { p0: 0.6, p1: 0.75, alpha: 0.05, beta: 0.1 };
@@ -141,8 +142,43 @@ function binomialFigures(): BenchFigure[] {
   });
 }
 
+/** The worked example of Bryant & Day (1995); and a setting found slow at nmax 150 (its first design has n 126). */
+const BRYANT_DAY_EXAMPLE = { pR0: 0.3, pR1: 0.5, toxAcceptable: 0.2, toxUnacceptable: 0.4, alphaR: 0.15, alphaT: 0.15, beta: 0.15 };
+const BRYANT_DAY_SLOW = { pR0: 0.62, pR1: 0.73, toxAcceptable: 0.12, toxUnacceptable: 0.23, alphaR: 0.15, alphaT: 0.05, beta: 0.1 };
+
+function safetyFigures(): BenchFigure[] {
+  const budget = (value: number, what: string) => ({ name: `budget: ${what}`, value, unit: 'ms' });
+  const figures: BenchFigure[] = [60, 100].map((nmax) => {
+    const ours = timeMedian(5, () => bryantDayDesigns({ ...BRYANT_DAY_EXAMPLE, nmax }));
+    return {
+      name: `bryantDayDesigns nmax ${nmax} (p_R 0.3 / 0.5, toxicity 0.2 / 0.4, errors 0.15)`,
+      ours: { value: ours, unit: 'ms' },
+      reference: budget(1000, 'well under a few seconds on one core'),
+      ratio: 1000 / ours,
+      note: 'median of 5 runs; the reference here is the time budget, not a program',
+    };
+  });
+  const slow = timeMedian(3, () => bryantDayDesigns({ ...BRYANT_DAY_SLOW, nmax: 150 }));
+  figures.push({
+    name: 'bryantDayDesigns nmax 150, the limit (p_R 0.62 / 0.73, toxicity 0.12 / 0.23, αR 0.15, αT 0.05, β 0.10)',
+    ours: { value: slow, unit: 'ms' },
+    reference: budget(5000, 'a few seconds at the largest nmax accepted'),
+    ratio: 5000 / slow,
+    note: 'median of 3 runs; a setting whose first design needs n 126, so most sizes are searched without a bound',
+  });
+  const boundary = timeMedian(21, () => toxicityBoundary({ n: 100, theta: 0.2, alpha: 0.1 }));
+  figures.push({
+    name: 'toxicityBoundary n 100 (θ 0.20, α 0.10)',
+    ours: { value: boundary, unit: 'ms' },
+    reference: budget(100, 'instant in a form'),
+    ratio: 100 / boundary,
+    note: 'median of 21 runs; the reference here is the time budget, not a program',
+  });
+  return figures;
+}
+
 export async function runStatsBench(): Promise<BenchFigure[]> {
-  return [...simonFigures(), ...binomialFigures()];
+  return [...simonFigures(), ...binomialFigures(), ...safetyFigures()];
 }
 
 function printTable(figures: BenchFigure[]): void {
