@@ -1,5 +1,5 @@
 /** Every feature of the client; the router and the navigation are built from this list. */
-import type { Feature, NavItem } from './feature';
+import type { Feature, NavItem } from '../lib/feature';
 import { portfolioFeature } from '../features/portfolio/routes';
 import { trialOverviewFeature } from '../features/trial-overview/routes';
 import { peopleFeature } from '../features/people/routes';

@@ -5,7 +5,7 @@
  */
 import type { ComponentType } from 'react';
 import type { RouteObject } from 'react-router-dom';
-import type { Role } from '../lib/roles';
+import type { Role } from './roles';
 
 export type NavItem = {
   /** Relative to the app root for global items, to /trials/:trialId for trial items. */
