@@ -2,6 +2,7 @@
 import type { Feature, NavItem } from '../lib/feature';
 import { portfolioFeature } from '../features/portfolio/routes';
 import { trialOverviewFeature } from '../features/trial-overview/routes';
+import { trialsFeature } from '../features/trials/routes';
 import { peopleFeature } from '../features/people/routes';
 import { designStudioFeature } from '../features/design-studio/routes';
 import { patientsFeature } from '../features/patients/routes';
@@ -15,6 +16,7 @@ import { outboxFeature } from '../features/outbox/routes';
 export const features: Feature[] = [
   portfolioFeature,
   trialOverviewFeature,
+  trialsFeature,
   peopleFeature,
   designStudioFeature,
   patientsFeature,

@@ -3,7 +3,7 @@
  * patient's outcome, so the panel takes it directly and everything cached about the trial refreshes.
  */
 import { useQueryClient } from '@tanstack/react-query';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { trialQueryOptions } from '../trials';
 import { assessmentsQueryOptions } from './get-assessments';
 import type { AssessmentsView } from './types';
 

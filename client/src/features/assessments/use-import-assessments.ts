@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { trialQueryOptions } from '../trials';
 import type { AssessmentImportReport, AssessmentRowResult } from '../../../../server/assessments/assessments-import';
 
 export type { AssessmentRowResult as ImportRow, AssessmentImportReport as ImportReport };

@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { trialQueryOptions } from '../trials';
 import type { AuditEntry } from '../../../../server/audit/audit.repository';
 
 export type { AuditEntry };

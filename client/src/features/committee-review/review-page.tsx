@@ -8,8 +8,8 @@ import { Cautions, ErrorNotice, Loading, PageHeader, Panel } from '../../compone
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
 import { RECOMMENDATION_LABELS, DECISION_LABELS } from '../../../../server/data-cuts/data-cuts.schema';
-import { useMe } from '../auth/get-me';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useMe } from '../auth';
+import { useTrialContext } from '../trials';
 import { useDataCut } from '../data-cut/get-data-cut';
 import { useAnalysis } from '../data-cut/get-analysis';
 import { AnalysisView } from '../data-cut/analysis-view';

@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { DecisionInput } from '../../../../server/data-cuts/data-cuts.schema';
 import { dataCutQueryOptions } from '../data-cut/get-data-cut';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { trialQueryOptions } from '../trials';
 import type { AppliedDecision } from '../data-cut/types';
 
 export function useApplyDecision(cutId: string, trialId: string) {

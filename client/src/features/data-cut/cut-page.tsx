@@ -7,7 +7,7 @@ import { Link, useParams } from 'react-router-dom';
 import { ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { useDataCut } from './get-data-cut';
 import { useAnalysis } from './get-analysis';
 import { AnalysisView } from './analysis-view';

@@ -12,7 +12,7 @@ import { ApiError } from '../../lib/api';
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
 import { createDataCutSchema } from '../../../../server/data-cuts/data-cuts.schema';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { useDataCuts } from './get-data-cuts';
 import { useFreezeDataCut } from './use-freeze-data-cut';
 import type { DataCutListItem } from './types';

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { trialQueryOptions } from '../trials';
 import { designsQueryOptions } from './get-designs';
 
 export type TransitionBody = { to: string; from?: string; reason?: string; stopCategory?: string };

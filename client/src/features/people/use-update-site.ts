@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { SiteUpdateInput } from '../../../../server/people/people.schema';
-import { trialsQueryOptions } from '../portfolio/get-trials';
+import { trialsQueryOptions } from '../trials';
 import { sitesQueryOptions, type Site } from './get-sites';
 
 export function useUpdateSite() {

@@ -1,16 +1,15 @@
 import { useState } from 'react';
 import { PageHeader } from '../../components/ui';
 import { hasAnyRole } from '../../lib/roles';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { MembersPanel } from '../people';
+import { useTrialContext } from './use-trial-context';
 import { CohortsPanel } from './cohorts-panel';
-import { MembersPanel } from './members-panel';
 import { ProtocolSettingsPanel } from './protocol-settings-panel';
 import { TrialRecordPanel } from './trial-record-panel';
-import type { TrialSetup } from './trial-setup';
 
-/** A trial's People & sites: members and invitations, the trial record, its cohorts and its protocol settings. */
-export function TrialPeoplePage() {
-  const trial = useTrialContext() as TrialSetup;
+/** A trial's set-up, shown as its People & sites page: members and invitations, the trial record, its cohorts and its protocol settings. */
+export function TrialSetupPage() {
+  const trial = useTrialContext();
   const isAdmin = hasAnyRole(trial.myRoles, ['admin']);
   // The trial form and the cohort form share field names, so only one of them is open at a time.
   const [open, setOpen] = useState<'trial' | string | null>(null);

@@ -1,9 +1,9 @@
 /** A trial's frame: its code, title and status, and the pages this user's roles open on it. */
 import { NavLink, Outlet, useParams } from 'react-router-dom';
-import { ErrorNotice, Loading, StatusTag } from '../../components/ui';
-import { hasAnyRole } from '../../lib/roles';
-import { trialNav } from '../../app/features';
-import { useTrial } from './get-trial';
+import { ErrorNotice, Loading, StatusTag } from '../components/ui';
+import { hasAnyRole } from '../lib/roles';
+import { useTrial } from '../features/trials';
+import { trialNav } from './features';
 
 export function TrialLayout() {
   const { trialId = '' } = useParams();

@@ -1,10 +1,9 @@
 import { Form, Formik } from 'formik';
 import { Button, ErrorNotice, Panel, StatusTag } from '../../components/ui';
 import { TextField } from '../../components/field';
-import type { Cohort } from '../trial-overview/get-trial';
 import { cohortSchema, cohortUpdateSchema } from '../../../../server/trials/trials.schema';
 import { showServerError } from '../../lib/form-errors';
-import type { TrialSetup } from './trial-setup';
+import type { Cohort, Trial } from './get-trial';
 import { useAddCohort } from './use-add-cohort';
 import { useUpdateCohort } from './use-update-cohort';
 
@@ -57,7 +56,7 @@ export function CohortsPanel({
   editing,
   setEditing,
 }: {
-  trial: TrialSetup;
+  trial: Trial;
   canEdit: boolean;
   /** The cohort being renamed, 'new' while adding one, null otherwise. */
   editing: string | null;

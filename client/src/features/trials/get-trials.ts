@@ -1,6 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import type { Trial } from '../trial-overview/get-trial';
+import type { Trial } from './get-trial';
 
 export type TrialSummary = Omit<Trial, 'mySiteIds'>;
 

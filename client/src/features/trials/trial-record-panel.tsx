@@ -3,11 +3,11 @@ import { day } from '../../lib/format';
 import { trialUpdateSchema } from '../../../../server/trials/trials.schema';
 import { showServerError } from '../../lib/form-errors';
 import { TrialForm } from './trial-form';
-import type { TrialSetup } from './trial-setup';
+import type { Trial } from './get-trial';
 import { useUpdateTrial } from './use-update-trial';
 
 /** The trial's record and sites; the admin edits them here. */
-export function TrialRecordPanel({ trial, canEdit, editing, setEditing }: { trial: TrialSetup; canEdit: boolean; editing: boolean; setEditing: (on: boolean) => void }) {
+export function TrialRecordPanel({ trial, canEdit, editing, setEditing }: { trial: Trial; canEdit: boolean; editing: boolean; setEditing: (on: boolean) => void }) {
   const update = useUpdateTrial(trial.id);
   return (
     <Panel

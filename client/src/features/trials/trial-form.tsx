@@ -2,8 +2,8 @@ import { FieldArray, Form, Formik, getIn, type FormikHelpers } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { SelectField, TextAreaField, TextField } from '../../components/field';
 import { DEFAULT_COHORT, trialCreateSchema, trialUpdateSchema } from '../../../../server/trials/trials.schema';
-import { useSites } from './get-sites';
-import type { TrialSetup } from './trial-setup';
+import { useSites } from '../people';
+import type { Trial } from './get-trial';
 
 export type TrialFormValues = {
   code: string;
@@ -18,7 +18,7 @@ export type TrialFormValues = {
   version: number;
 };
 
-export const trialFormValues = (trial?: TrialSetup): TrialFormValues => ({
+export const trialFormValues = (trial?: Trial): TrialFormValues => ({
   code: trial?.code ?? '',
   title: trial?.title ?? '',
   indication: trial?.indication ?? '',
@@ -48,7 +48,7 @@ export function TrialForm({
   submitLabel,
   onSubmit,
 }: {
-  trial?: TrialSetup;
+  trial?: Trial;
   submitLabel: string;
   onSubmit: (values: TrialFormValues, helpers: FormikHelpers<TrialFormValues>) => Promise<void>;
 }) {

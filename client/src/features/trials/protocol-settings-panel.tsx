@@ -3,7 +3,7 @@ import { Button, ErrorNotice, Panel } from '../../components/ui';
 import { CheckboxField, SelectField, TextAreaField, TextField } from '../../components/field';
 import { protocolSettingsSchema } from '../../../../server/trials/trials.schema';
 import { showServerError } from '../../lib/form-errors';
-import type { ProtocolSettings, TrialSetup } from './trial-setup';
+import type { ProtocolSettings, Trial } from './get-trial';
 import { useUpdateProtocolSettings } from './use-update-protocol-settings';
 
 const SOURCE_WORDS: Record<ProtocolSettings['outcomeSource'], string> = {
@@ -35,7 +35,7 @@ function SettingsList({ settings }: { settings: ProtocolSettings }) {
 }
 
 /** The protocol's rules for outcomes: the statistician sets them; others read them. */
-export function ProtocolSettingsPanel({ trial, canEdit }: { trial: TrialSetup; canEdit: boolean }) {
+export function ProtocolSettingsPanel({ trial, canEdit }: { trial: Trial; canEdit: boolean }) {
   const update = useUpdateProtocolSettings(trial.id);
   const settings = trial.protocolSettings;
   return (

@@ -1,9 +1,9 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { Role } from '../../lib/roles';
-import type { Cohort, TrialDetail } from '../../../../server/trials/trials.repository';
+import type { TrialDetail } from '../../../../server/trials/trials.repository';
 
-export type { Cohort };
+export type { Cohort, ProtocolSettings, TrialDetail, TrialSite } from '../../../../server/trials/trials.repository';
 
 /** The trial as GET /api/trials/:id answers it: the record plus the reader's own roles and sites. */
 export type Trial = TrialDetail & {

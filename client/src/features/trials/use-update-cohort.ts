@@ -1,8 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { CohortUpdateInput } from '../../../../server/trials/trials.schema';
-import type { Cohort } from '../trial-overview/get-trial';
-import { trialsQueryOptions } from '../portfolio/get-trials';
+import type { Cohort } from './get-trial';
+import { trialsQueryOptions } from './get-trials';
 
 export function useUpdateCohort(trialId: string) {
   const queryClient = useQueryClient();
