@@ -7,7 +7,7 @@ import { peopleFeature } from '../features/people/routes';
 import { designStudioFeature } from '../features/design-studio/routes';
 import { patientsFeature } from '../features/patients/routes';
 import { assessmentsFeature } from '../features/assessments/routes';
-import { dataCutFeature } from '../features/data-cut/routes';
+import { dataCutsFeature } from '../features/data-cuts/routes';
 import { committeeReviewFeature } from '../features/committee-review/routes';
 import { accrualFeature } from '../features/accrual/routes';
 import { auditFeature } from '../features/audit/routes';
@@ -21,7 +21,7 @@ export const features: Feature[] = [
   designStudioFeature,
   patientsFeature,
   assessmentsFeature,
-  dataCutFeature,
+  dataCutsFeature,
   committeeReviewFeature,
   accrualFeature,
   auditFeature,

@@ -1,6 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import type { Recommendation } from '../data-cut/types';
+import type { Recommendation } from '../data-cuts';
 
 export type Recommendations = { recommendations: Recommendation[]; committeeSize: number; signed: number };
 

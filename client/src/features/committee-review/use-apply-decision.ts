@@ -1,9 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { DecisionInput } from '../../../../server/data-cuts/data-cuts.schema';
-import { dataCutQueryOptions } from '../data-cut/get-data-cut';
+import { dataCutQueryOptions, type AppliedDecision } from '../data-cuts';
 import { trialQueryOptions } from '../trials';
-import type { AppliedDecision } from '../data-cut/types';
 
 export function useApplyDecision(cutId: string, trialId: string) {
   const queryClient = useQueryClient();

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { RecommendationInput } from '../../../../server/data-cuts/data-cuts.schema';
-import { dataCutQueryOptions } from '../data-cut/get-data-cut';
+import { dataCutQueryOptions } from '../data-cuts';
 import type { Recommendations } from './get-recommendations';
 
 export function useSignRecommendation(cutId: string, trialId: string) {

@@ -11,7 +11,7 @@ import { decimal, percent, pValue } from '../../lib/format';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
 
 const BoundaryChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.BoundaryChart })));
-const RateChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.RateChart })));
+const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
 
 const interval = (ci: [number, number] | null | undefined) => (ci ? `${percent(ci[0])} – ${percent(ci[1])}` : '—');
 

@@ -1,6 +1,6 @@
 import { lazyPage, type Feature } from '../../lib/feature';
 
-export const dataCutFeature: Feature = {
+export const dataCutsFeature: Feature = {
   trialRoutes: [
     { path: 'data-cuts', ...lazyPage(() => import('./data-cuts-page').then((m) => m.DataCutsPage)) },
     { path: 'data-cuts/:cutId', ...lazyPage(() => import('./cut-page').then((m) => m.CutPage)) },
