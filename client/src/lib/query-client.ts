@@ -10,3 +10,4 @@ export const queryClient = new QueryClient({
     },
   },
 });
+

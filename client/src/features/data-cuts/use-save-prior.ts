@@ -1,14 +1,15 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { PriorInput } from '../../../../server/data-cuts/data-cuts.schema';
-import { dataCutQueryOptions } from './get-data-cut';
+import { dataCutKeys } from './query-keys';
 import type { DataCut } from './types';
 
 export function useSavePrior(cutId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: PriorInput) => api<{ dataCut: DataCut }>(`/api/data-cuts/${cutId}/prior`, { method: 'PATCH', body: input }),
     // The cut's detail and every analysis of it (saved and tried priors) depend on the setting.
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: dataCutQueryOptions(cutId).queryKey }),
+    onSuccess: () => invalidate(dataCutKeys.detail(cutId), dataCutKeys.analyses(cutId)),
   });
 }

@@ -2,6 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { Role } from '../../lib/roles';
 import type { TrialDetail } from '../../../../server/trials/trials.repository';
+import { trialKeys } from './query-keys';
 
 export type { Cohort, ProtocolSettings, TrialDetail, TrialSite } from '../../../../server/trials/trials.repository';
 
@@ -13,7 +14,7 @@ export type Trial = TrialDetail & {
 
 export const trialQueryOptions = (trialId: string) =>
   queryOptions({
-    queryKey: ['trials', trialId],
+    queryKey: trialKeys.detail(trialId),
     queryFn: async () => (await api<{ trial: Trial }>(`/api/trials/${trialId}`)).trial,
   });
 

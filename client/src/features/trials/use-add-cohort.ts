@@ -1,14 +1,15 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { CohortInput } from '../../../../server/trials/trials.schema';
 import type { Cohort } from './get-trial';
-import { trialsQueryOptions } from './get-trials';
+import { wholeTrialKeys } from './query-keys';
 
 export function useAddCohort(trialId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (input: CohortInput) =>
       (await api<{ cohort: Cohort }>(`/api/trials/${trialId}/cohorts`, { method: 'POST', body: input })).cohort,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: trialsQueryOptions().queryKey }),
+    onSuccess: () => invalidate(...wholeTrialKeys(trialId)),
   });
 }

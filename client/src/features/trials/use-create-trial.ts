@@ -1,18 +1,16 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { TrialCreateInput } from '../../../../server/trials/trials.schema';
-import { trialsQueryOptions } from './get-trials';
-import { meQueryOptions } from '../auth';
+import { authKeys } from '../auth';
+import { portfolioKeys } from '../portfolio';
 import type { TrialDetail } from './get-trial';
 
 export function useCreateTrial() {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (input: TrialCreateInput) => (await api<{ trial: TrialDetail }>('/api/trials', { method: 'POST', body: input })).trial,
-    onSuccess: async () => {
-      await queryClient.invalidateQueries({ queryKey: trialsQueryOptions().queryKey });
-      // The creator is now admin of the new trial: their roles changed.
-      await queryClient.invalidateQueries({ queryKey: meQueryOptions().queryKey });
-    },
+    // The new trial joins the Portfolio, and its creator is now its admin: their roles changed.
+    onSuccess: () => invalidate(portfolioKeys.all(), authKeys.me()),
   });
 }
