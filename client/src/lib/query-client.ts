@@ -10,4 +10,3 @@ export const queryClient = new QueryClient({
     },
   },
 });
-
