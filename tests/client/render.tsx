@@ -2,19 +2,32 @@
  * Renders a component as the app would (a fresh query client without retries, a memory router)
  * and answers `fetch` with canned JSON, so tests stop at the network boundary and need no server.
  */
-import type { ReactElement } from 'react';
-import { render } from '@testing-library/react';
+import type { ReactElement, ReactNode } from 'react';
+import { render, renderHook } from '@testing-library/react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { MemoryRouter } from 'react-router-dom';
 import { vi } from 'vitest';
 
+const testQueryClient = () => new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+
 export function renderWithApp(ui: ReactElement, { path = '/' }: { path?: string } = {}) {
-  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  const queryClient = testQueryClient();
   return render(
     <QueryClientProvider client={queryClient}>
       <MemoryRouter initialEntries={[path]}>{ui}</MemoryRouter>
     </QueryClientProvider>,
   );
+}
+
+/** Runs a hook (a mutation, say) the same way, and hands back the query client so the test can read its cache. */
+export function renderHookWithApp<T>(hook: () => T) {
+  const queryClient = testQueryClient();
+  const wrapper = ({ children }: { children: ReactNode }) => (
+    <QueryClientProvider client={queryClient}>
+      <MemoryRouter>{children}</MemoryRouter>
+    </QueryClientProvider>
+  );
+  return { ...renderHook(hook, { wrapper }), queryClient };
 }
 
 export type CannedResponse = { status: number; body?: unknown };

@@ -13,7 +13,7 @@ import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/
 import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
 import { buildClient, confirmIdentity, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
 import { globalNav, trialNav } from '../../client/src/app/features.js';
-import type { NavItem } from '../../client/src/app/feature.js';
+import type { NavItem } from '../../client/src/lib/feature.js';
 import { IMPORT_COLUMNS } from '../../server/patients/patients.schema.js';
 
 const ROLES = Object.keys(DEMO) as RoleName[];

@@ -1,12 +1,13 @@
 /** Every feature of the client; the router and the navigation are built from this list. */
-import type { Feature, NavItem } from './feature';
+import type { Feature, NavItem } from '../lib/feature';
 import { portfolioFeature } from '../features/portfolio/routes';
 import { trialOverviewFeature } from '../features/trial-overview/routes';
+import { trialsFeature } from '../features/trials/routes';
 import { peopleFeature } from '../features/people/routes';
 import { designStudioFeature } from '../features/design-studio/routes';
 import { patientsFeature } from '../features/patients/routes';
 import { assessmentsFeature } from '../features/assessments/routes';
-import { dataCutFeature } from '../features/data-cut/routes';
+import { dataCutsFeature } from '../features/data-cuts/routes';
 import { committeeReviewFeature } from '../features/committee-review/routes';
 import { accrualFeature } from '../features/accrual/routes';
 import { auditFeature } from '../features/audit/routes';
@@ -15,11 +16,12 @@ import { outboxFeature } from '../features/outbox/routes';
 export const features: Feature[] = [
   portfolioFeature,
   trialOverviewFeature,
+  trialsFeature,
   peopleFeature,
   designStudioFeature,
   patientsFeature,
   assessmentsFeature,
-  dataCutFeature,
+  dataCutsFeature,
   committeeReviewFeature,
   accrualFeature,
   auditFeature,

@@ -3,7 +3,7 @@ import { Shell } from './shell';
 import { NotFoundPage } from './not-found';
 import { RouteErrorPage } from './error-boundary';
 import { globalRoutes, trialRoutes } from './features';
-import { TrialLayout } from '../features/trial-overview/trial-layout';
+import { TrialLayout } from './trial-layout';
 import { Loading } from '../components/ui';
 
 export const router = createBrowserRouter([

@@ -3,9 +3,7 @@ import { NavLink, Outlet } from 'react-router-dom';
 import { Suspense } from 'react';
 import { Loading } from '../components/ui';
 import { hasAnyRole } from '../lib/roles';
-import { allRoles, useMe } from '../features/auth/get-me';
-import { useSignOut } from '../features/auth/sign-out';
-import { SignInPage } from '../features/auth/sign-in-page';
+import { allRoles, SignInPage, useMe, useSignOut } from '../features/auth';
 import { globalNav } from './features';
 import { ErrorBoundary } from './error-boundary';
 

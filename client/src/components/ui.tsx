@@ -88,7 +88,7 @@ export function ErrorNotice({ error, title = 'Something went wrong' }: { error: 
   );
 }
 
-/** The cautions shown wherever a result is shown (product brief). */
+/** The cautions shown wherever a result is shown: the tool supports decisions, it does not make them. */
 export const CAUTIONS = [
   'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
   'Interim figures use data that may not yet be cleaned or source-verified.',

@@ -1,7 +1,7 @@
 import { Suspense, lazy, useState } from 'react';
 import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, Panel } from '../../components/ui';
 import { day } from '../../lib/format';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { useAccrual } from './get-accrual';
 import { ProjectionsPanel } from './projections-panel';
 import { SiteTable } from './site-table';

@@ -4,9 +4,9 @@
  * field messages when it still refuses.
  */
 import { Form, Formik } from 'formik';
-import { useQueryClient } from '@tanstack/react-query';
 import { ApiError } from '../../lib/api';
 import { showServerError } from '../../lib/form-errors';
+import { useInvalidate } from '../../lib/invalidate';
 import { Button, ErrorNotice } from '../../components/ui';
 import { SelectField, TextAreaField, TextField } from '../../components/field';
 import {
@@ -18,7 +18,7 @@ import {
   assessmentSchema,
   latestToday,
 } from '../../../../server/assessments/assessments.schema';
-import { assessmentsQueryOptions } from './get-assessments';
+import { assessmentKeys } from './query-keys';
 import { useAddAssessment } from './use-add-assessment';
 import { useCorrectAssessment } from './use-correct-assessment';
 import { useRemoveAssessment } from './use-remove-assessment';
@@ -26,11 +26,9 @@ import type { Assessment } from './types';
 
 /** A stale version (409) means someone else changed the record: reload it so the form shows theirs. */
 function useReloadOnConflict(trialId: string, patientId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return (error: unknown) => {
-    if (error instanceof ApiError && error.status === 409) {
-      void queryClient.invalidateQueries({ queryKey: assessmentsQueryOptions(trialId, patientId).queryKey });
-    }
+    if (error instanceof ApiError && error.status === 409) void invalidate(assessmentKeys.patient(trialId, patientId));
   };
 }
 

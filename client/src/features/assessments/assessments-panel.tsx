@@ -9,7 +9,7 @@ import { Button, CAUTIONS, Cautions, ErrorNotice, Figure, Loading, Panel } from 
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
-import { useTrial } from '../trial-overview/get-trial';
+import { useTrial } from '../trials';
 import { useAssessments } from './get-assessments';
 import { AddAssessmentForm, CorrectAssessmentForm, RemoveAssessmentForm } from './assessment-forms';
 import { ATTENTION_WORDS, STEP_WORDS, Tag, responderWords } from './words';

@@ -1,12 +1,13 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { assessmentKeys } from './query-keys';
 import type { AssessmentsView } from './types';
 
 export const assessmentsPath = (trialId: string, patientId: string) => `/api/trials/${trialId}/patients/${patientId}/assessments`;
 
 export const assessmentsQueryOptions = (trialId: string, patientId: string) =>
   queryOptions({
-    queryKey: ['trials', trialId, 'patients', patientId, 'assessments'],
+    queryKey: assessmentKeys.patient(trialId, patientId),
     queryFn: () => api<AssessmentsView>(assessmentsPath(trialId, patientId)),
   });
 

@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { assessmentKeys } from './query-keys';
 import type { AttentionItem } from './types';
 
 export type NeedsAttentionItem = AttentionItem & { patientId: string; studyId: string };
@@ -8,7 +9,7 @@ export type NeedsAttention = { sites: NeedsAttentionSite[]; today: string };
 
 export const needsAttentionQueryOptions = (trialId: string) =>
   queryOptions({
-    queryKey: ['trials', trialId, 'needs-attention'],
+    queryKey: assessmentKeys.needsAttention(trialId),
     queryFn: () => api<NeedsAttention>(`/api/trials/${trialId}/needs-attention`),
   });
 

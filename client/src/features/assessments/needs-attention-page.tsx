@@ -11,7 +11,7 @@ import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeade
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { ImportPanel } from './import-panel';
 import { useNeedsAttention, type NeedsAttentionItem } from './get-needs-attention';
 import { ATTENTION_WORDS, Tag } from './words';

@@ -1,4 +1,4 @@
-import { lazyPage, type Feature } from '../../app/feature';
+import { lazyPage, type Feature } from '../../lib/feature';
 
 export const assessmentsFeature: Feature = {
   trialRoutes: [{ path: 'needs-attention', ...lazyPage(() => import('./needs-attention-page').then((m) => m.NeedsAttentionPage)) }],

@@ -3,7 +3,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { dateTime } from '../../lib/format';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { AuditFiltersForm } from './audit-filters';
 import { ChangeView } from './change-view';
 import { actionWords, entityWords } from './entity-words';

@@ -1,7 +1,7 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
 import type { AuditEntry } from '../../../../server/audit/audit.repository';
+import { auditKeys } from './query-keys';
 
 export type { AuditEntry };
 
@@ -20,8 +20,10 @@ export const auditQueryOptions = (trialId: string, filters: AuditFilters, page: 
   const params = new URLSearchParams();
   for (const [key, value] of Object.entries({ ...filters, limit: String(page.limit), offset: String(page.offset) })) if (value) params.set(key, value);
   return queryOptions({
-    queryKey: [...trialQueryOptions(trialId).queryKey, 'audit', filters, page],
+    queryKey: auditKeys.page(trialId, filters, page),
     queryFn: () => api<AuditPage>(`/api/trials/${trialId}/audit?${params}`),
+    // Every write anywhere in the trial adds entries, and no write names the trail: read it afresh each time it is shown.
+    staleTime: 0,
     placeholderData: keepPreviousData,
   });
 };

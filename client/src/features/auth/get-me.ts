@@ -10,10 +10,15 @@ export type Me = {
   environment: { development: boolean; outbox: boolean };
 };
 
+/** The query key of who is signed in. */
+export const authKeys = {
+  me: () => ['me'] as const,
+};
+
 /** The signed-in user, or null when nobody is signed in. */
 export const meQueryOptions = () =>
   queryOptions({
-    queryKey: ['me'],
+    queryKey: authKeys.me(),
     queryFn: async (): Promise<Me | null> => {
       try {
         return await api<Me>('/api/me');

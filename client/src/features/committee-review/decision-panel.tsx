@@ -14,7 +14,7 @@ import {
   decisionSchema,
   type DecisionAction,
 } from '../../../../server/data-cuts/data-cuts.schema';
-import type { DataCutDetail } from '../data-cut/types';
+import type { DataCutDetail } from '../data-cuts';
 import { useApplyDecision } from './use-apply-decision';
 
 export const DECISION_ICONS: Record<DecisionAction, string> = { resume_stage_2: '▸▸', stop: '■', final_analysis: '∑', complete: '✓' };

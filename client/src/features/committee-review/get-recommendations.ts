@@ -1,12 +1,13 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import type { Recommendation } from '../data-cut/types';
+import type { Recommendation } from '../data-cuts';
+import { reviewKeys } from './query-keys';
 
 export type Recommendations = { recommendations: Recommendation[]; committeeSize: number; signed: number };
 
 export const recommendationsQueryOptions = (cutId: string) =>
   queryOptions({
-    queryKey: ['data-cuts', cutId, 'recommendations'],
+    queryKey: reviewKeys.recommendations(cutId),
     queryFn: () => api<Recommendations>(`/api/data-cuts/${cutId}/recommendations`),
   });
 

@@ -8,12 +8,9 @@ import { Cautions, ErrorNotice, Loading, PageHeader, Panel } from '../../compone
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
 import { RECOMMENDATION_LABELS, DECISION_LABELS } from '../../../../server/data-cuts/data-cuts.schema';
-import { useMe } from '../auth/get-me';
-import { useTrialContext } from '../trial-overview/use-trial-context';
-import { useDataCut } from '../data-cut/get-data-cut';
-import { useAnalysis } from '../data-cut/get-analysis';
-import { AnalysisView } from '../data-cut/analysis-view';
-import { CutHeader, Downloads } from '../data-cut/cut-page';
+import { useMe } from '../auth';
+import { useTrialContext } from '../trials';
+import { AnalysisView, CutHeader, Downloads, useAnalysis, useDataCut } from '../data-cuts';
 import { useRecommendations } from './get-recommendations';
 import { RECOMMENDATION_ICONS, RecommendationForm } from './recommendation-form';
 import { DECISION_ICONS, DecisionPanel } from './decision-panel';

@@ -1,19 +1,15 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { DecisionInput } from '../../../../server/data-cuts/data-cuts.schema';
-import { dataCutQueryOptions } from '../data-cut/get-data-cut';
-import { trialQueryOptions } from '../trial-overview/get-trial';
-import type { AppliedDecision } from '../data-cut/types';
+import { dataCutKeys, type AppliedDecision } from '../data-cuts';
+import { wholeTrialKeys } from '../trials';
 
 export function useApplyDecision(cutId: string, trialId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: DecisionInput) => api<{ decision: AppliedDecision }>(`/api/data-cuts/${cutId}/decision`, { method: 'POST', body: input }),
-    onSuccess: () =>
-      Promise.all([
-        queryClient.invalidateQueries({ queryKey: dataCutQueryOptions(cutId).queryKey }),
-        // The trial's status (and every list of its cuts) moves with the decision.
-        queryClient.invalidateQueries({ queryKey: trialQueryOptions(trialId).queryKey }),
-      ]),
+    // The cut lists the decision; the cohort's status moves with it, which every page of the trial shows.
+    onSuccess: () => invalidate(dataCutKeys.detail(cutId), ...wholeTrialKeys(trialId)),
   });
 }

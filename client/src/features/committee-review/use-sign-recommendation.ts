@@ -1,18 +1,17 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { RecommendationInput } from '../../../../server/data-cuts/data-cuts.schema';
-import { dataCutQueryOptions } from '../data-cut/get-data-cut';
+import { dataCutKeys } from '../data-cuts';
+import { portfolioKeys } from '../portfolio';
 import type { Recommendations } from './get-recommendations';
+import { reviewKeys } from './query-keys';
 
 export function useSignRecommendation(cutId: string, trialId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: RecommendationInput) => api<Recommendations>(`/api/data-cuts/${cutId}/recommendations`, { method: 'POST', body: input }),
-    onSuccess: () =>
-      Promise.all([
-        // The cut's detail, its recommendations and the trial's list of cuts all count signatures.
-        queryClient.invalidateQueries({ queryKey: dataCutQueryOptions(cutId).queryKey }),
-        queryClient.invalidateQueries({ queryKey: ['trials', trialId, 'data-cuts'] }),
-      ]),
+    // The cut's detail, its recommendations and the trial's list of cuts all count signatures; the Portfolio shows the latest.
+    onSuccess: () => invalidate(dataCutKeys.detail(cutId), reviewKeys.recommendations(cutId), dataCutKeys.list(trialId), portfolioKeys.all()),
   });
 }

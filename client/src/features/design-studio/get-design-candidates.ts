@@ -1,11 +1,12 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { designKeys } from './query-keys';
 import type { DesignCandidates, DesignSettings } from './types';
 
 /** A pure computation on the server (a POST that writes nothing), cached by its settings. */
 export const designCandidatesQueryOptions = (trialId: string, settings: DesignSettings) =>
   queryOptions({
-    queryKey: ['trials', trialId, 'design-candidates', settings],
+    queryKey: designKeys.candidates(trialId, settings),
     queryFn: ({ signal }) => api<DesignCandidates>(`/api/trials/${trialId}/design-candidates`, { method: 'POST', body: settings, signal }),
     staleTime: Infinity,
   });

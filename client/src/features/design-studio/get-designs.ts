@@ -1,10 +1,11 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { designKeys } from './query-keys';
 import type { CohortDesigns } from './types';
 
 export const designsQueryOptions = (trialId: string) =>
   queryOptions({
-    queryKey: ['trials', trialId, 'designs'],
+    queryKey: designKeys.all(trialId),
     queryFn: async () => (await api<{ cohorts: CohortDesigns[] }>(`/api/trials/${trialId}/designs`)).cohorts,
   });
 

@@ -1,4 +1,4 @@
-import { lazyPage, type Feature } from '../../app/feature';
+import { lazyPage, type Feature } from '../../lib/feature';
 
 export const designStudioFeature: Feature = {
   trialRoutes: [{ path: 'design', ...lazyPage(() => import('./design-studio-page').then((m) => m.DesignStudioPage)) }],

@@ -1,22 +1,20 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
-import { designsQueryOptions } from './get-designs';
+import { useInvalidate } from '../../lib/invalidate';
+import { wholeTrialKeys } from '../trials';
 import type { DesignVersion } from './types';
 
 export type SignDesignBody = Record<string, unknown>;
 
 /** Locks (or revises) a cohort's design, or signs an amendment after the first enrolment. */
 export function useSignDesign(trialId: string, cohortId: string, route: 'lock' | 'amendment') {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (body: SignDesignBody) => {
       const path = `/api/trials/${trialId}/cohorts/${cohortId}/design${route === 'amendment' ? '/amendments' : ''}`;
       return (await api<{ design: DesignVersion }>(path, { method: 'POST', body })).design;
     },
-    onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: designsQueryOptions(trialId).queryKey });
-      void queryClient.invalidateQueries({ queryKey: trialQueryOptions(trialId).queryKey, exact: true });
-    },
+    // The design frames the trial: the evaluation, accrual targets, patients' stages and the Portfolio all follow it.
+    onSuccess: () => void invalidate(...wholeTrialKeys(trialId)),
   });
 }

@@ -1,19 +1,17 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { trialQueryOptions } from '../trial-overview/get-trial';
-import { designsQueryOptions } from './get-designs';
+import { useInvalidate } from '../../lib/invalidate';
+import { wholeTrialKeys } from '../trials';
 
 export type TransitionBody = { to: string; from?: string; reason?: string; stopCategory?: string };
 
 /** Opens accrual (draft → enrolling stage 1) or stops a cohort with a category and a reason. */
 export function useTransitionCohort(trialId: string, cohortId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (body: TransitionBody) =>
       api<{ cohort: { status: string } }>(`/api/trials/${trialId}/cohorts/${cohortId}/transitions`, { method: 'POST', body }),
-    onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: designsQueryOptions(trialId).queryKey });
-      void queryClient.invalidateQueries({ queryKey: trialQueryOptions(trialId).queryKey, exact: true });
-    },
+    // A cohort's status shows on every page of the trial and in the Portfolio.
+    onSuccess: () => void invalidate(...wholeTrialKeys(trialId)),
   });
 }

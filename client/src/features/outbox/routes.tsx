@@ -1,4 +1,4 @@
-import { lazyPage, type Feature } from '../../app/feature';
+import { lazyPage, type Feature } from '../../lib/feature';
 
 export const outboxFeature: Feature = {
   routes: [{ path: 'outbox', ...lazyPage(() => import('./outbox-page').then((m) => m.OutboxPage)) }],

@@ -1,11 +1,11 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { patientsKey } from './get-patients';
+import { patientKeys } from './query-keys';
 import type { HistoryEntry } from './types';
 
 export const patientHistoryQueryOptions = (trialId: string, patientId: string) =>
   queryOptions({
-    queryKey: [...patientsKey(trialId), patientId, 'history'],
+    queryKey: patientKeys.history(trialId, patientId),
     queryFn: async () => (await api<{ entries: HistoryEntry[] }>(`/api/trials/${trialId}/patients/${patientId}/history`)).entries,
   });
 

@@ -1,11 +1,11 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { patientsKey } from './get-patients';
+import { patientKeys } from './query-keys';
 import type { Patient } from './types';
 
 export const patientQueryOptions = (trialId: string, patientId: string) =>
   queryOptions({
-    queryKey: [...patientsKey(trialId), patientId],
+    queryKey: patientKeys.detail(trialId, patientId),
     queryFn: async () => (await api<{ patient: Patient }>(`/api/trials/${trialId}/patients/${patientId}`)).patient,
   });
 

@@ -1,8 +1,7 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { patientKeys } from './query-keys';
 import type { PatientFilters, PatientList } from './types';
-
-export const patientsKey = (trialId: string) => ['trials', trialId, 'patients'] as const;
 
 export function patientsQueryString(filters: PatientFilters): string {
   const params = new URLSearchParams();
@@ -12,7 +11,7 @@ export function patientsQueryString(filters: PatientFilters): string {
 
 export const patientsQueryOptions = (trialId: string, filters: PatientFilters) =>
   queryOptions({
-    queryKey: [...patientsKey(trialId), 'list', filters],
+    queryKey: patientKeys.list(trialId, filters),
     queryFn: ({ signal }) => api<PatientList>(`/api/trials/${trialId}/patients?${patientsQueryString(filters)}`, { signal }),
     placeholderData: keepPreviousData,
   });

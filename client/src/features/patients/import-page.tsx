@@ -11,7 +11,7 @@ import { CsvFileInput } from '../../components/csv-file-input';
 import { DataTable } from '../../components/data-table';
 import { ApiError } from '../../lib/api';
 import { IMPORT_MAX_ROWS } from '../../../../server/patients/patients.schema';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { useImportPatients } from './use-import-patients';
 import type { ImportCounts, ImportReport, RowResult } from './types';
 import { ROW_RESULT_WORDS } from './words';

@@ -2,7 +2,7 @@
 import { useState, type ReactNode } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { Button, ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
-import { useTrialContext } from '../trial-overview/use-trial-context';
+import { useTrialContext } from '../trials';
 import { LIST_STATUSES, OUTCOMES } from '../../../../server/patients/patients.schema';
 import { usePatients } from './get-patients';
 import { PatientsTable } from './patients-table';

@@ -1,8 +1,12 @@
-/** After a patient write: the trial (cohort status may have moved), its patients and its evaluation are stale. */
-import { useQueryClient } from '@tanstack/react-query';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+/**
+ * After a patient write: each mutation names what it changed. A write that completed stage 1 moved
+ * its cohort to interim review, which every page of the trial shows: then the whole trial is stale.
+ */
+import type { QueryKey } from '@tanstack/react-query';
+import { useInvalidate } from '../../lib/invalidate';
+import { wholeTrialKeys } from '../trials';
 
 export function useAfterPatientWrite(trialId: string) {
-  const queryClient = useQueryClient();
-  return () => queryClient.invalidateQueries({ queryKey: trialQueryOptions(trialId).queryKey });
+  const invalidate = useInvalidate();
+  return (changed: QueryKey[], cohortMoved = false) => invalidate(...(cohortMoved ? wholeTrialKeys(trialId) : changed));
 }

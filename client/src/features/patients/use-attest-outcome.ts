@@ -1,5 +1,6 @@
 import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { patientKeys } from './query-keys';
 import type { Patient } from './types';
 import { useAfterPatientWrite } from './use-after-patient-write';
 
@@ -7,6 +8,7 @@ export function useAttestOutcome(trialId: string, patientId: string) {
   const after = useAfterPatientWrite(trialId);
   return useMutation({
     mutationFn: (version: number) => api<{ patient: Patient }>(`/api/trials/${trialId}/patients/${patientId}/attestation`, { method: 'POST', body: { version } }),
-    onSuccess: after,
+    // An attestation counts in no figure: only the patient and the lists show it.
+    onSuccess: () => after([patientKeys.detail(trialId, patientId), patientKeys.lists(trialId)]),
   });
 }

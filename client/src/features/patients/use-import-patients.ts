@@ -5,6 +5,8 @@
 import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
 import { ApiError } from '../../lib/api';
+import { assessmentKeys } from '../assessments';
+import { patientFigureKeys, patientKeys } from './query-keys';
 import type { ImportReport } from './types';
 import { useAfterPatientWrite } from './use-after-patient-write';
 
@@ -42,7 +44,13 @@ export function useImportPatients(trialId: string) {
   const mutation = useMutation({
     mutationFn: ({ file, dryRun }: { file: File; dryRun: boolean }) =>
       send(`/api/trials/${trialId}/patients/import${dryRun ? '?dryRun=1' : ''}`, file, setProgress).finally(() => setProgress({ phase: 'idle', fraction: 0 })),
-    onSuccess: (report) => (report.committed ? after() : undefined),
+    onSuccess: (report) =>
+      report.committed
+        ? after(
+            [patientKeys.all(trialId), assessmentKeys.all(trialId), assessmentKeys.needsAttention(trialId), ...patientFigureKeys(trialId)],
+            report.pausedCohorts.length > 0,
+          )
+        : undefined,
   });
   return { ...mutation, progress };
 }

@@ -1,13 +1,13 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../lib/api';
 import type { Membership } from '../../../../server/people/people.repository';
-import { trialQueryOptions } from '../trial-overview/get-trial';
+import { peopleKeys } from './query-keys';
 
 export type { Membership };
 
 export const membershipsQueryOptions = (trialId: string) =>
   queryOptions({
-    queryKey: [...trialQueryOptions(trialId).queryKey, 'memberships'],
+    queryKey: peopleKeys.memberships(trialId),
     queryFn: async () => (await api<{ memberships: Membership[] }>(`/api/trials/${trialId}/memberships`)).memberships,
   });
 

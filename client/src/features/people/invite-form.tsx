@@ -4,7 +4,7 @@ import { TextField } from '../../components/field';
 import { membershipInviteSchema } from '../../../../server/people/people.schema';
 import { showServerError } from '../../lib/form-errors';
 import { RoleSiteFields } from './role-site-fields';
-import type { TrialSite } from './trial-setup';
+import type { TrialSite } from '../trials';
 import { useInviteMember } from './use-invite-member';
 
 /** Invites a person by e-mail; they receive a message naming the trial and the role. */

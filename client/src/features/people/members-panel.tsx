@@ -8,7 +8,7 @@ import { useMemberships, type Membership } from './get-memberships';
 import { InviteForm } from './invite-form';
 import { MembershipEditor } from './membership-editor';
 import { MembershipStatus } from './membership-status';
-import type { TrialSetup } from './trial-setup';
+import type { Trial } from '../trials';
 import { useRemoveMembership } from './use-remove-membership';
 
 const column = createColumnHelper<Membership>();
@@ -16,7 +16,7 @@ const column = createColumnHelper<Membership>();
 type SideForm = { kind: 'invite' } | { kind: 'edit'; membership: Membership } | { kind: 'remove'; membership: Membership };
 
 /** Who holds which role on the trial; the admin invites, changes roles and sites, and removes. */
-export function MembersPanel({ trial, canEdit }: { trial: TrialSetup; canEdit: boolean }) {
+export function MembersPanel({ trial, canEdit }: { trial: Trial; canEdit: boolean }) {
   const { data: memberships, isPending, error } = useMemberships(trial.id);
   const remove = useRemoveMembership(trial.id);
   const [side, setSide] = useState<SideForm>({ kind: 'invite' });

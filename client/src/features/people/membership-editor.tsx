@@ -4,7 +4,7 @@ import { membershipUpdateSchema } from '../../../../server/people/people.schema'
 import { showServerError } from '../../lib/form-errors';
 import type { Membership } from './get-memberships';
 import { RoleSiteFields } from './role-site-fields';
-import type { TrialSite } from './trial-setup';
+import type { TrialSite } from '../trials';
 import { useUpdateMembership } from './use-update-membership';
 
 /** Changes a member's role or site; a concurrent change by someone else is reported, not overwritten. */

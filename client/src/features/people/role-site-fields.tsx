@@ -2,7 +2,7 @@ import { useFormikContext } from 'formik';
 import { SelectField } from '../../components/field';
 import { ROLES, ROLE_LABELS } from '../../lib/roles';
 import { SITE_MEMBER_ROLES } from '../../../../server/people/people.schema';
-import type { TrialSite } from './trial-setup';
+import type { TrialSite } from '../trials';
 
 /** Role, and the site for the roles that work at one; choosing another role clears the site. */
 export function RoleSiteFields({ sites }: { sites: TrialSite[] }) {

@@ -1,12 +1,14 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { SiteInput } from '../../../../server/people/people.schema';
-import { sitesQueryOptions, type Site } from './get-sites';
+import type { Site } from './get-sites';
+import { peopleKeys } from './query-keys';
 
 export function useCreateSite() {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (input: SiteInput) => (await api<{ site: Site }>('/api/sites', { method: 'POST', body: input })).site,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: sitesQueryOptions().queryKey }),
+    onSuccess: () => invalidate(peopleKeys.sites()),
   });
 }

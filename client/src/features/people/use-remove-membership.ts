@@ -1,11 +1,12 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
-import { membershipsQueryOptions } from './get-memberships';
+import { useInvalidate } from '../../lib/invalidate';
+import { peopleKeys } from './query-keys';
 
 export function useRemoveMembership(trialId: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (membershipId: string) => api<void>(`/api/trials/${trialId}/memberships/${membershipId}`, { method: 'DELETE' }),
-    onSettled: () => queryClient.invalidateQueries({ queryKey: membershipsQueryOptions(trialId).queryKey }),
+    onSettled: () => invalidate(peopleKeys.memberships(trialId)),
   });
 }

@@ -1,18 +1,17 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../lib/api';
+import { useInvalidate } from '../../lib/invalidate';
 import type { SiteUpdateInput } from '../../../../server/people/people.schema';
-import { trialsQueryOptions } from '../portfolio/get-trials';
-import { sitesQueryOptions, type Site } from './get-sites';
+import { trialKeys } from '../trials';
+import type { Site } from './get-sites';
+import { peopleKeys } from './query-keys';
 
 export function useUpdateSite() {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async ({ siteId, ...input }: SiteUpdateInput & { siteId: string }) =>
       (await api<{ site: Site }>(`/api/sites/${siteId}`, { method: 'PATCH', body: input })).site,
-    onSuccess: async () => {
-      await queryClient.invalidateQueries({ queryKey: sitesQueryOptions().queryKey });
-      // Trial pages show site codes too.
-      await queryClient.invalidateQueries({ queryKey: trialsQueryOptions().queryKey });
-    },
+    // Every trial's pages show site codes and names too.
+    onSuccess: () => invalidate(peopleKeys.sites(), trialKeys.all()),
   });
 }

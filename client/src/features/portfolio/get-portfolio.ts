@@ -2,6 +2,7 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import { api } from '../../lib/api';
 import type { PortfolioFilter } from '../../../../server/portfolio/portfolio.schema';
 import type { Portfolio } from '../../../../server/portfolio/portfolio.service';
+import { portfolioKeys } from './query-keys';
 
 export type { PortfolioRow, Progress } from '../../../../server/portfolio/portfolio.service';
 
@@ -15,7 +16,7 @@ const search = (filter: PortfolioFilter) => {
 
 export const portfolioQueryOptions = (filter: PortfolioFilter = {}) =>
   queryOptions({
-    queryKey: ['portfolio', filter],
+    queryKey: portfolioKeys.rows(filter),
     queryFn: async () => (await api<{ portfolio: Portfolio }>(`/api/portfolio${search(filter)}`)).portfolio,
     placeholderData: keepPreviousData,
   });

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel, statusLabel } from '../../components/ui';
 import { day } from '../../lib/format';
-import { allRoles, useMe } from '../auth/get-me';
+import { allRoles, useMe } from '../auth';
 import { COHORT_STATUSES } from '../../../../server/design-studio/design-studio.schema';
 import type { PortfolioFilter } from '../../../../server/portfolio/portfolio.schema';
 import { usePortfolio } from './get-portfolio';

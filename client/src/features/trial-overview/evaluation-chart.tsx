@@ -5,13 +5,12 @@
  */
 import { Chart, Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
 import { Scatter } from 'react-chartjs-2';
+import { CHART_COLOURS } from '../../components/chart-colours';
 import type { CohortEvaluation } from './get-evaluation';
 
 Chart.register(ScatterController, LineElement, PointElement, LinearScale, Legend, Tooltip);
 
-const INK = '#14213d';
-const BRASS = '#b08d3c';
-const OBSERVED = '#3a5a8c';
+const { ink: INK, brass: BRASS, observed: OBSERVED } = CHART_COLOURS;
 
 /** For k patients with an outcome: at or below `futility` the negative result is settled, at or above `success` the positive one. */
 export function boundaries(design: NonNullable<CohortEvaluation['design']>) {

@@ -10,7 +10,7 @@ import { decimal, percent, pValue } from '../../lib/format';
 import { useEvaluation, type CohortEvaluation } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
-const RateChart = lazy(() => import('../data-cut/cut-charts').then((m) => ({ default: m.RateChart })));
+const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
 
 const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
   continue: { label: 'Stage 1 passed — continue', icon: '▸' },

@@ -1,7 +1,7 @@
 import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import { ROLE_LABELS } from '../../lib/roles';
-import { useTrialContext } from './use-trial-context';
+import { useTrialContext } from '../trials';
 import { EvaluationPanel } from './evaluation-panel';
 
 export function OverviewPage() {

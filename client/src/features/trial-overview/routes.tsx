@@ -1,4 +1,4 @@
-import type { Feature } from '../../app/feature';
+import type { Feature } from '../../lib/feature';
 import { OverviewPage } from './overview-page';
 
 export const trialOverviewFeature: Feature = {
