@@ -22,10 +22,9 @@ export type RunningServer = {
 
 export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
   const db = createDb(config.databaseUrl, { logger: { warn: (m) => logger.warn(m), error: (m) => logger.warn(m) } });
-  const { app, routes, close: closeApp } = createApp(config, db, logger);
   const mail = startMailWorker(db, config, logger);
-  app.locals.mail = mail;
-  const jobs = startJobs(db, config, logger, mail);
+  const { app, routes, jobs: scheduledJobs, close: closeApp } = createApp(config, db, logger, mail);
+  const jobs = startJobs(db, config, logger, mail, scheduledJobs);
   const server = app.listen(config.port, '127.0.0.1');
   await new Promise<void>((resolve, reject) => {
     server.once('listening', resolve);

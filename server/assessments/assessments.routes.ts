@@ -5,8 +5,7 @@
 import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
 import { type Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
-import { registerPatientWriteHook } from '../patients/patient-hooks.js';
-import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';
+import { addAssessment, correctAssessment, listForPatient, needsAttention, removeAssessment } from './assessments.service.js';
 import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
@@ -14,12 +13,6 @@ const WRITERS: Role[] = ['coordinator', 'investigator'];
 const BASE = '/api/trials/:trialId/patients/:patientId/assessments';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
-
-// An enrolment or an entered outcome re-derives too, so a disagreement is flagged the moment it appears.
-registerPatientWriteHook(async (trx, write) => {
-  if (write.action === 'outcome_attested') return;
-  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
-});
 
 const uploadCsv = csvUpload(ASSESSMENT_IMPORT_MAX_BYTES);
 

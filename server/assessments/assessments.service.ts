@@ -5,6 +5,7 @@
  * the entered outcome is never overwritten, but a disagreement is flagged and audited.
  */
 import type { Knex } from 'knex';
+import type { Listener, PatientWrite, ProtocolSettingsChange } from '../hooks.js';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
@@ -152,6 +153,17 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
   );
   return patients.length;
 }
+
+/** Listens to patient writes: an attestation changes no outcome, everything else re-derives. */
+export const rederiveAfterPatientWrite: Listener<PatientWrite> = async (trx, write) => {
+  if (write.action === 'outcome_attested') return;
+  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
+};
+
+/** Listens to changes of the protocol's outcome rules: every stored derivation (and, when derived, outcome) follows. */
+export const rederiveTrialAfterSettingsChange: Listener<ProtocolSettingsChange> = async (trx, change) => {
+  await recomputeDerivationsForTrial(trx, change.trialId, { actorUserId: change.actorUserId });
+};
 
 export type PatientSummary = Pick<
   AssessedPatient,

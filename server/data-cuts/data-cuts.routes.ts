@@ -8,7 +8,6 @@ import { createHash } from 'node:crypto';
 import { number, object } from 'yup';
 import type { Request, Response } from 'express';
 import type { Db } from '../db/knex.js';
-import { kickMail } from '../mail/outbox.js';
 import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
 import { requireFreshAuthentication } from '../signatures/signatures.js';
@@ -102,11 +101,11 @@ export const dataCutsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/data-cuts/:cutId/recommendations',
     access: cutAccess(['monitor']),
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, mail }) => {
       const input = await parseBody(recommendationSchema, req.body);
       const user = requireUser(req);
       const signed = await recommend(db, cutId(req), input, user, () => requireFreshAuthentication(req, config));
-      kickMail(req);
+      mail.kick();
       res.status(201).json({ recommendation: signed, ...(await recommendations(db, cutId(req))) });
     },
   },
@@ -114,10 +113,10 @@ export const dataCutsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/data-cuts/:cutId/decision',
     access: cutAccess(['statistician', 'admin']),
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, mail }) => {
       const input = await parseBody(decisionSchema, req.body);
       const result = await applyDecision(db, cutId(req), input, requireUser(req));
-      kickMail(req);
+      mail.kick();
       res.status(201).json(result);
     },
   },

@@ -15,6 +15,7 @@
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
+import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
 import { isUuid, type Actor, type Role, type SessionUser, type TrialAccess } from '../auth/access.js';
 
@@ -26,7 +27,14 @@ export type Access =
   | { kind: 'role-anywhere'; roles: readonly Role[] }
   | { kind: 'trial'; roles: readonly Role[]; trialOf?: TrialOf };
 
-export type Deps = { db: Db; config: Config };
+/** What every handler gets from the composition root (server/app.ts). */
+export type Deps = {
+  db: Db;
+  config: Config;
+  hooks: Hooks;
+  /** Sends mail a committed transaction queued now, rather than at the worker's next poll. */
+  mail: { kick: () => void };
+};
 export type Handler = (req: Request, res: Response, deps: Deps) => Promise<void> | void;
 
 export type RouteSpec = {

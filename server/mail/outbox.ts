@@ -5,7 +5,6 @@
  */
 import nodemailer from 'nodemailer';
 import type { Knex } from 'knex';
-import type { Request } from 'express';
 import type { Logger } from 'pino';
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
@@ -109,9 +108,4 @@ export function startMailWorker(db: Db, config: Config, logger: Logger): MailWor
       transport.close();
     },
   };
-}
-
-/** After a commit that queued mail: send it now rather than at the worker's next poll. */
-export function kickMail(req: Request): void {
-  (req.app.locals.mail as MailWorker | undefined)?.kick();
 }

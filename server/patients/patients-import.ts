@@ -26,6 +26,7 @@ import {
 } from './patients.schema.js';
 import { findPatientByStudyId, trialFacts, type Patient, type TrialFacts } from './patients.repository.js';
 import { enrolPatient, recordOutcome, type Actor } from './patients.service.js';
+import type { Hooks } from '../hooks.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -138,13 +139,14 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
   return { studyId, siteId: (site as { id: string }).id, cohortId, fields };
 }
 
-async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
+async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
   const { studyId, siteId, cohortId, fields } = await readRow(row, facts, actor);
   const existing: Patient | undefined = await findPatientByStudyId(trx, actor.trialId, studyId, { forUpdate: true });
   if (!existing) {
     if (!row.enrolled_on) throw new RowError([{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
     const { patient } = await enrolPatient(
       trx,
+      hooks,
       actor,
       {
         studyId,
@@ -169,14 +171,14 @@ async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, 
   if (identity.length) throw new RowError(identity);
   const same = OUTCOME_FIELDS.every((field) => existing[field] === fields[field]);
   if (same) return { line, studyId, result: 'unchanged', errors: [], patientId: existing.id };
-  const change = await recordOutcome(trx, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
+  const change = await recordOutcome(trx, hooks, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
   return { line, studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
 }
 
 class RollBack extends Error {}
 
 /** Applies the file in one transaction; rolls back on a dry run or on any row error. */
-export async function importPatients(db: Db, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
+export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   const report: ImportReport = { dryRun: options.dryRun, committed: false, counts: { total: rows.length, new: 0, update: 0, unchanged: 0, error: 0 }, rows: [], pausedCohorts: [] };
   const firstLine = new Map<string, number>();
   try {
@@ -193,7 +195,7 @@ export async function importPatients(db: Db, actor: Actor, rows: Array<Record<Im
         } else {
           if (studyId) firstLine.set(studyId, line);
           try {
-            result = await trx.transaction((savepoint) => applyRow(savepoint, actor, facts, row, line));
+            result = await trx.transaction((savepoint) => applyRow(savepoint, hooks, actor, facts, row, line));
           } catch (error) {
             result = { line, studyId, result: 'error', errors: errorsOf(error) };
           }

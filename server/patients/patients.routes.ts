@@ -7,8 +7,6 @@
 import type { RouteSpec } from '../http/routes.js';
 import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
-import { kickMail } from '../mail/outbox.js';
-import { evaluationRoutes } from '../evaluation/evaluation.routes.js';
 import { IMPORT_MAX_BYTES } from './patients.schema.js';
 import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
 import { importPatients, importTemplate, patientsCsv, readCsv } from './patients-import.js';
@@ -32,9 +30,9 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: WRITE },
-    handler: async (req, res, { db }) => {
-      const { patient, accrual } = await enrol(db, actorFrom(req), req.body);
-      kickMail(req);
+    handler: async (req, res, { db, hooks, mail }) => {
+      const { patient, accrual } = await enrol(db, hooks, actorFrom(req), req.body);
+      mail.kick();
       res.status(201).json({ patient, accrual });
     },
   },
@@ -61,11 +59,11 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/import',
     access: { kind: 'trial', roles: WRITE },
     before: [uploadCsv],
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks, mail }) => {
       const rows = readCsv(req.file);
       const dryRun = isDryRun(req);
-      const report = await importPatients(db, actorFrom(req), rows, { dryRun });
-      if (report.committed) kickMail(req);
+      const report = await importPatients(db, hooks, actorFrom(req), rows, { dryRun });
+      if (report.committed) mail.kick();
       res.json(report);
     },
   },
@@ -81,9 +79,9 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'patch',
     path: '/api/trials/:trialId/patients/:patientId',
     access: { kind: 'trial', roles: WRITE },
-    handler: async (req, res, { db }) => {
-      const change = await changeOutcome(db, actorFrom(req), String(req.params.patientId), req.body);
-      if (change.accrual.paused || change.accrual.continuesAtRisk) kickMail(req);
+    handler: async (req, res, { db, hooks, mail }) => {
+      const change = await changeOutcome(db, hooks, actorFrom(req), String(req.params.patientId), req.body);
+      if (change.accrual.paused || change.accrual.continuesAtRisk) mail.kick();
       res.json(change);
     },
   },
@@ -91,8 +89,8 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/patients/:patientId/attestation',
     access: { kind: 'trial', roles: ['investigator'] },
-    handler: async (req, res, { db, config }) => {
-      res.status(201).json(await attest(db, config, req, actorFrom(req), String(req.params.patientId)));
+    handler: async (req, res, { db, config, hooks }) => {
+      res.status(201).json(await attest(db, hooks, config, req, actorFrom(req), String(req.params.patientId)));
     },
   },
   {
@@ -103,5 +101,4 @@ export const patientsRoutes: RouteSpec[] = [
       res.json(await history(db, actorFrom(req), String(req.params.patientId)));
     },
   },
-  ...evaluationRoutes,
 ];

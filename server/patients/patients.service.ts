@@ -46,7 +46,7 @@ import {
   type TrialFacts,
 } from './patients.repository.js';
 import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
-import { runPatientWriteHooks } from './patient-hooks.js';
+import { emit, type Hooks } from '../hooks.js';
 
 /** Who is acting, and where: read scope for looking, the user's own sites for writing. */
 export type Actor = { user: SessionUser; trialId: string; readScope: SiteScope; writeSiteIds: string[] };
@@ -113,6 +113,7 @@ export type EnrolRequest = EnrolInput & Partial<OutcomeFields>;
  */
 export async function enrolPatient(
   trx: Knex.Transaction,
+  hooks: Hooks,
   actor: Actor,
   input: EnrolRequest,
   facts?: TrialFacts,
@@ -176,13 +177,13 @@ export async function enrolPatient(
     after: auditSnapshot(created),
   });
   const accrual = await applyAccrualRules(trx, { trialId: actor.trialId, trialCode: trial.code, cohortId: cohort.id, actorUserId: actor.user.id });
-  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
+  await emit(trx, hooks.patientWritten, { trialId: actor.trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
   return { patient: (await findPatient(trx, actor.trialId, patientId, 'all')) as Patient, accrual };
 }
 
-export async function enrol(db: Db, actor: Actor, body: unknown) {
+export async function enrol(db: Db, hooks: Hooks, actor: Actor, body: unknown) {
   const input = await parseBody(enrolSchema, body);
-  return db.transaction((trx) => enrolPatient(trx, actor, input));
+  return db.transaction((trx) => enrolPatient(trx, hooks, actor, input));
 }
 
 export type OutcomeChange = {
@@ -210,6 +211,7 @@ function fieldsOf(p: OutcomeFields): OutcomeFields {
  */
 export async function recordOutcome(
   trx: Knex.Transaction,
+  hooks: Hooks,
   actor: Actor,
   patientId: string,
   input: OutcomeInput,
@@ -263,20 +265,20 @@ export async function recordOutcome(
     actorUserId: actor.user.id,
     evaluabilityChanged: previous.evaluable !== next.evaluable,
   });
-  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
+  await emit(trx, hooks.patientWritten, { trialId: actor.trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
   return { patient: (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
 }
 
-export async function changeOutcome(db: Db, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
+export async function changeOutcome(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
   await requireVisiblePatient(db, actor, patientId);
   const input = await parseBody(outcomeSchema, body);
-  return db.transaction((trx) => recordOutcome(trx, actor, patientId, input));
+  return db.transaction((trx) => recordOutcome(trx, hooks, actor, patientId, input));
 }
 
 export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete`;
 
 /** The investigator of the patient's site signs the recorded outcome (fresh sign-in required). */
-export async function attest(db: Db, config: Config, req: Request, actor: Actor, patientId: string) {
+export async function attest(db: Db, hooks: Hooks, config: Config, req: Request, actor: Actor, patientId: string) {
   const patient = await requireVisiblePatient(db, actor, patientId);
   const isSiteInvestigator = await db('memberships')
     .where({ trial_id: actor.trialId, user_id: actor.user.id, role: 'investigator', site_id: patient.siteId, status: 'active' })
@@ -312,7 +314,7 @@ export async function attest(db: Db, config: Config, req: Request, actor: Actor,
       before: auditSnapshot(current),
       after: auditSnapshot(after),
     });
-    await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
+    await emit(trx, hooks.patientWritten, { trialId: actor.trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
     return { patient: after, signature };
   });
 }

@@ -8,7 +8,6 @@ import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.
 import { isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { kickMail } from '../mail/outbox.js';
 import { listMemberships, listSites } from './people.repository.js';
 import { membershipInviteSchema, membershipUpdateSchema, siteSchema, siteUpdateSchema } from './people.schema.js';
 import { createSite, inviteMember, removeMember, updateMember, updateSite } from './people.service.js';
@@ -18,8 +17,6 @@ function recordId(req: Request, name: string, what: string): string {
   if (!isUuid(id)) throw new NotFoundError(what);
   return id;
 }
-
-/** Queued mail goes out promptly once the transaction that queued it has committed. */
 
 export const peopleRoutes: RouteSpec[] = [
   {
@@ -61,10 +58,10 @@ export const peopleRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/memberships',
     access: { kind: 'trial', roles: ['admin'] },
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, mail }) => {
       const input = await parseBody(membershipInviteSchema, req.body);
       const membership = await inviteMember(db, requireUser(req), requireTrialAccess(req).trialId, input, config.appOrigin);
-      kickMail(req);
+      mail.kick();
       res.status(201).json({ membership });
     },
   },

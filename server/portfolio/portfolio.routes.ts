@@ -2,9 +2,9 @@
 import { requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
 import { toDay } from '../accrual/calendar.js';
-import { digestFor } from '../jobs/weekly-digest.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
 import { portfolioFor } from './portfolio.service.js';
+import { digestFor } from './digest.service.js';
 
 export const portfolioRoutes: RouteSpec[] = [
   {
@@ -22,8 +22,7 @@ export const portfolioRoutes: RouteSpec[] = [
     access: { kind: 'signed-in' },
     devOnly: true,
     handler: async (req, res, { db }) => {
-      const now = new Date();
-      res.json({ preview: await digestFor(db, requireUser(req).id, now) });
+      res.json({ preview: await digestFor(db, requireUser(req), new Date()) });
     },
   },
 ];

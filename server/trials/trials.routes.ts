@@ -70,9 +70,9 @@ export const trialsRoutes: RouteSpec[] = [
     method: 'patch',
     path: '/api/trials/:trialId/protocol-settings',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks }) => {
       const input = await parseBody(protocolSettingsSchema, req.body);
-      res.json({ trial: await updateProtocolSettings(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+      res.json({ trial: await updateProtocolSettings(db, hooks, requireUser(req), requireTrialAccess(req).trialId, input) });
     },
   },
 ];

@@ -5,7 +5,7 @@
  */
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
-import { recomputeDerivationsForTrial } from '../assessments/assessments.service.js';
+import { emit, type Hooks } from '../hooks.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import {
   countPatients,
@@ -31,7 +31,6 @@ import {
   type TrialCreateInput,
   type TrialUpdateInput,
 } from './trials.schema.js';
-
 
 type Actor = { id: string; email: string };
 
@@ -186,7 +185,7 @@ export async function updateCohort(db: Db, actor: Actor, trialId: string, cohort
   });
 }
 
-export async function updateProtocolSettings(db: Db, actor: Actor, trialId: string, input: ProtocolSettingsInput): Promise<TrialDetail> {
+export async function updateProtocolSettings(db: Db, hooks: Hooks, actor: Actor, trialId: string, input: ProtocolSettingsInput): Promise<TrialDetail> {
   return db.transaction(async (trx) => {
     const before = await lockTrial(trx, trialId);
     checkVersion(before, input.version);
@@ -199,8 +198,8 @@ export async function updateProtocolSettings(db: Db, actor: Actor, trialId: stri
     const { reason, version: _version, ...settings } = input;
     await updateProtocolSettingsRow(trx, trialId, settings as TrialDetail['protocolSettings']);
     const after = (await findTrialDetail(trx, trialId)) as TrialDetail;
-    // The outcome rules changed: every stored derivation (and, when derived, outcome) follows now.
-    await recomputeDerivationsForTrial(trx, trialId, { actorUserId: actor.id });
+    // The outcome rules changed: whatever rests on them follows in this transaction.
+    await emit(trx, hooks.protocolSettingsChanged, { trialId, actorUserId: actor.id });
     await writeAudit(trx, {
       actorUserId: actor.id,
       trialId,
