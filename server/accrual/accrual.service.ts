@@ -6,6 +6,7 @@
  * (site roles see their own sites' rows).
  */
 import type { Db } from '../db/knex.js';
+import { siteScope, type Actor } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
@@ -286,4 +287,9 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
     cohorts,
     warnings,
   };
+}
+
+/** The Accrual page as the actor sees it: site roles get their own sites' rows. */
+export async function accrualFor(db: Db, actor: Actor, today: string): Promise<TrialAccrual> {
+  return trialAccrual(db, actor.access.trialId, { today, sites: siteScope(actor.access) });
 }

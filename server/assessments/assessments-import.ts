@@ -12,7 +12,7 @@ import type { Knex } from 'knex';
 import { ValidationError } from 'yup';
 import type { Db } from '../db/knex.js';
 import { AppError } from '../http/errors.js';
-import type { SessionUser, TrialAccess } from '../auth/access.js';
+import { writableSites, type Actor } from '../auth/access.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
 import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import { assessmentSchema } from './assessments.schema.js';
@@ -80,15 +80,15 @@ function errorsOf(error: unknown): AssessmentRowResult['errors'] {
   throw error;
 }
 
-async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: SessionUser, row: CsvRow): Promise<Omit<AssessmentRowResult, 'line' | 'errors'>> {
+async function applyRow(trx: Knex.Transaction, actor: Actor, row: CsvRow): Promise<Omit<AssessmentRowResult, 'line' | 'errors'>> {
   const refused = ASSESSMENT_IMPORT_COLUMNS.filter((c) => !TEXT_COLUMNS.includes(c) && startsLikeFormula(row[c]));
   if (refused.length) {
     throw new RowError(refused.map((column) => ({ column, reason: `Starts with "${row[column][0]}", as a spreadsheet formula would; this column takes a fixed format.` })));
   }
   const studyId = row.study_id.toUpperCase();
   if (!studyId) throw new RowError([{ column: 'study_id', reason: 'The study ID is required.' }]);
-  const patient = await findPatientByStudyId(trx, access.trialId, studyId);
-  if (!patient || !access.siteIds.includes(patient.siteId)) {
+  const patient = await findPatientByStudyId(trx, actor.access.trialId, studyId);
+  if (!patient || !writableSites(actor.access).includes(patient.siteId)) {
     throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites on this trial.` }]);
   }
   const input = await assessmentSchema(patient.enrolledOn).validate(
@@ -99,7 +99,7 @@ async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: Sessio
   const base = { studyId, date: values.date, patientId: patient.id };
   const existing = await findAssessmentOn(trx, patient.id, values.date);
   if (!existing) {
-    await createAssessment(trx, patient, values, user.id, 'Imported from a CSV file');
+    await createAssessment(trx, patient, values, actor.user.id, 'Imported from a CSV file');
     return { ...base, result: 'new' };
   }
   if (existing.response === values.response && existing.notes === values.notes) return { ...base, result: 'unchanged' };
@@ -111,14 +111,14 @@ async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: Sessio
       },
     ]);
   }
-  await applyCorrection(trx, existing, values, user.id, neutralise(row.correction_reason));
+  await applyCorrection(trx, existing, values, actor.user.id, neutralise(row.correction_reason));
   return { ...base, result: 'update' };
 }
 
 class RollBack extends Error {}
 
 /** Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with the report). */
-export async function importAssessments(db: Db, access: TrialAccess, user: SessionUser, rows: CsvRow[], options: { dryRun: boolean }): Promise<AssessmentImportReport> {
+export async function importAssessments(db: Db, actor: Actor, rows: CsvRow[], options: { dryRun: boolean }): Promise<AssessmentImportReport> {
   const report: AssessmentImportReport = {
     dryRun: options.dryRun,
     committed: false,
@@ -139,7 +139,7 @@ export async function importAssessments(db: Db, access: TrialAccess, user: Sessi
         } else {
           seen.set(key, line);
           try {
-            result = { line, errors: [], ...(await trx.transaction((savepoint) => applyRow(savepoint, access, user, row))) };
+            result = { line, errors: [], ...(await trx.transaction((savepoint) => applyRow(savepoint, actor, row))) };
             if (result.result !== 'unchanged' && result.patientId) touched.add(result.patientId);
           } catch (error) {
             result = { line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: errorsOf(error) };
@@ -150,7 +150,7 @@ export async function importAssessments(db: Db, access: TrialAccess, user: Sessi
       }
       for (const patientId of touched) {
         const before = await findPatientById(trx, patientId);
-        const after = await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
+        const after = await recomputeDerivation(trx, patientId, { actorUserId: actor.user.id, fromAssessmentChange: true });
         if (before?.derivedBestOverallResponse !== after.bestOverallResponse || before?.derivedResponder !== after.responder) report.derivationsChanged += 1;
       }
       if (options.dryRun || report.counts.error > 0) throw new RollBack();

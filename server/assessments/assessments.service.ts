@@ -10,7 +10,7 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { siteScope, type SessionUser, type TrialAccess } from '../auth/access.js';
+import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
 import {
   deleteAssessment,
@@ -38,7 +38,8 @@ import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type Atte
 
 export const DISAGREES_FLAG = 'disagrees_with_derivation';
 
-type Actor = {
+/** Who a re-derivation is audited for, and on which day it is judged. */
+export type DerivationContext = {
   actorUserId?: string | null;
   today?: string;
   /**
@@ -81,8 +82,8 @@ type Subject = { patient: AssessedPatient; assessments: Assessment[] };
  * outcome where the protocol derives it, or the disagreement flag where outcomes are entered; every
  * change to an outcome or a flag gets its audit row.
  */
-async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, actor: Actor): Promise<Derivation[]> {
-  const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, actor.today));
+async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, context: DerivationContext): Promise<Derivation[]> {
+  const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, context.today));
   await storeDerivations(
     trx,
     subjects.map(({ patient }, i) => ({
@@ -98,7 +99,7 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   subjects.forEach(({ patient, assessments }, i) => {
     const derivation = derivations[i];
     let flag: string | null = null;
-    if (settings.outcomeSource === 'derived' && (assessments.length > 0 || actor.fromAssessmentChange)) {
+    if (settings.outcomeSource === 'derived' && (assessments.length > 0 || context.fromAssessmentChange)) {
       const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
       const after = derivedOutcome(derivation);
       if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
@@ -120,7 +121,7 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   await storeDerivedOutcomes(trx, outcomes);
   for (const [flag, ids] of flags) await storeOutcomeFlags(trx, ids, flag);
   for (const { patient, action, before, after } of audits) {
-    await writeAudit(trx, { actorUserId: actor.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
+    await writeAudit(trx, { actorUserId: context.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
   }
   return derivations;
 }
@@ -130,17 +131,17 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
  * outcome, or the disagreement flag). Call it inside the transaction of any change to the
  * patient's assessments or entered outcome.
  */
-export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, actor: Actor = {}): Promise<Derivation> {
+export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, context: DerivationContext = {}): Promise<Derivation> {
   const patient = await findPatientById(trx, patientId);
   if (!patient) throw new NotFoundError('The patient');
   const settings = await findTrialSettings(trx, patient.trialId);
   if (!settings) throw new NotFoundError('The trial');
-  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, actor);
+  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, context);
   return derivation;
 }
 
 /** Re-derives every patient of a trial, for when the protocol's outcome settings change. */
-export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, actor: Actor = {}): Promise<number> {
+export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, context: DerivationContext = {}): Promise<number> {
   const settings = await findTrialSettings(trx, trialId);
   if (!settings) throw new NotFoundError('The trial');
   const patients = await listPatientsOfTrial(trx, trialId);
@@ -149,7 +150,7 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
     trx,
     patients.map((patient) => ({ patient, assessments: assessments.get(patient.id) ?? [] })),
     settings,
-    actor,
+    context,
   );
   return patients.length;
 }
@@ -185,14 +186,11 @@ const summary = (p: AssessedPatient): PatientSummary => ({
 });
 
 /** A patient the caller may see: other sites answer 404, exactly like a patient that does not exist. */
-async function visiblePatient(db: Db | Knex.Transaction, access: TrialAccess, patientId: string, sites: string[] | 'all', lock = false): Promise<AssessedPatient> {
-  const patient = await findPatient(db, access.trialId, patientId, lock);
+async function visiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, sites: string[] | 'all', lock = false): Promise<AssessedPatient> {
+  const patient = await findPatient(db, actor.access.trialId, patientId, lock);
   if (!patient || (sites !== 'all' && !sites.includes(patient.siteId))) throw new NotFoundError('The patient');
   return patient;
 }
-
-/** Writers are the site roles, and they write at their own sites only, whatever other roles they hold. */
-const writableSites = (access: TrialAccess) => access.siteIds;
 
 async function settingsOf(db: Db | Knex.Transaction, trialId: string): Promise<TrialSettings> {
   const settings = await findTrialSettings(db, trialId);
@@ -217,9 +215,9 @@ async function view(db: Db | Knex.Transaction, trialId: string, patientId: strin
   return { patient: summary(patient), outcomeSource, settings, assessments, derivation };
 }
 
-export async function listForPatient(db: Db, access: TrialAccess, patientId: string): Promise<AssessmentsView> {
-  await visiblePatient(db, access, patientId, siteScope(access));
-  return view(db, access.trialId, patientId);
+export async function listForPatient(db: Db, actor: Actor, patientId: string): Promise<AssessmentsView> {
+  await visiblePatient(db, actor, patientId, siteScope(actor.access));
+  return view(db, actor.access.trialId, patientId);
 }
 
 function duplicateDate(existing: Assessment): ConflictError {
@@ -260,9 +258,11 @@ export async function applyCorrection(trx: Knex.Transaction, before: Assessment,
   return after;
 }
 
-export async function addAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
+/** The payload's dates are judged against the patient's enrolment, so it is parsed once the patient is loaded. */
+export async function addAssessment(db: Db, actor: Actor, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    const patient = await visiblePatient(trx, actor, patientId, writableSites(access), true);
     const input = await parseBody(assessmentSchema(patient.enrolledOn), body);
     const assessment = await createAssessment(trx, patient, { date: input.date, response: input.response, notes: input.notes || null }, user.id);
     await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
@@ -281,14 +281,14 @@ async function currentOrStale(trx: Knex.Transaction, patientId: string, assessme
 
 export async function correctAssessment(
   db: Db,
-  access: TrialAccess,
-  user: SessionUser,
+  actor: Actor,
   patientId: string,
   assessmentId: string,
   body: unknown,
 ): Promise<AssessmentsView & { assessment: Assessment }> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    const patient = await visiblePatient(trx, actor, patientId, writableSites(access), true);
     if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
     const input = await parseBody(assessmentCorrectionSchema(patient.enrolledOn), body);
     const before = await currentOrStale(trx, patientId, assessmentId, input.version);
@@ -306,9 +306,10 @@ export async function correctAssessment(
   });
 }
 
-export async function removeAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, assessmentId: string, body: unknown): Promise<AssessmentsView> {
+export async function removeAssessment(db: Db, actor: Actor, patientId: string, assessmentId: string, body: unknown): Promise<AssessmentsView> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    await visiblePatient(trx, access, patientId, writableSites(access), true);
+    await visiblePatient(trx, actor, patientId, writableSites(access), true);
     if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
     const input = await parseBody(assessmentRemovalSchema, body);
     const before = await currentOrStale(trx, patientId, assessmentId, input.version);
@@ -334,7 +335,8 @@ export type NeedsAttentionSite = { siteId: string; siteCode: string; siteName: s
  * Per site, what needs a look, read from the stored derivations (a trial of thousands of patients
  * never loads its assessments here). Overdue confirmations are judged against today.
  */
-export async function needsAttention(db: Db, access: TrialAccess, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
+export async function needsAttention(db: Db, actor: Actor, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
+  const { access } = actor;
   const scope = siteScope(access);
   const sites = await listTrialSites(db, access.trialId, scope);
   const bySite = new Map<string, NeedsAttentionSite>(sites.map((s) => [s.id, { siteId: s.id, siteCode: s.code, siteName: s.name, items: [] }]));

@@ -3,16 +3,20 @@
  * scope, hashed), analysing it from the copy only, the committee's signed recommendations, and the
  * decision the statistician applies to the cohort afterwards, with the people who must hear of it.
  */
+import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import type { Actor, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { contentHash, recordSignature } from '../signatures/signatures.js';
+import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import { currentDesigns } from '../design-studio/current-design.js';
 import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
 import type { CohortStatus } from '../trials/trials.repository.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
+import { adrsCsv, patientsCsv } from './exports.js';
+import { renderCutReport } from './report/pdf.js';
 import {
   countMonitors,
   decisionRecipients,
@@ -33,6 +37,8 @@ import {
   readLivePatients,
   statisticianEmails,
   releaseToSponsor,
+  setReportHash,
+  trialOfCut,
   updatePrior,
   type CutPatient,
   type CutSnapshot,
@@ -48,7 +54,10 @@ import {
   type RecommendationInput,
 } from './data-cuts.schema.js';
 
-export type Actor = { id: string; email: string };
+/** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
+type Author = Pick<SessionUser, 'id' | 'email'>;
+
+export { trialOfCut };
 
 /** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
 export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
@@ -63,7 +72,7 @@ const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).jo
  */
 export type HistoricalCut = { cutAt: Date; enrolledOnOrBefore: string; cohortStatusAtCut: CohortStatus };
 
-export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Actor): Promise<DataCut> {
+export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Author): Promise<DataCut> {
   // Repeatable read: every patient and assessment is copied as of one instant.
   return db.transaction((trx) => freezeWithin(trx, input, actor), { isolationLevel: 'repeatable read' });
 }
@@ -71,7 +80,7 @@ export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialI
 export async function freezeWithin(
   trx: Knex.Transaction,
   input: CreateDataCutInput & { trialId: string },
-  actor: Actor,
+  actor: Author,
   history?: HistoricalCut,
 ): Promise<DataCut> {
   const trial = await lockTrial(trx, input.trialId);
@@ -158,7 +167,8 @@ export async function freezeWithin(
   return cut;
 }
 
-export async function listCuts(db: Db, trialId: string) {
+export async function listCuts(db: Db, actor: Actor) {
+  const { trialId } = actor.access;
   const [cuts, monitors] = await Promise.all([listDataCuts(db, trialId), countMonitors(db, trialId)]);
   return { dataCuts: cuts.map(({ snapshot, ...cut }) => ({ ...cut, cohorts: snapshot.cohorts.map((c) => ({ id: c.id, code: c.code, name: c.name })) })), committeeSize: monitors };
 }
@@ -196,7 +206,7 @@ export async function analyseDataCut(db: Db, cutId: string, override?: Partial<P
   return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
 }
 
-export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Actor): Promise<DataCut> {
+export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Author): Promise<DataCut> {
   return db.transaction(async (trx) => {
     const before = await requireCut(trx, cutId, true);
     const updated = await updatePrior(trx, cutId, input.version, { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT });
@@ -214,18 +224,12 @@ export async function savePrior(db: Db, cutId: string, input: PriorInput, actor:
   });
 }
 
-export async function recommend(
-  db: Db,
-  cutId: string,
-  input: RecommendationInput,
-  signer: Actor,
-  authenticatedAt: () => Date,
-): Promise<{ id: string; signatureId: string }> {
+export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, signIn: SignIn): Promise<{ id: string; signatureId: string }> {
   const cut = await requireCut(db, cutId);
   if (await findRecommendationBy(db, cutId, signer.id)) {
     throw new ConflictError('You have already signed a recommendation on this data cut.');
   }
-  const authTime = authenticatedAt();
+  const authTime = requireFreshAuthentication(signIn);
   try {
     return await db.transaction((trx) => signWithin(trx, cut, input, signer, authTime));
   } catch (error) {
@@ -240,7 +244,7 @@ export async function signWithin(
   trx: Knex.Transaction,
   cut: DataCut,
   input: RecommendationInput,
-  signer: Actor,
+  signer: Author,
   authenticatedAt: Date,
   options: { notify?: boolean } = {},
 ): Promise<{ id: string; signatureId: string }> {
@@ -311,12 +315,12 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
   };
 }
 
-export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author) {
   return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
 }
 
 /** Moves the cohort as decided, records the decision, releases the figures and queues the mail, inside the caller's transaction. */
-export async function applyWithin(trx: Knex.Transaction, cutId: string, input: DecisionInput, actor: Actor, options: { notify?: boolean } = {}) {
+export async function applyWithin(trx: Knex.Transaction, cutId: string, input: DecisionInput, actor: Author, options: { notify?: boolean } = {}) {
   const cut = await requireCut(trx, cutId, true);
   const cohortIds = cut.snapshot.cohorts.map((c) => c.id);
   const cohortId = cut.cohortId ?? (cohortIds.length === 1 ? cohortIds[0] : input.cohortId);
@@ -375,4 +379,26 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     );
   }
   return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
+}
+
+/** The cut's PDF report; its hash is kept on the cut, so a printed copy can be checked against it. */
+export async function cutReport(db: Db, cutId: string): Promise<{ pdf: Buffer; hash: string; filename: string }> {
+  const detail = await cutDetail(db, cutId);
+  const analysis = await analyseDataCut(db, detail.dataCut.id);
+  const pdf = await renderCutReport({ cut: detail.dataCut, analysis, ...detail });
+  const hash = createHash('sha256').update(pdf).digest('hex');
+  await setReportHash(db, detail.dataCut.id, hash);
+  return { pdf, hash, filename: `${detail.dataCut.snapshot.trial.code}-data-cut-${detail.dataCut.seq}.pdf` };
+}
+
+function csvName(code: string, seq: number, what: string) {
+  return `${code}-data-cut-${seq}-${what}.csv`.replace(/[^A-Za-z0-9._-]/g, '_');
+}
+
+/** One of the cut's CSV datasets, from its frozen patients. */
+export async function cutExport(db: Db, cutId: string, dataset: 'patients' | 'adrs'): Promise<{ csv: string; filename: string }> {
+  const { dataCut } = await cutDetail(db, cutId);
+  const patients = await readCutPatients(db, cutId);
+  const csv = dataset === 'adrs' ? adrsCsv(dataCut, patients) : patientsCsv(dataCut, patients);
+  return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
 }

@@ -18,6 +18,7 @@ import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
 import { isUuid, type Actor, type Role, type SessionUser, type TrialAccess } from '../auth/access.js';
+import type { SignIn } from '../signatures/signatures.js';
 
 export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string | undefined>;
 
@@ -68,6 +69,12 @@ export function requireUser(req: Request): SessionUser {
 /** The actor of a trial route: the signed-in user with their access to the route's trial. */
 export function actorOf(req: Request): Actor {
   return { user: requireUser(req), access: requireTrialAccess(req) };
+}
+
+/** The session's last sign-in at the identity provider, for a service that records a signature. */
+export function signInOf(req: Request, config: Config): SignIn {
+  requireUser(req);
+  return { authTime: req.session.authTime, maxAgeSeconds: config.signatureFreshnessSeconds };
 }
 
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {

@@ -21,3 +21,8 @@ export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, bo
     throw error;
   }
 }
+
+/** Validates a query string against its schema; unknown parameters are dropped, failures become 400. */
+export async function parseQuery<S extends ObjectSchema<AnyObject>>(schema: S, query: unknown): Promise<InferType<S>> {
+  return (await schema.validate(query ?? {}, { abortEarly: false, stripUnknown: true })) as InferType<S>;
+}

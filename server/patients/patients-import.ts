@@ -24,9 +24,10 @@ import {
   STUDY_ID_PATTERN,
   type Outcome,
 } from './patients.schema.js';
-import { findPatientByStudyId, trialFacts, type Patient, type TrialFacts } from './patients.repository.js';
-import { enrolPatient, recordOutcome, type Actor } from './patients.service.js';
+import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
+import { findPatientByStudyId, listPatients, trialFacts, type Patient, type TrialFacts } from './patients.repository.js';
+import { enrolPatient, recordOutcome } from './patients.service.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -112,7 +113,7 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
   else if (row.enrolled_on > latestToday()) errors.push({ column: 'enrolled_on', reason: 'The enrolment date cannot be in the future.' });
   const site = facts.sites.find((s) => s.code === row.site_code.toUpperCase());
   if (!row.site_code) errors.push({ column: 'site_code', reason: 'The site code is required.' });
-  else if (!site || !actor.writeSiteIds.includes(site.id)) errors.push({ column: 'site_code', reason: `${row.site_code} is not one of your sites on this trial; import only your own sites' patients.` });
+  else if (!site || !writableSites(actor.access).includes(site.id)) errors.push({ column: 'site_code', reason: `${row.site_code} is not one of your sites on this trial; import only your own sites' patients.` });
   let cohortId: string | null = null;
   if (row.cohort_code) {
     const cohort = facts.cohorts.find((c) => c.code.toUpperCase() === row.cohort_code.toUpperCase());
@@ -141,7 +142,7 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
 
 async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
   const { studyId, siteId, cohortId, fields } = await readRow(row, facts, actor);
-  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.trialId, studyId, { forUpdate: true });
+  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.access.trialId, studyId, { forUpdate: true });
   if (!existing) {
     if (!row.enrolled_on) throw new RowError([{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
     const { patient } = await enrolPatient(
@@ -163,7 +164,7 @@ async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts
     );
     return { line, studyId, result: 'new', errors: [], patientId: patient.id };
   }
-  if (!actor.writeSiteIds.includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
+  if (!writableSites(actor.access).includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
   const identity: RowResult['errors'] = [];
   if (existing.siteId !== siteId) identity.push({ column: 'site_code', reason: `${studyId} is a patient of ${existing.siteCode}; the site cannot be changed by import.` });
   if (cohortId && existing.cohortId !== cohortId) identity.push({ column: 'cohort_code', reason: `${studyId} is in cohort ${existing.cohortCode}; the cohort cannot be changed by import.` });
@@ -183,7 +184,7 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
   const firstLine = new Map<string, number>();
   try {
     await db.transaction(async (trx) => {
-      const facts = await trialFacts(trx, actor.trialId);
+      const facts = await trialFacts(trx, actor.access.trialId);
       if (!facts) throw new InputError('The trial was not found.');
       for (const [index, row] of rows.entries()) {
         const line = index + 2;
@@ -203,7 +204,7 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
         report.rows.push(result);
         report.counts[result.result] += 1;
       }
-      const after = await trx('cohorts').where({ trial_id: actor.trialId, status: 'interim_review' }).pluck('code');
+      const after = await trx('cohorts').where({ trial_id: actor.access.trialId, status: 'interim_review' }).pluck('code');
       report.pausedCohorts = after.filter((code: string) => facts.cohorts.find((c) => c.code === code)?.status !== 'interim_review');
       if (options.dryRun || report.counts.error > 0) throw new RollBack();
       report.committed = true;
@@ -220,8 +221,9 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
   return report;
 }
 
-/** The user's patients in the import's columns, so a site can edit its export and import it back. */
-export function patientsCsv(patients: Patient[]): string {
+/** The patients the actor may see, in the import's columns, so a site can edit its export and import it back. */
+export async function patientsExport(db: Db, actor: Actor): Promise<string> {
+  const { patients } = await listPatients(db, actor.access.trialId, siteScope(actor.access), { sort: 'studyId', dir: 'asc', page: 1, pageSize: 100_000 });
   return toCsv(
     [...IMPORT_COLUMNS],
     patients.map((p) => [

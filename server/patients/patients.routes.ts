@@ -4,13 +4,13 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import type { RouteSpec } from '../http/routes.js';
+import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { parseBody, parseQuery } from '../http/validate.js';
 import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
-import { IMPORT_MAX_BYTES } from './patients.schema.js';
-import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
-import { importPatients, importTemplate, patientsCsv, readCsv } from './patients-import.js';
-import { listPatients } from './patients.repository.js';
+import { enrolSchema, IMPORT_MAX_BYTES, listQuerySchema } from './patients.schema.js';
+import { attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
+import { importPatients, importTemplate, patientsExport, readCsv } from './patients-import.js';
 
 const READ: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITE: Role[] = ['coordinator', 'investigator'];
@@ -23,7 +23,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json(await listForUser(db, actorFrom(req), req.query));
+      res.json(await listForUser(db, actorOf(req), await parseQuery(listQuerySchema, req.query)));
     },
   },
   {
@@ -31,7 +31,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: WRITE },
     handler: async (req, res, { db, hooks, mail }) => {
-      const { patient, accrual } = await enrol(db, hooks, actorFrom(req), req.body);
+      const { patient, accrual } = await enrol(db, hooks, actorOf(req), await parseBody(enrolSchema, req.body));
       mail.kick();
       res.status(201).json({ patient, accrual });
     },
@@ -49,9 +49,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/export.csv',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      const actor = actorFrom(req);
-      const { patients } = await listPatients(db, actor.trialId, actor.readScope, { sort: 'studyId', dir: 'asc', page: 1, pageSize: 100_000 });
-      sendCsv(res, 'orrery-patients.csv', patientsCsv(patients));
+      sendCsv(res, 'orrery-patients.csv', await patientsExport(db, actorOf(req)));
     },
   },
   {
@@ -61,8 +59,7 @@ export const patientsRoutes: RouteSpec[] = [
     before: [uploadCsv],
     handler: async (req, res, { db, hooks, mail }) => {
       const rows = readCsv(req.file);
-      const dryRun = isDryRun(req);
-      const report = await importPatients(db, hooks, actorFrom(req), rows, { dryRun });
+      const report = await importPatients(db, hooks, actorOf(req), rows, { dryRun: isDryRun(req) });
       if (report.committed) mail.kick();
       res.json(report);
     },
@@ -72,7 +69,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json({ patient: await requireVisiblePatient(db, actorFrom(req), String(req.params.patientId)) });
+      res.json({ patient: await requireVisiblePatient(db, actorOf(req), String(req.params.patientId)) });
     },
   },
   {
@@ -80,7 +77,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId',
     access: { kind: 'trial', roles: WRITE },
     handler: async (req, res, { db, hooks, mail }) => {
-      const change = await changeOutcome(db, hooks, actorFrom(req), String(req.params.patientId), req.body);
+      const change = await changeOutcome(db, hooks, actorOf(req), String(req.params.patientId), req.body);
       if (change.accrual.paused || change.accrual.continuesAtRisk) mail.kick();
       res.json(change);
     },
@@ -90,7 +87,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId/attestation',
     access: { kind: 'trial', roles: ['investigator'] },
     handler: async (req, res, { db, config, hooks }) => {
-      res.status(201).json(await attest(db, hooks, config, req, actorFrom(req), String(req.params.patientId)));
+      res.status(201).json(await attest(db, hooks, actorOf(req), String(req.params.patientId), req.body, signInOf(req, config)));
     },
   },
   {
@@ -98,7 +95,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId/history',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json(await history(db, actorFrom(req), String(req.params.patientId)));
+      res.json(await history(db, actorOf(req), String(req.params.patientId)));
     },
   },
 ];

@@ -4,13 +4,12 @@
  * see who else works on the trial.
  */
 import type { Request } from 'express';
-import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { actorOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { listMemberships, listSites } from './people.repository.js';
 import { membershipInviteSchema, membershipUpdateSchema, siteSchema, siteUpdateSchema } from './people.schema.js';
-import { createSite, inviteMember, removeMember, updateMember, updateSite } from './people.service.js';
+import { createSite, inviteMember, listSites, memberships, removeMember, updateMember, updateSite } from './people.service.js';
 
 function recordId(req: Request, name: string, what: string): string {
   const id = req.params[name];
@@ -51,7 +50,7 @@ export const peopleRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/memberships',
     access: { kind: 'trial', roles: ['admin', 'statistician'] },
     handler: async (req, res, { db }) => {
-      res.json({ memberships: await listMemberships(db, requireTrialAccess(req).trialId) });
+      res.json({ memberships: await memberships(db, actorOf(req)) });
     },
   },
   {
@@ -60,7 +59,7 @@ export const peopleRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['admin'] },
     handler: async (req, res, { db, config, mail }) => {
       const input = await parseBody(membershipInviteSchema, req.body);
-      const membership = await inviteMember(db, requireUser(req), requireTrialAccess(req).trialId, input, config.appOrigin);
+      const membership = await inviteMember(db, actorOf(req), input, config.appOrigin);
       mail.kick();
       res.status(201).json({ membership });
     },
@@ -72,7 +71,7 @@ export const peopleRoutes: RouteSpec[] = [
     handler: async (req, res, { db }) => {
       const membershipId = recordId(req, 'membershipId', 'The membership');
       const input = await parseBody(membershipUpdateSchema, req.body);
-      res.json({ membership: await updateMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId, input) });
+      res.json({ membership: await updateMember(db, actorOf(req), membershipId, input) });
     },
   },
   {
@@ -81,7 +80,7 @@ export const peopleRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['admin'] },
     handler: async (req, res, { db }) => {
       const membershipId = recordId(req, 'membershipId', 'The membership');
-      await removeMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId);
+      await removeMember(db, actorOf(req), membershipId);
       res.status(204).end();
     },
   },

@@ -13,7 +13,7 @@ export const portfolioRoutes: RouteSpec[] = [
     access: { kind: 'signed-in' },
     handler: async (req, res, { db }) => {
       const filter = await parseBody(portfolioFilterSchema, req.query);
-      res.json({ portfolio: await portfolioFor(db, requireUser(req).id, filter, toDay(new Date())) });
+      res.json({ portfolio: await portfolioFor(db, requireUser(req), filter, toDay(new Date())) });
     },
   },
   {

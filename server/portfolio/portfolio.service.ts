@@ -11,7 +11,7 @@
  * sites, so trial-wide response figures are theirs only once released.
  */
 import type { Db } from '../db/knex.js';
-import type { Role } from '../auth/access.js';
+import type { Role, SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
 import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
@@ -173,8 +173,8 @@ export async function portfolioRows(
   });
 }
 
-export async function portfolioFor(db: Db, userId: string, filter: PortfolioFilter, today: string): Promise<Portfolio> {
-  const trials = await listTrialsForUser(db, userId);
+export async function portfolioFor(db: Db, user: SessionUser, filter: PortfolioFilter, today: string): Promise<Portfolio> {
+  const trials = await listTrialsForUser(db, user.id);
   const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
   const wanted = filter.indication?.toLowerCase();
   const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;

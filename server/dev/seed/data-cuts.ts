@@ -10,7 +10,8 @@ import { currentDesign } from '../../design-studio/current-design.js';
 import { canTransition } from '../../trials/cohort-status.js';
 import type { CohortStatus } from '../../trials/trials.repository.js';
 import { insertDecision, releaseToSponsor } from '../../data-cuts/data-cuts.repository.js';
-import { DECISION_TARGET, applyWithin, freezeWithin, signWithin, type Actor } from '../../data-cuts/data-cuts.service.js';
+import { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from '../../data-cuts/data-cuts.service.js';
+import type { SessionUser } from '../../auth/access.js';
 import type { DecisionAction, RecommendationDecision } from '../../data-cuts/data-cuts.schema.js';
 
 type Plan = {
@@ -45,7 +46,7 @@ const addDays = (iso: string, days: number) => {
   return d;
 };
 
-async function actor(trx: Knex.Transaction, email: string): Promise<Actor | undefined> {
+async function actor(trx: Knex.Transaction, email: string): Promise<Pick<SessionUser, 'id' | 'email'> | undefined> {
   const row = await trx('users').whereRaw('lower(email) = ?', [email]).first('id', 'email');
   return row ? { id: row.id, email: row.email } : undefined;
 }
