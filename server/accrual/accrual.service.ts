@@ -8,11 +8,10 @@
 import type { Db } from '../db/knex.js';
 import { siteScope, type Actor } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
-import { findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
+import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
 import type { AnalysisPopulation } from '../evaluation/counting.js';
 import {
-  accrualSettings,
   cohortTallies,
   emptyTally,
   monthlyBySite,
@@ -196,7 +195,7 @@ function timelineStart(trial: Trial, months: string[]): string | null {
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
 export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
   const { today } = options;
-  const [trial, settings] = await Promise.all([findTrial(db, trialId), accrualSettings(db, trialId)]);
+  const [trial, settings] = await Promise.all([findTrial(db, trialId), findProtocolSettings(db, trialId)]);
   if (!trial || !settings) throw new NotFoundError('The trial');
   const cohortIds = trial.cohorts.map((c) => c.id);
   const [designs, tallies, monthCounts, siteRows, bySiteMonth, weekly] = await Promise.all([

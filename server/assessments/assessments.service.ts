@@ -12,29 +12,29 @@ import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
+import { findProtocolSettings, listTrialSites, type ProtocolSettings } from '../trials/trials.repository.js';
+import {
+  findPatient,
+  findPatientById,
+  listAttentionCandidates,
+  listPatientsOfTrial,
+  storeDerivations,
+  storeDerivedOutcomes,
+  storeOutcomeFlags,
+  type OutcomeColumns,
+  type Patient,
+} from '../patients/patients.repository.js';
 import {
   deleteAssessment,
   findAssessment,
   findAssessmentOn,
-  findPatient,
-  findPatientById,
-  findTrialSettings,
   insertAssessment,
   listAssessments,
   listAssessmentsOfTrial,
-  listAttentionCandidates,
-  listPatientsOfTrial,
-  listTrialSites,
-  storeDerivations,
-  storeDerivedOutcomes,
-  storeOutcomeFlags,
   updateAssessment,
-  type AssessedPatient,
   type Assessment,
-  type OutcomeColumns,
-  type TrialSettings,
 } from './assessments.repository.js';
-import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type AttentionItem, type Derivation } from './derivation.js';
+import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type AttentionItem, type Derivation, type DerivationSettings } from './derivation.js';
 
 export const DISAGREES_FLAG = 'disagrees_with_derivation';
 
@@ -50,7 +50,24 @@ export type DerivationContext = {
   fromAssessmentChange?: boolean;
 };
 
-function derivationFor(patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
+/** The protocol's outcome rules: where outcomes come from, and how RECIST 1.1 is configured. */
+type TrialSettings = { outcomeSource: ProtocolSettings['outcomeSource'] } & DerivationSettings;
+
+async function findTrialSettings(db: Db | Knex.Transaction, trialId: string): Promise<TrialSettings | undefined> {
+  const protocol = await findProtocolSettings(db, trialId);
+  return (
+    protocol && {
+      outcomeSource: protocol.outcomeSource,
+      confirmationRequired: protocol.confirmationRequired,
+      confirmationMinDays: protocol.confirmationMinDays,
+      sdMinDays: protocol.sdMinDays,
+      neBetweenResponses: protocol.neBetweenResponses,
+      assessmentIntervalDays: protocol.assessmentIntervalDays,
+    }
+  );
+}
+
+function derivationFor(patient: Patient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
   return deriveBestOverallResponse({
     enrolledOn: patient.enrolledOn,
     assessments: assessments.map((a) => ({ id: a.id, date: a.date, response: a.response })),
@@ -75,7 +92,7 @@ function derivedOutcome(derivation: Derivation): OutcomeColumns {
   };
 }
 
-type Subject = { patient: AssessedPatient; assessments: Assessment[] };
+type Subject = { patient: Patient; assessments: Assessment[] };
 
 /**
  * Derives each patient and applies the results in a few statements: the stored derivation, the
@@ -95,7 +112,7 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   );
   const outcomes: Array<OutcomeColumns & { patientId: string }> = [];
   const flags = new Map<string | null, string[]>();
-  const audits: Array<{ patient: AssessedPatient; action: string; before: unknown; after: unknown }> = [];
+  const audits: Array<{ patient: Patient; action: string; before: unknown; after: unknown }> = [];
   subjects.forEach(({ patient, assessments }, i) => {
     const derivation = derivations[i];
     let flag: string | null = null;
@@ -132,7 +149,7 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
  * patient's assessments or entered outcome.
  */
 export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, context: DerivationContext = {}): Promise<Derivation> {
-  const patient = await findPatientById(trx, patientId);
+  const patient = await findPatientById(trx, patientId, { forUpdate: true });
   if (!patient) throw new NotFoundError('The patient');
   const settings = await findTrialSettings(trx, patient.trialId);
   if (!settings) throw new NotFoundError('The trial');
@@ -144,7 +161,7 @@ export async function recomputeDerivation(trx: Knex.Transaction, patientId: stri
 export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, context: DerivationContext = {}): Promise<number> {
   const settings = await findTrialSettings(trx, trialId);
   if (!settings) throw new NotFoundError('The trial');
-  const patients = await listPatientsOfTrial(trx, trialId);
+  const patients = await listPatientsOfTrial(trx, trialId, { forUpdate: true });
   const assessments = await listAssessmentsOfTrial(trx, trialId);
   await applyDerivations(
     trx,
@@ -167,11 +184,11 @@ export const rederiveTrialAfterSettingsChange: Listener<ProtocolSettingsChange> 
 };
 
 export type PatientSummary = Pick<
-  AssessedPatient,
+  Patient,
   'id' | 'studyId' | 'siteId' | 'enrolledOn' | 'outcome' | 'bestOverallResponse' | 'evaluable' | 'outcomeFlag' | 'derivedBestOverallResponse' | 'derivedResponder' | 'version'
 >;
 
-const summary = (p: AssessedPatient): PatientSummary => ({
+const summary = (p: Patient): PatientSummary => ({
   id: p.id,
   studyId: p.studyId,
   siteId: p.siteId,
@@ -186,8 +203,8 @@ const summary = (p: AssessedPatient): PatientSummary => ({
 });
 
 /** A patient the caller may see: other sites answer 404, exactly like a patient that does not exist. */
-async function visiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, sites: string[] | 'all', lock = false): Promise<AssessedPatient> {
-  const patient = await findPatient(db, actor.access.trialId, patientId, lock);
+async function visiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, sites: string[] | 'all', lock = false): Promise<Patient> {
+  const patient = await findPatient(db, actor.access.trialId, patientId, 'all', { forUpdate: lock });
   if (!patient || (sites !== 'all' && !sites.includes(patient.siteId))) throw new NotFoundError('The patient');
   return patient;
 }
@@ -207,7 +224,7 @@ export type AssessmentsView = {
 };
 
 async function view(db: Db | Knex.Transaction, trialId: string, patientId: string): Promise<AssessmentsView> {
-  const patient = (await findPatient(db, trialId, patientId)) as AssessedPatient;
+  const patient = (await findPatient(db, trialId, patientId, 'all')) as Patient;
   const { outcomeSource, ...settings } = await settingsOf(db, trialId);
   const assessments = await listAssessments(db, patientId);
   // Read fresh, so time-dependent items (a confirmation now overdue) are current.
@@ -232,7 +249,7 @@ const isUniqueViolation = (error: unknown) => (error as { code?: string })?.code
 export type NewAssessment = { date: string; response: Assessment['response']; notes: string | null };
 
 /** Inserts one checked assessment of a locked patient and audits it; the caller re-derives. */
-export async function createAssessment(trx: Knex.Transaction, patient: AssessedPatient, input: NewAssessment, userId: string, reason?: string): Promise<Assessment> {
+export async function createAssessment(trx: Knex.Transaction, patient: Patient, input: NewAssessment, userId: string, reason?: string): Promise<Assessment> {
   const existing = await findAssessmentOn(trx, patient.id, input.date);
   if (existing) throw duplicateDate(existing);
   let assessment: Assessment;
@@ -338,7 +355,7 @@ export type NeedsAttentionSite = { siteId: string; siteCode: string; siteName: s
 export async function needsAttention(db: Db, actor: Actor, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
   const { access } = actor;
   const scope = siteScope(access);
-  const sites = await listTrialSites(db, access.trialId, scope);
+  const sites = (await listTrialSites(db, access.trialId)).filter((s) => scope === 'all' || scope.includes(s.id));
   const bySite = new Map<string, NeedsAttentionSite>(sites.map((s) => [s.id, { siteId: s.id, siteCode: s.code, siteName: s.name, items: [] }]));
   for (const row of await listAttentionCandidates(db, access.trialId, scope)) {
     const stored = row.attention;

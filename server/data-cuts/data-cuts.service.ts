@@ -10,40 +10,31 @@ import type { Actor, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesigns } from '../design-studio/current-design.js';
+import { currentDesigns } from '../design-studio/design-studio.repository.js';
 import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
 import type { CohortStatus } from '../trials/trials.repository.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
+import { findCohort, listCohorts, lockTrialHeading } from '../trials/trials.repository.js';
+import { listPatientsWithAssessments } from '../patients/patients.repository.js';
+import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/people.repository.js';
 import {
-  countMonitors,
-  decisionRecipients,
   findDataCut,
-  findRecommendationBy,
-  findUserName,
   insertDataCut,
-  insertDecision,
-  insertRecommendation,
   listDataCuts,
-  listDecisions,
-  listRecommendations,
-  lockTrial,
   nextSeq,
-  readCohorts,
-  readCutPatients,
-  readCohortStatus,
-  readLivePatients,
-  statisticianEmails,
   releaseToSponsor,
   setReportHash,
   trialOfCut,
   updatePrior,
-  type CutPatient,
   type CutSnapshot,
   type DataCut,
 } from './data-cuts.repository.js';
+import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
+import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
+import { insertDecision, listDecisions } from './decisions.repository.js';
 import {
   DECISION_LABELS,
   RECOMMENDATION_LABELS,
@@ -62,6 +53,33 @@ export { trialOfCut };
 /** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
 export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
   return { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+}
+
+/** A live patient in the shape the cut keeps (the hash covers exactly these fields). */
+function asCutPatient(p: Awaited<ReturnType<typeof listPatientsWithAssessments>>[number]): CutPatient {
+  return {
+    patientId: p.id,
+    studyId: p.studyId,
+    siteId: p.siteId,
+    siteCode: p.siteCode,
+    cohortId: p.cohortId,
+    cohortCode: p.cohortCode,
+    stage: p.stage,
+    enrolmentSeq: p.enrolmentSeq,
+    enrolledOn: p.enrolledOn,
+    outcome: p.outcome,
+    bestOverallResponse: p.bestOverallResponse,
+    responseAssessedOn: p.responseAssessedOn,
+    evaluable: p.evaluable,
+    notEvaluableReason: p.notEvaluableReason,
+    attested: p.attested !== null,
+    attestationSignatureId: p.attested?.signatureId ?? null,
+    derivedBestOverallResponse: p.derivedBestOverallResponse,
+    derivedResponder: p.derivedResponder,
+    outcomeFlag: p.outcomeFlag,
+    patientVersion: p.version,
+    assessments: p.assessments,
+  };
 }
 
 const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).join(', ');
@@ -83,9 +101,9 @@ export async function freezeWithin(
   actor: Author,
   history?: HistoricalCut,
 ): Promise<DataCut> {
-  const trial = await lockTrial(trx, input.trialId);
+  const trial = await lockTrialHeading(trx, input.trialId);
   if (!trial) throw new NotFoundError('The trial');
-  const cohorts = await readCohorts(trx, input.trialId);
+  const cohorts = await listCohorts(trx, input.trialId);
   const scope = input.cohortId ? cohorts.filter((c) => c.id === input.cohortId) : cohorts;
   if (input.cohortId && scope.length === 0) throw new InputError('That cohort is not part of this trial.', { cohortId: 'Choose a cohort of this trial.' });
   const designs = await currentDesigns(trx, scope.map((c) => c.id));
@@ -93,7 +111,7 @@ export async function freezeWithin(
     throw new InputError('No cohort in this cut has a locked design yet: lock a design first.', { cohortId: 'This cohort has no locked design.' });
   }
   const snapshot: CutSnapshot = {
-    trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsor_name },
+    trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsorName },
     cohorts: scope.map((c) => {
       const d = designs.get(c.id);
       return {
@@ -128,7 +146,7 @@ export async function freezeWithin(
       };
     }),
   };
-  const live = await readLivePatients(trx, scope.map((c) => c.id));
+  const live = (await listPatientsWithAssessments(trx, scope.map((c) => c.id))).map(asCutPatient).sort(byCohortThenSeq);
   const patients = history ? live.filter((p) => p.enrolledOn <= history.enrolledOnOrBefore) : live;
   const base = {
     trialId: input.trialId,
@@ -144,18 +162,15 @@ export async function freezeWithin(
     flagged: patients.filter((p) => p.outcomeFlag).length,
     notEvaluable: patients.filter((p) => !p.evaluable).length,
   };
-  const cut = await insertDataCut(
-    trx,
-    {
-      ...base,
-      seq: await nextSeq(trx, input.trialId),
-      designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
-      createdBy: actor.id,
-      contentHash: contentHash(cutContent(base, patients)),
-      counts,
-    },
-    patients,
-  );
+  const cut = await insertDataCut(trx, {
+    ...base,
+    seq: await nextSeq(trx, input.trialId),
+    designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
+    createdBy: actor.id,
+    contentHash: contentHash(cutContent(base, patients)),
+    counts,
+  });
+  await insertCutPatients(trx, cut.id, patients);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: input.trialId,
@@ -334,7 +349,8 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   if ((await listDecisions(trx, cutId)).some((d) => d.cohortId === cohortId)) {
     throw new ConflictError('A decision on this cohort has already been applied from this data cut.');
   }
-  const current = await readCohortStatus(trx, cohortId);
+  const current = await findCohort(trx, cut.trialId, cohortId);
+  if (!current) throw new NotFoundError('The cohort');
   const to = DECISION_TARGET[input.action];
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;

@@ -10,26 +10,32 @@ import { randomUUID } from 'node:crypto';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
-import { hasRole, type Actor } from '../auth/access.js';
+import { hasRole, isUuid, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
 import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { currentDesign, currentDesigns, type LockedDesign } from './current-design.js';
+import * as trials from '../trials/trials.repository.js';
+import { type Cohort, type CohortStatus } from '../trials/trials.repository.js';
+import { countEnrolledByCohort } from '../patients/patients.repository.js';
+import { restageCohort } from '../patients/accrual-rules.js';
 import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type Selection, type SignatureKind } from './design-studio.schema.js';
 import { curveFor, responseGrid } from './candidates.js';
 import { runChosenDesign } from './candidates-pool.js';
-import {
-  countEnrolled,
-  findCohort,
-  findTrialCode,
-  insertDesignVersion,
-  listCohorts,
-  listDesignVersions,
-  restagePatients,
-  type DesignCohort,
-  type DesignVersion,
-} from './design-studio.repository.js';
+import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './design-studio.repository.js';
+
+/** A cohort as the Design studio shows it: the trial's cohort record and the trial it belongs to. */
+export type DesignCohort = Cohort & { trialId: string };
+
+/** The cohort of this trial (undefined for an id that is not one); with `lock`, its row stays locked until the transaction ends. */
+async function findCohort(db: Db, trialId: string, cohortId: string, options: { lock?: boolean } = {}): Promise<DesignCohort | undefined> {
+  if (!isUuid(cohortId)) return undefined;
+  const cohort = await trials.findCohort(db, trialId, cohortId, options);
+  return cohort && { ...cohort, trialId };
+}
+
+async function listCohorts(db: Db, trialId: string): Promise<DesignCohort[]> {
+  return (await trials.listCohorts(db, trialId)).map((cohort) => ({ ...cohort, trialId }));
+}
 
 export type CohortDesigns = DesignCohort & {
   enrolled: number;
@@ -41,7 +47,7 @@ export type CohortDesigns = DesignCohort & {
 export async function listTrialDesigns(db: Db, actor: Actor): Promise<CohortDesigns[]> {
   const cohorts = await listCohorts(db, actor.access.trialId);
   const ids = cohorts.map((c) => c.id);
-  const [versions, enrolled] = await Promise.all([listDesignVersions(db, ids), countEnrolled(db, ids)]);
+  const [versions, enrolled] = await Promise.all([listDesignVersions(db, ids), countEnrolledByCohort(db, ids)]);
   return cohorts.map((cohort) => {
     const mine = versions.filter((v) => v.cohortId === cohort.id);
     const current = mine[0];
@@ -89,7 +95,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
         { current: current ?? null },
       );
     }
-    const enrolled = (await countEnrolled(trx, [cohort.id])).get(cohort.id) ?? 0;
+    const enrolled = (await countEnrolledByCohort(trx, [cohort.id])).get(cohort.id) ?? 0;
     let kind: SignatureKind;
     if (input.route === 'lock') {
       if (enrolled > 0) {
@@ -112,7 +118,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       kind = 'amendment';
     }
     const authenticatedAt = requireFreshAuthentication(input.signIn);
-    const trialCode = (await findTrialCode(trx, trialId)) ?? '';
+    const trialCode = (await trials.trialCode(trx, trialId)) ?? '';
     const version = (current?.version ?? 0) + 1;
     const designId = randomUUID();
     const protocolReference = body.protocolReference.trim();
@@ -142,7 +148,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
     });
     const saved = await insertDesignVersion(trx, { ...design, signatureId: signature.id });
     if (current && (current.n1 !== saved.n1 || current.analysisPopulation !== saved.analysisPopulation)) {
-      await restagePatients(trx, cohort.id, saved.n1, saved.analysisPopulation);
+      await restageCohort(trx, cohort.id, saved.n1, saved.analysisPopulation);
     }
     await writeAudit(trx, {
       actorUserId: signer.id,

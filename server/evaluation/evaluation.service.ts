@@ -9,8 +9,9 @@ import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
 import type { Role } from '../auth/access.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
-import { countingGroups, responderPaths, trialFacts, type CountingGroup, type CountingRule } from '../patients/patients.repository.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
+import { trialFacts } from '../trials/trials.repository.js';
+import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
 import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
 
 /** The cautions of the product brief, shown wherever a result is shown. */

@@ -30,6 +30,17 @@ export async function enqueueMail(trx: Knex | Knex.Transaction, mail: QueuedMail
   await trx('mail_outbox').insert(rows).onConflict('dedupe_key').ignore();
 }
 
+export type UnsentMail = { id: number; kind: string; to: string; subject: string; attempts: number; lastError: string | null; nextAttemptAt: Date };
+
+/** The latest mail not sent yet (queued or being retried), newest first. */
+export async function listUnsent(db: Db, limit = 100): Promise<UnsentMail[]> {
+  return db('mail_outbox')
+    .whereNot({ status: 'sent' })
+    .orderBy('id', 'desc')
+    .limit(limit)
+    .select('id', 'kind', 'to_address as to', 'subject', 'attempts', 'last_error as lastError', 'next_attempt_at as nextAttemptAt');
+}
+
 const CLAIM_SECONDS = 60;
 const MAX_BACKOFF_MS = 5 * 60 * 1000;
 

@@ -8,11 +8,13 @@
 import type { Knex } from 'knex';
 import { ConflictError } from '../http/errors.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { currentDesign, type LockedDesign } from '../design-studio/current-design.js';
-import { assignStages, tally } from '../evaluation/counting.js';
+import { currentDesign, type LockedDesign } from '../design-studio/design-studio.repository.js';
+import { assignStages, tally, type AnalysisPopulation } from '../evaluation/counting.js';
+import { countCounting } from '../evaluation/evaluation.repository.js';
 import { transitionCohort } from '../trials/cohort-status.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { countablePatients, countCounting, currentStages, memberEmails, setStage, type TrialCohort } from './patients.repository.js';
+import { findCohort, type Cohort, type CohortStatus } from '../trials/trials.repository.js';
+import { memberEmails } from '../people/people.repository.js';
+import { countablePatients, currentStages, setStage } from './patients.repository.js';
 
 const STATUS_WORDS: Record<CohortStatus, string> = {
   draft: 'in draft (its design is not locked yet)',
@@ -25,7 +27,7 @@ const STATUS_WORDS: Record<CohortStatus, string> = {
 };
 
 /** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
-export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign | undefined): LockedDesign {
+export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status'>, design: LockedDesign | undefined): LockedDesign {
   if (!design) throw new ConflictError(`Cohort ${cohort.code} has no locked design yet, so it cannot enrol patients.`, { cohortStatus: cohort.status });
   if (cohort.status === 'enrolling_stage_1' || cohort.status === 'enrolling_stage_2') return design;
   if (cohort.status === 'interim_review') {
@@ -41,6 +43,20 @@ export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
 
 /**
+ * Re-derives the stage of every patient of the cohort (the first n1 counting patients are stage 1)
+ * and stores the ones that moved, in two statements. Called when an evaluability change or a new
+ * design version (another n1 or analysis population) can move the boundary.
+ */
+export async function restageCohort(trx: Knex.Transaction, cohortId: string, n1: number | null, population: AnalysisPopulation): Promise<void> {
+  const patients = (await countablePatients(trx, [cohortId])).get(cohortId) ?? [];
+  const stages = assignStages(patients, n1, population);
+  const stored = await currentStages(trx, cohortId);
+  const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
+  await setStage(trx, moved(1), 1);
+  await setStage(trx, moved(2), 2);
+}
+
+/**
  * Applies the accrual rules after an enrolment or an outcome change, inside the caller's
  * transaction (the cohort row is locked by `transitionCohort`). Stages are re-derived only when an
  * evaluability change can move them (evaluable population); otherwise a new patient's stage, set
@@ -53,19 +69,12 @@ export async function applyAccrualRules(
   const design = await currentDesign(trx, input.cohortId);
   const n1 = design?.n1 ?? null;
   const population = design?.analysisPopulation ?? 'all_enrolled';
-  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) {
-    const patients = (await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [];
-    const stages = assignStages(patients, n1, population);
-    const stored = await currentStages(trx, input.cohortId);
-    const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
-    await setStage(trx, moved(1), 1);
-    await setStage(trx, moved(2), 2);
-  }
+  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) await restageCohort(trx, input.cohortId, n1, population);
 
   const none = { paused: false, continuesAtRisk: false };
   if (!design || n1 === null || design.r1 === null) return none;
-  const cohort = await trx('cohorts').where({ id: input.cohortId }).first('code', 'status');
-  if (cohort.status !== 'enrolling_stage_1') return none;
+  const cohort = await findCohort(trx, input.trialId, input.cohortId);
+  if (cohort?.status !== 'enrolling_stage_1') return none;
   if ((await countCounting(trx, input.cohortId, population)) < n1) return none;
   const counts = tally((await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [], n1, population);
 

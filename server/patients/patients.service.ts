@@ -12,7 +12,11 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesign } from '../design-studio/current-design.js';
+import { currentDesign } from '../design-studio/design-studio.repository.js';
+import { countCounting } from '../evaluation/evaluation.repository.js';
+import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/trials.repository.js';
+import { holdsRoleAtSite } from '../people/people.repository.js';
+import { entityHistory } from '../audit/audit.repository.js';
 import {
   attestationSchema,
   isRecorded,
@@ -24,21 +28,15 @@ import {
   type OutcomeInput,
 } from './patients.schema.js';
 import {
-  countCounting,
   findPatient,
   findPatientByStudyId,
   insertPatient,
   listPatients,
-  lockCohort,
   nextEnrolmentSeq,
-  patientHistory,
   setAttestation,
-  trialCode,
-  trialFacts,
   updateOutcome,
   type OutcomeFields,
   type Patient,
-  type TrialFacts,
 } from './patients.repository.js';
 import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
 import { emit, type Hooks } from '../hooks.js';
@@ -136,6 +134,7 @@ export async function enrolPatient(
   }
 
   const locked = await lockCohort(trx, cohort.id);
+  if (!locked) throw new NotFoundError('The cohort');
   const design = assertCohortEnrolling(locked, await currentDesign(trx, cohort.id));
   if (await findPatientByStudyId(trx, trialId, studyId)) {
     throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
@@ -272,9 +271,7 @@ export const attestationMeaning = (studyId: string) => `I attest that the outcom
 export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown, signIn: SignIn) {
   const trialId = actor.access.trialId;
   const patient = await requireVisiblePatient(db, actor, patientId);
-  const isSiteInvestigator = await db('memberships')
-    .where({ trial_id: trialId, user_id: actor.user.id, role: 'investigator', site_id: patient.siteId, status: 'active' })
-    .first('id');
+  const isSiteInvestigator = await holdsRoleAtSite(db, { trialId, userId: actor.user.id, role: 'investigator', siteId: patient.siteId });
   if (!isSiteInvestigator) throw new ForbiddenError('Only the investigator of the patient’s site can attest the outcome.');
   const { version } = await parseBody(attestationSchema, body);
   const authenticatedAt = requireFreshAuthentication(signIn);
@@ -313,5 +310,5 @@ export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: stri
 
 export async function history(db: Db, actor: Actor, patientId: string) {
   const patient = await requireVisiblePatient(db, actor, patientId);
-  return { patient, entries: await patientHistory(db, patient.id) };
+  return { patient, entries: await entityHistory(db, 'patient', patient.id) };
 }

@@ -8,22 +8,24 @@ import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
+import { findTrialHeading } from '../trials/trials.repository.js';
+import { countPatientsAtSite } from '../patients/patients.repository.js';
 import {
-  countPatientsAtSite,
   deleteMembership,
   findMembership,
   findSite,
-  findTrialHeading,
   findUserByEmail,
   insertMembership,
   insertSite,
   listMemberships,
+  listOwnMemberships,
   listSites,
   lockActiveAdmins,
   trialHasSite,
   updateMembershipRow,
   updateSiteRow,
   type Membership,
+  type OwnMembership,
   type Site,
 } from './people.repository.js';
 import { SITE_MEMBER_ROLES, type MembershipInviteInput, type MembershipUpdateInput, type SiteInput, type SiteUpdateInput } from './people.schema.js';
@@ -46,6 +48,11 @@ const siteCodeTaken = (code: string) =>
   });
 
 export { listSites };
+
+/** The user's own active memberships (roles come from the database, never the identity provider). */
+export async function membershipsOf(db: Db, user: SessionUser): Promise<OwnMembership[]> {
+  return listOwnMemberships(db, user.id);
+}
 
 /** A trial's members, for its admin and statistician. */
 export async function memberships(db: Db, actor: Actor): Promise<Membership[]> {

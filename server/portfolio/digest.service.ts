@@ -11,7 +11,7 @@ import { listTrialsForUser, type TrialForUser } from '../trials/trials.repositor
 import { isoWeekOf, toDay } from '../accrual/calendar.js';
 import { trialAccrual, type TrialAccrual } from '../accrual/accrual.service.js';
 import { portfolioRows, type PortfolioRow } from './portfolio.service.js';
-import { sponsorRecipients, type SponsorRecipient } from './portfolio.repository.js';
+import { sponsorRecipients, type SponsorRecipient } from '../people/people.repository.js';
 import { plural } from './words.js';
 
 const CAUTIONS = [

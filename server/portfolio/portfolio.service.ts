@@ -13,7 +13,7 @@
 import type { Db } from '../db/knex.js';
 import type { Role, SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
 import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
 import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
 import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/accrual.service.js';

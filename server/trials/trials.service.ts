@@ -8,8 +8,9 @@ import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { emit, type Hooks } from '../hooks.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { countPatientsInTrial } from '../patients/patients.repository.js';
+import { insertMembership } from '../people/people.repository.js';
 import {
-  countPatients,
   existingSiteIds,
   findCohort,
   findTrialDetail,
@@ -106,9 +107,7 @@ export async function createTrial(db: Db, user: SessionUser, input: TrialCreateI
     );
     await setTrialSites(trx, trialId, input.sites.map((s) => ({ siteId: s.siteId, plannedAccrualPerMonth: s.plannedAccrualPerMonth ?? null })));
     // The creator manages the new trial; without this nobody could open it.
-    const [membership] = await trx('memberships')
-      .insert({ trial_id: trialId, user_id: user.id, email: user.email, role: 'admin', status: 'active', invited_by: user.id })
-      .returning('id');
+    const membershipId = (await insertMembership(trx, { trialId, email: user.email, role: 'admin', siteId: null, userId: user.id, status: 'active', invitedBy: user.id })) as string;
     const trial = (await findTrialDetail(trx, trialId)) as TrialDetail;
     await writeAudit(trx, { actorUserId: user.id, trialId, entityType: 'trial', entityId: trialId, action: 'created', after: auditView(trial) });
     for (const cohort of trial.cohorts) {
@@ -125,7 +124,7 @@ export async function createTrial(db: Db, user: SessionUser, input: TrialCreateI
       actorUserId: user.id,
       trialId,
       entityType: 'membership',
-      entityId: membership.id,
+      entityId: membershipId,
       action: 'created',
       after: { email: user.email, role: 'admin', status: 'active' },
     });
@@ -208,7 +207,7 @@ export async function updateProtocolSettings(db: Db, hooks: Hooks, { user, acces
     const before = await lockTrial(trx, trialId);
     checkVersion(before, input.version);
     // Once patients are enrolled the rules change how their outcomes count: say why.
-    if (!input.reason && (await countPatients(trx, trialId)) > 0) {
+    if (!input.reason && (await countPatientsInTrial(trx, trialId)) > 0) {
       throw new InputError('Patients are enrolled: give a reason for changing the protocol settings.', {
         reason: 'A reason is required once patients are enrolled.',
       });

@@ -6,10 +6,11 @@
  */
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
-import { currentDesign } from '../../design-studio/current-design.js';
+import { currentDesign } from '../../design-studio/design-studio.repository.js';
 import { canTransition } from '../../trials/cohort-status.js';
 import type { CohortStatus } from '../../trials/trials.repository.js';
-import { insertDecision, releaseToSponsor } from '../../data-cuts/data-cuts.repository.js';
+import { releaseToSponsor } from '../../data-cuts/data-cuts.repository.js';
+import { insertDecision } from '../../data-cuts/decisions.repository.js';
 import { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from '../../data-cuts/data-cuts.service.js';
 import type { SessionUser } from '../../auth/access.js';
 import type { DecisionAction, RecommendationDecision } from '../../data-cuts/data-cuts.schema.js';

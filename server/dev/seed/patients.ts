@@ -9,7 +9,7 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { currentDesign } from '../../design-studio/current-design.js';
+import { currentDesign } from '../../design-studio/design-studio.repository.js';
 import { assignStages, type Outcome } from '../../evaluation/counting.js';
 
 /** R responder, N non-responder, P pending, E not evaluable (no post-baseline assessment). */
