@@ -15,6 +15,7 @@
  * Pure: dates in, a readable derivation out, so the server, the import and the tests share it.
  */
 import { addDays, differenceInCalendarDays, format, parseISO } from 'date-fns';
+import { plural, responderWords } from '../words/index.js';
 
 export const RESPONSES = ['CR', 'PR', 'SD', 'PD', 'NE'] as const;
 export type TimepointResponse = (typeof RESPONSES)[number];
@@ -125,8 +126,6 @@ const shifted = remembered((key) => {
 });
 const plusDays = (iso: string, days: number) => shifted(`${iso}|${days}`);
 const daysBetween = (from: string, to: string) => dayNumber(to) - dayNumber(from);
-const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? '' : 's'}`;
-const outcomeWords = (responder: boolean) => (responder ? 'responder' : 'non-responder');
 
 type Timepoint = AssessmentInput & { order: number };
 type Level = 'CR' | 'PR';
@@ -424,7 +423,7 @@ function responderSentence(found: Best, status: Status): string[] {
     return [`Responder status is pending: the ${awaiting[0].response} on ${longDate(awaiting[0].date)} awaits confirmation. Without it the best overall response is ${found.best}.`];
   }
   if (responder === null && found.best !== null) return ['Responder status is pending: without progression, a later assessment may still establish stable disease or a response.'];
-  return responder !== null ? [`Derived outcome: ${outcomeWords(responder)}.`] : [];
+  return responder !== null ? [`Derived outcome: ${responderWords(responder)}.`] : [];
 }
 
 function explanationOf(timeline: Timeline, found: Best, status: Status, steps: Map<Timepoint, DerivationStep>, rules: Rules): string[] {
@@ -498,7 +497,7 @@ function attentionOf(timeline: Timeline, found: Best, status: Status, rules: Rul
     const enteredText = `${entered.outcome === 'responder' ? 'responder' : 'non-responder'}${entered.bestOverallResponse ? `, ${entered.bestOverallResponse}` : ''}`;
     attention.push({
       kind: 'entered-disagrees',
-      message: `The entered outcome (${enteredText}) disagrees with the one derived from the assessments (${outcomeWords(status.responder as boolean)}, ${found.best}).`,
+      message: `The entered outcome (${enteredText}) disagrees with the one derived from the assessments (${responderWords(status.responder as boolean)}, ${found.best}).`,
     });
   }
   return attention;

@@ -13,7 +13,8 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { hasRole, isUuid, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
-import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
+import { transitionCohort } from '../trials/cohort-status.js';
+import type { StopCategory } from '../trials/trials.schema.js';
 import * as trials from '../trials/trials.repository.js';
 import { type Cohort, type CohortStatus } from '../trials/trials.repository.js';
 import { countEnrolledByCohort } from '../patients/patients.repository.js';

@@ -12,15 +12,8 @@ import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus 
 import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
 import { trialFacts } from '../trials/trials.repository.js';
 import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
+import { CAUTIONS } from '../words/index.js';
 import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
-
-/** The cautions of the product brief, shown wherever a result is shown. */
-export const CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-  'A deviation from the planned n1 or n changes the operating characteristics.',
-];
 
 export const CONF_LEVEL = 0.95;
 
@@ -225,5 +218,5 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
       path,
     };
   });
-  return { trialId, confLevel: CONF_LEVEL, cautions: CAUTIONS, cohorts };
+  return { trialId, confLevel: CONF_LEVEL, cautions: [...CAUTIONS], cohorts };
 }

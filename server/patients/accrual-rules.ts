@@ -12,19 +12,10 @@ import { currentDesign, type LockedDesign } from '../design-studio/design-studio
 import { assignStages, tally, type AnalysisPopulation } from '../evaluation/counting.js';
 import { countCounting } from '../evaluation/evaluation.repository.js';
 import { transitionCohort } from '../trials/cohort-status.js';
-import { findCohort, type Cohort, type CohortStatus } from '../trials/trials.repository.js';
+import { findCohort, type Cohort } from '../trials/trials.repository.js';
 import { memberEmails } from '../people/people.repository.js';
+import { POPULATION_IN_A_SENTENCE, STATUS_IN_A_SENTENCE } from '../words/index.js';
 import { countablePatients, currentStages, setStage } from './patients.repository.js';
-
-const STATUS_WORDS: Record<CohortStatus, string> = {
-  draft: 'in draft (its design is not locked yet)',
-  enrolling_stage_1: 'enrolling stage 1',
-  interim_review: 'in interim review',
-  enrolling_stage_2: 'enrolling stage 2',
-  final_analysis: 'in its final analysis',
-  completed: 'completed',
-  stopped: 'stopped',
-};
 
 /** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
 export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status'>, design: LockedDesign | undefined): LockedDesign {
@@ -37,7 +28,7 @@ export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status'>, d
       { cohortStatus: cohort.status },
     );
   }
-  throw new ConflictError(`Cohort ${cohort.code} is ${STATUS_WORDS[cohort.status]} and does not enrol patients.`, { cohortStatus: cohort.status });
+  throw new ConflictError(`Cohort ${cohort.code} is ${STATUS_IN_A_SENTENCE[cohort.status]} and does not enrol patients.`, { cohortStatus: cohort.status });
 }
 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
@@ -83,7 +74,7 @@ export async function applyAccrualRules(
     from: 'enrolling_stage_1',
     to: 'interim_review',
     actorUserId: input.actorUserId,
-    reason: `Stage 1 complete: ${n1} patients counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+    reason: `Stage 1 complete: ${n1} patients counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
   });
   const atRisk = design.interimAccrual === 'continue_at_risk';
   const recipients = await memberEmails(trx, input.trialId, ['statistician', 'monitor']);
@@ -98,7 +89,7 @@ export async function applyAccrualRules(
       to,
       subject: `${label}: stage 1 complete — interim review`,
       text: [
-        `Stage 1 of ${label} is complete: ${n1} patients are counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+        `Stage 1 of ${label} is complete: ${n1} patients are counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
         `So far ${counts.stage1.responders} responders among ${counts.stage1.decided} patients with an outcome; ${counts.stage1.pending} outcomes are pending.`,
         `The stage-1 rule of the locked design (version ${design.version}): stop for futility with ${design.r1} or fewer responders among ${n1}.`,
         accrualLine,

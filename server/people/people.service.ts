@@ -8,6 +8,7 @@ import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
+import { ROLE_WORDS } from '../words/index.js';
 import { findTrialHeading } from '../trials/trials.repository.js';
 import { countPatientsAtSite } from '../patients/patients.repository.js';
 import {
@@ -29,15 +30,6 @@ import {
   type Site,
 } from './people.repository.js';
 import { SITE_MEMBER_ROLES, type MembershipInviteInput, type MembershipUpdateInput, type SiteInput, type SiteUpdateInput } from './people.schema.js';
-
-const ROLE_WORDS: Record<Role, string> = {
-  admin: 'trial manager (admin)',
-  statistician: 'trial statistician',
-  coordinator: 'site coordinator',
-  investigator: 'site investigator',
-  monitor: 'member of the data monitoring committee',
-  sponsor: 'sponsor',
-};
 
 const siteView = (site: Site) => ({ code: site.code, name: site.name, country: site.country });
 const membershipView = (m: Membership) => ({ email: m.email, role: m.role, siteCode: m.siteCode, status: m.status });

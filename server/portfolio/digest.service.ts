@@ -12,13 +12,10 @@ import { isoWeekOf, toDay } from '../accrual/calendar.js';
 import { trialAccrual, type TrialAccrual } from '../accrual/accrual.service.js';
 import { portfolioRows, type PortfolioRow } from './portfolio.service.js';
 import { sponsorRecipients, type SponsorRecipient } from '../people/people.repository.js';
-import { plural } from './words.js';
+import { DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, plural } from '../words/index.js';
 
-const CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-];
+/** A sponsor's digest carries no design deviations to read, so the fourth standing caution is left out. */
+const CAUTIONS = [DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES];
 
 export type Digest = { period: string; to: string; subject: string; text: string };
 

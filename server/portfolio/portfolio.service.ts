@@ -14,12 +14,12 @@ import type { Db } from '../db/knex.js';
 import type { Role, SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
 import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
-import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
+import type { RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
+import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
 import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
 import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/accrual.service.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
-import { STATUS_WORDS } from './words.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
 
 export type Progress = { counted: number; target: number; fraction: number };
@@ -132,7 +132,7 @@ export async function portfolioRows(
         cohortName: cohort.name,
         cohortCount: trial.cohorts.length,
         status: cohort.status,
-        statusWords: STATUS_WORDS[cohort.status],
+        statusWords: STATUS_LABELS[cohort.status],
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
         design: designTargets(design),

@@ -6,7 +6,8 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, NotFoundError } from '../http/errors.js';
-import { lockCohort, setCohortStatus, type CohortStatus } from './trials.repository.js';
+import { lockCohort, setCohortStatus } from './trials.repository.js';
+import type { CohortStatus, StopCategory } from './trials.schema.js';
 
 const NEXT: Record<CohortStatus, CohortStatus[]> = {
   draft: ['enrolling_stage_1', 'stopped'],
@@ -17,8 +18,6 @@ const NEXT: Record<CohortStatus, CohortStatus[]> = {
   completed: [],
   stopped: [],
 };
-
-export type StopCategory = 'futility' | 'efficacy' | 'safety' | 'sponsor' | 'other';
 
 export function canTransition(from: CohortStatus, to: CohortStatus): boolean {
   return NEXT[from].includes(to);

@@ -6,15 +6,9 @@
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
+import type { CohortStatus } from './trials.schema.js';
 
-export type CohortStatus =
-  | 'draft'
-  | 'enrolling_stage_1'
-  | 'interim_review'
-  | 'enrolling_stage_2'
-  | 'final_analysis'
-  | 'completed'
-  | 'stopped';
+export type { CohortStatus };
 
 export type Cohort = {
   id: string;
