@@ -3,11 +3,10 @@ import type { AddressInfo } from 'node:net';
 import { pino, type Logger } from 'pino';
 import type { Config } from './config.js';
 import { createDb, type Db } from './db/knex.js';
-import { createApp } from './app.js';
-import type { RouteSpec } from './http/routes.js';
+import { createApp, type AppParts } from './app.js';
 import type { Express } from 'express';
 import { startMailWorker, type MailWorker } from './mail/outbox.js';
-import { startJobs, type Jobs } from './jobs/jobs.js';
+import { startJobs, type Jobs } from './jobs/index.js';
 
 export type RunningServer = {
   url: string;
@@ -16,7 +15,7 @@ export type RunningServer = {
   mail: MailWorker;
   jobs: Jobs;
   app: Express;
-  routes: RouteSpec[];
+  routes: AppParts['routes'];
   close: () => Promise<void>;
 };
 

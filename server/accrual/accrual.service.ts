@@ -8,9 +8,9 @@
 import type { Db } from '../db/knex.js';
 import { siteScope, type Actor } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
-import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
-import type { AnalysisPopulation } from '../evaluation/counting.js';
+import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/index.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import type { AnalysisPopulation } from '../evaluation/index.js';
 import {
   cohortTallies,
   emptyTally,

@@ -17,7 +17,7 @@ import { writableSites, type Actor } from '../auth/access.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
 import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import { assessmentSchema } from './assessments.schema.js';
-import { findPatientById, findPatientByStudyId } from '../patients/patients.repository.js';
+import { findPatientById, findPatientByStudyId } from '../patients/index.js';
 import { findAssessmentOn } from './assessments.repository.js';
 import { applyCorrection, createAssessment, recomputeDerivation } from './assessments.service.js';
 

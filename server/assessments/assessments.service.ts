@@ -12,7 +12,7 @@ import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
-import { findProtocolSettings, listTrialSites, type ProtocolSettings } from '../trials/trials.repository.js';
+import { findProtocolSettings, listTrialSites, type ProtocolSettings } from '../trials/index.js';
 import {
   findPatient,
   findPatientById,
@@ -23,7 +23,7 @@ import {
   storeOutcomeFlags,
   type OutcomeColumns,
   type Patient,
-} from '../patients/patients.repository.js';
+} from '../patients/index.js';
 import {
   deleteAssessment,
   findAssessment,

@@ -6,7 +6,7 @@
  * them into the notes and cautions a person reads. Pure: no database, no I/O — the report, the API
  * and the tests all call `analyseCut`.
  */
-import { countsToward, effectiveOutcome, responderPath, tally, type CountablePatient, type Tally } from '../evaluation/counting.js';
+import { countsToward, effectiveOutcome, responderPath, tally, type CountablePatient, type Tally } from '../evaluation/index.js';
 import {
   StatsInputError,
   adjustPValues,

@@ -5,7 +5,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { Outcome } from '../evaluation/counting.js';
+import type { Outcome } from '../evaluation/index.js';
 
 type Conn = Db | Knex.Transaction;
 

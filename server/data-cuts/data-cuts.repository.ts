@@ -5,8 +5,8 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { LockedDesign } from '../design-studio/design-studio.repository.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import type { LockedDesign } from '../design-studio/index.js';
+import type { CohortStatus } from '../trials/index.js';
 import type { CutKind } from './data-cuts.schema.js';
 
 type Conn = Db | Knex.Transaction;

@@ -10,17 +10,17 @@ import type { Actor, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesigns } from '../design-studio/design-studio.repository.js';
-import { transitionCohort } from '../trials/cohort-status.js';
-import type { StopCategory } from '../trials/trials.schema.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import { currentDesigns } from '../design-studio/index.js';
+import { transitionCohort } from '../trials/index.js';
+import type { StopCategory } from '../trials/index.js';
+import type { CohortStatus } from '../trials/index.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
-import { findCohort, listCohorts, lockTrialHeading } from '../trials/trials.repository.js';
-import { listPatientsWithAssessments } from '../patients/patients.repository.js';
-import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/people.repository.js';
+import { findCohort, listCohorts, lockTrialHeading } from '../trials/index.js';
+import { listPatientsWithAssessments } from '../patients/index.js';
+import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
 import {
   findDataCut,
   insertDataCut,

@@ -1,7 +1,7 @@
 /** The decisions applied to cohorts from data cuts: the move, the stop category, the reason and who applied it. */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import type { CohortStatus } from '../trials/index.js';
 import type { DecisionAction } from './data-cuts.schema.js';
 
 type Conn = Db | Knex.Transaction;

@@ -13,12 +13,11 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { hasRole, isUuid, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
-import { transitionCohort } from '../trials/cohort-status.js';
-import type { StopCategory } from '../trials/trials.schema.js';
-import * as trials from '../trials/trials.repository.js';
-import { type Cohort, type CohortStatus } from '../trials/trials.repository.js';
-import { countEnrolledByCohort } from '../patients/patients.repository.js';
-import { restageCohort } from '../patients/accrual-rules.js';
+import { transitionCohort } from '../trials/index.js';
+import type { StopCategory } from '../trials/index.js';
+import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, trialCode, type Cohort, type CohortStatus } from '../trials/index.js';
+import { countEnrolledByCohort } from '../patients/index.js';
+import { restageCohort } from '../patients/index.js';
 import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type Selection, type SignatureKind } from './design-studio.schema.js';
 import { curveFor, responseGrid } from './candidates.js';
 import { runChosenDesign } from './candidates-pool.js';
@@ -30,12 +29,12 @@ export type DesignCohort = Cohort & { trialId: string };
 /** The cohort of this trial (undefined for an id that is not one); with `lock`, its row stays locked until the transaction ends. */
 async function findCohort(db: Db, trialId: string, cohortId: string, options: { lock?: boolean } = {}): Promise<DesignCohort | undefined> {
   if (!isUuid(cohortId)) return undefined;
-  const cohort = await trials.findCohort(db, trialId, cohortId, options);
+  const cohort = await findTrialCohort(db, trialId, cohortId, options);
   return cohort && { ...cohort, trialId };
 }
 
 async function listCohorts(db: Db, trialId: string): Promise<DesignCohort[]> {
-  return (await trials.listCohorts(db, trialId)).map((cohort) => ({ ...cohort, trialId }));
+  return (await listTrialCohorts(db, trialId)).map((cohort) => ({ ...cohort, trialId }));
 }
 
 export type CohortDesigns = DesignCohort & {
@@ -119,11 +118,11 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       kind = 'amendment';
     }
     const authenticatedAt = requireFreshAuthentication(input.signIn);
-    const trialCode = (await trials.trialCode(trx, trialId)) ?? '';
+    const code = (await trialCode(trx, trialId)) ?? '';
     const version = (current?.version ?? 0) + 1;
     const designId = randomUUID();
     const protocolReference = body.protocolReference.trim();
-    const meaning = signatureMeaning({ kind, version, protocolReference, trialCode, cohortCode: cohort.code });
+    const meaning = signatureMeaning({ kind, version, protocolReference, trialCode: code, cohortCode: cohort.code });
     const design = {
       id: designId,
       cohortId: cohort.id,
@@ -144,7 +143,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       meaning,
       subjectType: kind === 'amendment' ? 'amendment' : 'design',
       subjectId: designId,
-      content: { trialId, trialCode, cohortCode: cohort.code, meaning, ...design },
+      content: { trialId, trialCode: code, cohortCode: cohort.code, meaning, ...design },
       authenticatedAt,
     });
     const saved = await insertDesignVersion(trx, { ...design, signatureId: signature.id });

@@ -4,8 +4,8 @@
  * per (period, sponsor), then sent by the mail worker.
  */
 import { enqueueMail } from '../mail/outbox.js';
-import { isoWeekOf, toDay } from '../accrual/calendar.js';
-import { weeklyDigests } from '../portfolio/digest.service.js';
+import { isoWeekOf, toDay } from '../accrual/index.js';
+import { weeklyDigests } from '../portfolio/index.js';
 import type { ScheduledJob } from './jobs.js';
 
 export const DIGEST_JOB = 'weekly-digest';

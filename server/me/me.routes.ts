@@ -1,6 +1,6 @@
 /** The signed-in user and their own memberships (roles come from the database, never the identity provider). */
 import { requireUser, type RouteSpec } from '../http/routes.js';
-import { membershipsOf } from '../people/people.service.js';
+import { membershipsOf } from '../people/index.js';
 
 export const meRoutes: RouteSpec[] = [
   {

@@ -8,12 +8,12 @@
 import type { Knex } from 'knex';
 import { ConflictError } from '../http/errors.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { currentDesign, type LockedDesign } from '../design-studio/design-studio.repository.js';
-import { assignStages, tally, type AnalysisPopulation } from '../evaluation/counting.js';
-import { countCounting } from '../evaluation/evaluation.repository.js';
-import { transitionCohort } from '../trials/cohort-status.js';
-import { findCohort, type Cohort } from '../trials/trials.repository.js';
-import { memberEmails } from '../people/people.repository.js';
+import { currentDesign, type LockedDesign } from '../design-studio/index.js';
+import { assignStages, tally, type AnalysisPopulation } from '../evaluation/index.js';
+import { countCounting } from '../evaluation/index.js';
+import { transitionCohort } from '../trials/index.js';
+import { findCohort, type Cohort } from '../trials/index.js';
+import { memberEmails } from '../people/index.js';
 import { POPULATION_IN_A_SENTENCE, STATUS_IN_A_SENTENCE } from '../words/index.js';
 import { countablePatients, currentStages, setStage } from './patients.repository.js';
 

@@ -26,7 +26,7 @@ import {
 } from './patients.schema.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
-import { listCohorts, trialFacts, type TrialFacts } from '../trials/trials.repository.js';
+import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
 import { findPatientByStudyId, listPatients, type Patient } from './patients.repository.js';
 import { enrolPatient, recordOutcome } from './patients.service.js';
 

@@ -6,15 +6,15 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { Derivation } from '../assessments/derivation.js';
-import type { CountablePatient } from '../evaluation/counting.js';
+import type { Derivation } from '../assessments/index.js';
+import type { CountablePatient } from '../evaluation/index.js';
 import type { BestOverallResponse, ListQuery, Outcome } from './patients.schema.js';
 
 type Conn = Db | Knex.Transaction;
 
 // Kept for the client, which still imports these names from here; they live in the trials and audit stores.
-export type { SiteRef as TrialSite, CohortRef as TrialCohort } from '../trials/trials.repository.js';
-export type { HistoryEntry } from '../audit/audit.repository.js';
+export type { SiteRef as TrialSite, CohortRef as TrialCohort } from '../trials/index.js';
+export type { HistoryEntry } from '../audit/index.js';
 /** 'all' for roles that read every site; otherwise the site ids the user holds a site role at. */
 export type SiteScope = string[] | 'all';
 

@@ -12,11 +12,11 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesign } from '../design-studio/design-studio.repository.js';
-import { countCounting } from '../evaluation/evaluation.repository.js';
-import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/trials.repository.js';
-import { holdsRoleAtSite } from '../people/people.repository.js';
-import { entityHistory } from '../audit/audit.repository.js';
+import { currentDesign } from '../design-studio/index.js';
+import { countCounting } from '../evaluation/index.js';
+import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/index.js';
+import { holdsRoleAtSite } from '../people/index.js';
+import { entityHistory } from '../audit/index.js';
 import {
   attestationSchema,
   isRecorded,

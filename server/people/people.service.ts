@@ -9,8 +9,8 @@ import { enqueueMail } from '../mail/outbox.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { ROLE_WORDS } from '../words/index.js';
-import { findTrialHeading } from '../trials/trials.repository.js';
-import { countPatientsAtSite } from '../patients/patients.repository.js';
+import { findTrialHeading } from '../trials/index.js';
+import { countPatientsAtSite } from '../patients/index.js';
 import {
   deleteMembership,
   findMembership,

@@ -7,11 +7,11 @@
  */
 import type { Db } from '../db/knex.js';
 import type { SessionUser } from '../auth/access.js';
-import { listTrialsForUser, type TrialForUser } from '../trials/trials.repository.js';
-import { isoWeekOf, toDay } from '../accrual/calendar.js';
-import { trialAccrual, type TrialAccrual } from '../accrual/accrual.service.js';
+import { listTrialsForUser, type TrialForUser } from '../trials/index.js';
+import { isoWeekOf, toDay } from '../accrual/index.js';
+import { trialAccrual, type TrialAccrual } from '../accrual/index.js';
 import { portfolioRows, type PortfolioRow } from './portfolio.service.js';
-import { sponsorRecipients, type SponsorRecipient } from '../people/people.repository.js';
+import { sponsorRecipients, type SponsorRecipient } from '../people/index.js';
 import { DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, plural } from '../words/index.js';
 
 /** A sponsor's digest carries no design deviations to read, so the fourth standing caution is left out. */

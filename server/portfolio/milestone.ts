@@ -3,8 +3,8 @@
  * "committee review pending for 3 days"), from its status, its design and aggregate counts.
  * The "~" is honest: under an evaluable-only protocol, patients found not evaluable are replaced.
  */
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { daysBetween } from '../accrual/calendar.js';
+import type { CohortStatus } from '../trials/index.js';
+import { daysBetween } from '../accrual/index.js';
 import { STOPPED_FOR, plural } from '../words/index.js';
 
 export type MilestoneKind =

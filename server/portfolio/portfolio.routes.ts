@@ -1,7 +1,7 @@
 /** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
 import { requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
-import { toDay } from '../accrual/calendar.js';
+import { toDay } from '../accrual/index.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
 import { portfolioFor } from './portfolio.service.js';
 import { digestFor } from './digest.service.js';

@@ -12,12 +12,12 @@
  */
 import type { Db } from '../db/knex.js';
 import type { Role, SessionUser } from '../auth/access.js';
-import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/design-studio.repository.js';
-import type { RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
+import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
-import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
-import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/accrual.service.js';
+import { cohortTallies, emptyTally } from '../accrual/index.js';
+import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';

@@ -8,8 +8,8 @@ import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { emit, type Hooks } from '../hooks.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
-import { countPatientsInTrial } from '../patients/patients.repository.js';
-import { insertMembership } from '../people/people.repository.js';
+import { countPatientsInTrial } from '../patients/index.js';
+import { insertMembership } from '../people/index.js';
 import {
   existingSiteIds,
   findCohort,

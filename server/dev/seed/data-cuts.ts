@@ -6,14 +6,14 @@
  */
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
-import { currentDesign } from '../../design-studio/design-studio.repository.js';
-import { canTransition } from '../../trials/cohort-status.js';
-import type { CohortStatus } from '../../trials/trials.repository.js';
-import { releaseToSponsor } from '../../data-cuts/data-cuts.repository.js';
-import { insertDecision } from '../../data-cuts/decisions.repository.js';
-import { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from '../../data-cuts/data-cuts.service.js';
+import { currentDesign } from '../../design-studio/index.js';
+import { canTransition } from '../../trials/index.js';
+import type { CohortStatus } from '../../trials/index.js';
+import { releaseToSponsor } from '../../data-cuts/index.js';
+import { insertDecision } from '../../data-cuts/index.js';
+import { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
-import type { DecisionAction, RecommendationDecision } from '../../data-cuts/data-cuts.schema.js';
+import type { DecisionAction, RecommendationDecision } from '../../data-cuts/index.js';
 
 type Plan = {
   code: string;

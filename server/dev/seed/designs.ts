@@ -7,11 +7,11 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { transitionCohort } from '../../trials/cohort-status.js';
-import type { StopCategory } from '../../trials/trials.schema.js';
-import type { CohortStatus } from '../../trials/trials.repository.js';
-import { chosenDesign } from '../../design-studio/candidates.js';
-import { signatureMeaning, type Selection } from '../../design-studio/design-studio.schema.js';
+import { transitionCohort } from '../../trials/index.js';
+import type { StopCategory } from '../../trials/index.js';
+import type { CohortStatus } from '../../trials/index.js';
+import { chosenDesign } from '../../design-studio/index.js';
+import { signatureMeaning, type Selection } from '../../design-studio/index.js';
 
 type DemoDesign = {
   trial: string;

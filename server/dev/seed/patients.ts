@@ -9,8 +9,8 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { currentDesign } from '../../design-studio/design-studio.repository.js';
-import { assignStages, type Outcome } from '../../evaluation/counting.js';
+import { currentDesign } from '../../design-studio/index.js';
+import { assignStages, type Outcome } from '../../evaluation/index.js';
 
 /** R responder, N non-responder, P pending, E not evaluable (no post-baseline assessment). */
 type Plan = { trial: string; cohort: string; outcomes: (n1: number, r1: number) => string };
