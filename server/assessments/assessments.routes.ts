@@ -53,7 +53,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     method: 'get',
     path: '/api/trials/:trialId/assessments/import-template.csv',
     access: { kind: 'trial', roles: READERS },
-    handler: async (_req, res) => {
+    handler: (_req, res) => {
       sendCsv(res, 'orrery-assessments-template.csv', assessmentImportTemplate());
     },
   },

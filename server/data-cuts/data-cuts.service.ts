@@ -11,40 +11,18 @@ import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import { currentDesigns } from '../design-studio/index.js';
-import { transitionCohort } from '../trials/index.js';
-import type { StopCategory } from '../trials/index.js';
-import type { CohortStatus } from '../trials/index.js';
+import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
-import { findCohort, listCohorts, lockTrialHeading } from '../trials/index.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
-import {
-  findDataCut,
-  insertDataCut,
-  listDataCuts,
-  nextSeq,
-  releaseToSponsor,
-  setReportHash,
-  trialOfCut,
-  updatePrior,
-  type CutSnapshot,
-  type DataCut,
-} from './data-cuts.repository.js';
+import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
-import {
-  DECISION_LABELS,
-  RECOMMENDATION_LABELS,
-  type CreateDataCutInput,
-  type DecisionAction,
-  type DecisionInput,
-  type PriorInput,
-  type RecommendationInput,
-} from './data-cuts.schema.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
 type Author = Pick<SessionUser, 'id' | 'email'>;
@@ -359,7 +337,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
     await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
   }
-  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory: stopCategory as StopCategory | null });
+  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory });
   const decisionId = await insertDecision(trx, {
     dataCutId: cutId,
     cohortId,

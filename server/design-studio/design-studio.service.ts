@@ -13,12 +13,9 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { hasRole, isUuid, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
-import { transitionCohort } from '../trials/index.js';
-import type { StopCategory } from '../trials/index.js';
-import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, trialCode, type Cohort, type CohortStatus } from '../trials/index.js';
-import { countEnrolledByCohort } from '../patients/index.js';
-import { restageCohort } from '../patients/index.js';
-import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type Selection, type SignatureKind } from './design-studio.schema.js';
+import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, transitionCohort, trialCode, type Cohort, type CohortStatus, type StopCategory } from '../trials/index.js';
+import { countEnrolledByCohort, restageCohort } from '../patients/index.js';
+import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type SignatureKind } from './design-studio.schema.js';
 import { curveFor, responseGrid } from './candidates.js';
 import { runChosenDesign } from './candidates-pool.js';
 import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './design-studio.repository.js';
@@ -78,7 +75,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
   const trialId = actor.access.trialId;
   const signer = { id: actor.user.id, email: actor.user.email };
   const settings = { p0: body.p0, p1: body.p1, alpha: body.alpha, beta: body.beta, nmax: body.nmax };
-  const numbers = await runChosenDesign(settings, body.selection as Selection, body.admissibleIndex ?? null);
+  const numbers = await runChosenDesign(settings, body.selection, body.admissibleIndex ?? null);
   const reason = body.reason?.trim() || null;
   return db.transaction(async (trx) => {
     const cohort = await findCohort(trx, trialId, input.cohortId, { lock: true });
@@ -127,11 +124,11 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       id: designId,
       cohortId: cohort.id,
       version,
-      selection: body.selection as Selection,
+      selection: body.selection,
       ...settings,
       ...numbers,
-      analysisPopulation: body.analysisPopulation as LockedDesign['analysisPopulation'],
-      interimAccrual: body.interimAccrual as LockedDesign['interimAccrual'],
+      analysisPopulation: body.analysisPopulation,
+      interimAccrual: body.interimAccrual,
       sponsorSeesResponse: body.sponsorSeesResponse,
       protocolReference,
       amendmentReason: version === 1 ? null : reason,
@@ -178,17 +175,17 @@ const ELSEWHERE: Partial<Record<CohortStatus, string>> = {
 const ADMIN_STOP_CATEGORIES: StopCategory[] = ['safety', 'sponsor', 'other'];
 
 export async function moveCohort(db: Db, { user, access }: Actor, cohortId: string, body: CohortTransitionInput): Promise<DesignCohort> {
-  const to = body.to as CohortStatus;
+  const to = body.to;
   const elsewhere = ELSEWHERE[to];
   if (elsewhere) throw new ConflictError(elsewhere);
-  const category = (body.stopCategory ?? null) as StopCategory | null;
+  const category = body.stopCategory ?? null;
   if (to === 'enrolling_stage_1' && !hasRole(access, 'statistician')) {
     throw new ForbiddenError('Only the trial statistician opens accrual.');
   }
   if (to === 'stopped' && !hasRole(access, 'statistician') && !(category && ADMIN_STOP_CATEGORIES.includes(category))) {
     throw new ForbiddenError('Stopping for futility or efficacy follows the statistician’s analysis: the statistician records it.');
   }
-  return db.transaction(async (trx) => {
+  return db.transaction(async (trx): Promise<DesignCohort> => {
     const cohort = await findCohort(trx, access.trialId, cohortId, { lock: true });
     if (!cohort) throw new NotFoundError('The cohort');
     if (to === 'enrolling_stage_1' && cohort.status === 'draft' && !(await currentDesigns(trx, [cohort.id])).has(cohort.id)) {
@@ -200,7 +197,7 @@ export async function moveCohort(db: Db, { user, access }: Actor, cohortId: stri
       actorUserId: user.id,
       reason: body.reason?.trim() || null,
       stopCategory: to === 'stopped' ? category : null,
-      from: body.from as CohortStatus | undefined,
+      from: body.from,
     });
     return (await findCohort(trx, access.trialId, cohort.id)) as DesignCohort;
   });

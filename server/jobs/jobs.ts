@@ -28,7 +28,7 @@ export async function runDueJobs(db: Db, config: Config, logger: Logger, now: Da
     const claimed = await db.transaction(async (trx) => {
       const inserted = await trx('job_runs').insert({ job: job.name, period }).onConflict(['job', 'period']).ignore().returning('job');
       if (inserted.length === 0) return false;
-      await job.run(trx as unknown as Db, { period, now, config, logger, reader: db });
+      await job.run(trx, { period, now, config, logger, reader: db });
       await trx('job_runs').where({ job: job.name, period }).update({ finished_at: trx.fn.now() });
       return true;
     });

@@ -203,7 +203,8 @@ export async function listPatients(
   for (const expression of SORT_SQL[query.sort]) page.orderByRaw(`${expression} ${direction} nulls last`);
   page.orderBy('p.cohort_id').orderBy('p.enrolment_seq');
   const ids: string[] = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize).pluck('p.id')) as string[];
-  const byId = new Map(((ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : []) as PatientRow[]).map((row) => [row.id, row]));
+  const found: PatientRow[] = ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : [];
+  const byId = new Map(found.map((row) => [row.id, row]));
   const rows = ids.map((id) => byId.get(id)).filter((row): row is PatientRow => row !== undefined);
   return { patients: rows.map(toPatient), total, counts };
 }
@@ -439,12 +440,11 @@ export async function listAttentionCandidates(db: Conn, trialId: string, siteIds
   const query = db('patients as p')
     .join('sites as s', 's.id', 'p.site_id')
     .where('p.trial_id', trialId)
-    .andWhere((w) =>
-      w
-        .whereNotNull('p.outcome_flag')
+    .andWhere((w) => {
+      w.whereNotNull('p.outcome_flag')
         .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'attention', '[]'::jsonb)) > 0")
-        .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb)) > 0"),
-    )
+        .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb)) > 0");
+    })
     .orderBy(['s.code', 'p.study_id'])
     .select(
       'p.id',

@@ -40,7 +40,7 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'get',
     path: '/api/trials/:trialId/patients/import-template.csv',
     access: { kind: 'trial', roles: READ },
-    handler: async (_req, res) => {
+    handler: (_req, res) => {
       sendCsv(res, 'orrery-patients-template.csv', importTemplate());
     },
   },

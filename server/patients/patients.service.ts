@@ -210,7 +210,7 @@ export async function recordOutcome(
   if (input.version !== before.version) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', { current: before });
   }
-  const next = fieldsOf(input as OutcomeFields);
+  const next = fieldsOf(input);
   if (next.responseAssessedOn && next.responseAssessedOn < before.enrolledOn) {
     throw new InputError('The assessment cannot be before enrolment.', { responseAssessedOn: `The patient was enrolled on ${before.enrolledOn}; the assessment cannot be earlier.` });
   }

@@ -8,8 +8,7 @@
 import type { Db } from '../db/knex.js';
 import type { SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type TrialForUser } from '../trials/index.js';
-import { isoWeekOf, toDay } from '../accrual/index.js';
-import { trialAccrual, type TrialAccrual } from '../accrual/index.js';
+import { isoWeekOf, toDay, trialAccrual, type TrialAccrual } from '../accrual/index.js';
 import { portfolioRows, type PortfolioRow } from './portfolio.service.js';
 import { sponsorRecipients, type SponsorRecipient } from '../people/index.js';
 import { DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, plural } from '../words/index.js';

@@ -16,8 +16,7 @@ import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/ind
 import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
-import { cohortTallies, emptyTally } from '../accrual/index.js';
-import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
+import { cohortTallies, countsUnder, designTargets, emptyTally, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';

@@ -213,7 +213,7 @@ export async function updateProtocolSettings(db: Db, hooks: Hooks, { user, acces
       });
     }
     const { reason, version: _version, ...settings } = input;
-    await updateProtocolSettingsRow(trx, trialId, settings as TrialDetail['protocolSettings']);
+    await updateProtocolSettingsRow(trx, trialId, settings);
     const after = (await findTrialDetail(trx, trialId)) as TrialDetail;
     // The outcome rules changed: whatever rests on them follows in this transaction.
     await emit(trx, hooks.protocolSettingsChanged, { trialId, actorUserId: user.id });

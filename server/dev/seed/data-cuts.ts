@@ -7,13 +7,9 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { currentDesign } from '../../design-studio/index.js';
-import { canTransition } from '../../trials/index.js';
-import type { CohortStatus } from '../../trials/index.js';
-import { releaseToSponsor } from '../../data-cuts/index.js';
-import { insertDecision } from '../../data-cuts/index.js';
-import { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from '../../data-cuts/index.js';
+import { canTransition, type CohortStatus } from '../../trials/index.js';
+import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseToSponsor, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
-import type { DecisionAction, RecommendationDecision } from '../../data-cuts/index.js';
 
 type Plan = {
   code: string;

@@ -7,11 +7,8 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { transitionCohort } from '../../trials/index.js';
-import type { StopCategory } from '../../trials/index.js';
-import type { CohortStatus } from '../../trials/index.js';
-import { chosenDesign } from '../../design-studio/index.js';
-import { signatureMeaning, type Selection } from '../../design-studio/index.js';
+import { transitionCohort, type CohortStatus, type StopCategory } from '../../trials/index.js';
+import { chosenDesign, signatureMeaning, type Selection } from '../../design-studio/index.js';
 
 type DemoDesign = {
   trial: string;
