@@ -70,5 +70,3 @@ export const priorSchema = object({
   version: number().integer().required('The version you edited is required.'),
 });
 export type PriorInput = InferType<typeof priorSchema>;
-
-export const EXPORT_DATASETS = ['patients', 'adrs'] as const;

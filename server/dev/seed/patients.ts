@@ -1,5 +1,5 @@
 /**
- * Demo patients that make the product brief's scenario true, read against the designs the design
+ * Demo patients that make the demo scenario true, read against the designs the design
  * seed locked: TSY-201 in stage 2 with patients at all four sites (stage 1 passed, a few outcomes
  * pending), TSY-202 with its stage-1 cohort complete and accrual paused, TSY-203 stopped for
  * futility after stage 1, TSY-204's three cohorts enrolling. Dates spread over the trials' lives
