@@ -161,6 +161,16 @@ export type EnrolmentCounts = {
   lastEnrolledOn: string | null;
 };
 
+/** The enrolment counts of a cohort, from its counts under the protocol's population and its tally. */
+export const enrolmentCounts = (counts: CohortCounts, tally: CohortTally): EnrolmentCounts => ({
+  enrolled: counts.enrolled,
+  counted: counts.counted,
+  evaluable: counts.evaluable,
+  pendingOutcomes: counts.pending,
+  enrolledLastWeek: counts.lastWeekEnrolled,
+  lastEnrolledOn: tally.lastEnrolledOn,
+});
+
 export type CohortAccrual = EnrolmentCounts & {
   cohortId: string;
   code: string;
@@ -253,12 +263,7 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
       name: cohort.name,
       status: cohort.status,
       design: designTargets(design),
-      enrolled: counts.enrolled,
-      counted: counts.counted,
-      evaluable: counts.evaluable,
-      pendingOutcomes: counts.pending,
-      enrolledLastWeek: counts.lastWeekEnrolled,
-      lastEnrolledOn: tally.lastEnrolledOn,
+      ...enrolmentCounts(counts, tally),
       projections: projectCohort({ cohort, design, tally, months: monthCounts.filter((m) => m.cohortId === cohort.id), today }),
     };
   });

@@ -1,7 +1,9 @@
 /**
- * The route-permission table. Every route of the server is declared here as data — method, path,
- * who may call it, handler — and mounted by `mountRoutes`. The same declarations drive the
- * authorisation middleware and the permission-matrix test, so they cannot drift apart.
+ * The route-permission table. Every route of the server is declared as data — method, path, who
+ * may call it, handler — in its feature's *.routes.ts, listed by the composition root (app.ts) and
+ * mounted by `mountRoutes`. The same declarations drive the authorisation middleware and the
+ * permission-matrix test, so they cannot drift apart. Handlers hand services an `Actor`
+ * (`actorOf`), never the request.
  *
  * Access kinds:
  * - public: anyone, signed in or not;

@@ -16,7 +16,7 @@ import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/ind
 import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
-import { cohortTallies, countsUnder, designTargets, emptyTally, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
+import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
@@ -135,12 +135,7 @@ export async function portfolioRows(
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
         design: designTargets(design),
-        enrolled: counts.enrolled,
-        counted: counts.counted,
-        evaluable: counts.evaluable,
-        pendingOutcomes: counts.pending,
-        enrolledLastWeek: counts.lastWeekEnrolled,
-        lastEnrolledOn: tally.lastEnrolledOn,
+        ...enrolmentCounts(counts, tally),
         progress: { n1: progress(counts.counted, design?.n1), n: progress(counts.counted, design?.n) },
         nextMilestone: nextMilestone({
           status: cohort.status,
