@@ -1,4 +1,4 @@
-/** The local identity provider's accounts: one demo person per role (BRIEF.md), plus a few spare people. All invented. */
+/** The local identity provider's accounts: one demo person per role (the README lists them), plus a few spare people. All invented. */
 export type Account = { sub: string; email: string; name: string; password: string };
 
 export const DEMO_PASSWORD = 'demo';

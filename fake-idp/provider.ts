@@ -43,21 +43,21 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port'>>): Pro
       devInteractions: { enabled: false },
       rpInitiatedLogout: {
         enabled: true,
-        logoutSource: async (ctx: KoaContextWithOIDC, form: string) => {
+        logoutSource: (ctx: KoaContextWithOIDC, form: string) => {
           ctx.body = signOutPage(form);
         },
-        postLogoutSuccessSource: async (ctx: KoaContextWithOIDC) => {
+        postLogoutSuccessSource: (ctx: KoaContextWithOIDC) => {
           ctx.body = page('Signed out', '<h1>You are signed out.</h1>');
         },
       },
     },
     interactions: { url: (_ctx, interaction) => `/interaction/${interaction.uid}` },
-    async findAccount(_ctx, sub) {
+    findAccount(_ctx, sub) {
       const account = findAccountBySub(sub);
       if (!account) return undefined;
       return {
         accountId: account.sub,
-        claims: async () => ({ sub: account.sub, email: account.email, email_verified: true, name: account.name }),
+        claims: () => ({ sub: account.sub, email: account.email, email_verified: true, name: account.name }),
       };
     },
     async loadExistingGrant(ctx) {
@@ -74,7 +74,7 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port'>>): Pro
       return grant;
     },
     ttl: { Session: 8 * 60 * 60, Interaction: 30 * 60, Grant: 8 * 60 * 60, AccessToken: 10 * 60, IdToken: 10 * 60, AuthorizationCode: 60 },
-    renderError: async (ctx, out) => {
+    renderError: (ctx, out) => {
       ctx.type = 'html';
       ctx.body = page('Sign-in problem', `<h1>Sign-in problem</h1><p class="note">${String(out.error_description ?? out.error).replace(/[<>&]/g, '')}</p>`);
     },

@@ -1,6 +1,9 @@
 /**
- * Builds the Express application: security headers, logging, limits, sessions, the Origin check,
- * every route of the route table, the built client in production, and the one error handler.
+ * The composition root. Builds the Express application — security headers, logging, limits,
+ * sessions, the Origin check, every route, the built client in production, the one error handler —
+ * and names everything that is wired rather than called: every feature's route list, every hook a
+ * feature's write sets off in another, and every scheduled job. Nothing registers itself on import;
+ * what is not listed here does not run.
  */
 import path from 'node:path';
 import { existsSync } from 'node:fs';
@@ -11,11 +14,55 @@ import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
 import type { Config } from './config.js';
 import type { Db } from './db/knex.js';
-import { createOidcClient, type OidcClient } from './auth/oidc.js';
-import { createSessionMiddleware } from './auth/session.js';
-import { routeTable } from './http/route-table.js';
-import { mountRoutes, type RouteSpec } from './http/routes.js';
+import { authRoutes, createOidcClient, type OidcClient } from './auth/index.js';
+import { createSessionMiddleware } from './http/session.js';
+import { mountRoutes, type Deps, type RouteSpec } from './http/routes.js';
 import { apiNotFound, errorHandler } from './http/error-handler.js';
+import type { Hooks } from './hooks.js';
+import { weeklyDigestJob, type ScheduledJob } from './jobs/index.js';
+import { healthRoutes } from './health/index.js';
+import { meRoutes } from './me/index.js';
+import { trialsRoutes } from './trials/index.js';
+import { peopleRoutes } from './people/index.js';
+import { designStudioRoutes } from './design-studio/index.js';
+import { patientsRoutes } from './patients/index.js';
+import { evaluationRoutes } from './evaluation/index.js';
+import { assessmentsRoutes, rederiveAfterPatientWrite, rederiveTrialAfterSettingsChange } from './assessments/index.js';
+import { dataCutsRoutes } from './data-cuts/index.js';
+import { portfolioRoutes } from './portfolio/index.js';
+import { accrualRoutes } from './accrual/index.js';
+import { outboxRoutes } from './outbox/index.js';
+import { auditRoutes } from './audit/index.js';
+
+/** Every route of the server, feature by feature: the one list the app mounts and the permission matrix walks. */
+function routeList(oidc: OidcClient): RouteSpec[] {
+  return [
+    ...authRoutes(oidc),
+    ...healthRoutes,
+    ...meRoutes,
+    ...trialsRoutes,
+    ...peopleRoutes,
+    ...designStudioRoutes,
+    ...patientsRoutes,
+    ...evaluationRoutes,
+    ...assessmentsRoutes,
+    ...dataCutsRoutes,
+    ...portfolioRoutes,
+    ...accrualRoutes,
+    ...outboxRoutes,
+    ...auditRoutes,
+  ];
+}
+
+/** Who reacts, inside the same transaction, to another feature's writes. */
+const hooks: Hooks = {
+  // An enrolment or an entered outcome re-derives too, so a disagreement is flagged the moment it appears.
+  patientWritten: [rederiveAfterPatientWrite],
+  protocolSettingsChanged: [rederiveTrialAfterSettingsChange],
+};
+
+/** The scheduled jobs every server process offers to run (each runs once per period across all processes). */
+const scheduledJobs: ScheduledJob[] = [weeklyDigestJob];
 
 const STATE_CHANGING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
@@ -39,9 +86,9 @@ function originCheck(appOrigin: string): RequestHandler {
   };
 }
 
-export type AppParts = { app: express.Express; routes: RouteSpec[]; oidc: OidcClient; close: () => Promise<void> };
+export type AppParts = { app: express.Express; routes: RouteSpec[]; jobs: ScheduledJob[]; oidc: OidcClient; close: () => Promise<void> };
 
-export function createApp(config: Config, db: Db, logger: Logger): AppParts {
+export function createApp(config: Config, db: Db, logger: Logger, mail: Deps['mail']): AppParts {
   const app = express();
   app.disable('x-powered-by');
   if (config.production) app.set('trust proxy', 1);
@@ -99,9 +146,9 @@ export function createApp(config: Config, db: Db, logger: Logger): AppParts {
   app.use('/api', express.json({ limit: '200kb' }));
 
   const oidc = createOidcClient(config);
-  const routes = routeTable(oidc);
+  const routes = routeList(oidc);
   const router = express.Router();
-  mountRoutes(router, routes, { db, config });
+  mountRoutes(router, routes, { db, config, hooks, mail });
   app.use(router);
   app.use('/api', apiNotFound);
 
@@ -115,5 +162,5 @@ export function createApp(config: Config, db: Db, logger: Logger): AppParts {
     });
   }
   app.use(errorHandler);
-  return { app, routes, oidc, close: sessions.close };
+  return { app, routes, jobs: scheduledJobs, oidc, close: sessions.close };
 }

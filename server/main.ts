@@ -18,8 +18,8 @@ try {
     await server.close();
     process.exit(0);
   };
-  process.once('SIGINT', shutdown);
-  process.once('SIGTERM', shutdown);
+  process.once('SIGINT', () => void shutdown());
+  process.once('SIGTERM', () => void shutdown());
 } catch (error) {
   if (error instanceof ConfigError) {
     logger.fatal(error.message);

@@ -3,11 +3,10 @@ import type { AddressInfo } from 'node:net';
 import { pino, type Logger } from 'pino';
 import type { Config } from './config.js';
 import { createDb, type Db } from './db/knex.js';
-import { createApp } from './app.js';
-import type { RouteSpec } from './http/routes.js';
+import { createApp, type AppParts } from './app.js';
 import type { Express } from 'express';
 import { startMailWorker, type MailWorker } from './mail/outbox.js';
-import { startJobs, type Jobs } from './jobs/jobs.js';
+import { startJobs, type Jobs } from './jobs/index.js';
 
 export type RunningServer = {
   url: string;
@@ -16,16 +15,15 @@ export type RunningServer = {
   mail: MailWorker;
   jobs: Jobs;
   app: Express;
-  routes: RouteSpec[];
+  routes: AppParts['routes'];
   close: () => Promise<void>;
 };
 
 export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
   const db = createDb(config.databaseUrl, { logger: { warn: (m) => logger.warn(m), error: (m) => logger.warn(m) } });
-  const { app, routes, close: closeApp } = createApp(config, db, logger);
   const mail = startMailWorker(db, config, logger);
-  app.locals.mail = mail;
-  const jobs = startJobs(db, config, logger, mail);
+  const { app, routes, jobs: scheduledJobs, close: closeApp } = createApp(config, db, logger, mail);
+  const jobs = startJobs(db, config, logger, mail, scheduledJobs);
   const server = app.listen(config.port, '127.0.0.1');
   await new Promise<void>((resolve, reject) => {
     server.once('listening', resolve);

@@ -114,13 +114,6 @@ export async function recentMonthCounts(db: Db, cohortIds: string[], today: stri
   }));
 }
 
-export type AccrualSettings = { inactivityWarningWeeks: number };
-
-export async function accrualSettings(db: Db, trialId: string): Promise<AccrualSettings | undefined> {
-  const row = await db('trials').where({ id: trialId }).first('inactivity_warning_weeks');
-  return row ? { inactivityWarningWeeks: row.inactivity_warning_weeks } : undefined;
-}
-
 export type SiteTally = {
   siteId: string;
   code: string;

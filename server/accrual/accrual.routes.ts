@@ -1,8 +1,8 @@
 /** Accrual of one trial: enrolment over time against the plan, by site, with projections. Every role of the trial. */
-import { requireTrialAccess, type RouteSpec } from '../http/routes.js';
-import { ROLES, siteScope } from '../auth/access.js';
+import { actorOf, type RouteSpec } from '../http/routes.js';
+import { ROLES } from '../auth/access.js';
 import { toDay } from './calendar.js';
-import { trialAccrual } from './accrual.service.js';
+import { accrualFor } from './accrual.service.js';
 
 export const accrualRoutes: RouteSpec[] = [
   {
@@ -10,8 +10,7 @@ export const accrualRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/accrual',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      const access = requireTrialAccess(req);
-      res.json({ accrual: await trialAccrual(db, access.trialId, { today: toDay(new Date()), sites: siteScope(access) }) });
+      res.json({ accrual: await accrualFor(db, actorOf(req), toDay(new Date())) });
     },
   },
 ];

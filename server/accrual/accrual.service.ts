@@ -6,12 +6,12 @@
  * (site roles see their own sites' rows).
  */
 import type { Db } from '../db/knex.js';
+import { siteScope, type Actor } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
-import { findTrial, type Cohort, type Trial } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
-import type { AnalysisPopulation } from '../evaluation/counting.js';
+import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/index.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import type { AnalysisPopulation } from '../evaluation/index.js';
 import {
-  accrualSettings,
   cohortTallies,
   emptyTally,
   monthlyBySite,
@@ -161,6 +161,16 @@ export type EnrolmentCounts = {
   lastEnrolledOn: string | null;
 };
 
+/** The enrolment counts of a cohort, from its counts under the protocol's population and its tally. */
+export const enrolmentCounts = (counts: CohortCounts, tally: CohortTally): EnrolmentCounts => ({
+  enrolled: counts.enrolled,
+  counted: counts.counted,
+  evaluable: counts.evaluable,
+  pendingOutcomes: counts.pending,
+  enrolledLastWeek: counts.lastWeekEnrolled,
+  lastEnrolledOn: tally.lastEnrolledOn,
+});
+
 export type CohortAccrual = EnrolmentCounts & {
   cohortId: string;
   code: string;
@@ -195,7 +205,7 @@ function timelineStart(trial: Trial, months: string[]): string | null {
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
 export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
   const { today } = options;
-  const [trial, settings] = await Promise.all([findTrial(db, trialId), accrualSettings(db, trialId)]);
+  const [trial, settings] = await Promise.all([findTrial(db, trialId), findProtocolSettings(db, trialId)]);
   if (!trial || !settings) throw new NotFoundError('The trial');
   const cohortIds = trial.cohorts.map((c) => c.id);
   const [designs, tallies, monthCounts, siteRows, bySiteMonth, weekly] = await Promise.all([
@@ -253,12 +263,7 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
       name: cohort.name,
       status: cohort.status,
       design: designTargets(design),
-      enrolled: counts.enrolled,
-      counted: counts.counted,
-      evaluable: counts.evaluable,
-      pendingOutcomes: counts.pending,
-      enrolledLastWeek: counts.lastWeekEnrolled,
-      lastEnrolledOn: tally.lastEnrolledOn,
+      ...enrolmentCounts(counts, tally),
       projections: projectCohort({ cohort, design, tally, months: monthCounts.filter((m) => m.cohortId === cohort.id), today }),
     };
   });
@@ -286,4 +291,9 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
     cohorts,
     warnings,
   };
+}
+
+/** The Accrual page as the actor sees it: site roles get their own sites' rows. */
+export async function accrualFor(db: Db, actor: Actor, today: string): Promise<TrialAccrual> {
+  return trialAccrual(db, actor.access.trialId, { today, sites: siteScope(actor.access) });
 }

@@ -5,6 +5,7 @@
  * fastest of the last complete calendar months (up to six), which shows how uncertain the central
  * date is. A rate of zero gives no date: "cannot project", never a date far in the future.
  */
+import { plural } from '../words/index.js';
 import { DAYS_PER_MONTH, addDays, addMonths, daysBetween, monthOf } from './calendar.js';
 
 export const RATE_WINDOW_DAYS = 90;
@@ -64,7 +65,6 @@ export type Projection = {
   note: string;
 };
 
-const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
 
 /** Days needed to enrol `remaining` patients at `perDay`, rounded up to a whole day. */
 const daysToGo = (remaining: number, perDay: number) => Math.ceil(remaining / perDay - 1e-9);

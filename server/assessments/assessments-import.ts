@@ -1,22 +1,24 @@
 /**
  * CSV import of timepoint assessments, one row per assessment (study_id, date, response, notes,
  * correction_reason). The upload is checked (type, size, UTF-8, exact columns, row count); every
- * row is applied in its own savepoint inside one transaction, through the same checks as the form,
- * so each bad row is reported and the others still run. A row for a date the patient already has
- * is unchanged when it matches, a correction when it differs and gives a reason, an error
- * otherwise. Each touched patient is re-derived once at the end. A dry run, or a commit with any
- * bad row, rolls everything back. Notes that start like a spreadsheet formula are stored with a
- * leading quote; fixed-format cells that do are refused.
+ * row is applied through the same checks as the form, inside the shared import skeleton
+ * (server/csv/import.ts: one transaction, a savepoint per row, all-or-nothing, a dry run rolled
+ * back). A row for a date the patient already has is unchanged when it matches, a correction when
+ * it differs and gives a reason, an error otherwise. Each touched patient is re-derived once at the
+ * end. Notes that start like a spreadsheet formula are stored with a leading quote; fixed-format
+ * cells that do are refused.
  */
 import type { Knex } from 'knex';
 import { ValidationError } from 'yup';
 import type { Db } from '../db/knex.js';
 import { AppError } from '../http/errors.js';
-import type { SessionUser, TrialAccess } from '../auth/access.js';
+import { RowError, runImport, type ImportCounts } from '../csv/import.js';
+import { writableSites, type Actor } from '../auth/access.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
 import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import { assessmentSchema } from './assessments.schema.js';
-import { findAssessmentOn, findPatientById, findPatientByStudyId } from './assessments.repository.js';
+import { findPatientById, findPatientByStudyId } from '../patients/index.js';
+import { findAssessmentOn } from './assessments.repository.js';
 import { applyCorrection, createAssessment, recomputeDerivation } from './assessments.service.js';
 
 export const ASSESSMENT_IMPORT_COLUMNS = ['study_id', 'date', 'response', 'notes', 'correction_reason'] as const;
@@ -39,7 +41,7 @@ export type AssessmentRowResult = {
 export type AssessmentImportReport = {
   dryRun: boolean;
   committed: boolean;
-  counts: { total: number; new: number; update: number; unchanged: number; error: number };
+  counts: ImportCounts;
   rows: AssessmentRowResult[];
   /** Patients whose derived best overall response changed with this file. */
   derivationsChanged: number;
@@ -59,16 +61,10 @@ export function readAssessmentCsv(file: UploadedFile | undefined): CsvRow[] {
   });
 }
 
-class RowError extends Error {
-  constructor(readonly errors: AssessmentRowResult['errors']) {
-    super('row error');
-  }
-}
-
 const FIELD_COLUMN: Record<string, Column> = { date: 'date', response: 'response', notes: 'notes', reason: 'correction_reason' };
 
 function errorsOf(error: unknown): AssessmentRowResult['errors'] {
-  if (error instanceof RowError) return error.errors;
+  if (error instanceof RowError) return error.errors as AssessmentRowResult['errors'];
   if (error instanceof ValidationError) {
     return (error.inner.length ? error.inner : [error]).map((e) => ({ column: FIELD_COLUMN[e.path ?? ''] ?? 'row', reason: e.message }));
   }
@@ -80,15 +76,15 @@ function errorsOf(error: unknown): AssessmentRowResult['errors'] {
   throw error;
 }
 
-async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: SessionUser, row: CsvRow): Promise<Omit<AssessmentRowResult, 'line' | 'errors'>> {
+async function applyRow(trx: Knex.Transaction, actor: Actor, row: CsvRow): Promise<Omit<AssessmentRowResult, 'line' | 'errors'>> {
   const refused = ASSESSMENT_IMPORT_COLUMNS.filter((c) => !TEXT_COLUMNS.includes(c) && startsLikeFormula(row[c]));
   if (refused.length) {
     throw new RowError(refused.map((column) => ({ column, reason: `Starts with "${row[column][0]}", as a spreadsheet formula would; this column takes a fixed format.` })));
   }
   const studyId = row.study_id.toUpperCase();
   if (!studyId) throw new RowError([{ column: 'study_id', reason: 'The study ID is required.' }]);
-  const patient = await findPatientByStudyId(trx, access.trialId, studyId);
-  if (!patient || !access.siteIds.includes(patient.siteId)) {
+  const patient = await findPatientByStudyId(trx, actor.access.trialId, studyId, { forUpdate: true });
+  if (!patient || !writableSites(actor.access).includes(patient.siteId)) {
     throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites on this trial.` }]);
   }
   const input = await assessmentSchema(patient.enrolledOn).validate(
@@ -99,7 +95,7 @@ async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: Sessio
   const base = { studyId, date: values.date, patientId: patient.id };
   const existing = await findAssessmentOn(trx, patient.id, values.date);
   if (!existing) {
-    await createAssessment(trx, patient, values, user.id, 'Imported from a CSV file');
+    await createAssessment(trx, patient, values, actor.user.id, 'Imported from a CSV file');
     return { ...base, result: 'new' };
   }
   if (existing.response === values.response && existing.notes === values.notes) return { ...base, result: 'unchanged' };
@@ -111,59 +107,37 @@ async function applyRow(trx: Knex.Transaction, access: TrialAccess, user: Sessio
       },
     ]);
   }
-  await applyCorrection(trx, existing, values, user.id, neutralise(row.correction_reason));
+  await applyCorrection(trx, existing, values, actor.user.id, neutralise(row.correction_reason));
   return { ...base, result: 'update' };
 }
 
-class RollBack extends Error {}
-
 /** Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with the report). */
-export async function importAssessments(db: Db, access: TrialAccess, user: SessionUser, rows: CsvRow[], options: { dryRun: boolean }): Promise<AssessmentImportReport> {
-  const report: AssessmentImportReport = {
-    dryRun: options.dryRun,
-    committed: false,
-    counts: { total: rows.length, new: 0, update: 0, unchanged: 0, error: 0 },
-    rows: [],
-    derivationsChanged: 0,
-  };
+export async function importAssessments(db: Db, actor: Actor, rows: CsvRow[], options: { dryRun: boolean }): Promise<AssessmentImportReport> {
   const seen = new Map<string, number>();
-  try {
-    await db.transaction(async (trx) => {
-      const touched = new Set<string>();
-      for (const [index, row] of rows.entries()) {
-        const line = index + 2;
-        const key = `${row.study_id.toUpperCase()} ${row.date}`;
-        let result: AssessmentRowResult;
-        if (seen.has(key)) {
-          result = { line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: [{ column: 'date', reason: `The same patient and date appear on line ${seen.get(key)}.` }] };
-        } else {
-          seen.set(key, line);
-          try {
-            result = { line, errors: [], ...(await trx.transaction((savepoint) => applyRow(savepoint, access, user, row))) };
-            if (result.result !== 'unchanged' && result.patientId) touched.add(result.patientId);
-          } catch (error) {
-            result = { line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: errorsOf(error) };
-          }
-        }
-        report.rows.push(result);
-        report.counts[result.result] += 1;
+  return runImport<AssessmentRowResult, { derivationsChanged: number }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
+    const touched = new Set<string>();
+    for (const [index, row] of rows.entries()) {
+      const line = index + 2;
+      const key = `${row.study_id.toUpperCase()} ${row.date}`;
+      if (seen.has(key)) {
+        add({ line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: [{ column: 'date', reason: `The same patient and date appear on line ${seen.get(key)}.` }] });
+        continue;
       }
-      for (const patientId of touched) {
-        const before = await findPatientById(trx, patientId);
-        const after = await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
-        if (before?.derivedBestOverallResponse !== after.bestOverallResponse || before?.derivedResponder !== after.responder) report.derivationsChanged += 1;
+      seen.set(key, line);
+      try {
+        const result: AssessmentRowResult = { line, errors: [], ...(await trx.transaction((savepoint) => applyRow(savepoint, actor, row))) };
+        if (result.result !== 'unchanged' && result.patientId) touched.add(result.patientId);
+        add(result);
+      } catch (error) {
+        add({ line, studyId: row.study_id.toUpperCase(), date: row.date, result: 'error', errors: errorsOf(error) });
       }
-      if (options.dryRun || report.counts.error > 0) throw new RollBack();
-      report.committed = true;
-    });
-  } catch (error) {
-    if (!(error instanceof RollBack)) throw error;
-  }
-  if (!options.dryRun && report.counts.error > 0) {
-    throw new AppError(422, 'import_rejected', `${report.counts.error} of ${report.counts.total} rows have errors, so nothing was imported. Fix them and import again.`, {
-      counts: report.counts,
-      rows: report.rows,
-    });
-  }
-  return report;
+    }
+    let derivationsChanged = 0;
+    for (const patientId of touched) {
+      const before = await findPatientById(trx, patientId, { forUpdate: true });
+      const after = await recomputeDerivation(trx, patientId, { actorUserId: actor.user.id, fromAssessmentChange: true });
+      if (before?.derivedBestOverallResponse !== after.bestOverallResponse || before?.derivedResponder !== after.responder) derivationsChanged += 1;
+    }
+    return { derivationsChanged };
+  });
 }

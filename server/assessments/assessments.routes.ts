@@ -2,11 +2,10 @@
  * Timepoint assessments of a patient and the trial's needs-attention list. Site roles work at
  * their own sites (other sites answer 404); the statistician and the committee read every site.
  */
-import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { actorOf, type RouteSpec } from '../http/routes.js';
 import { type Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
-import { registerPatientWriteHook } from '../patients/patient-hooks.js';
-import { addAssessment, correctAssessment, listForPatient, needsAttention, recomputeDerivation, removeAssessment } from './assessments.service.js';
+import { addAssessment, correctAssessment, listForPatient, needsAttention, removeAssessment } from './assessments.service.js';
 import { ASSESSMENT_IMPORT_MAX_BYTES, assessmentImportTemplate, importAssessments, readAssessmentCsv } from './assessments-import.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
@@ -14,12 +13,6 @@ const WRITERS: Role[] = ['coordinator', 'investigator'];
 const BASE = '/api/trials/:trialId/patients/:patientId/assessments';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
-
-// An enrolment or an entered outcome re-derives too, so a disagreement is flagged the moment it appears.
-registerPatientWriteHook(async (trx, write) => {
-  if (write.action === 'outcome_attested') return;
-  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
-});
 
 const uploadCsv = csvUpload(ASSESSMENT_IMPORT_MAX_BYTES);
 
@@ -29,7 +22,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     path: BASE,
     access: { kind: 'trial', roles: READERS },
     handler: async (req, res, { db }) => {
-      res.json(await listForPatient(db, requireTrialAccess(req), param(req, 'patientId')));
+      res.json(await listForPatient(db, actorOf(req), param(req, 'patientId')));
     },
   },
   {
@@ -37,7 +30,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     path: BASE,
     access: { kind: 'trial', roles: WRITERS },
     handler: async (req, res, { db }) => {
-      res.status(201).json(await addAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), req.body));
+      res.status(201).json(await addAssessment(db, actorOf(req), param(req, 'patientId'), req.body));
     },
   },
   {
@@ -45,7 +38,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     path: `${BASE}/:assessmentId`,
     access: { kind: 'trial', roles: WRITERS },
     handler: async (req, res, { db }) => {
-      res.json(await correctAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
+      res.json(await correctAssessment(db, actorOf(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
     },
   },
   {
@@ -53,14 +46,14 @@ export const assessmentsRoutes: RouteSpec[] = [
     path: `${BASE}/:assessmentId`,
     access: { kind: 'trial', roles: WRITERS },
     handler: async (req, res, { db }) => {
-      res.json(await removeAssessment(db, requireTrialAccess(req), requireUser(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
+      res.json(await removeAssessment(db, actorOf(req), param(req, 'patientId'), param(req, 'assessmentId'), req.body));
     },
   },
   {
     method: 'get',
     path: '/api/trials/:trialId/assessments/import-template.csv',
     access: { kind: 'trial', roles: READERS },
-    handler: async (_req, res) => {
+    handler: (_req, res) => {
       sendCsv(res, 'orrery-assessments-template.csv', assessmentImportTemplate());
     },
   },
@@ -71,8 +64,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     before: [uploadCsv],
     handler: async (req, res, { db }) => {
       const rows = readAssessmentCsv(req.file);
-      const dryRun = isDryRun(req);
-      res.json(await importAssessments(db, requireTrialAccess(req), requireUser(req), rows, { dryRun }));
+      res.json(await importAssessments(db, actorOf(req), rows, { dryRun: isDryRun(req) }));
     },
   },
   {
@@ -80,7 +72,7 @@ export const assessmentsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/needs-attention',
     access: { kind: 'trial', roles: READERS },
     handler: async (req, res, { db }) => {
-      res.json(await needsAttention(db, requireTrialAccess(req)));
+      res.json(await needsAttention(db, actorOf(req)));
     },
   },
 ];

@@ -5,23 +5,15 @@
  */
 import { format, isValid, parseISO } from 'date-fns';
 import { number, object, string } from 'yup';
+import { latestToday } from '../patients/patients.schema.js';
+import { RESPONSE_LABELS } from '../words/index.js';
+
+// Kept for the client, which imports these from here; they live in patients.schema.ts and server/words/.
+export { latestToday, RESPONSE_LABELS };
 
 export const TIMEPOINT_RESPONSES = ['CR', 'PR', 'SD', 'PD', 'NE'] as const;
 export const NOTES_MAX = 2000;
 export const REASON_MAX = 500;
-
-export const RESPONSE_LABELS: Record<(typeof TIMEPOINT_RESPONSES)[number], string> = {
-  CR: 'CR — complete response',
-  PR: 'PR — partial response',
-  SD: 'SD — stable disease',
-  PD: 'PD — progressive disease',
-  NE: 'NE — not evaluable',
-};
-
-/** The latest calendar date anywhere in the world, so nobody's "today" is refused as the future. */
-export function latestToday(now = new Date()): string {
-  return new Date(now.getTime() + 14 * 3_600_000).toISOString().slice(0, 10);
-}
 
 const realDate = (value: string | undefined) => !value || (isValid(parseISO(value)) && format(parseISO(value), 'yyyy-MM-dd') === value);
 

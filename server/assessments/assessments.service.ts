@@ -5,39 +5,41 @@
  * the entered outcome is never overwritten, but a disagreement is flagged and audited.
  */
 import type { Knex } from 'knex';
+import type { Listener, PatientWrite, ProtocolSettingsChange } from '../hooks.js';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { siteScope, type SessionUser, type TrialAccess } from '../auth/access.js';
+import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema } from './assessments.schema.js';
+import { findProtocolSettings, listTrialSites, type ProtocolSettings } from '../trials/index.js';
+import {
+  findPatient,
+  findPatientById,
+  listAttentionCandidates,
+  listPatientsOfTrial,
+  storeDerivations,
+  storeDerivedOutcomes,
+  storeOutcomeFlags,
+  type OutcomeColumns,
+  type Patient,
+} from '../patients/index.js';
 import {
   deleteAssessment,
   findAssessment,
   findAssessmentOn,
-  findPatient,
-  findPatientById,
-  findTrialSettings,
   insertAssessment,
   listAssessments,
   listAssessmentsOfTrial,
-  listAttentionCandidates,
-  listPatientsOfTrial,
-  listTrialSites,
-  storeDerivations,
-  storeDerivedOutcomes,
-  storeOutcomeFlags,
   updateAssessment,
-  type AssessedPatient,
   type Assessment,
-  type OutcomeColumns,
-  type TrialSettings,
 } from './assessments.repository.js';
-import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type AttentionItem, type Derivation } from './derivation.js';
+import { deriveBestOverallResponse, disagreesWithDerivation, longDate, type AttentionItem, type Derivation, type DerivationSettings } from './derivation.js';
 
 export const DISAGREES_FLAG = 'disagrees_with_derivation';
 
-type Actor = {
+/** Who a re-derivation is audited for, and on which day it is judged. */
+export type DerivationContext = {
   actorUserId?: string | null;
   today?: string;
   /**
@@ -48,7 +50,24 @@ type Actor = {
   fromAssessmentChange?: boolean;
 };
 
-function derivationFor(patient: AssessedPatient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
+/** The protocol's outcome rules: where outcomes come from, and how RECIST 1.1 is configured. */
+type TrialSettings = { outcomeSource: ProtocolSettings['outcomeSource'] } & DerivationSettings;
+
+async function findTrialSettings(db: Db | Knex.Transaction, trialId: string): Promise<TrialSettings | undefined> {
+  const protocol = await findProtocolSettings(db, trialId);
+  return (
+    protocol && {
+      outcomeSource: protocol.outcomeSource,
+      confirmationRequired: protocol.confirmationRequired,
+      confirmationMinDays: protocol.confirmationMinDays,
+      sdMinDays: protocol.sdMinDays,
+      neBetweenResponses: protocol.neBetweenResponses,
+      assessmentIntervalDays: protocol.assessmentIntervalDays,
+    }
+  );
+}
+
+function derivationFor(patient: Patient, assessments: Assessment[], settings: TrialSettings, today?: string): Derivation {
   return deriveBestOverallResponse({
     enrolledOn: patient.enrolledOn,
     assessments: assessments.map((a) => ({ id: a.id, date: a.date, response: a.response })),
@@ -73,15 +92,15 @@ function derivedOutcome(derivation: Derivation): OutcomeColumns {
   };
 }
 
-type Subject = { patient: AssessedPatient; assessments: Assessment[] };
+type Subject = { patient: Patient; assessments: Assessment[] };
 
 /**
  * Derives each patient and applies the results in a few statements: the stored derivation, the
  * outcome where the protocol derives it, or the disagreement flag where outcomes are entered; every
  * change to an outcome or a flag gets its audit row.
  */
-async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, actor: Actor): Promise<Derivation[]> {
-  const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, actor.today));
+async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, context: DerivationContext): Promise<Derivation[]> {
+  const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, context.today));
   await storeDerivations(
     trx,
     subjects.map(({ patient }, i) => ({
@@ -93,11 +112,11 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   );
   const outcomes: Array<OutcomeColumns & { patientId: string }> = [];
   const flags = new Map<string | null, string[]>();
-  const audits: Array<{ patient: AssessedPatient; action: string; before: unknown; after: unknown }> = [];
+  const audits: Array<{ patient: Patient; action: string; before: unknown; after: unknown }> = [];
   subjects.forEach(({ patient, assessments }, i) => {
     const derivation = derivations[i];
     let flag: string | null = null;
-    if (settings.outcomeSource === 'derived' && (assessments.length > 0 || actor.fromAssessmentChange)) {
+    if (settings.outcomeSource === 'derived' && (assessments.length > 0 || context.fromAssessmentChange)) {
       const before: OutcomeColumns = { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse, responseAssessedOn: patient.responseAssessedOn };
       const after = derivedOutcome(derivation);
       if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
@@ -119,7 +138,7 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   await storeDerivedOutcomes(trx, outcomes);
   for (const [flag, ids] of flags) await storeOutcomeFlags(trx, ids, flag);
   for (const { patient, action, before, after } of audits) {
-    await writeAudit(trx, { actorUserId: actor.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
+    await writeAudit(trx, { actorUserId: context.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
   }
   return derivations;
 }
@@ -129,36 +148,47 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
  * outcome, or the disagreement flag). Call it inside the transaction of any change to the
  * patient's assessments or entered outcome.
  */
-export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, actor: Actor = {}): Promise<Derivation> {
-  const patient = await findPatientById(trx, patientId);
+export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, context: DerivationContext = {}): Promise<Derivation> {
+  const patient = await findPatientById(trx, patientId, { forUpdate: true });
   if (!patient) throw new NotFoundError('The patient');
   const settings = await findTrialSettings(trx, patient.trialId);
   if (!settings) throw new NotFoundError('The trial');
-  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, actor);
+  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, context);
   return derivation;
 }
 
 /** Re-derives every patient of a trial, for when the protocol's outcome settings change. */
-export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, actor: Actor = {}): Promise<number> {
+export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialId: string, context: DerivationContext = {}): Promise<number> {
   const settings = await findTrialSettings(trx, trialId);
   if (!settings) throw new NotFoundError('The trial');
-  const patients = await listPatientsOfTrial(trx, trialId);
+  const patients = await listPatientsOfTrial(trx, trialId, { forUpdate: true });
   const assessments = await listAssessmentsOfTrial(trx, trialId);
   await applyDerivations(
     trx,
     patients.map((patient) => ({ patient, assessments: assessments.get(patient.id) ?? [] })),
     settings,
-    actor,
+    context,
   );
   return patients.length;
 }
 
+/** Listens to patient writes: an attestation changes no outcome, everything else re-derives. */
+export const rederiveAfterPatientWrite: Listener<PatientWrite> = async (trx, write) => {
+  if (write.action === 'outcome_attested') return;
+  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
+};
+
+/** Listens to changes of the protocol's outcome rules: every stored derivation (and, when derived, outcome) follows. */
+export const rederiveTrialAfterSettingsChange: Listener<ProtocolSettingsChange> = async (trx, change) => {
+  await recomputeDerivationsForTrial(trx, change.trialId, { actorUserId: change.actorUserId });
+};
+
 export type PatientSummary = Pick<
-  AssessedPatient,
+  Patient,
   'id' | 'studyId' | 'siteId' | 'enrolledOn' | 'outcome' | 'bestOverallResponse' | 'evaluable' | 'outcomeFlag' | 'derivedBestOverallResponse' | 'derivedResponder' | 'version'
 >;
 
-const summary = (p: AssessedPatient): PatientSummary => ({
+const summary = (p: Patient): PatientSummary => ({
   id: p.id,
   studyId: p.studyId,
   siteId: p.siteId,
@@ -173,14 +203,11 @@ const summary = (p: AssessedPatient): PatientSummary => ({
 });
 
 /** A patient the caller may see: other sites answer 404, exactly like a patient that does not exist. */
-async function visiblePatient(db: Db | Knex.Transaction, access: TrialAccess, patientId: string, sites: string[] | 'all', lock = false): Promise<AssessedPatient> {
-  const patient = await findPatient(db, access.trialId, patientId, lock);
+async function visiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, sites: string[] | 'all', lock = false): Promise<Patient> {
+  const patient = await findPatient(db, actor.access.trialId, patientId, 'all', { forUpdate: lock });
   if (!patient || (sites !== 'all' && !sites.includes(patient.siteId))) throw new NotFoundError('The patient');
   return patient;
 }
-
-/** Writers are the site roles, and they write at their own sites only, whatever other roles they hold. */
-const writableSites = (access: TrialAccess) => access.siteIds;
 
 async function settingsOf(db: Db | Knex.Transaction, trialId: string): Promise<TrialSettings> {
   const settings = await findTrialSettings(db, trialId);
@@ -197,7 +224,7 @@ export type AssessmentsView = {
 };
 
 async function view(db: Db | Knex.Transaction, trialId: string, patientId: string): Promise<AssessmentsView> {
-  const patient = (await findPatient(db, trialId, patientId)) as AssessedPatient;
+  const patient = (await findPatient(db, trialId, patientId, 'all')) as Patient;
   const { outcomeSource, ...settings } = await settingsOf(db, trialId);
   const assessments = await listAssessments(db, patientId);
   // Read fresh, so time-dependent items (a confirmation now overdue) are current.
@@ -205,9 +232,9 @@ async function view(db: Db | Knex.Transaction, trialId: string, patientId: strin
   return { patient: summary(patient), outcomeSource, settings, assessments, derivation };
 }
 
-export async function listForPatient(db: Db, access: TrialAccess, patientId: string): Promise<AssessmentsView> {
-  await visiblePatient(db, access, patientId, siteScope(access));
-  return view(db, access.trialId, patientId);
+export async function listForPatient(db: Db, actor: Actor, patientId: string): Promise<AssessmentsView> {
+  await visiblePatient(db, actor, patientId, siteScope(actor.access));
+  return view(db, actor.access.trialId, patientId);
 }
 
 function duplicateDate(existing: Assessment): ConflictError {
@@ -222,7 +249,7 @@ const isUniqueViolation = (error: unknown) => (error as { code?: string })?.code
 export type NewAssessment = { date: string; response: Assessment['response']; notes: string | null };
 
 /** Inserts one checked assessment of a locked patient and audits it; the caller re-derives. */
-export async function createAssessment(trx: Knex.Transaction, patient: AssessedPatient, input: NewAssessment, userId: string, reason?: string): Promise<Assessment> {
+export async function createAssessment(trx: Knex.Transaction, patient: Patient, input: NewAssessment, userId: string, reason?: string): Promise<Assessment> {
   const existing = await findAssessmentOn(trx, patient.id, input.date);
   if (existing) throw duplicateDate(existing);
   let assessment: Assessment;
@@ -248,9 +275,11 @@ export async function applyCorrection(trx: Knex.Transaction, before: Assessment,
   return after;
 }
 
-export async function addAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
+/** The payload's dates are judged against the patient's enrolment, so it is parsed once the patient is loaded. */
+export async function addAssessment(db: Db, actor: Actor, patientId: string, body: unknown): Promise<AssessmentsView & { assessment: Assessment }> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    const patient = await visiblePatient(trx, actor, patientId, writableSites(access), true);
     const input = await parseBody(assessmentSchema(patient.enrolledOn), body);
     const assessment = await createAssessment(trx, patient, { date: input.date, response: input.response, notes: input.notes || null }, user.id);
     await recomputeDerivation(trx, patientId, { actorUserId: user.id, fromAssessmentChange: true });
@@ -269,14 +298,14 @@ async function currentOrStale(trx: Knex.Transaction, patientId: string, assessme
 
 export async function correctAssessment(
   db: Db,
-  access: TrialAccess,
-  user: SessionUser,
+  actor: Actor,
   patientId: string,
   assessmentId: string,
   body: unknown,
 ): Promise<AssessmentsView & { assessment: Assessment }> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    const patient = await visiblePatient(trx, access, patientId, writableSites(access), true);
+    const patient = await visiblePatient(trx, actor, patientId, writableSites(access), true);
     if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
     const input = await parseBody(assessmentCorrectionSchema(patient.enrolledOn), body);
     const before = await currentOrStale(trx, patientId, assessmentId, input.version);
@@ -294,9 +323,10 @@ export async function correctAssessment(
   });
 }
 
-export async function removeAssessment(db: Db, access: TrialAccess, user: SessionUser, patientId: string, assessmentId: string, body: unknown): Promise<AssessmentsView> {
+export async function removeAssessment(db: Db, actor: Actor, patientId: string, assessmentId: string, body: unknown): Promise<AssessmentsView> {
+  const { user, access } = actor;
   return db.transaction(async (trx) => {
-    await visiblePatient(trx, access, patientId, writableSites(access), true);
+    await visiblePatient(trx, actor, patientId, writableSites(access), true);
     if (!(await findAssessment(trx, patientId, assessmentId))) throw new NotFoundError('The assessment');
     const input = await parseBody(assessmentRemovalSchema, body);
     const before = await currentOrStale(trx, patientId, assessmentId, input.version);
@@ -322,9 +352,10 @@ export type NeedsAttentionSite = { siteId: string; siteCode: string; siteName: s
  * Per site, what needs a look, read from the stored derivations (a trial of thousands of patients
  * never loads its assessments here). Overdue confirmations are judged against today.
  */
-export async function needsAttention(db: Db, access: TrialAccess, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
+export async function needsAttention(db: Db, actor: Actor, today = new Date().toISOString().slice(0, 10)): Promise<{ sites: NeedsAttentionSite[]; today: string }> {
+  const { access } = actor;
   const scope = siteScope(access);
-  const sites = await listTrialSites(db, access.trialId, scope);
+  const sites = (await listTrialSites(db, access.trialId)).filter((s) => scope === 'all' || scope.includes(s.id));
   const bySite = new Map<string, NeedsAttentionSite>(sites.map((s) => [s.id, { siteId: s.id, siteCode: s.code, siteName: s.name, items: [] }]));
   for (const row of await listAttentionCandidates(db, access.trialId, scope)) {
     const stored = row.attention;

@@ -15,6 +15,7 @@
  * Pure: dates in, a readable derivation out, so the server, the import and the tests share it.
  */
 import { addDays, differenceInCalendarDays, format, parseISO } from 'date-fns';
+import { plural, responderWords } from '../words/index.js';
 
 export const RESPONSES = ['CR', 'PR', 'SD', 'PD', 'NE'] as const;
 export type TimepointResponse = (typeof RESPONSES)[number];
@@ -125,8 +126,6 @@ const shifted = remembered((key) => {
 });
 const plusDays = (iso: string, days: number) => shifted(`${iso}|${days}`);
 const daysBetween = (from: string, to: string) => dayNumber(to) - dayNumber(from);
-const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? '' : 's'}`;
-const outcomeWords = (responder: boolean) => (responder ? 'responder' : 'non-responder');
 
 type Timepoint = AssessmentInput & { order: number };
 type Level = 'CR' | 'PR';
@@ -213,110 +212,121 @@ export function disagreesWithDerivation(
   return entered.bestOverallResponse !== null && entered.bestOverallResponse !== derived.bestOverallResponse;
 }
 
-export function deriveBestOverallResponse(input: DerivationInput): Derivation {
-  const { enrolledOn, settings } = input;
-  const today = input.today ?? format(new Date(), 'yyyy-MM-dd');
-  const sdFrom = plusDays(enrolledOn, settings.sdMinDays);
+/** The assessments in date order (same-day ones in the order given), around enrolment and the first progression. */
+type Timeline = {
+  all: Timepoint[];
+  /** Dated before enrolment: left out. */
+  early: Timepoint[];
+  /** On or after enrolment, up to and including the first PD: what the best overall response is read from. */
+  points: Timepoint[];
+  /** After the first PD: they do not count. */
+  afterPd: Timepoint[];
+  progression: Timepoint | undefined;
+};
+
+/** The protocol's rules as one derivation applies them. */
+type Rules = {
+  settings: DerivationSettings;
+  enrolledOn: string;
+  today: string;
+  /** The first day an assessment of SD or better counts as stable disease. */
+  sdFrom: string;
+};
+
+/** What the best overall response rests on. */
+type Best = {
+  best: TimepointResponse | null;
+  basis: Timepoint | undefined;
+  confirmed: boolean;
+  /** The confirmed response and the assessment that confirmed it. */
+  pair: { start: Timepoint; by: Timepoint } | undefined;
+  /** Responses whose confirmation may still come. */
+  pending: PendingConfirmation[];
+};
+
+type Status = {
+  responder: boolean | null;
+  /** Pending confirmations that hold up the responder status (not mere upgrades of a confirmed PR). */
+  awaiting: PendingConfirmation[];
+  /** NE without progression is not settled: the next assessment may still establish SD or better. */
+  unsettledNe: boolean;
+};
+
+function timelineOf(input: DerivationInput): Timeline {
   const all: Timepoint[] = input.assessments
     .map((a, order) => ({ ...a, order }))
     .sort((a, b) => (a.date === b.date ? a.order - b.order : a.date < b.date ? -1 : 1));
+  const onStudy = all.filter((p) => p.date >= input.enrolledOn);
+  const pdAt = onStudy.findIndex((p) => p.response === 'PD');
+  return {
+    all,
+    early: all.filter((p) => p.date < input.enrolledOn),
+    points: pdAt < 0 ? onStudy : onStudy.slice(0, pdAt + 1),
+    afterPd: pdAt < 0 ? [] : onStudy.slice(pdAt + 1),
+    progression: pdAt < 0 ? undefined : onStudy[pdAt],
+  };
+}
 
+/** With confirmation required: the first confirmed CR, else the first confirmed PR, and the responses still awaiting confirmation. */
+function confirmedResponse(points: Timepoint[], settings: DerivationSettings): Best {
+  let best: TimepointResponse | null = null;
+  let pair = firstConfirmed(points, 'CR', settings);
+  if (pair) best = 'CR';
+  else {
+    pair = firstConfirmed(points, 'PR', settings);
+    if (pair) best = 'PR';
+  }
+  const pending: PendingConfirmation[] = [];
+  for (let i = 0; i < points.length; i += 1) {
+    const point = points[i];
+    if (point.response !== 'CR' && point.response !== 'PR') continue;
+    const status = statusOf(points, i, settings);
+    if (status.kind !== 'open' || pending.some((p) => p.level === status.level)) continue;
+    if (best === 'CR' || (best === 'PR' && status.level === 'PR')) continue;
+    pending.push(pendingOf(point, status.level, settings, best === 'PR'));
+  }
+  return { best, basis: pair?.start, confirmed: !!pair, pair, pending };
+}
+
+/** Without confirmation: the first CR, else the first PR. */
+function bestTimepointResponse(points: Timepoint[]): Best {
+  const basis = points.find((p) => p.response === 'CR') ?? points.find((p) => p.response === 'PR');
+  return { best: basis ? basis.response : null, basis, confirmed: false, pair: undefined, pending: [] };
+}
+
+/** Without a response: SD once an assessment of SD or better reaches the minimum, else PD when progression came, else NE. */
+function withoutResponse(timeline: Timeline, sdFrom: string): Pick<Best, 'best' | 'basis'> {
+  const { points, progression } = timeline;
+  const stable = points.find((p) => p.response !== 'PD' && p.response !== 'NE' && p.date >= sdFrom);
+  if (stable) return { best: 'SD', basis: stable };
+  if (progression) return { best: 'PD', basis: progression };
+  if (points.length > 0) return { best: 'NE', basis: points[points.length - 1] };
+  return { best: null, basis: undefined };
+}
+
+function bestOverall(timeline: Timeline, rules: Rules): Best {
+  const found = rules.settings.confirmationRequired ? confirmedResponse(timeline.points, rules.settings) : bestTimepointResponse(timeline.points);
+  return found.best ? found : { ...found, ...withoutResponse(timeline, rules.sdFrom) };
+}
+
+function statusOfBest(found: Best, timeline: Timeline, settings: DerivationSettings): Status {
+  const { best, confirmed } = found;
+  const awaiting = found.pending.filter((p) => !p.upgrade);
+  const unsettledNe = best === 'NE' && !timeline.progression;
+  const responder: boolean | null =
+    best === null || unsettledNe ? null : confirmed || (!settings.confirmationRequired && (best === 'CR' || best === 'PR')) ? true : awaiting.length > 0 ? null : false;
+  return { responder, awaiting, unsettledNe };
+}
+
+/** Each assessment's part in the derivation, in a sentence. */
+function stepsOf(timeline: Timeline, found: Best, rules: Rules): Map<Timepoint, DerivationStep> {
+  const { settings, enrolledOn, sdFrom } = rules;
+  const { points, progression } = timeline;
+  const { best, basis, confirmed, pair, pending } = found;
   const steps = new Map<Timepoint, DerivationStep>();
   const step = (point: Timepoint, role: StepRole, note: string) =>
     steps.set(point, { assessmentId: point.id, date: point.date, response: point.response, role, note });
-  const explanation: string[] = [];
-  const needed: string[] = [];
-  const attention: AttentionItem[] = [];
-
-  explanation.push(
-    settings.confirmationRequired
-      ? `The protocol requires a CR or PR to be confirmed by a later assessment at least ${settings.confirmationMinDays} days on; stable disease counts from ${settings.sdMinDays} days after enrolment (enrolled ${longDate(enrolledOn)}, so from ${longDate(sdFrom)}).`
-      : `The protocol does not require CR or PR to be confirmed; stable disease counts from ${settings.sdMinDays} days after enrolment (enrolled ${longDate(enrolledOn)}, so from ${longDate(sdFrom)}).`,
-  );
-
-  const early = all.filter((p) => p.date < enrolledOn);
-  for (const point of early) {
-    step(point, 'before-enrolment', `Dated before enrolment on ${longDate(enrolledOn)}: left out of the derivation.`);
-    attention.push({
-      kind: 'assessment-before-enrolment',
-      message: `The ${point.response} assessment on ${longDate(point.date)} is dated before enrolment on ${longDate(enrolledOn)}; correct its date or remove it.`,
-      date: point.date,
-      assessmentId: point.id,
-    });
-  }
-  if (early.length > 0) {
-    explanation.push(
-      `${plural(early.length, 'assessment')} dated before enrolment ${early.length === 1 ? 'was' : 'were'} left out (${early.map((p) => longDate(p.date)).join(', ')}).`,
-    );
-  }
-
-  const onStudy = all.filter((p) => p.date >= enrolledOn);
-  const pdAt = onStudy.findIndex((p) => p.response === 'PD');
-  const points = pdAt < 0 ? onStudy : onStudy.slice(0, pdAt + 1);
-  const afterPd = pdAt < 0 ? [] : onStudy.slice(pdAt + 1);
-  const progression = pdAt < 0 ? undefined : onStudy[pdAt];
-
-  let previous = { date: enrolledOn, label: 'enrolment' };
-  for (const point of points) {
-    const gap = daysBetween(previous.date, point.date);
-    if (gap > settings.assessmentIntervalDays) {
-      attention.push({
-        kind: 'gap-longer-than-schedule',
-        message: `${gap} days passed between ${previous.label} on ${longDate(previous.date)} and the assessment on ${longDate(point.date)}; the protocol schedules assessments every ${settings.assessmentIntervalDays} days.`,
-        date: point.date,
-        assessmentId: point.id,
-      });
-    }
-    previous = { date: point.date, label: 'the assessment' };
-  }
-
-  const sdLevel = (p: Timepoint) => p.response !== 'PD' && p.response !== 'NE' && p.date >= sdFrom;
-  let best: TimepointResponse | null = null;
-  let basis: Timepoint | undefined;
-  let confirmed = false;
-  let pair: { start: Timepoint; by: Timepoint } | undefined;
-  const pending: PendingConfirmation[] = [];
-
-  if (settings.confirmationRequired) {
-    pair = firstConfirmed(points, 'CR', settings);
-    if (pair) best = 'CR';
-    else {
-      pair = firstConfirmed(points, 'PR', settings);
-      if (pair) best = 'PR';
-    }
-    confirmed = !!pair;
-    basis = pair?.start;
-    for (let i = 0; i < points.length; i += 1) {
-      const point = points[i];
-      if (point.response !== 'CR' && point.response !== 'PR') continue;
-      const status = statusOf(points, i, settings);
-      if (status.kind !== 'open' || pending.some((p) => p.level === status.level)) continue;
-      if (best === 'CR' || (best === 'PR' && status.level === 'PR')) continue;
-      pending.push(pendingOf(point, status.level, settings, best === 'PR'));
-    }
-  } else {
-    basis = points.find((p) => p.response === 'CR') ?? points.find((p) => p.response === 'PR');
-    best = basis ? basis.response : null;
-  }
-
-  if (!best) {
-    basis = points.find(sdLevel);
-    if (basis) best = 'SD';
-    else if (progression) {
-      best = 'PD';
-      basis = progression;
-    } else if (points.length > 0) {
-      best = 'NE';
-      basis = points[points.length - 1];
-    }
-  }
-
-  const awaiting = pending.filter((p) => !p.upgrade);
-  // NE without progression is not settled: the next assessment may still establish SD or better.
-  const unsettledNe = best === 'NE' && !progression;
-  const responder: boolean | null =
-    best === null || unsettledNe ? null : confirmed || (!settings.confirmationRequired && (best === 'CR' || best === 'PR')) ? true : awaiting.length > 0 ? null : false;
-
+  for (const point of timeline.early) step(point, 'before-enrolment', `Dated before enrolment on ${longDate(enrolledOn)}: left out of the derivation.`);
   for (let i = 0; i < points.length; i += 1) {
     const point = points[i];
     const daysIn = daysBetween(enrolledOn, point.date);
@@ -353,61 +363,127 @@ export function deriveBestOverallResponse(input: DerivationInput): Derivation {
       }
     }
   }
-  for (const point of afterPd) step(point, 'ignored', `After progression on ${longDate((progression as Timepoint).date)}: does not change the best overall response.`);
+  for (const point of timeline.afterPd) step(point, 'ignored', `After progression on ${longDate((progression as Timepoint).date)}: does not change the best overall response.`);
+  return steps;
+}
 
+function protocolSentence({ settings, enrolledOn, sdFrom }: Rules): string {
+  return settings.confirmationRequired
+    ? `The protocol requires a CR or PR to be confirmed by a later assessment at least ${settings.confirmationMinDays} days on; stable disease counts from ${settings.sdMinDays} days after enrolment (enrolled ${longDate(enrolledOn)}, so from ${longDate(sdFrom)}).`
+    : `The protocol does not require CR or PR to be confirmed; stable disease counts from ${settings.sdMinDays} days after enrolment (enrolled ${longDate(enrolledOn)}, so from ${longDate(sdFrom)}).`;
+}
+
+/** Why the best overall response is what it is: the confirmed response, the timepoint response, or what stood in the way. */
+function bestSentences(timeline: Timeline, found: Best, steps: Map<Timepoint, DerivationStep>, rules: Rules): string[] {
+  const { settings, enrolledOn, sdFrom } = rules;
+  const { points, early } = timeline;
+  const { best, basis, confirmed, pair } = found;
   if (best === null) {
-    explanation.push(
-      early.length > 0 ? 'No assessment on or after enrolment yet, so there is no best overall response.' : 'No assessment yet, so there is no best overall response.',
-    );
-    needed.push(`A first assessment on or after enrolment, due by ${longDate(plusDays(enrolledOn, settings.assessmentIntervalDays))} on the protocol's schedule.`);
-  } else if (confirmed && pair) {
+    return [early.length > 0 ? 'No assessment on or after enrolment yet, so there is no best overall response.' : 'No assessment yet, so there is no best overall response.'];
+  }
+  if (confirmed && pair) {
     const confirmation = `confirmed by the ${pair.by.response} on ${longDate(pair.by.date)}, ${daysBetween(pair.start.date, pair.by.date)} days later`;
-    explanation.push(
+    return [
       pair.start.response === 'CR' && best === 'PR'
         ? `Best overall response: PR, confirmed. The CR on ${longDate(pair.start.date)} was not followed by another CR, so it is read as PR (RECIST 1.1); it was ${confirmation}.`
         : `Best overall response: ${best}, confirmed. The ${best} on ${longDate(pair.start.date)} was ${confirmation}.`,
-    );
-  } else if (!settings.confirmationRequired && (best === 'CR' || best === 'PR')) {
-    explanation.push(`Best overall response: ${best}, the best timepoint response (first on ${longDate((basis as Timepoint).date)}); this protocol does not require confirmation.`);
-  } else {
-    const unconfirmed = points.filter((p) => steps.get(p)?.role === 'unconfirmed');
-    for (const point of unconfirmed) {
-      const reason = brokenReason(statusOf(points, points.indexOf(point), settings) as Extract<ConfirmationStatus, { kind: 'broken' }>);
-      explanation.push(
-        point.date >= sdFrom
-          ? `The ${point.response} on ${longDate(point.date)} was not confirmed (${reason}); under RECIST 1.1 an unconfirmed response counts as stable disease, and it was ${daysBetween(enrolledOn, point.date)} days after enrolment, past the ${settings.sdMinDays}-day minimum.`
-          : `The ${point.response} on ${longDate(point.date)} was not confirmed (${reason}); an unconfirmed response counts only as stable disease, and at ${daysBetween(enrolledOn, point.date)} days after enrolment it was too early for that (minimum ${settings.sdMinDays} days).`,
-      );
-    }
-    const at = longDate((basis as Timepoint).date);
-    if (best === 'SD') {
-      explanation.push(`Best overall response: SD. The ${(basis as Timepoint).response} on ${at}, ${daysBetween(enrolledOn, (basis as Timepoint).date)} days after enrolment, meets the ${settings.sdMinDays}-day minimum for stable disease.`);
-    } else if (best === 'PD') {
-      explanation.push(
-        points.length === 1
-          ? `Best overall response: PD. The first assessment after enrolment, on ${at}, showed progression.`
-          : `Best overall response: PD. Progression on ${at} came before stable disease was established (no assessment of SD or better on or after ${longDate(sdFrom)}).`,
-      );
-    } else if (points.some((p) => p.response !== 'NE')) {
-      explanation.push(`Best overall response: NE. No assessment of SD or better was on or after ${longDate(sdFrom)}, so stable disease is not established yet.`);
-    } else {
-      explanation.push('Best overall response: NE. No assessment after enrolment could be evaluated.');
-    }
+    ];
   }
+  if (!settings.confirmationRequired && (best === 'CR' || best === 'PR')) {
+    return [`Best overall response: ${best}, the best timepoint response (first on ${longDate((basis as Timepoint).date)}); this protocol does not require confirmation.`];
+  }
+  const sentences = points
+    .filter((p) => steps.get(p)?.role === 'unconfirmed')
+    .map((point) => {
+      const reason = brokenReason(statusOf(points, points.indexOf(point), settings) as Extract<ConfirmationStatus, { kind: 'broken' }>);
+      return point.date >= sdFrom
+        ? `The ${point.response} on ${longDate(point.date)} was not confirmed (${reason}); under RECIST 1.1 an unconfirmed response counts as stable disease, and it was ${daysBetween(enrolledOn, point.date)} days after enrolment, past the ${settings.sdMinDays}-day minimum.`
+        : `The ${point.response} on ${longDate(point.date)} was not confirmed (${reason}); an unconfirmed response counts only as stable disease, and at ${daysBetween(enrolledOn, point.date)} days after enrolment it was too early for that (minimum ${settings.sdMinDays} days).`;
+    });
+  const at = longDate((basis as Timepoint).date);
+  if (best === 'SD') {
+    sentences.push(`Best overall response: SD. The ${(basis as Timepoint).response} on ${at}, ${daysBetween(enrolledOn, (basis as Timepoint).date)} days after enrolment, meets the ${settings.sdMinDays}-day minimum for stable disease.`);
+  } else if (best === 'PD') {
+    sentences.push(
+      points.length === 1
+        ? `Best overall response: PD. The first assessment after enrolment, on ${at}, showed progression.`
+        : `Best overall response: PD. Progression on ${at} came before stable disease was established (no assessment of SD or better on or after ${longDate(sdFrom)}).`,
+    );
+  } else if (points.some((p) => p.response !== 'NE')) {
+    sentences.push(`Best overall response: NE. No assessment of SD or better was on or after ${longDate(sdFrom)}, so stable disease is not established yet.`);
+  } else {
+    sentences.push('Best overall response: NE. No assessment after enrolment could be evaluated.');
+  }
+  return sentences;
+}
+
+function responderSentence(found: Best, status: Status): string[] {
+  const { responder, awaiting } = status;
+  if (responder === null && awaiting.length > 0) {
+    return [`Responder status is pending: the ${awaiting[0].response} on ${longDate(awaiting[0].date)} awaits confirmation. Without it the best overall response is ${found.best}.`];
+  }
+  if (responder === null && found.best !== null) return ['Responder status is pending: without progression, a later assessment may still establish stable disease or a response.'];
+  return responder !== null ? [`Derived outcome: ${responderWords(responder)}.`] : [];
+}
+
+function explanationOf(timeline: Timeline, found: Best, status: Status, steps: Map<Timepoint, DerivationStep>, rules: Rules): string[] {
+  const { early, afterPd, progression } = timeline;
+  const explanation = [protocolSentence(rules)];
+  if (early.length > 0) {
+    explanation.push(
+      `${plural(early.length, 'assessment')} dated before enrolment ${early.length === 1 ? 'was' : 'were'} left out (${early.map((p) => longDate(p.date)).join(', ')}).`,
+    );
+  }
+  explanation.push(...bestSentences(timeline, found, steps, rules));
   if (afterPd.length > 0) {
     explanation.push(`${plural(afterPd.length, 'assessment')} after progression on ${longDate((progression as Timepoint).date)} do${afterPd.length === 1 ? 'es' : ''} not count.`);
   }
+  explanation.push(...responderSentence(found, status));
+  return explanation;
+}
 
-  for (const open of pending) needed.push(neededSentence(open));
-  if (unsettledNe && points.some((p) => p.response !== 'NE')) {
+/** What would settle the derivation: a first assessment, a confirmation, or an assessment late enough for SD. */
+function neededOf(timeline: Timeline, found: Best, status: Status, rules: Rules): string[] {
+  const { settings, enrolledOn, sdFrom } = rules;
+  const needed: string[] = [];
+  if (found.best === null) needed.push(`A first assessment on or after enrolment, due by ${longDate(plusDays(enrolledOn, settings.assessmentIntervalDays))} on the protocol's schedule.`);
+  for (const open of found.pending) needed.push(neededSentence(open));
+  if (status.unsettledNe && timeline.points.some((p) => p.response !== 'NE')) {
     needed.push(`An assessment of SD or better on or after ${longDate(sdFrom)} (${settings.sdMinDays} days after enrolment) to establish stable disease.`);
+  }
+  return needed;
+}
+
+/** What a site should look at: early dates, gaps in the schedule, SD seen too early, overdue confirmations, a disagreeing entered outcome. */
+function attentionOf(timeline: Timeline, found: Best, status: Status, rules: Rules, entered: EnteredOutcome | undefined): AttentionItem[] {
+  const { settings, enrolledOn, sdFrom, today } = rules;
+  const attention: AttentionItem[] = timeline.early.map((point) => ({
+    kind: 'assessment-before-enrolment',
+    message: `The ${point.response} assessment on ${longDate(point.date)} is dated before enrolment on ${longDate(enrolledOn)}; correct its date or remove it.`,
+    date: point.date,
+    assessmentId: point.id,
+  }));
+  let previous = { date: enrolledOn, label: 'enrolment' };
+  for (const point of timeline.points) {
+    const gap = daysBetween(previous.date, point.date);
+    if (gap > settings.assessmentIntervalDays) {
+      attention.push({
+        kind: 'gap-longer-than-schedule',
+        message: `${gap} days passed between ${previous.label} on ${longDate(previous.date)} and the assessment on ${longDate(point.date)}; the protocol schedules assessments every ${settings.assessmentIntervalDays} days.`,
+        date: point.date,
+        assessmentId: point.id,
+      });
+    }
+    previous = { date: point.date, label: 'the assessment' };
+  }
+  if (status.unsettledNe && timeline.points.some((p) => p.response !== 'NE')) {
     attention.push({
       kind: 'sd-before-minimum',
       message: `SD or better was seen only before ${longDate(sdFrom)}, the ${settings.sdMinDays}-day minimum after enrolment, so the best overall response stays NE.`,
-      date: points.find((p) => p.response !== 'NE')?.date,
+      date: timeline.points.find((p) => p.response !== 'NE')?.date,
     });
   }
-  for (const open of awaiting) {
+  for (const open of status.awaiting) {
     if (today > open.dueBy) {
       attention.push({
         kind: 'unconfirmed-past-window',
@@ -417,35 +493,36 @@ export function deriveBestOverallResponse(input: DerivationInput): Derivation {
       });
     }
   }
-
-  if (responder === null && awaiting.length > 0) {
-    explanation.push(`Responder status is pending: the ${awaiting[0].response} on ${longDate(awaiting[0].date)} awaits confirmation. Without it the best overall response is ${best}.`);
-  } else if (responder === null && best !== null) {
-    explanation.push('Responder status is pending: without progression, a later assessment may still establish stable disease or a response.');
-  } else if (responder !== null) {
-    explanation.push(`Derived outcome: ${outcomeWords(responder)}.`);
-  }
-
-  if (input.entered && disagreesWithDerivation(input.entered, { bestOverallResponse: best, responder })) {
-    const enteredText = `${input.entered.outcome === 'responder' ? 'responder' : 'non-responder'}${input.entered.bestOverallResponse ? `, ${input.entered.bestOverallResponse}` : ''}`;
+  if (entered && disagreesWithDerivation(entered, { bestOverallResponse: found.best, responder: status.responder })) {
+    const enteredText = `${entered.outcome === 'responder' ? 'responder' : 'non-responder'}${entered.bestOverallResponse ? `, ${entered.bestOverallResponse}` : ''}`;
     attention.push({
       kind: 'entered-disagrees',
-      message: `The entered outcome (${enteredText}) disagrees with the one derived from the assessments (${outcomeWords(responder as boolean)}, ${best}).`,
+      message: `The entered outcome (${enteredText}) disagrees with the one derived from the assessments (${responderWords(status.responder as boolean)}, ${found.best}).`,
     });
   }
+  return attention;
+}
 
+/** Reads the timeline, finds the best overall response and the responder status, then explains them step by step. */
+export function deriveBestOverallResponse(input: DerivationInput): Derivation {
+  const { enrolledOn, settings } = input;
+  const rules: Rules = { settings, enrolledOn, today: input.today ?? format(new Date(), 'yyyy-MM-dd'), sdFrom: plusDays(enrolledOn, settings.sdMinDays) };
+  const timeline = timelineOf(input);
+  const found = bestOverall(timeline, rules);
+  const status = statusOfBest(found, timeline, settings);
+  const steps = stepsOf(timeline, found, rules);
   return {
-    bestOverallResponse: best,
-    responder,
-    confirmed,
-    basisDate: basis?.date ?? null,
-    steps: all.map((p) => steps.get(p) as DerivationStep),
-    explanation,
-    needed,
-    attention,
-    pendingConfirmation: pending,
+    bestOverallResponse: found.best,
+    responder: status.responder,
+    confirmed: found.confirmed,
+    basisDate: found.basis?.date ?? null,
+    steps: timeline.all.map((p) => steps.get(p) as DerivationStep),
+    explanation: explanationOf(timeline, found, status, steps, rules),
+    needed: neededOf(timeline, found, status, rules),
+    attention: attentionOf(timeline, found, status, rules, input.entered),
+    pendingConfirmation: found.pending,
     enrolledOn,
     settings,
-    derivedOn: today,
+    derivedOn: rules.today,
   };
 }

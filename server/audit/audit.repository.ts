@@ -1,4 +1,4 @@
-/** Reads a trial's audit trail with the actors' e-mail addresses, filtered and paged. */
+/** Reads the audit trail: a trial's entries with the actors' e-mail addresses, filtered and paged, and one record's history. */
 import type { Db } from '../db/knex.js';
 import type { AuditQuery } from './audit.schema.js';
 
@@ -64,4 +64,34 @@ export async function listAuditEntries(
     total: Number(total),
     entityTypes: types.map((t) => t.entity_type),
   };
+}
+
+/** One change to a record, with who made it. */
+export type HistoryEntry = {
+  id: number;
+  at: string;
+  action: string;
+  actor: { id: string | null; email: string | null; name: string | null };
+  before: unknown;
+  after: unknown;
+  reason: string | null;
+};
+
+/** Every audit entry about one record, oldest first. */
+export async function entityHistory(db: Db, entityType: string, entityId: string): Promise<HistoryEntry[]> {
+  const rows: Array<{ id: number; at: Date; action: string; actor_user_id: string | null; email: string | null; name: string | null; before: unknown; after: unknown; reason: string | null }> =
+    await db('audit_log as a')
+      .leftJoin('users as u', 'u.id', 'a.actor_user_id')
+      .where({ 'a.entity_type': entityType, 'a.entity_id': entityId })
+      .orderBy('a.id', 'asc')
+      .select('a.id', 'a.at', 'a.action', 'a.actor_user_id', 'u.email', 'u.name', 'a.before', 'a.after', 'a.reason');
+  return rows.map((r) => ({
+    id: r.id,
+    at: r.at.toISOString(),
+    action: r.action,
+    actor: { id: r.actor_user_id, email: r.email, name: r.name },
+    before: r.before,
+    after: r.after,
+    reason: r.reason,
+  }));
 }

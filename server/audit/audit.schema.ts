@@ -16,8 +16,6 @@ const day = () =>
     .matches(/^\d{4}-\d{2}-\d{2}$/, 'Use a date (YYYY-MM-DD).')
     .optional();
 
-export const AUDIT_PAGE_SIZES = [25, 50, 100, 200] as const;
-
 export const auditQuerySchema = yup.object({
   entityType: optionalText(40),
   entityId: optionalText(100),

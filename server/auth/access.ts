@@ -36,3 +36,6 @@ export const hasAnyRole = (mine: readonly string[] | undefined, allowed: readonl
 export function siteScope(access: TrialAccess): string[] | 'all' {
   return access.roles.some((role) => !SITE_ROLES.includes(role)) ? 'all' : access.siteIds;
 }
+
+/** Patient data is written by the site roles at their own sites only, whatever other roles they hold. */
+export const writableSites = (access: TrialAccess): string[] => access.siteIds;

@@ -1,24 +1,23 @@
 /** Sign-in, the identity provider's callback, sign-out; `?reauth=1` asks for a fresh sign-in before a signature. */
+import { promisify } from 'node:util';
 import * as oidc from 'openid-client';
 import type { Request } from 'express';
 import type { RouteSpec } from '../http/routes.js';
+import { SESSION_COOKIE } from '../http/session.js';
 import type { OidcClient } from './oidc.js';
 import { provisionUser } from './users.repository.js';
 
 function safeReturnTo(value: unknown): string {
   // URL parsers drop tabs and newlines, so "/\t/evil.test" would become "//evil.test": refuse control characters too.
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what this refuses
   return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.includes('\\') && !/[\u0000-\u001f\u007f]/.test(value)
     ? value
     : '/';
 }
 
-function regenerate(req: Request): Promise<void> {
-  return new Promise((resolve, reject) => req.session.regenerate((error) => (error ? reject(error) : resolve())));
-}
-
-function save(req: Request): Promise<void> {
-  return new Promise((resolve, reject) => req.session.save((error) => (error ? reject(error) : resolve())));
-}
+const regenerate = (req: Request): Promise<void> => promisify(req.session.regenerate.bind(req.session))();
+const save = (req: Request): Promise<void> => promisify(req.session.save.bind(req.session))();
+const destroy = (req: Request): Promise<void> => promisify(req.session.destroy.bind(req.session))();
 
 export function authRoutes(client: OidcClient): RouteSpec[] {
   return [
@@ -87,8 +86,8 @@ export function authRoutes(client: OidcClient): RouteSpec[] {
       access: { kind: 'public' },
       handler: async (req, res) => {
         const idToken = req.session.idToken;
-        await new Promise<void>((resolve, reject) => req.session.destroy((error) => (error ? reject(error) : resolve())));
-        res.clearCookie('orrery.sid', { path: '/' });
+        await destroy(req);
+        res.clearCookie(SESSION_COOKIE, { path: '/' });
         let redirectTo = '/';
         try {
           redirectTo = await client.endSessionUrl(idToken);

@@ -61,12 +61,12 @@ export function createOidcClient(config: Config): OidcClient {
       const claims = tokens.claims();
       if (!claims) throw new Error('the identity provider returned no ID token');
       const info = await oidc.fetchUserInfo(conf, tokens.access_token, claims.sub);
-      const email = String(info.email ?? claims.email ?? '').toLowerCase();
+      const email = [info.email, claims.email].find((value): value is string => typeof value === 'string')?.toLowerCase() ?? '';
       if (!email) throw new Error('the identity provider returned no e-mail address');
       return {
         subject: claims.sub,
         email,
-        name: (info.name as string | undefined) ?? (claims.name as string | undefined) ?? null,
+        name: info.name ?? (claims.name as string | undefined) ?? null,
         authTime: typeof claims.auth_time === 'number' ? claims.auth_time : Math.floor(Date.now() / 1000),
         idToken: tokens.id_token ?? '',
       };

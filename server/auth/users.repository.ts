@@ -7,7 +7,9 @@ export async function provisionUser(db: Db, claims: { subject: string; email: st
   return db.transaction(async (trx) => {
     const existing = await trx('users')
       .where({ subject: claims.subject })
-      .orWhere((q) => q.whereNull('subject').andWhereRaw('lower(email) = ?', [claims.email]))
+      .orWhere((q) => {
+        q.whereNull('subject').andWhereRaw('lower(email) = ?', [claims.email]);
+      })
       .orderByRaw('subject is null')
       .first();
     let user: { id: string; email: string; name: string | null };
@@ -24,7 +26,9 @@ export async function provisionUser(db: Db, claims: { subject: string; email: st
     }
     const activated = await trx('memberships')
       .whereRaw('lower(email) = ?', [claims.email])
-      .andWhere((q) => q.where({ status: 'pending' }).orWhereNull('user_id'))
+      .andWhere((q) => {
+        q.where({ status: 'pending' }).orWhereNull('user_id');
+      })
       .update({ user_id: user.id, status: 'active', updated_at: trx.fn.now() })
       .returning(['id', 'trial_id', 'role']);
     for (const membership of activated) {

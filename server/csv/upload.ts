@@ -75,7 +75,10 @@ export function readUploadedCsv<C extends string>(file: UploadedFile | undefined
 }
 
 /** `?dryRun=1` (or true/yes): check every row and write nothing. */
-export const isDryRun = (req: Request): boolean => ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? ''));
+export function isDryRun(req: Request): boolean {
+  const value = req.query.dryRun;
+  return typeof value === 'string' && ['1', 'true', 'yes'].includes(value);
+}
 
 /** Sends a CSV download (its cells already neutralised by `toCsv`). */
 export function sendCsv(res: Response, filename: string, body: string) {

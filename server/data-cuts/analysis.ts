@@ -2,9 +2,11 @@
  * The analysis of a data cut, computed from its frozen snapshot only (never from live patients), so
  * the same cut always gives the same figures. Counting follows the protocol's analysis population
  * (server/evaluation/counting.ts); every number comes from the statistics engine (server/stats).
- * Pure: no database, no I/O — the report, the API and the tests all call this one function.
+ * Compute, then describe: `cohortFigures` returns numbers and states only, `describeCohort` turns
+ * them into the notes and cautions a person reads. Pure: no database, no I/O — the report, the API
+ * and the tests all call `analyseCut`.
  */
-import { assignStages, countsToward, effectiveOutcome, tally, type CountablePatient, type Tally } from '../evaluation/counting.js';
+import { countsToward, effectiveOutcome, responderPath, tally, type CountablePatient, type Tally } from '../evaluation/index.js';
 import {
   StatsInputError,
   adjustPValues,
@@ -21,18 +23,11 @@ import {
   type InterimStatus,
   type TwoStageInference,
 } from '../stats/index.js';
+import { CAUTIONS, plural } from '../words/index.js';
 import type { CutCohort, CutDesign, CutPatient, CutSnapshot } from './data-cuts.repository.js';
 import type { CutKind } from './data-cuts.schema.js';
 
 export const CONF_LEVEL = 0.95;
-export const DEFAULT_THETA_T = 0.9;
-
-export const GENERAL_CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-  'A deviation from the planned n1 or n changes the operating characteristics.',
-];
 
 export type PriorSetting = { a: number | null; b: number | null; thetaT: number };
 
@@ -134,6 +129,71 @@ export type Analysis = {
   methods: Record<string, string>;
 };
 
+/** Why a threshold could not be found or applied: none exists at these sizes, or the engine refused the sizes. */
+type ThresholdFailure = { kind: 'none-found' } | { kind: 'engine'; message: string };
+
+/** A deviation from the planned sizes, in numbers. */
+type DeviationFigures = Omit<Deviation, 'asApplied' | 'adjusted' | 'method'> & {
+  asApplied: { rule: DesignRule; characteristics: OperatingSummary | null; failure: string | null };
+  adjusted: { r1: number | null; r: number | null; characteristics: OperatingSummary | null; failure: ThresholdFailure | null };
+};
+
+/** The rule as applied at the cut, and what bears on how it was applied. */
+type RuleFigures = {
+  status: InterimStatus;
+  applied: 'stage1' | 'final';
+  /** Stage-2 outcomes held back until every stage-1 outcome is in. */
+  waitingStage2: number;
+  /** More decided patients than the planned n: the adjusted threshold shown, and the size it applies to (single stage). */
+  overRun: { stages: 1 | 2; decided: number; r: number; n: number } | null;
+};
+
+type InferenceResult = TwoStageInference & { x1: number; n1: number; x2: number | null; n2Actual: number; confLevel: number };
+
+/** The stage-wise inference of a final cut, or why there is none. */
+type InferenceFigures =
+  | { state: 'not-applicable' }
+  | { state: 'no-stage-1' }
+  | { state: 'failed'; message: string }
+  | {
+      state: 'computed';
+      result: InferenceResult;
+      pending: number;
+      stage1: { actual: number; planned: number };
+      /** Stage 1 met the futility rule: these stage-2 outcomes are left out. */
+      stage2LeftOut: number;
+      /** The actual and planned stage-2 sizes when stage 2 was reached. */
+      stage2: { actual: number; planned: number } | null;
+    };
+
+type BayesFigures = {
+  prior: { a: number; b: number; source: 'default' | 'saved' | 'request' };
+  thetaT: number;
+  nmax: number;
+  posteriorProbability: number;
+  predictiveProbability: number;
+};
+
+/** One cohort at the cut in numbers and states; `describeCohort` words them. */
+type CohortFigures = {
+  cohort: CutCohort;
+  design: CutDesign;
+  counts: Tally;
+  responseRate: CohortAnalysis['responseRate'];
+  exactTest: CohortAnalysis['exactTest'];
+  rule: RuleFigures;
+  inference: InferenceFigures;
+  bayes: BayesFigures;
+  sites: SiteRow[];
+  heterogeneity: CohortAnalysis['heterogeneity'];
+  /** Why there is no exact heterogeneity p-value, or no comparison at all. */
+  heterogeneityGap: 'exact-too-large' | 'fewer-than-two-sites' | null;
+  deviation: DeviationFigures | null;
+  responderSources: CohortAnalysis['responderSources'];
+  boundaries: BoundaryPoint[];
+  path: CohortAnalysis['path'];
+};
+
 const METHODS: Record<string, string> = {
   responseRate:
     'Response rate among patients with a decided outcome under the protocol’s analysis population (all enrolled: a patient who is not evaluable counts as a non-responder; evaluable: such patients are left out). Pending outcomes are left out. Intervals: Clopper–Pearson (exact), Wilson score and Jeffreys, two-sided 95%.',
@@ -148,8 +208,6 @@ const METHODS: Record<string, string> = {
   deviation:
     'When the actual stage-1 or total size differs from the design’s n1 or n: the planned thresholds applied to the actual sizes, with their exact type I error, power, PET0 and EN0 (binomial); and adjusted thresholds (common practice): r1′ is the largest futility threshold whose probability of stopping under p1 at the actual stage-1 size does not exceed the planned design’s, and r′ is the smallest final threshold that keeps the exact type I error at or below α given r1′ and the actual sizes.',
 };
-
-const plural = (k: number, noun: string) => `${k} ${noun}${k === 1 ? '' : 's'}`;
 
 function ruleOf(design: CutDesign, n1: number | null, n: number): DesignRule {
   return design.r1 !== null && n1 !== null ? { r1: design.r1, n1, r: design.r, n } : { r: design.r, n };
@@ -188,7 +246,7 @@ function adjustedR(design: CutDesign, r1: number | null, n1: number | null, n: n
   return null;
 }
 
-function deviationOf(design: CutDesign, kind: CutKind, t: Tally): Deviation | null {
+function deviationOf(design: CutDesign, kind: CutKind, t: Tally): DeviationFigures | null {
   if (t.counted === 0) return null;
   const twoStage = design.r1 !== null && design.n1 !== null;
   let actualN1: number | null = null;
@@ -212,25 +270,25 @@ function deviationOf(design: CutDesign, kind: CutKind, t: Tally): Deviation | nu
 
   const asAppliedRule = ruleOf(design, actualN1, actualN);
   let asAppliedOc: OperatingSummary | null = null;
-  let asAppliedNote: string | null = null;
+  let asAppliedFailure: string | null = null;
   try {
     asAppliedOc = characteristics(asAppliedRule, design.p0, design.p1);
   } catch (error) {
     if (!(error instanceof StatsInputError)) throw error;
-    asAppliedNote = `The planned thresholds cannot be applied to these sizes: ${error.message}`;
+    asAppliedFailure = error.message;
   }
   const r1Adj = twoStage ? adjustedR1(design, actualN1 as number) : null;
   const rAdj = twoStage && r1Adj === null ? null : adjustedR(design, r1Adj, twoStage ? actualN1 : null, actualN);
   let adjustedOc: OperatingSummary | null = null;
-  let adjustedNote: string | null = null;
+  let adjustedFailure: ThresholdFailure | null = null;
   if (rAdj === null) {
-    adjustedNote = 'No threshold at these sizes keeps the type I error at or below α and the futility loss no worse than planned.';
+    adjustedFailure = { kind: 'none-found' };
   } else {
     try {
       adjustedOc = characteristics(r1Adj !== null ? { r1: r1Adj, n1: actualN1 as number, r: rAdj, n: actualN } : { r: rAdj, n: actualN }, design.p0, design.p1);
     } catch (error) {
       if (!(error instanceof StatsInputError)) throw error;
-      adjustedNote = error.message;
+      adjustedFailure = { kind: 'engine', message: error.message };
     }
   }
   return {
@@ -238,83 +296,80 @@ function deviationOf(design: CutDesign, kind: CutKind, t: Tally): Deviation | nu
     actualN1,
     plannedN: design.n,
     actualN,
-    asApplied: { rule: asAppliedRule, characteristics: asAppliedOc, note: asAppliedNote },
-    adjusted: { r1: r1Adj, r: rAdj, characteristics: adjustedOc, note: adjustedNote },
-    method: METHODS.deviation,
+    asApplied: { rule: asAppliedRule, characteristics: asAppliedOc, failure: asAppliedFailure },
+    adjusted: { r1: r1Adj, r: rAdj, characteristics: adjustedOc, failure: adjustedFailure },
   };
 }
 
-function ruleStatus(design: CutDesign, t: Tally, deviation: Deviation | null): CohortAnalysis['rule'] {
+function ruleStatus(design: CutDesign, t: Tally, deviation: DeviationFigures | null): RuleFigures {
   const twoStage = design.r1 !== null && design.n1 !== null;
+  const plain = { waitingStage2: 0, overRun: null };
   if (!twoStage) {
     if (t.decided <= design.n) {
-      return { ...evaluateTwoStage({ r: design.r, n: design.n }, { responders: t.responders, evaluable: t.decided }), applied: 'final', note: null };
+      return { status: evaluateTwoStage({ r: design.r, n: design.n }, { responders: t.responders, evaluable: t.decided }), applied: 'final', ...plain };
     }
     const r = deviation?.adjusted.r ?? design.r;
     const n = Math.max(t.decided, deviation?.actualN ?? t.decided);
     return {
-      ...evaluateTwoStage({ r, n }, { responders: t.responders, evaluable: t.decided }),
+      status: evaluateTwoStage({ r, n }, { responders: t.responders, evaluable: t.decided }),
       applied: 'final',
-      note: `More decided patients (${t.decided}) than the planned n = ${design.n}: the rule shown uses the adjusted threshold r′ = ${r} for n = ${n}.`,
+      waitingStage2: 0,
+      overRun: { stages: 1, decided: t.decided, r, n },
     };
   }
   const r1 = design.r1 as number;
   const n1 = design.n1 as number;
   const { stage1, stage2 } = t;
   if (stage1.decided < n1 || stage2.counted === 0) {
-    const waiting = stage2.decided > 0 ? `${plural(stage2.decided, 'stage-2 outcome')} wait until every stage-1 outcome is in.` : null;
     return {
-      ...evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders: stage1.responders, evaluable: stage1.decided }),
+      status: evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders: stage1.responders, evaluable: stage1.decided }),
       applied: 'stage1',
-      note: waiting,
+      waitingStage2: stage2.decided,
+      overRun: null,
     };
   }
   const evaluable = n1 + stage2.decided;
   const responders = stage1.responders + stage2.responders;
   if (evaluable <= design.n) {
     return {
-      ...evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders, evaluable, stage1Responders: stage1.responders }),
+      status: evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders, evaluable, stage1Responders: stage1.responders }),
       applied: 'final',
-      note: null,
+      ...plain,
     };
   }
-  const r = deviation?.adjusted.r ?? design.r;
+  const r = Math.max(deviation?.adjusted.r ?? design.r, r1);
   return {
-    ...evaluateTwoStage({ r1, n1, r: Math.max(r, r1), n: evaluable }, { responders, evaluable, stage1Responders: stage1.responders }),
+    status: evaluateTwoStage({ r1, n1, r, n: evaluable }, { responders, evaluable, stage1Responders: stage1.responders }),
     applied: 'final',
-    note: `More decided patients (${evaluable}) than the planned n = ${design.n}: the final rule shown uses the adjusted threshold r′ = ${Math.max(r, r1)}.`,
+    waitingStage2: 0,
+    overRun: { stages: 2, decided: evaluable, r, n: evaluable },
   };
 }
 
-function inferenceOf(design: CutDesign, t: Tally): { inference: CohortAnalysis['inference']; note: string | null } {
-  if (design.r1 === null || design.n1 === null) return { inference: null, note: null };
+function inferenceOf(design: CutDesign, t: Tally): InferenceFigures {
+  if (design.r1 === null || design.n1 === null) return { state: 'not-applicable' };
   const { stage1, stage2 } = t;
-  if (stage1.decided === 0) return { inference: null, note: 'No stage-1 outcome is decided yet.' };
+  if (stage1.decided === 0) return { state: 'no-stage-1' };
   const x1 = stage1.responders;
   const n1 = stage1.decided;
   const stopped = x1 <= design.r1;
-  const notes: string[] = [];
-  if (stage1.pending + stage2.pending > 0) notes.push(`${plural(stage1.pending + stage2.pending, 'pending outcome')} left out.`);
-  if (n1 !== design.n1) notes.push(`Stage 1 has ${n1} decided patients instead of n1 = ${design.n1}; the inference uses the actual size.`);
-  if (stopped && stage2.decided > 0) {
-    notes.push(`Stage 1 met the futility rule, so the ${plural(stage2.decided, 'stage-2 outcome')} are not part of the stage-wise inference.`);
-  }
   const n2Actual = stopped ? 0 : stage2.decided;
-  if (!stopped && n2Actual !== design.n - design.n1) {
-    notes.push(`Stage 2 has ${n2Actual} decided patients instead of the planned ${design.n - design.n1}; the inference uses the actual size.`);
-  }
   try {
     const result = twoStageInference(
       { r1: design.r1, n1, r: design.r, n: Math.max(design.n, n1 + 1), p0: design.p0 },
       stopped ? { x1, confLevel: CONF_LEVEL } : { x1, x2: stage2.responders, n2Actual, confLevel: CONF_LEVEL },
     );
     return {
-      inference: { ...result, x1, n1, x2: stopped ? null : stage2.responders, n2Actual, confLevel: CONF_LEVEL, note: notes.join(' ') },
-      note: null,
+      state: 'computed',
+      result: { ...result, x1, n1, x2: stopped ? null : stage2.responders, n2Actual, confLevel: CONF_LEVEL },
+      pending: stage1.pending + stage2.pending,
+      stage1: { actual: n1, planned: design.n1 },
+      stage2LeftOut: stopped ? stage2.decided : 0,
+      stage2: stopped ? null : { actual: n2Actual, planned: design.n - design.n1 },
     };
   } catch (error) {
     if (!(error instanceof StatsInputError)) throw error;
-    return { inference: null, note: `The stage-wise inference cannot be computed for these counts: ${error.message}` };
+    return { state: 'failed', message: error.message };
   }
 }
 
@@ -362,37 +417,15 @@ function resolvePrior(prior: PriorSetting, p0: number, source: AnalysisInput['pr
   return { a: p0, b: 1 - p0, source: 'default' };
 }
 
-const fmt = (v: number, digits = 3) => Number(v.toFixed(digits)).toString();
+/** Responders among counting patients with a decided outcome, by where the outcome came from. */
+function responderSourcesOf(patients: CutPatient[], population: CutDesign['analysisPopulation']): CohortAnalysis['responderSources'] {
+  const responders = patients.filter((p) => countsToward(toCountable(p), population) && effectiveOutcome(toCountable(p), population) === 'responder');
+  const derived = responders.filter((p) => p.derivedResponder !== null).length;
+  return { derived, entered: responders.length - derived };
+}
 
-function analyseCohort(cohort: CutCohort, patients: CutPatient[], input: AnalysisInput): CohortAnalysis {
-  const base = {
-    cohortId: cohort.id,
-    code: cohort.code,
-    name: cohort.name,
-    statusAtCut: cohort.status,
-    design: cohort.design,
-  };
-  const design = cohort.design;
-  if (!design) {
-    return {
-      ...base,
-      counts: null,
-      responseRate: null,
-      exactTest: null,
-      rule: null,
-      inference: null,
-      inferenceNote: null,
-      bayes: null,
-      sites: [],
-      heterogeneity: null,
-      heterogeneityNote: null,
-      deviation: null,
-      responderSources: { derived: 0, entered: 0 },
-      boundaries: [],
-      path: [],
-      cautions: ['This cohort had no locked design at the cut: no rule or test can be applied.'],
-    };
-  }
+/** One cohort with a locked design at the cut, in numbers and states. */
+function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatient[], input: AnalysisInput): CohortFigures {
   const population = design.analysisPopulation;
   const countable = patients.map(toCountable);
   const t = tally(countable, design.n1, population);
@@ -412,79 +445,160 @@ function analyseCohort(cohort: CutCohort, patients: CutPatient[], input: Analysi
       : null;
   const test = n > 0 ? binomialTest(x, n, design.p0, { alternative: 'greater', confLevel: CONF_LEVEL }) : null;
   const deviation = deviationOf(design, input.cut.kind, t);
-  const rule = ruleStatus(design, t, deviation);
-  const { inference, note: inferenceNote } = input.cut.kind === 'final' ? inferenceOf(design, t) : { inference: null, note: null };
-
   const prior = resolvePrior(input.prior, design.p0, input.priorSource);
   const nmax = Math.max(design.n, n);
-  const bayes = {
-    prior,
-    thetaT: input.prior.thetaT,
-    nmax,
-    posteriorProbability: posteriorProbability({ x, n, p0: design.p0, prior }),
-    predictiveProbability: predictiveProbability({ x, n, nmax, p0: design.p0, thetaT: input.prior.thetaT, prior }),
-    statement: `Prior Beta(${fmt(prior.a)}, ${fmt(prior.b)})${prior.source === 'default' ? ' (the default: mean p0, worth one patient)' : ''}; success at the final analysis means P(p > ${fmt(design.p0)}) > ${fmt(input.prior.thetaT)} with ${nmax} patients.`,
-  };
-
   const sites = sitesOf(patients, population);
-  let het: CohortAnalysis['heterogeneity'] = null;
-  let heterogeneityNote: string | null = null;
   const withOutcomes = sites.filter((s) => s.decided > 0);
+  let het: CohortFigures['heterogeneity'] = null;
+  let heterogeneityGap: CohortFigures['heterogeneityGap'] = 'fewer-than-two-sites';
   if (withOutcomes.length >= 2) {
     const result = heterogeneity(withOutcomes.map((s) => [s.responders, s.decided - s.responders]));
     het = { ...result, sites: withOutcomes.length };
-    if (result.pValueExact === null) heterogeneityNote = 'The table is too large for the exact test; the chi-square p-value stands alone.';
-  } else {
-    heterogeneityNote = 'Fewer than two sites have decided outcomes: no comparison between sites.';
+    heterogeneityGap = result.pValueExact === null ? 'exact-too-large' : null;
   }
-
-  const stages = assignStages(countable, design.n1, population);
-  const ordered = [...patients].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq);
-  const path: CohortAnalysis['path'] = [];
-  let evaluated = 0;
-  let responders = 0;
-  let derived = 0;
-  let entered = 0;
-  for (const stage of [1, 2]) {
-    for (const p of ordered) {
-      const c = toCountable(p);
-      if (stages.get(p.patientId) !== stage || !countsToward(c, population)) continue;
-      const outcome = effectiveOutcome(c, population);
-      if (outcome === 'pending') continue;
-      evaluated += 1;
-      if (outcome === 'responder') {
-        responders += 1;
-        if (p.derivedResponder !== null) derived += 1;
-        else entered += 1;
-      }
-      path.push({ evaluable: evaluated, responders });
-    }
-  }
-
-  const cautions: string[] = [];
-  if (t.pending > 0) cautions.push(`${plural(t.pending, 'outcome')} still pending at the cut: the figures may change.`);
-  if (deviation) cautions.push('The actual sample size differs from the design: read the operating characteristics of the rule as applied.');
-  if (inference) cautions.push('Report the stage-wise p-value, interval and the UMVUE: the naive figures ignore the stopping rule and are biased.');
-  if (derived > 0) cautions.push(`${plural(derived, 'responder')} rest on outcomes derived from timepoint assessments.`);
-  if (rule?.note) cautions.push(rule.note);
-
   return {
-    ...base,
+    cohort,
+    design,
     counts: t,
     responseRate,
     exactTest: test ? { pValue: test.pValue, oneSidedLower: test.ci[0], alternative: 'greater', p0: design.p0 } : null,
-    rule,
-    inference,
-    inferenceNote,
-    bayes,
+    rule: ruleStatus(design, t, deviation),
+    inference: input.cut.kind === 'final' ? inferenceOf(design, t) : { state: 'not-applicable' },
+    bayes: {
+      prior,
+      thetaT: input.prior.thetaT,
+      nmax,
+      posteriorProbability: posteriorProbability({ x, n, p0: design.p0, prior }),
+      predictiveProbability: predictiveProbability({ x, n, nmax, p0: design.p0, thetaT: input.prior.thetaT, prior }),
+    },
     sites,
     heterogeneity: het,
-    heterogeneityNote,
+    heterogeneityGap,
     deviation,
-    responderSources: { derived, entered },
+    responderSources: responderSourcesOf(patients, population),
     boundaries: boundariesOf(design),
-    path,
+    path: responderPath(countable, population),
+  };
+}
+
+const fmt = (v: number, digits = 3) => Number(v.toFixed(digits)).toString();
+
+function ruleNote(rule: RuleFigures, design: CutDesign): string | null {
+  if (rule.overRun?.stages === 1) {
+    return `More decided patients (${rule.overRun.decided}) than the planned n = ${design.n}: the rule shown uses the adjusted threshold r′ = ${rule.overRun.r} for n = ${rule.overRun.n}.`;
+  }
+  if (rule.overRun) return `More decided patients (${rule.overRun.decided}) than the planned n = ${design.n}: the final rule shown uses the adjusted threshold r′ = ${rule.overRun.r}.`;
+  return rule.waitingStage2 > 0 ? `${plural(rule.waitingStage2, 'stage-2 outcome')} wait until every stage-1 outcome is in.` : null;
+}
+
+function describeInference(inference: InferenceFigures): { inference: CohortAnalysis['inference']; inferenceNote: string | null } {
+  if (inference.state === 'not-applicable') return { inference: null, inferenceNote: null };
+  if (inference.state === 'no-stage-1') return { inference: null, inferenceNote: 'No stage-1 outcome is decided yet.' };
+  if (inference.state === 'failed') return { inference: null, inferenceNote: `The stage-wise inference cannot be computed for these counts: ${inference.message}` };
+  const notes: string[] = [];
+  if (inference.pending > 0) notes.push(`${plural(inference.pending, 'pending outcome')} left out.`);
+  if (inference.stage1.actual !== inference.stage1.planned) {
+    notes.push(`Stage 1 has ${inference.stage1.actual} decided patients instead of n1 = ${inference.stage1.planned}; the inference uses the actual size.`);
+  }
+  if (inference.stage2LeftOut > 0) {
+    notes.push(`Stage 1 met the futility rule, so the ${plural(inference.stage2LeftOut, 'stage-2 outcome')} are not part of the stage-wise inference.`);
+  }
+  if (inference.stage2 && inference.stage2.actual !== inference.stage2.planned) {
+    notes.push(`Stage 2 has ${inference.stage2.actual} decided patients instead of the planned ${inference.stage2.planned}; the inference uses the actual size.`);
+  }
+  return { inference: { ...inference.result, note: notes.join(' ') }, inferenceNote: null };
+}
+
+function describeDeviation(deviation: DeviationFigures | null): Deviation | null {
+  if (!deviation) return null;
+  const { asApplied, adjusted } = deviation;
+  const adjustedNote =
+    adjusted.failure?.kind === 'none-found'
+      ? 'No threshold at these sizes keeps the type I error at or below α and the futility loss no worse than planned.'
+      : (adjusted.failure?.message ?? null);
+  return {
+    plannedN1: deviation.plannedN1,
+    actualN1: deviation.actualN1,
+    plannedN: deviation.plannedN,
+    actualN: deviation.actualN,
+    asApplied: {
+      rule: asApplied.rule,
+      characteristics: asApplied.characteristics,
+      note: asApplied.failure === null ? null : `The planned thresholds cannot be applied to these sizes: ${asApplied.failure}`,
+    },
+    adjusted: { r1: adjusted.r1, r: adjusted.r, characteristics: adjusted.characteristics, note: adjustedNote },
+    method: METHODS.deviation,
+  };
+}
+
+const HETEROGENEITY_GAPS: Record<NonNullable<CohortFigures['heterogeneityGap']>, string> = {
+  'exact-too-large': 'The table is too large for the exact test; the chi-square p-value stands alone.',
+  'fewer-than-two-sites': 'Fewer than two sites have decided outcomes: no comparison between sites.',
+};
+
+/** The cohort's figures with the notes, statements and cautions a person reads beside them. */
+function describeCohort(figures: CohortFigures): CohortAnalysis {
+  const { cohort, design, counts, rule, bayes } = figures;
+  const note = ruleNote(rule, design);
+  const { inference, inferenceNote } = describeInference(figures.inference);
+  const deviation = describeDeviation(figures.deviation);
+  const { prior } = bayes;
+  const cautions: string[] = [];
+  if (counts.pending > 0) cautions.push(`${plural(counts.pending, 'outcome')} still pending at the cut: the figures may change.`);
+  if (deviation) cautions.push('The actual sample size differs from the design: read the operating characteristics of the rule as applied.');
+  if (inference) cautions.push('Report the stage-wise p-value, interval and the UMVUE: the naive figures ignore the stopping rule and are biased.');
+  if (figures.responderSources.derived > 0) cautions.push(`${plural(figures.responderSources.derived, 'responder')} rest on outcomes derived from timepoint assessments.`);
+  if (note) cautions.push(note);
+  return {
+    cohortId: cohort.id,
+    code: cohort.code,
+    name: cohort.name,
+    statusAtCut: cohort.status,
+    design: cohort.design,
+    counts,
+    responseRate: figures.responseRate,
+    exactTest: figures.exactTest,
+    rule: { ...rule.status, applied: rule.applied, note },
+    inference,
+    inferenceNote,
+    bayes: {
+      ...bayes,
+      statement: `Prior Beta(${fmt(prior.a)}, ${fmt(prior.b)})${prior.source === 'default' ? ' (the default: mean p0, worth one patient)' : ''}; success at the final analysis means P(p > ${fmt(design.p0)}) > ${fmt(bayes.thetaT)} with ${bayes.nmax} patients.`,
+    },
+    sites: figures.sites,
+    heterogeneity: figures.heterogeneity,
+    heterogeneityNote: figures.heterogeneityGap && HETEROGENEITY_GAPS[figures.heterogeneityGap],
+    deviation,
+    responderSources: figures.responderSources,
+    boundaries: figures.boundaries,
+    path: figures.path,
     cautions,
+  };
+}
+
+/** A cohort without a locked design at the cut: no rule or test applies. */
+function withoutDesign(cohort: CutCohort): CohortAnalysis {
+  return {
+    cohortId: cohort.id,
+    code: cohort.code,
+    name: cohort.name,
+    statusAtCut: cohort.status,
+    design: null,
+    counts: null,
+    responseRate: null,
+    exactTest: null,
+    rule: null,
+    inference: null,
+    inferenceNote: null,
+    bayes: null,
+    sites: [],
+    heterogeneity: null,
+    heterogeneityNote: null,
+    deviation: null,
+    responderSources: { derived: 0, entered: 0 },
+    boundaries: [],
+    path: [],
+    cautions: ['This cohort had no locked design at the cut: no rule or test can be applied.'],
   };
 }
 
@@ -502,11 +616,16 @@ function openIssuesOf(patients: CutPatient[]): OpenIssue[] {
 
 export function analyseCut(input: AnalysisInput): Analysis {
   const cohorts = input.snapshot.cohorts.map((cohort) =>
-    analyseCohort(
-      cohort,
-      input.patients.filter((p) => p.cohortId === cohort.id),
-      input,
-    ),
+    cohort.design
+      ? describeCohort(
+          cohortFigures(
+            cohort,
+            cohort.design,
+            input.patients.filter((p) => p.cohortId === cohort.id),
+            input,
+          ),
+        )
+      : withoutDesign(cohort),
   );
   const tested = cohorts.filter((c) => c.exactTest);
   let multiplicity: Multiplicity | null = null;
@@ -521,7 +640,7 @@ export function analyseCut(input: AnalysisInput): Analysis {
   }
   const saved = input.prior.a !== null && input.prior.b !== null;
   const openIssues = openIssuesOf(input.patients);
-  const cautions = [...GENERAL_CAUTIONS];
+  const cautions = [...CAUTIONS];
   const pending = openIssues.filter((i) => i.issue === 'pending_outcome').length;
   const unattested = openIssues.filter((i) => i.issue === 'unattested_outcome').length;
   if (pending + unattested > 0) {

@@ -4,28 +4,25 @@
  * apply too); committee members (monitors) read cuts and sign recommendations. Coordinators,
  * investigators and sponsors are kept out of every route here.
  */
-import { createHash } from 'node:crypto';
 import { number, object } from 'yup';
-import type { Request, Response } from 'express';
-import type { Db } from '../db/knex.js';
-import { kickMail } from '../mail/outbox.js';
-import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
-import { parseBody } from '../http/validate.js';
-import { requireFreshAuthentication } from '../signatures/signatures.js';
-import { readCutPatients, setReportHash, trialOfCut } from './data-cuts.repository.js';
+import type { Request } from 'express';
+import { sendCsv } from '../csv/upload.js';
+import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { parseBody, parseQuery } from '../http/validate.js';
 import { createDataCutSchema, decisionSchema, priorSchema, recommendationSchema } from './data-cuts.schema.js';
 import {
   analyseDataCut,
   applyDecision,
   cutDetail,
+  cutExport,
+  cutReport,
   freezeDataCut,
   listCuts,
   recommend,
   recommendations,
   savePrior,
+  trialOfCut,
 } from './data-cuts.service.js';
-import { renderCutReport } from './report/pdf.js';
-import { adrsCsv, patientsCsv } from './exports.js';
 
 const READERS = ['statistician', 'monitor'] as const;
 const cutAccess = (roles: readonly ('statistician' | 'monitor' | 'admin')[]) =>
@@ -40,17 +37,13 @@ const priorQuerySchema = object({
   thetaT: number().typeError('thetaT must be a number.').moreThan(0).lessThan(1).optional(),
 }).test('pair', 'Give both a and b, or neither.', (v) => (v.a === undefined) === (v.b === undefined));
 
-function csvName(code: string, seq: number, what: string) {
-  return `${code}-data-cut-${seq}-${what}.csv`.replace(/[^A-Za-z0-9._-]/g, '_');
-}
-
 export const dataCutsRoutes: RouteSpec[] = [
   {
     method: 'get',
     path: '/api/trials/:trialId/data-cuts',
     access: { kind: 'trial', roles: READERS },
     handler: async (req, res, { db }) => {
-      res.json(await listCuts(db, requireTrialAccess(req).trialId));
+      res.json(await listCuts(db, actorOf(req)));
     },
   },
   {
@@ -59,8 +52,8 @@ export const dataCutsRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['statistician'] },
     handler: async (req, res, { db }) => {
       const input = await parseBody(createDataCutSchema, req.body);
-      const user = requireUser(req);
-      const cut = await freezeDataCut(db, { ...input, trialId: requireTrialAccess(req).trialId }, user);
+      const { user, access } = actorOf(req);
+      const cut = await freezeDataCut(db, { ...input, trialId: access.trialId }, user);
       res.status(201).json({ dataCut: cut, id: cut.id, contentHash: cut.contentHash });
     },
   },
@@ -77,7 +70,7 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/analysis',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      const query = await priorQuerySchema.validate(req.query, { abortEarly: false, stripUnknown: true });
+      const query = await parseQuery(priorQuerySchema, req.query);
       res.json({ analysis: await analyseDataCut(db, cutId(req), query) });
     },
   },
@@ -87,7 +80,7 @@ export const dataCutsRoutes: RouteSpec[] = [
     access: cutAccess(['statistician']),
     handler: async (req, res, { db }) => {
       const input = await parseBody(priorSchema, req.body);
-      res.json({ dataCut: await savePrior(db, cutId(req), input, requireUser(req)) });
+      res.json({ dataCut: await savePrior(db, cutId(req), input, actorOf(req).user) });
     },
   },
   {
@@ -102,11 +95,10 @@ export const dataCutsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/data-cuts/:cutId/recommendations',
     access: cutAccess(['monitor']),
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, mail }) => {
       const input = await parseBody(recommendationSchema, req.body);
-      const user = requireUser(req);
-      const signed = await recommend(db, cutId(req), input, user, () => requireFreshAuthentication(req, config));
-      kickMail(req);
+      const signed = await recommend(db, cutId(req), input, actorOf(req).user, signInOf(req, config));
+      mail.kick();
       res.status(201).json({ recommendation: signed, ...(await recommendations(db, cutId(req))) });
     },
   },
@@ -114,10 +106,10 @@ export const dataCutsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/data-cuts/:cutId/decision',
     access: cutAccess(['statistician', 'admin']),
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, mail }) => {
       const input = await parseBody(decisionSchema, req.body);
-      const result = await applyDecision(db, cutId(req), input, requireUser(req));
-      kickMail(req);
+      const result = await applyDecision(db, cutId(req), input, actorOf(req).user);
+      mail.kick();
       res.status(201).json(result);
     },
   },
@@ -126,18 +118,10 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/report.pdf',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      const detail = await cutDetail(db, cutId(req));
-      const analysis = await analyseDataCut(db, detail.dataCut.id);
-      const pdf = await renderCutReport({ cut: detail.dataCut, analysis, ...detail });
-      const hash = createHash('sha256').update(pdf).digest('hex');
-      await setReportHash(db, detail.dataCut.id, hash);
+      const { pdf, hash, filename } = await cutReport(db, cutId(req));
       res
         .status(200)
-        .set({
-          'Content-Type': 'application/pdf',
-          'Content-Disposition': `attachment; filename="${detail.dataCut.snapshot.trial.code}-data-cut-${detail.dataCut.seq}.pdf"`,
-          'X-Report-Sha256': hash,
-        })
+        .set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="${filename}"`, 'X-Report-Sha256': hash })
         .send(pdf);
     },
   },
@@ -146,8 +130,8 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/export.csv',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      const dataset = req.query.dataset === 'adrs' ? 'adrs' : 'patients';
-      await sendCsv(db, cutId(req), dataset, res);
+      const { filename, csv } = await cutExport(db, cutId(req), req.query.dataset === 'adrs' ? 'adrs' : 'patients');
+      sendCsv(res, filename, csv);
     },
   },
   {
@@ -155,20 +139,8 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/adrs.csv',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      await sendCsv(db, cutId(req), 'adrs', res);
+      const { filename, csv } = await cutExport(db, cutId(req), 'adrs');
+      sendCsv(res, filename, csv);
     },
   },
 ];
-
-async function sendCsv(db: Db, id: string, dataset: 'patients' | 'adrs', res: Response) {
-  const { dataCut } = await cutDetail(db, id);
-  const patients = await readCutPatients(db, id);
-  const csv = dataset === 'adrs' ? adrsCsv(dataCut, patients) : patientsCsv(dataCut, patients);
-  res
-    .status(200)
-    .set({
-      'Content-Type': 'text/csv; charset=utf-8',
-      'Content-Disposition': `attachment; filename="${csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset)}"`,
-    })
-    .send(csv);
-}

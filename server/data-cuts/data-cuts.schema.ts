@@ -3,6 +3,11 @@
  * Kept free of server-only imports: the client imports this file directly.
  */
 import { number, object, string, type InferType } from 'yup';
+import { STOP_CATEGORIES } from '../trials/trials.schema.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../words/index.js';
+
+// Kept for the client, which imports these from here; the codes live in trials.schema.ts, the words in server/words/.
+export { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORIES, STOP_CATEGORY_LABELS };
 
 export const CUT_KINDS = ['interim', 'final'] as const;
 export type CutKind = (typeof CUT_KINDS)[number];
@@ -10,33 +15,8 @@ export type CutKind = (typeof CUT_KINDS)[number];
 export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol'] as const;
 export type RecommendationDecision = (typeof RECOMMENDATION_DECISIONS)[number];
 
-/** How a recommendation reads, in the interface, the signature's meaning and the report. */
-export const RECOMMENDATION_LABELS: Record<RecommendationDecision, string> = {
-  continue: 'Continue to stage 2',
-  stop_futility: 'Stop for futility',
-  stop_other: 'Stop for another reason',
-  modify_protocol: 'Modify the protocol',
-};
-
 export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete'] as const;
 export type DecisionAction = (typeof DECISION_ACTIONS)[number];
-
-export const DECISION_LABELS: Record<DecisionAction, string> = {
-  resume_stage_2: 'Resume accrual for stage 2',
-  stop: 'Stop the cohort',
-  final_analysis: 'Go to the final analysis',
-  complete: 'Complete the cohort',
-};
-
-export const STOP_CATEGORIES = ['futility', 'efficacy', 'safety', 'sponsor', 'other'] as const;
-
-export const STOP_CATEGORY_LABELS: Record<(typeof STOP_CATEGORIES)[number], string> = {
-  futility: 'Futility',
-  efficacy: 'Efficacy or early decision',
-  safety: 'Safety',
-  sponsor: 'Sponsor decision',
-  other: 'Other',
-};
 
 export const createDataCutSchema = object({
   cohortId: string().uuid('Choose a cohort of this trial.').nullable().optional(),
@@ -90,5 +70,3 @@ export const priorSchema = object({
   version: number().integer().required('The version you edited is required.'),
 });
 export type PriorInput = InferType<typeof priorSchema>;
-
-export const EXPORT_DATASETS = ['patients', 'adrs'] as const;

@@ -3,56 +3,62 @@
  * scope, hashed), analysing it from the copy only, the committee's signed recommendations, and the
  * decision the statistician applies to the cohort afterwards, with the people who must hear of it.
  */
+import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import type { Actor, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { contentHash, recordSignature } from '../signatures/signatures.js';
-import { currentDesigns } from '../design-studio/current-design.js';
-import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { currentDesigns } from '../design-studio/index.js';
+import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
-import {
-  countMonitors,
-  decisionRecipients,
-  findDataCut,
-  findRecommendationBy,
-  findUserName,
-  insertDataCut,
-  insertDecision,
-  insertRecommendation,
-  listDataCuts,
-  listDecisions,
-  listRecommendations,
-  lockTrial,
-  nextSeq,
-  readCohorts,
-  readCutPatients,
-  readCohortStatus,
-  readLivePatients,
-  statisticianEmails,
-  releaseToSponsor,
-  updatePrior,
-  type CutPatient,
-  type CutSnapshot,
-  type DataCut,
-} from './data-cuts.repository.js';
-import {
-  DECISION_LABELS,
-  RECOMMENDATION_LABELS,
-  type CreateDataCutInput,
-  type DecisionAction,
-  type DecisionInput,
-  type PriorInput,
-  type RecommendationInput,
-} from './data-cuts.schema.js';
+import { adrsCsv, patientsCsv } from './exports.js';
+import { renderCutReport } from './report/pdf.js';
+import { listPatientsWithAssessments } from '../patients/index.js';
+import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
+import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
+import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
+import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
+import { insertDecision, listDecisions } from './decisions.repository.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
 
-export type Actor = { id: string; email: string };
+/** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
+type Author = Pick<SessionUser, 'id' | 'email'>;
+
+export { trialOfCut };
 
 /** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
 export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
   return { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+}
+
+/** A live patient in the shape the cut keeps (the hash covers exactly these fields). */
+function asCutPatient(p: Awaited<ReturnType<typeof listPatientsWithAssessments>>[number]): CutPatient {
+  return {
+    patientId: p.id,
+    studyId: p.studyId,
+    siteId: p.siteId,
+    siteCode: p.siteCode,
+    cohortId: p.cohortId,
+    cohortCode: p.cohortCode,
+    stage: p.stage,
+    enrolmentSeq: p.enrolmentSeq,
+    enrolledOn: p.enrolledOn,
+    outcome: p.outcome,
+    bestOverallResponse: p.bestOverallResponse,
+    responseAssessedOn: p.responseAssessedOn,
+    evaluable: p.evaluable,
+    notEvaluableReason: p.notEvaluableReason,
+    attested: p.attested !== null,
+    attestationSignatureId: p.attested?.signatureId ?? null,
+    derivedBestOverallResponse: p.derivedBestOverallResponse,
+    derivedResponder: p.derivedResponder,
+    outcomeFlag: p.outcomeFlag,
+    patientVersion: p.version,
+    assessments: p.assessments,
+  };
 }
 
 const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).join(', ');
@@ -63,7 +69,7 @@ const cohortLabel = (cut: DataCut) => cut.snapshot.cohorts.map((c) => c.code).jo
  */
 export type HistoricalCut = { cutAt: Date; enrolledOnOrBefore: string; cohortStatusAtCut: CohortStatus };
 
-export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Actor): Promise<DataCut> {
+export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialId: string }, actor: Author): Promise<DataCut> {
   // Repeatable read: every patient and assessment is copied as of one instant.
   return db.transaction((trx) => freezeWithin(trx, input, actor), { isolationLevel: 'repeatable read' });
 }
@@ -71,12 +77,12 @@ export async function freezeDataCut(db: Db, input: CreateDataCutInput & { trialI
 export async function freezeWithin(
   trx: Knex.Transaction,
   input: CreateDataCutInput & { trialId: string },
-  actor: Actor,
+  actor: Author,
   history?: HistoricalCut,
 ): Promise<DataCut> {
-  const trial = await lockTrial(trx, input.trialId);
+  const trial = await lockTrialHeading(trx, input.trialId);
   if (!trial) throw new NotFoundError('The trial');
-  const cohorts = await readCohorts(trx, input.trialId);
+  const cohorts = await listCohorts(trx, input.trialId);
   const scope = input.cohortId ? cohorts.filter((c) => c.id === input.cohortId) : cohorts;
   if (input.cohortId && scope.length === 0) throw new InputError('That cohort is not part of this trial.', { cohortId: 'Choose a cohort of this trial.' });
   const designs = await currentDesigns(trx, scope.map((c) => c.id));
@@ -84,7 +90,7 @@ export async function freezeWithin(
     throw new InputError('No cohort in this cut has a locked design yet: lock a design first.', { cohortId: 'This cohort has no locked design.' });
   }
   const snapshot: CutSnapshot = {
-    trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsor_name },
+    trial: { id: trial.id, code: trial.code, title: trial.title, indication: trial.indication, sponsorName: trial.sponsorName },
     cohorts: scope.map((c) => {
       const d = designs.get(c.id);
       return {
@@ -119,7 +125,7 @@ export async function freezeWithin(
       };
     }),
   };
-  const live = await readLivePatients(trx, scope.map((c) => c.id));
+  const live = (await listPatientsWithAssessments(trx, scope.map((c) => c.id))).map(asCutPatient).sort(byCohortThenSeq);
   const patients = history ? live.filter((p) => p.enrolledOn <= history.enrolledOnOrBefore) : live;
   const base = {
     trialId: input.trialId,
@@ -135,18 +141,15 @@ export async function freezeWithin(
     flagged: patients.filter((p) => p.outcomeFlag).length,
     notEvaluable: patients.filter((p) => !p.evaluable).length,
   };
-  const cut = await insertDataCut(
-    trx,
-    {
-      ...base,
-      seq: await nextSeq(trx, input.trialId),
-      designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
-      createdBy: actor.id,
-      contentHash: contentHash(cutContent(base, patients)),
-      counts,
-    },
-    patients,
-  );
+  const cut = await insertDataCut(trx, {
+    ...base,
+    seq: await nextSeq(trx, input.trialId),
+    designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
+    createdBy: actor.id,
+    contentHash: contentHash(cutContent(base, patients)),
+    counts,
+  });
+  await insertCutPatients(trx, cut.id, patients);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: input.trialId,
@@ -158,7 +161,8 @@ export async function freezeWithin(
   return cut;
 }
 
-export async function listCuts(db: Db, trialId: string) {
+export async function listCuts(db: Db, actor: Actor) {
+  const { trialId } = actor.access;
   const [cuts, monitors] = await Promise.all([listDataCuts(db, trialId), countMonitors(db, trialId)]);
   return { dataCuts: cuts.map(({ snapshot, ...cut }) => ({ ...cut, cohorts: snapshot.cohorts.map((c) => ({ id: c.id, code: c.code, name: c.name })) })), committeeSize: monitors };
 }
@@ -196,7 +200,7 @@ export async function analyseDataCut(db: Db, cutId: string, override?: Partial<P
   return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
 }
 
-export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Actor): Promise<DataCut> {
+export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Author): Promise<DataCut> {
   return db.transaction(async (trx) => {
     const before = await requireCut(trx, cutId, true);
     const updated = await updatePrior(trx, cutId, input.version, { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT });
@@ -214,18 +218,12 @@ export async function savePrior(db: Db, cutId: string, input: PriorInput, actor:
   });
 }
 
-export async function recommend(
-  db: Db,
-  cutId: string,
-  input: RecommendationInput,
-  signer: Actor,
-  authenticatedAt: () => Date,
-): Promise<{ id: string; signatureId: string }> {
+export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, signIn: SignIn): Promise<{ id: string; signatureId: string }> {
   const cut = await requireCut(db, cutId);
   if (await findRecommendationBy(db, cutId, signer.id)) {
     throw new ConflictError('You have already signed a recommendation on this data cut.');
   }
-  const authTime = authenticatedAt();
+  const authTime = requireFreshAuthentication(signIn);
   try {
     return await db.transaction((trx) => signWithin(trx, cut, input, signer, authTime));
   } catch (error) {
@@ -240,7 +238,7 @@ export async function signWithin(
   trx: Knex.Transaction,
   cut: DataCut,
   input: RecommendationInput,
-  signer: Actor,
+  signer: Author,
   authenticatedAt: Date,
   options: { notify?: boolean } = {},
 ): Promise<{ id: string; signatureId: string }> {
@@ -311,12 +309,12 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
   };
 }
 
-export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author) {
   return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
 }
 
 /** Moves the cohort as decided, records the decision, releases the figures and queues the mail, inside the caller's transaction. */
-export async function applyWithin(trx: Knex.Transaction, cutId: string, input: DecisionInput, actor: Actor, options: { notify?: boolean } = {}) {
+export async function applyWithin(trx: Knex.Transaction, cutId: string, input: DecisionInput, actor: Author, options: { notify?: boolean } = {}) {
   const cut = await requireCut(trx, cutId, true);
   const cohortIds = cut.snapshot.cohorts.map((c) => c.id);
   const cohortId = cut.cohortId ?? (cohortIds.length === 1 ? cohortIds[0] : input.cohortId);
@@ -330,7 +328,8 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   if ((await listDecisions(trx, cutId)).some((d) => d.cohortId === cohortId)) {
     throw new ConflictError('A decision on this cohort has already been applied from this data cut.');
   }
-  const current = await readCohortStatus(trx, cohortId);
+  const current = await findCohort(trx, cut.trialId, cohortId);
+  if (!current) throw new NotFoundError('The cohort');
   const to = DECISION_TARGET[input.action];
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
@@ -338,7 +337,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
     await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
   }
-  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory: stopCategory as StopCategory | null });
+  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory });
   const decisionId = await insertDecision(trx, {
     dataCutId: cutId,
     cohortId,
@@ -375,4 +374,26 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     );
   }
   return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
+}
+
+/** The cut's PDF report; its hash is kept on the cut, so a printed copy can be checked against it. */
+export async function cutReport(db: Db, cutId: string): Promise<{ pdf: Buffer; hash: string; filename: string }> {
+  const detail = await cutDetail(db, cutId);
+  const analysis = await analyseDataCut(db, detail.dataCut.id);
+  const pdf = await renderCutReport({ cut: detail.dataCut, analysis, ...detail });
+  const hash = createHash('sha256').update(pdf).digest('hex');
+  await setReportHash(db, detail.dataCut.id, hash);
+  return { pdf, hash, filename: `${detail.dataCut.snapshot.trial.code}-data-cut-${detail.dataCut.seq}.pdf` };
+}
+
+function csvName(code: string, seq: number, what: string) {
+  return `${code}-data-cut-${seq}-${what}.csv`.replace(/[^A-Za-z0-9._-]/g, '_');
+}
+
+/** One of the cut's CSV datasets, from its frozen patients. */
+export async function cutExport(db: Db, cutId: string, dataset: 'patients' | 'adrs'): Promise<{ csv: string; filename: string }> {
+  const { dataCut } = await cutDetail(db, cutId);
+  const patients = await readCutPatients(db, cutId);
+  const csv = dataset === 'adrs' ? adrsCsv(dataCut, patients) : patientsCsv(dataCut, patients);
+  return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
 }

@@ -3,7 +3,7 @@
  * dataset whose columns follow the CDISC ADaM basic data structure (one row per subject and
  * parameter). Every text cell goes through the shared formula-injection guard.
  */
-import { countsToward, effectiveOutcome } from '../evaluation/counting.js';
+import { countsToward, effectiveOutcome } from '../evaluation/index.js';
 import { toCsv, type CsvCell } from '../csv/neutralise.js';
 import type { CutPatient, DataCut } from './data-cuts.repository.js';
 

@@ -44,3 +44,13 @@ export function createDb(connectionString: string, options: { poolMax?: number; 
 export async function migrateLatest(db: Db): Promise<void> {
   await db.migrate.latest({ migrationSource });
 }
+
+/** Whether the database answers a trivial query within 1.5 s (the health route's question). */
+export async function databaseIsUp(db: Db): Promise<boolean> {
+  try {
+    await db.raw('select 1').timeout(1500, { cancel: false });
+    return true;
+  } catch {
+    return false;
+  }
+}

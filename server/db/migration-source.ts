@@ -12,10 +12,12 @@ export const migrationsDirectory = path.resolve(path.dirname(fileURLToPath(impor
 type Migration = { up: (knex: Knex) => Promise<void>; down: (knex: Knex) => Promise<void> };
 
 export const migrationSource: Knex.MigrationSource<string> = {
-  async getMigrations() {
-    return readdirSync(migrationsDirectory)
-      .filter((file) => /^\d+_[\w-]+\.ts$/.test(file))
-      .sort();
+  getMigrations() {
+    return Promise.resolve(
+      readdirSync(migrationsDirectory)
+        .filter((file) => /^\d+_[\w-]+\.ts$/.test(file))
+        .sort(),
+    );
   },
   getMigrationName(file) {
     return file;

@@ -1,49 +1,115 @@
-/** The Design studio's reads and writes: cohorts, their design versions with signatures, enrolment counts. */
+/**
+ * The design versions store: every signed version of a cohort's design, the one in force (the
+ * latest) and the signature behind each. The only module that reads or writes design_versions.
+ */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { isUuid } from '../auth/access.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
-import { assignStages, type AnalysisPopulation, type Outcome } from '../evaluation/counting.js';
-import { toLockedDesign, type DesignRow, type LockedDesign } from './current-design.js';
-import { toCohort as toTrialCohort, type Cohort, type CohortRow } from '../trials/trials.repository.js';
 
 type Conn = Db | Knex.Transaction;
 
-/** A cohort as the Design studio shows it: the trial's cohort record and the trial it belongs to. */
-export type DesignCohort = Cohort & { trialId: string };
+export type LockedDesign = {
+  id: string;
+  cohortId: string;
+  version: number;
+  selection: 'single_stage' | 'optimal' | 'minimax' | 'admissible';
+  p0: number;
+  p1: number;
+  alpha: number;
+  beta: number;
+  nmax: number | null;
+  /** Absent for a single-stage design. */
+  r1: number | null;
+  n1: number | null;
+  r: number;
+  n: number;
+  en0: number | null;
+  pet0: number | null;
+  typeIError: number;
+  power: number;
+  analysisPopulation: 'all_enrolled' | 'evaluable';
+  interimAccrual: 'pause' | 'continue_at_risk';
+  sponsorSeesResponse: boolean;
+  protocolReference: string | null;
+  amendmentReason: string | null;
+  signatureId: string | null;
+  createdBy: string | null;
+  createdAt: string;
+};
 
-const toCohort = (row: CohortRow): DesignCohort => ({ ...toTrialCohort(row), trialId: row.trial_id });
+export type DesignRow = {
+  id: string;
+  cohort_id: string;
+  version: number;
+  selection: LockedDesign['selection'];
+  p0: number;
+  p1: number;
+  alpha: number;
+  beta: number;
+  nmax: number | null;
+  r1: number | null;
+  n1: number | null;
+  r: number;
+  n: number;
+  en0: number | null;
+  pet0: number | null;
+  type_i_error: number;
+  power: number;
+  analysis_population: LockedDesign['analysisPopulation'];
+  interim_accrual: LockedDesign['interimAccrual'];
+  sponsor_sees_response: boolean;
+  protocol_reference: string | null;
+  amendment_reason: string | null;
+  signature_id: string | null;
+  created_by: string | null;
+  created_at: Date;
+};
+
+export function toLockedDesign(row: DesignRow): LockedDesign {
+  return {
+    id: row.id,
+    cohortId: row.cohort_id,
+    version: row.version,
+    selection: row.selection,
+    p0: Number(row.p0),
+    p1: Number(row.p1),
+    alpha: Number(row.alpha),
+    beta: Number(row.beta),
+    nmax: row.nmax,
+    r1: row.r1,
+    n1: row.n1,
+    r: row.r,
+    n: row.n,
+    en0: row.en0,
+    pet0: row.pet0,
+    typeIError: row.type_i_error,
+    power: row.power,
+    analysisPopulation: row.analysis_population,
+    interimAccrual: row.interim_accrual,
+    sponsorSeesResponse: row.sponsor_sees_response,
+    protocolReference: row.protocol_reference,
+    amendmentReason: row.amendment_reason,
+    signatureId: row.signature_id,
+    createdBy: row.created_by,
+    createdAt: row.created_at.toISOString(),
+  };
+}
+
+export async function currentDesigns(db: Conn, cohortIds: string[]): Promise<Map<string, LockedDesign>> {
+  if (cohortIds.length === 0) return new Map();
+  const rows: DesignRow[] = await db('design_versions')
+    .whereIn('cohort_id', cohortIds)
+    .distinctOn('cohort_id')
+    .orderBy([{ column: 'cohort_id' }, { column: 'version', order: 'desc' }]);
+  return new Map(rows.map((row) => [row.cohort_id, toLockedDesign(row)]));
+}
+
+export async function currentDesign(db: Conn, cohortId: string): Promise<LockedDesign | undefined> {
+  return (await currentDesigns(db, [cohortId])).get(cohortId);
+}
 
 export type SignedBy = Signature & { signerName: string | null };
 export type DesignVersion = LockedDesign & { signature: SignedBy | null };
-
-export async function findTrialCode(db: Conn, trialId: string): Promise<string | undefined> {
-  const row = await db('trials').where({ id: trialId }).first('code');
-  return row?.code;
-}
-
-/** The cohort of this trial; with `lock`, its row stays locked until the transaction ends. */
-export async function findCohort(db: Conn, trialId: string, cohortId: string, options: { lock?: boolean } = {}): Promise<DesignCohort | undefined> {
-  if (!isUuid(cohortId)) return undefined;
-  const query = db('cohorts').where({ id: cohortId, trial_id: trialId }).first();
-  const row: CohortRow | undefined = await (options.lock ? query.forUpdate() : query);
-  return row && toCohort(row);
-}
-
-export async function listCohorts(db: Conn, trialId: string): Promise<DesignCohort[]> {
-  const rows: CohortRow[] = await db('cohorts').where({ trial_id: trialId }).orderBy('position');
-  return rows.map(toCohort);
-}
-
-export async function countEnrolled(db: Conn, cohortIds: string[]): Promise<Map<string, number>> {
-  if (cohortIds.length === 0) return new Map();
-  const rows: Array<{ cohort_id: string; count: string }> = await db('patients')
-    .whereIn('cohort_id', cohortIds)
-    .groupBy('cohort_id')
-    .select('cohort_id')
-    .count({ count: '*' });
-  return new Map(rows.map((row) => [row.cohort_id, Number(row.count)]));
-}
 
 /** Every design version of the cohorts, newest first within each cohort, with its signature and signer. */
 export async function listDesignVersions(db: Conn, cohortIds: string[]): Promise<DesignVersion[]> {
@@ -91,20 +157,4 @@ export async function insertDesignVersion(trx: Knex.Transaction, design: NewDesi
     })
     .returning('*');
   return toLockedDesign(row);
-}
-
-/** Stage 1 is the first n1 counting patients: a design with another n1 or population moves the boundary. */
-export async function restagePatients(trx: Knex.Transaction, cohortId: string, n1: number | null, population: AnalysisPopulation): Promise<void> {
-  const rows: Array<{ id: string; enrolment_seq: number; outcome: Outcome; evaluable: boolean; stage: number }> = await trx('patients')
-    .where({ cohort_id: cohortId })
-    .select('id', 'enrolment_seq', 'outcome', 'evaluable', 'stage');
-  const stages = assignStages(
-    rows.map((row) => ({ id: row.id, enrolmentSeq: row.enrolment_seq, outcome: row.outcome, evaluable: row.evaluable })),
-    n1,
-    population,
-  );
-  for (const row of rows) {
-    const stage = stages.get(row.id);
-    if (stage && stage !== row.stage) await trx('patients').where({ id: row.id }).update({ stage });
-  }
 }

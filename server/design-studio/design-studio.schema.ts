@@ -3,6 +3,10 @@
  * imports this file directly, so it holds nothing but Yup and plain functions).
  */
 import { boolean, number, object, string, type InferType } from 'yup';
+import { COHORT_STATUSES, STOP_CATEGORIES } from '../trials/trials.schema.js';
+
+// Kept for the client, which imports it from here.
+export { COHORT_STATUSES };
 
 /** The exhaustive two-stage search grows as nmax⁴; above this it would take too long to offer. */
 export const NMAX_LIMIT = 200;
@@ -11,17 +15,6 @@ export const SELECTIONS = ['single_stage', 'optimal', 'minimax', 'admissible'] a
 export type Selection = (typeof SELECTIONS)[number];
 export const ANALYSIS_POPULATIONS = ['all_enrolled', 'evaluable'] as const;
 export const INTERIM_ACCRUAL = ['pause', 'continue_at_risk'] as const;
-export const COHORT_STATUSES = [
-  'draft',
-  'enrolling_stage_1',
-  'interim_review',
-  'enrolling_stage_2',
-  'final_analysis',
-  'completed',
-  'stopped',
-] as const;
-export const STOP_CATEGORIES = ['futility', 'efficacy', 'safety', 'sponsor', 'other'] as const;
-export type StopCategoryName = (typeof STOP_CATEGORIES)[number];
 
 const rate = (label: string) =>
   number()

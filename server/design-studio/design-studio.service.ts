@@ -10,26 +10,29 @@ import { randomUUID } from 'node:crypto';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
-import { hasRole, type TrialAccess } from '../auth/access.js';
-import { recordSignature } from '../signatures/signatures.js';
+import { hasRole, isUuid, type Actor } from '../auth/access.js';
+import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import type { OperatingPoint } from '../stats/index.js';
-import { transitionCohort, type StopCategory } from '../trials/cohort-status.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { currentDesign, currentDesigns, type LockedDesign } from './current-design.js';
-import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type Selection, type SignatureKind } from './design-studio.schema.js';
+import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, transitionCohort, trialCode, type Cohort, type CohortStatus, type StopCategory } from '../trials/index.js';
+import { countEnrolledByCohort, restageCohort } from '../patients/index.js';
+import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type SignatureKind } from './design-studio.schema.js';
 import { curveFor, responseGrid } from './candidates.js';
 import { runChosenDesign } from './candidates-pool.js';
-import {
-  countEnrolled,
-  findCohort,
-  findTrialCode,
-  insertDesignVersion,
-  listCohorts,
-  listDesignVersions,
-  restagePatients,
-  type DesignCohort,
-  type DesignVersion,
-} from './design-studio.repository.js';
+import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './design-studio.repository.js';
+
+/** A cohort as the Design studio shows it: the trial's cohort record and the trial it belongs to. */
+export type DesignCohort = Cohort & { trialId: string };
+
+/** The cohort of this trial (undefined for an id that is not one); with `lock`, its row stays locked until the transaction ends. */
+async function findCohort(db: Db, trialId: string, cohortId: string, options: { lock?: boolean } = {}): Promise<DesignCohort | undefined> {
+  if (!isUuid(cohortId)) return undefined;
+  const cohort = await findTrialCohort(db, trialId, cohortId, options);
+  return cohort && { ...cohort, trialId };
+}
+
+async function listCohorts(db: Db, trialId: string): Promise<DesignCohort[]> {
+  return (await listTrialCohorts(db, trialId)).map((cohort) => ({ ...cohort, trialId }));
+}
 
 export type CohortDesigns = DesignCohort & {
   enrolled: number;
@@ -38,10 +41,10 @@ export type CohortDesigns = DesignCohort & {
   currentCurve: OperatingPoint[] | null;
 };
 
-export async function listTrialDesigns(db: Db, trialId: string): Promise<CohortDesigns[]> {
-  const cohorts = await listCohorts(db, trialId);
+export async function listTrialDesigns(db: Db, actor: Actor): Promise<CohortDesigns[]> {
+  const cohorts = await listCohorts(db, actor.access.trialId);
   const ids = cohorts.map((c) => c.id);
-  const [versions, enrolled] = await Promise.all([listDesignVersions(db, ids), countEnrolled(db, ids)]);
+  const [versions, enrolled] = await Promise.all([listDesignVersions(db, ids), countEnrolledByCohort(db, ids)]);
   return cohorts.map((cohort) => {
     const mine = versions.filter((v) => v.cohortId === cohort.id);
     const current = mine[0];
@@ -58,24 +61,24 @@ const summary = (d: LockedDesign | undefined) =>
   d && { version: d.version, selection: d.selection, p0: d.p0, p1: d.p1, alpha: d.alpha, beta: d.beta, r1: d.r1, n1: d.n1, r: d.r, n: d.n };
 
 export type SignDesignInput = {
-  trialId: string;
   cohortId: string;
-  signer: { id: string; email: string };
   /** 'lock': version 1, or a new version before the first enrolment; 'amendment': after it. */
   route: 'lock' | 'amendment';
   body: DesignLockInput;
-  /** The time of a fresh sign-in; throws (and so writes nothing) when the sign-in is too old. */
-  authenticate: () => Date;
+  /** The sign-in behind the signature; too old, and nothing is written (checked once the request is otherwise acceptable). */
+  signIn: SignIn;
 };
 
 /** Signs a new design version for a cohort: version 1, a revision before enrolment, or an amendment. */
-export async function signDesign(db: Db, input: SignDesignInput): Promise<DesignVersion> {
+export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): Promise<DesignVersion> {
   const { body } = input;
+  const trialId = actor.access.trialId;
+  const signer = { id: actor.user.id, email: actor.user.email };
   const settings = { p0: body.p0, p1: body.p1, alpha: body.alpha, beta: body.beta, nmax: body.nmax };
-  const numbers = await runChosenDesign(settings, body.selection as Selection, body.admissibleIndex ?? null);
+  const numbers = await runChosenDesign(settings, body.selection, body.admissibleIndex ?? null);
   const reason = body.reason?.trim() || null;
   return db.transaction(async (trx) => {
-    const cohort = await findCohort(trx, input.trialId, input.cohortId, { lock: true });
+    const cohort = await findCohort(trx, trialId, input.cohortId, { lock: true });
     if (!cohort) throw new NotFoundError('The cohort');
     if (cohort.status === 'stopped' || cohort.status === 'completed') {
       throw new ConflictError(`Cohort ${cohort.code} is ${cohort.status === 'stopped' ? 'stopped' : 'completed'}: its design can no longer change.`);
@@ -89,7 +92,7 @@ export async function signDesign(db: Db, input: SignDesignInput): Promise<Design
         { current: current ?? null },
       );
     }
-    const enrolled = (await countEnrolled(trx, [cohort.id])).get(cohort.id) ?? 0;
+    const enrolled = (await countEnrolledByCohort(trx, [cohort.id])).get(cohort.id) ?? 0;
     let kind: SignatureKind;
     if (input.route === 'lock') {
       if (enrolled > 0) {
@@ -111,42 +114,42 @@ export async function signDesign(db: Db, input: SignDesignInput): Promise<Design
       }
       kind = 'amendment';
     }
-    const authenticatedAt = input.authenticate();
-    const trialCode = (await findTrialCode(trx, input.trialId)) ?? '';
+    const authenticatedAt = requireFreshAuthentication(input.signIn);
+    const code = (await trialCode(trx, trialId)) ?? '';
     const version = (current?.version ?? 0) + 1;
     const designId = randomUUID();
     const protocolReference = body.protocolReference.trim();
-    const meaning = signatureMeaning({ kind, version, protocolReference, trialCode, cohortCode: cohort.code });
+    const meaning = signatureMeaning({ kind, version, protocolReference, trialCode: code, cohortCode: cohort.code });
     const design = {
       id: designId,
       cohortId: cohort.id,
       version,
-      selection: body.selection as Selection,
+      selection: body.selection,
       ...settings,
       ...numbers,
-      analysisPopulation: body.analysisPopulation as LockedDesign['analysisPopulation'],
-      interimAccrual: body.interimAccrual as LockedDesign['interimAccrual'],
+      analysisPopulation: body.analysisPopulation,
+      interimAccrual: body.interimAccrual,
       sponsorSeesResponse: body.sponsorSeesResponse,
       protocolReference,
       amendmentReason: version === 1 ? null : reason,
-      createdBy: input.signer.id,
+      createdBy: signer.id,
     };
     const signature = await recordSignature(trx, {
-      trialId: input.trialId,
-      signer: input.signer,
+      trialId,
+      signer,
       meaning,
       subjectType: kind === 'amendment' ? 'amendment' : 'design',
       subjectId: designId,
-      content: { trialId: input.trialId, trialCode, cohortCode: cohort.code, meaning, ...design },
+      content: { trialId, trialCode: code, cohortCode: cohort.code, meaning, ...design },
       authenticatedAt,
     });
     const saved = await insertDesignVersion(trx, { ...design, signatureId: signature.id });
     if (current && (current.n1 !== saved.n1 || current.analysisPopulation !== saved.analysisPopulation)) {
-      await restagePatients(trx, cohort.id, saved.n1, saved.analysisPopulation);
+      await restageCohort(trx, cohort.id, saved.n1, saved.analysisPopulation);
     }
     await writeAudit(trx, {
-      actorUserId: input.signer.id,
-      trialId: input.trialId,
+      actorUserId: signer.id,
+      trialId,
       entityType: 'design',
       entityId: designId,
       action: kind === 'lock' ? 'design_locked' : kind === 'revision' ? 'design_revised' : 'design_amended',
@@ -171,22 +174,19 @@ const ELSEWHERE: Partial<Record<CohortStatus, string>> = {
 /** Stopping for futility or efficacy rests on the statistician's analysis; the trial manager records the rest. */
 const ADMIN_STOP_CATEGORIES: StopCategory[] = ['safety', 'sponsor', 'other'];
 
-export async function moveCohort(
-  db: Db,
-  input: { trialId: string; cohortId: string; access: TrialAccess; actorUserId: string; body: CohortTransitionInput },
-): Promise<DesignCohort> {
-  const to = input.body.to as CohortStatus;
+export async function moveCohort(db: Db, { user, access }: Actor, cohortId: string, body: CohortTransitionInput): Promise<DesignCohort> {
+  const to = body.to;
   const elsewhere = ELSEWHERE[to];
   if (elsewhere) throw new ConflictError(elsewhere);
-  const category = (input.body.stopCategory ?? null) as StopCategory | null;
-  if (to === 'enrolling_stage_1' && !hasRole(input.access, 'statistician')) {
+  const category = body.stopCategory ?? null;
+  if (to === 'enrolling_stage_1' && !hasRole(access, 'statistician')) {
     throw new ForbiddenError('Only the trial statistician opens accrual.');
   }
-  if (to === 'stopped' && !hasRole(input.access, 'statistician') && !(category && ADMIN_STOP_CATEGORIES.includes(category))) {
+  if (to === 'stopped' && !hasRole(access, 'statistician') && !(category && ADMIN_STOP_CATEGORIES.includes(category))) {
     throw new ForbiddenError('Stopping for futility or efficacy follows the statistician’s analysis: the statistician records it.');
   }
-  return db.transaction(async (trx) => {
-    const cohort = await findCohort(trx, input.trialId, input.cohortId, { lock: true });
+  return db.transaction(async (trx): Promise<DesignCohort> => {
+    const cohort = await findCohort(trx, access.trialId, cohortId, { lock: true });
     if (!cohort) throw new NotFoundError('The cohort');
     if (to === 'enrolling_stage_1' && cohort.status === 'draft' && !(await currentDesigns(trx, [cohort.id])).has(cohort.id)) {
       throw new ConflictError(`Cohort ${cohort.code} has no locked design: lock and sign a design before opening accrual.`);
@@ -194,11 +194,11 @@ export async function moveCohort(
     await transitionCohort(trx, {
       cohortId: cohort.id,
       to,
-      actorUserId: input.actorUserId,
-      reason: input.body.reason?.trim() || null,
+      actorUserId: user.id,
+      reason: body.reason?.trim() || null,
       stopCategory: to === 'stopped' ? category : null,
-      from: input.body.from as CohortStatus | undefined,
+      from: body.from,
     });
-    return (await findCohort(trx, input.trialId, cohort.id)) as DesignCohort;
+    return (await findCohort(trx, access.trialId, cohort.id)) as DesignCohort;
   });
 }

@@ -66,3 +66,25 @@ export function tally(patients: CountablePatient[], n1: number | null, populatio
   }
   return { ...total, enrolled: patients.length, notEvaluable, stage1: byStage[1], stage2: byStage[2] };
 }
+
+/** A point of the responders path: after the k-th counting patient with a decided outcome, the responders so far. */
+export type PathPoint = { evaluable: number; responders: number };
+
+/**
+ * Responders against patients with a decided outcome, counting patients in enrolment order: the
+ * path the charts draw against the stopping boundaries. The live evaluation computes the same path
+ * in SQL (evaluation.repository.ts, thinned for the chart); a data cut computes it here from its
+ * frozen patients.
+ */
+export function responderPath(patients: CountablePatient[], population: AnalysisPopulation): PathPoint[] {
+  const path: PathPoint[] = [];
+  let responders = 0;
+  for (const patient of [...patients].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq)) {
+    if (!countsToward(patient, population)) continue;
+    const outcome = effectiveOutcome(patient, population);
+    if (outcome === 'pending') continue;
+    if (outcome === 'responder') responders += 1;
+    path.push({ evaluable: path.length + 1, responders });
+  }
+  return path;
+}

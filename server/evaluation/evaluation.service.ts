@@ -9,17 +9,11 @@ import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
 import type { Role } from '../auth/access.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
-import { countingGroups, responderPaths, trialFacts, type CountingGroup, type CountingRule } from '../patients/patients.repository.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import { trialFacts } from '../trials/index.js';
+import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
+import { CAUTIONS } from '../words/index.js';
 import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
-
-/** The cautions of the product brief, shown wherever a result is shown. */
-export const CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-  'A deviation from the planned n1 or n changes the operating characteristics.',
-];
 
 export const CONF_LEVEL = 0.95;
 
@@ -224,5 +218,5 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
       path,
     };
   });
-  return { trialId, confLevel: CONF_LEVEL, cautions: CAUTIONS, cohorts };
+  return { trialId, confLevel: CONF_LEVEL, cautions: [...CAUTIONS], cohorts };
 }

@@ -1,7 +1,9 @@
 /**
- * The route-permission table. Every route of the server is declared here as data — method, path,
- * who may call it, handler — and mounted by `mountRoutes`. The same declarations drive the
- * authorisation middleware and the permission-matrix test, so they cannot drift apart.
+ * The route-permission table. Every route of the server is declared as data — method, path, who
+ * may call it, handler — in its feature's *.routes.ts, listed by the composition root (app.ts) and
+ * mounted by `mountRoutes`. The same declarations drive the authorisation middleware and the
+ * permission-matrix test, so they cannot drift apart. Handlers hand services an `Actor`
+ * (`actorOf`), never the request.
  *
  * Access kinds:
  * - public: anyone, signed in or not;
@@ -15,8 +17,10 @@
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
+import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
 import { isUuid, type Actor, type Role, type SessionUser, type TrialAccess } from '../auth/access.js';
+import type { SignIn } from '../signatures/signatures.js';
 
 export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string | undefined>;
 
@@ -26,7 +30,14 @@ export type Access =
   | { kind: 'role-anywhere'; roles: readonly Role[] }
   | { kind: 'trial'; roles: readonly Role[]; trialOf?: TrialOf };
 
-export type Deps = { db: Db; config: Config };
+/** What every handler gets from the composition root (server/app.ts). */
+export type Deps = {
+  db: Db;
+  config: Config;
+  hooks: Hooks;
+  /** Sends mail a committed transaction queued now, rather than at the worker's next poll. */
+  mail: { kick: () => void };
+};
 export type Handler = (req: Request, res: Response, deps: Deps) => Promise<void> | void;
 
 export type RouteSpec = {
@@ -60,6 +71,12 @@ export function requireUser(req: Request): SessionUser {
 /** The actor of a trial route: the signed-in user with their access to the route's trial. */
 export function actorOf(req: Request): Actor {
   return { user: requireUser(req), access: requireTrialAccess(req) };
+}
+
+/** The session's last sign-in at the identity provider, for a service that records a signature. */
+export function signInOf(req: Request, config: Config): SignIn {
+  requireUser(req);
+  return { authTime: req.session.authTime, maxAgeSeconds: config.signatureFreshnessSeconds };
 }
 
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {

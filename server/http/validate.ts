@@ -14,10 +14,15 @@ export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, bo
   const input = body && typeof body === 'object' && !Array.isArray(body) ? body : {};
   if (hasPollutionKey(input)) throw new InputError('The request carries a reserved field name (__proto__, constructor or prototype).');
   try {
-    return (await schema.validate(input, { abortEarly: false, stripUnknown: true })) as InferType<S>;
+    return (await schema.validate(input, { abortEarly: false, stripUnknown: true }));
   } catch (error) {
     // Yup's casting calls methods of the value (trim, toString): an object where text belongs throws a TypeError.
     if (error instanceof TypeError) throw new InputError('A value has the wrong type (an object or list where a single value belongs).');
     throw error;
   }
+}
+
+/** Validates a query string against its schema; unknown parameters are dropped, failures become 400. */
+export async function parseQuery<S extends ObjectSchema<AnyObject>>(schema: S, query: unknown): Promise<InferType<S>> {
+  return (await schema.validate(query ?? {}, { abortEarly: false, stripUnknown: true }));
 }

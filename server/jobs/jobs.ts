@@ -6,7 +6,6 @@ import type { Logger } from 'pino';
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
 import type { MailWorker } from '../mail/outbox.js';
-import { scheduledJobs } from './job-list.js';
 
 export type ScheduledJob = {
   name: string;
@@ -21,21 +20,15 @@ export type ScheduledJob = {
 
 export type Jobs = { runDue: (now?: Date) => Promise<string[]>; stop: () => Promise<void> };
 
-/** Claims and runs every registered job whose current period has not run yet; returns the names run. */
-export async function runDueJobs(
-  db: Db,
-  config: Config,
-  logger: Logger,
-  now = new Date(),
-  jobs: ScheduledJob[] = scheduledJobs,
-): Promise<string[]> {
+/** Claims and runs every given job whose current period has not run yet; returns the names run. */
+export async function runDueJobs(db: Db, config: Config, logger: Logger, now: Date, jobs: ScheduledJob[]): Promise<string[]> {
   const ran: string[] = [];
   for (const job of jobs) {
     const period = job.periodOf(now);
     const claimed = await db.transaction(async (trx) => {
       const inserted = await trx('job_runs').insert({ job: job.name, period }).onConflict(['job', 'period']).ignore().returning('job');
       if (inserted.length === 0) return false;
-      await job.run(trx as unknown as Db, { period, now, config, logger, reader: db });
+      await job.run(trx, { period, now, config, logger, reader: db });
       await trx('job_runs').where({ job: job.name, period }).update({ finished_at: trx.fn.now() });
       return true;
     });
@@ -44,10 +37,11 @@ export async function runDueJobs(
   return ran;
 }
 
-export function startJobs(db: Db, config: Config, logger: Logger, mail: MailWorker): Jobs {
+/** Offers the jobs the composition root lists every minute (and once shortly after start). */
+export function startJobs(db: Db, config: Config, logger: Logger, mail: MailWorker, jobs: ScheduledJob[]): Jobs {
   let running: Promise<unknown> | undefined;
-  const runDue = async (now?: Date) => {
-    const ran = await runDueJobs(db, config, logger, now);
+  const runDue = async (now = new Date()) => {
+    const ran = await runDueJobs(db, config, logger, now, jobs);
     if (ran.length > 0) mail.kick();
     return ran;
   };

@@ -1,108 +1,23 @@
 /**
- * The weekly digest to sponsors: once per ISO week, one e-mail per sponsor summarising accrual of
- * the trials they sponsor — aggregate counts, the next milestone, projections and idle sites;
- * response figures only where the protocol or a released data cut lets a sponsor see them, even
- * when the recipient holds other roles too (mail travels further than a screen). Queued in the
- * job's transaction with a de-duplication key per (period, sponsor), then sent by the mail worker.
+ * The weekly sponsor digest as a scheduled job: once per ISO week, every sponsor's digest
+ * (server/portfolio/digest.service.ts) is queued in the job's transaction with a de-duplication key
+ * per (period, sponsor), then sent by the mail worker.
  */
-import type { Db } from '../db/knex.js';
-import { enqueueMail, type QueuedMail } from '../mail/outbox.js';
-import { listTrialsForUser, type TrialForUser } from '../trials/trials.repository.js';
-import { isoWeekOf, toDay } from '../accrual/calendar.js';
-import { trialAccrual, type TrialAccrual } from '../accrual/accrual.service.js';
-import { portfolioRows, type PortfolioRow } from '../portfolio/portfolio.service.js';
-import { sponsorRecipients } from '../portfolio/portfolio.repository.js';
-import { plural } from '../portfolio/words.js';
+import { enqueueMail } from '../mail/outbox.js';
+import { isoWeekOf, toDay } from '../accrual/index.js';
+import { weeklyDigests } from '../portfolio/index.js';
 import type { ScheduledJob } from './jobs.js';
 
 export const DIGEST_JOB = 'weekly-digest';
-
-const CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-];
-
-export type Digest = { period: string; to: string; subject: string; text: string };
-
-function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {
-  const target = row.design
-    ? [row.design.n1 !== null ? `n1 = ${row.design.n1}` : null, `n = ${row.design.n}`].filter(Boolean).join(', ')
-    : 'no design locked';
-  const lines = [
-    `  ${row.cohortCount > 1 ? `Cohort ${row.cohortCode} (${row.cohortName})` : 'Status'}: ${row.statusWords}${row.design ? `, ${row.design.n1 === null ? 'single-stage' : 'two-stage'} design` : ''}`,
-    `    Enrolled ${row.enrolled} (${row.enrolledLastWeek} in the last 7 days), ${row.counted} counting toward ${target}; ${plural(row.pendingOutcomes, 'outcome')} pending`,
-    `    Next: ${row.nextMilestone.text}`,
-  ];
-  const cohort = accrual.cohorts.find((c) => c.cohortId === row.cohortId);
-  for (const projection of cohort?.projections.targets ?? []) {
-    const label = `${projection.target} = ${projection.size}`;
-    if (projection.reached) lines.push(`    ${label}: reached`);
-    else {
-      const range = projection.earliest ? ` (range ${projection.earliest} to ${projection.latest ?? 'no latest date'})` : '';
-      lines.push(`    ${label}: ${projection.expected ? `expected ${projection.expected}${range}` : 'cannot project'} — ${projection.note}`);
-    }
-  }
-  if (row.responseFiguresHidden) lines.push(`    Response figures: not shown. ${row.responseFiguresHiddenReason}`);
-  else {
-    const rate = row.responseRate === null || row.responseRate === undefined ? '—' : `${(row.responseRate * 100).toFixed(1)}%`;
-    lines.push(`    Response: ${plural(row.responders ?? 0, 'responder')} among ${plural(row.outcomesKnown ?? 0, 'known outcome')} (${rate}, naive estimate)`);
-  }
-  if (row.lastRecommendation) lines.push(`    Last committee recommendation: ${row.lastRecommendation.words} (${row.lastRecommendation.on})`);
-  return lines;
-}
-
-function trialLines(trial: TrialForUser, rows: PortfolioRow[], accrual: TrialAccrual): string[] {
-  const totals = accrual.totals;
-  return [
-    `${trial.code} — ${trial.title} (${trial.indication})`,
-    `  Enrolled ${totals.enrolled} across ${plural(accrual.sites.filter((s) => s.enrolled > 0).length, 'site')}; last enrolment ${totals.lastEnrolledOn ?? 'none yet'}`,
-    ...rows.flatMap((row) => cohortLines(row, accrual)),
-    ...accrual.warnings.map((w) => `  Warning: ${w.text}`),
-    '',
-  ];
-}
-
-type TrialCache = Map<string, Promise<TrialAccrual>>;
-
-async function composeDigest(db: Db, recipient: { userId: string; email: string; name: string | null; trialIds: string[] }, now: Date, cache: TrialCache): Promise<Digest | null> {
-  const today = toDay(now);
-  const period = isoWeekOf(today);
-  const trials = (await listTrialsForUser(db, recipient.userId)).filter((t) => recipient.trialIds.includes(t.id));
-  if (trials.length === 0) return null;
-  const rows = await portfolioRows(db, trials, { today, sponsorViewAlways: true });
-  const sections: string[] = [];
-  for (const trial of trials) {
-    if (!cache.has(trial.id)) cache.set(trial.id, trialAccrual(db, trial.id, { today, sites: 'all' }));
-    sections.push(...trialLines(trial, rows.filter((r) => r.trialId === trial.id), await (cache.get(trial.id) as Promise<TrialAccrual>)));
-  }
-  const text = [
-    `Orrery weekly digest, week ${period} (figures as of ${today})`,
-    `For ${recipient.name ?? recipient.email}: accrual of the ${plural(trials.length, 'trial')} you sponsor. Aggregate counts only; response figures appear only where the protocol or a released data cut allows it. Projections use the last 90 days' accrual; the range comes from the slowest and fastest of the last complete months.`,
-    '',
-    ...sections,
-    'Read with care:',
-    ...CAUTIONS.map((c) => `- ${c}`),
-  ].join('\n');
-  return { period, to: recipient.email, subject: `Orrery weekly digest ${period}: ${plural(trials.length, 'trial')}`, text };
-}
-
-/** The digest one user would receive this week, or null when they sponsor no trial. */
-export async function digestFor(db: Db, userId: string, now: Date): Promise<Digest | null> {
-  const recipient = (await sponsorRecipients(db)).find((r) => r.userId === userId);
-  return recipient ? composeDigest(db, recipient, now, new Map()) : null;
-}
 
 export const weeklyDigestJob: ScheduledJob = {
   name: DIGEST_JOB,
   periodOf: (now) => isoWeekOf(toDay(now)),
   run: async (trx, { period, now, reader }) => {
-    const cache: TrialCache = new Map();
-    const mails: QueuedMail[] = [];
-    for (const recipient of await sponsorRecipients(reader)) {
-      const digest = await composeDigest(reader, recipient, now, cache);
-      if (digest) mails.push({ kind: DIGEST_JOB, to: digest.to, subject: digest.subject, text: digest.text, dedupeKey: `${DIGEST_JOB}:${period}:${recipient.userId}` });
-    }
-    await enqueueMail(trx, mails);
+    const digests = await weeklyDigests(reader, now);
+    await enqueueMail(
+      trx,
+      digests.map(({ userId, digest }) => ({ kind: DIGEST_JOB, to: digest.to, subject: digest.subject, text: digest.text, dedupeKey: `${DIGEST_JOB}:${period}:${userId}` })),
+    );
   },
 };

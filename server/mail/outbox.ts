@@ -5,7 +5,6 @@
  */
 import nodemailer from 'nodemailer';
 import type { Knex } from 'knex';
-import type { Request } from 'express';
 import type { Logger } from 'pino';
 import type { Db } from '../db/knex.js';
 import type { Config } from '../config.js';
@@ -29,6 +28,17 @@ export async function enqueueMail(trx: Knex | Knex.Transaction, mail: QueuedMail
   }));
   if (rows.length === 0) return;
   await trx('mail_outbox').insert(rows).onConflict('dedupe_key').ignore();
+}
+
+export type UnsentMail = { id: number; kind: string; to: string; subject: string; attempts: number; lastError: string | null; nextAttemptAt: Date };
+
+/** The latest mail not sent yet (queued or being retried), newest first. */
+export async function listUnsent(db: Db, limit = 100): Promise<UnsentMail[]> {
+  return db('mail_outbox')
+    .whereNot({ status: 'sent' })
+    .orderBy('id', 'desc')
+    .limit(limit)
+    .select('id', 'kind', 'to_address as to', 'subject', 'attempts', 'last_error as lastError', 'next_attempt_at as nextAttemptAt');
 }
 
 const CLAIM_SECONDS = 60;
@@ -109,9 +119,4 @@ export function startMailWorker(db: Db, config: Config, logger: Logger): MailWor
       transport.close();
     },
   };
-}
-
-/** After a commit that queued mail: send it now rather than at the worker's next poll. */
-export function kickMail(req: Request): void {
-  (req.app.locals.mail as MailWorker | undefined)?.kick();
 }

@@ -8,24 +8,15 @@
 import type { Knex } from 'knex';
 import { ConflictError } from '../http/errors.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { currentDesign, type LockedDesign } from '../design-studio/current-design.js';
-import { assignStages, tally } from '../evaluation/counting.js';
-import { transitionCohort } from '../trials/cohort-status.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { countablePatients, countCounting, currentStages, memberEmails, setStage, type TrialCohort } from './patients.repository.js';
-
-const STATUS_WORDS: Record<CohortStatus, string> = {
-  draft: 'in draft (its design is not locked yet)',
-  enrolling_stage_1: 'enrolling stage 1',
-  interim_review: 'in interim review',
-  enrolling_stage_2: 'enrolling stage 2',
-  final_analysis: 'in its final analysis',
-  completed: 'completed',
-  stopped: 'stopped',
-};
+import { currentDesign, type LockedDesign } from '../design-studio/index.js';
+import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
+import { findCohort, transitionCohort, type Cohort } from '../trials/index.js';
+import { memberEmails } from '../people/index.js';
+import { POPULATION_IN_A_SENTENCE, STATUS_IN_A_SENTENCE } from '../words/index.js';
+import { countablePatients, currentStages, setStage } from './patients.repository.js';
 
 /** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
-export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign | undefined): LockedDesign {
+export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status'>, design: LockedDesign | undefined): LockedDesign {
   if (!design) throw new ConflictError(`Cohort ${cohort.code} has no locked design yet, so it cannot enrol patients.`, { cohortStatus: cohort.status });
   if (cohort.status === 'enrolling_stage_1' || cohort.status === 'enrolling_stage_2') return design;
   if (cohort.status === 'interim_review') {
@@ -35,10 +26,24 @@ export function assertCohortEnrolling(cohort: TrialCohort, design: LockedDesign 
       { cohortStatus: cohort.status },
     );
   }
-  throw new ConflictError(`Cohort ${cohort.code} is ${STATUS_WORDS[cohort.status]} and does not enrol patients.`, { cohortStatus: cohort.status });
+  throw new ConflictError(`Cohort ${cohort.code} is ${STATUS_IN_A_SENTENCE[cohort.status]} and does not enrol patients.`, { cohortStatus: cohort.status });
 }
 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
+
+/**
+ * Re-derives the stage of every patient of the cohort (the first n1 counting patients are stage 1)
+ * and stores the ones that moved, in two statements. Called when an evaluability change or a new
+ * design version (another n1 or analysis population) can move the boundary.
+ */
+export async function restageCohort(trx: Knex.Transaction, cohortId: string, n1: number | null, population: AnalysisPopulation): Promise<void> {
+  const patients = (await countablePatients(trx, [cohortId])).get(cohortId) ?? [];
+  const stages = assignStages(patients, n1, population);
+  const stored = await currentStages(trx, cohortId);
+  const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
+  await setStage(trx, moved(1), 1);
+  await setStage(trx, moved(2), 2);
+}
 
 /**
  * Applies the accrual rules after an enrolment or an outcome change, inside the caller's
@@ -53,19 +58,12 @@ export async function applyAccrualRules(
   const design = await currentDesign(trx, input.cohortId);
   const n1 = design?.n1 ?? null;
   const population = design?.analysisPopulation ?? 'all_enrolled';
-  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) {
-    const patients = (await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [];
-    const stages = assignStages(patients, n1, population);
-    const stored = await currentStages(trx, input.cohortId);
-    const moved = (stage: 1 | 2) => [...stages].filter(([id, s]) => s === stage && stored.get(id) !== s).map(([id]) => id);
-    await setStage(trx, moved(1), 1);
-    await setStage(trx, moved(2), 2);
-  }
+  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) await restageCohort(trx, input.cohortId, n1, population);
 
   const none = { paused: false, continuesAtRisk: false };
   if (!design || n1 === null || design.r1 === null) return none;
-  const cohort = await trx('cohorts').where({ id: input.cohortId }).first('code', 'status');
-  if (cohort.status !== 'enrolling_stage_1') return none;
+  const cohort = await findCohort(trx, input.trialId, input.cohortId);
+  if (cohort?.status !== 'enrolling_stage_1') return none;
   if ((await countCounting(trx, input.cohortId, population)) < n1) return none;
   const counts = tally((await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [], n1, population);
 
@@ -74,7 +72,7 @@ export async function applyAccrualRules(
     from: 'enrolling_stage_1',
     to: 'interim_review',
     actorUserId: input.actorUserId,
-    reason: `Stage 1 complete: ${n1} patients counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+    reason: `Stage 1 complete: ${n1} patients counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
   });
   const atRisk = design.interimAccrual === 'continue_at_risk';
   const recipients = await memberEmails(trx, input.trialId, ['statistician', 'monitor']);
@@ -89,7 +87,7 @@ export async function applyAccrualRules(
       to,
       subject: `${label}: stage 1 complete — interim review`,
       text: [
-        `Stage 1 of ${label} is complete: ${n1} patients are counted (${population === 'all_enrolled' ? 'all enrolled' : 'evaluable'} population).`,
+        `Stage 1 of ${label} is complete: ${n1} patients are counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
         `So far ${counts.stage1.responders} responders among ${counts.stage1.decided} patients with an outcome; ${counts.stage1.pending} outcomes are pending.`,
         `The stage-1 rule of the locked design (version ${design.version}): stop for futility with ${design.r1} or fewer responders among ${n1}.`,
         accrualLine,

@@ -1,16 +1,16 @@
 /**
  * CSV import of patients and outcomes from a site's own spreadsheet. The upload is checked (size,
- * type, text encoding, exact columns, row count), then every row is applied inside one
- * transaction through the same service functions as the forms, each row in its own savepoint so
- * that a bad row is reported without hiding the others. A dry run, or a commit with any bad row,
- * rolls the whole transaction back: the dry run shows exactly what the commit would do, and a
- * commit is all-or-nothing. Text cells that start like a spreadsheet formula are stored with a
- * leading quote; cells of fixed-format columns that do are refused.
+ * type, text encoding, exact columns, row count), then every row is applied through the same
+ * service functions as the forms, inside the shared import skeleton (server/csv/import.ts: one
+ * transaction, a savepoint per row, all-or-nothing, a dry run rolled back). Text cells that start
+ * like a spreadsheet formula are stored with a leading quote; cells of fixed-format columns that do
+ * are refused.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { ValidationError } from 'yup';
 import { AppError, InputError } from '../http/errors.js';
+import { RowError, runImport, type ImportCounts } from '../csv/import.js';
 import { neutralise, startsLikeFormula, toCsv } from '../csv/neutralise.js';
 import { readUploadedCsv, type UploadedFile } from '../csv/upload.js';
 import {
@@ -24,8 +24,11 @@ import {
   STUDY_ID_PATTERN,
   type Outcome,
 } from './patients.schema.js';
-import { findPatientByStudyId, trialFacts, type Patient, type TrialFacts } from './patients.repository.js';
-import { enrolPatient, recordOutcome, type Actor } from './patients.service.js';
+import { siteScope, writableSites, type Actor } from '../auth/access.js';
+import type { Hooks } from '../hooks.js';
+import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
+import { findPatientByStudyId, listPatients, type Patient } from './patients.repository.js';
+import { enrolPatient, recordOutcome } from './patients.service.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -37,7 +40,7 @@ export type RowResult = {
   correction?: boolean;
   attestationCleared?: boolean;
 };
-export type ImportCounts = { total: number; new: number; update: number; unchanged: number; error: number };
+export type { ImportCounts };
 export type ImportReport = { dryRun: boolean; committed: boolean; counts: ImportCounts; rows: RowResult[]; pausedCohorts: string[] };
 
 const TEXT_COLUMNS: ImportColumn[] = ['not_evaluable_reason', 'correction_reason'];
@@ -76,14 +79,8 @@ const OUTCOME_WORDS: Record<string, Outcome> = {
 const YES = new Set(['', 'yes', 'y', 'true', '1']);
 const NO = new Set(['no', 'n', 'false', '0']);
 
-class RowError extends Error {
-  constructor(readonly errors: RowResult['errors']) {
-    super('row error');
-  }
-}
-
 function errorsOf(error: unknown): RowResult['errors'] {
-  if (error instanceof RowError) return error.errors;
+  if (error instanceof RowError) return error.errors as RowResult['errors'];
   if (error instanceof ValidationError) {
     return (error.inner.length ? error.inner : [error]).map((e) => ({ column: FIELD_COLUMN[e.path ?? ''] ?? 'row', reason: e.message }));
   }
@@ -111,7 +108,7 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
   else if (row.enrolled_on > latestToday()) errors.push({ column: 'enrolled_on', reason: 'The enrolment date cannot be in the future.' });
   const site = facts.sites.find((s) => s.code === row.site_code.toUpperCase());
   if (!row.site_code) errors.push({ column: 'site_code', reason: 'The site code is required.' });
-  else if (!site || !actor.writeSiteIds.includes(site.id)) errors.push({ column: 'site_code', reason: `${row.site_code} is not one of your sites on this trial; import only your own sites' patients.` });
+  else if (!site || !writableSites(actor.access).includes(site.id)) errors.push({ column: 'site_code', reason: `${row.site_code} is not one of your sites on this trial; import only your own sites' patients.` });
   let cohortId: string | null = null;
   if (row.cohort_code) {
     const cohort = facts.cohorts.find((c) => c.code.toUpperCase() === row.cohort_code.toUpperCase());
@@ -138,13 +135,14 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
   return { studyId, siteId: (site as { id: string }).id, cohortId, fields };
 }
 
-async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
+async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
   const { studyId, siteId, cohortId, fields } = await readRow(row, facts, actor);
-  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.trialId, studyId, { forUpdate: true });
+  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.access.trialId, studyId, { forUpdate: true });
   if (!existing) {
     if (!row.enrolled_on) throw new RowError([{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
     const { patient } = await enrolPatient(
       trx,
+      hooks,
       actor,
       {
         studyId,
@@ -161,7 +159,7 @@ async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, 
     );
     return { line, studyId, result: 'new', errors: [], patientId: patient.id };
   }
-  if (!actor.writeSiteIds.includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
+  if (!writableSites(actor.access).includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
   const identity: RowResult['errors'] = [];
   if (existing.siteId !== siteId) identity.push({ column: 'site_code', reason: `${studyId} is a patient of ${existing.siteCode}; the site cannot be changed by import.` });
   if (cohortId && existing.cohortId !== cohortId) identity.push({ column: 'cohort_code', reason: `${studyId} is in cohort ${existing.cohortCode}; the cohort cannot be changed by import.` });
@@ -169,57 +167,39 @@ async function applyRow(trx: Knex.Transaction, actor: Actor, facts: TrialFacts, 
   if (identity.length) throw new RowError(identity);
   const same = OUTCOME_FIELDS.every((field) => existing[field] === fields[field]);
   if (same) return { line, studyId, result: 'unchanged', errors: [], patientId: existing.id };
-  const change = await recordOutcome(trx, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
+  const change = await recordOutcome(trx, hooks, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
   return { line, studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
 }
 
-class RollBack extends Error {}
-
-/** Applies the file in one transaction; rolls back on a dry run or on any row error. */
-export async function importPatients(db: Db, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
-  const report: ImportReport = { dryRun: options.dryRun, committed: false, counts: { total: rows.length, new: 0, update: 0, unchanged: 0, error: 0 }, rows: [], pausedCohorts: [] };
+/** Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with the report). */
+export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   const firstLine = new Map<string, number>();
-  try {
-    await db.transaction(async (trx) => {
-      const facts = await trialFacts(trx, actor.trialId);
-      if (!facts) throw new InputError('The trial was not found.');
-      for (const [index, row] of rows.entries()) {
-        const line = index + 2;
-        const studyId = row.study_id.toUpperCase();
-        let result: RowResult;
-        const seenAt = firstLine.get(studyId);
-        if (studyId && seenAt) {
-          result = { line, studyId, result: 'error', errors: [{ column: 'study_id', reason: `${studyId} appears again (first on line ${seenAt}); give each patient one row.` }] };
-        } else {
-          if (studyId) firstLine.set(studyId, line);
-          try {
-            result = await trx.transaction((savepoint) => applyRow(savepoint, actor, facts, row, line));
-          } catch (error) {
-            result = { line, studyId, result: 'error', errors: errorsOf(error) };
-          }
-        }
-        report.rows.push(result);
-        report.counts[result.result] += 1;
+  return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
+    const facts = await trialFacts(trx, actor.access.trialId);
+    if (!facts) throw new InputError('The trial was not found.');
+    for (const [index, row] of rows.entries()) {
+      const line = index + 2;
+      const studyId = row.study_id.toUpperCase();
+      const seenAt = firstLine.get(studyId);
+      if (studyId && seenAt) {
+        add({ line, studyId, result: 'error', errors: [{ column: 'study_id', reason: `${studyId} appears again (first on line ${seenAt}); give each patient one row.` }] });
+        continue;
       }
-      const after = await trx('cohorts').where({ trial_id: actor.trialId, status: 'interim_review' }).pluck('code');
-      report.pausedCohorts = after.filter((code: string) => facts.cohorts.find((c) => c.code === code)?.status !== 'interim_review');
-      if (options.dryRun || report.counts.error > 0) throw new RollBack();
-      report.committed = true;
-    });
-  } catch (error) {
-    if (!(error instanceof RollBack)) throw error;
-  }
-  if (!options.dryRun && report.counts.error > 0) {
-    throw new AppError(422, 'import_rejected', `${report.counts.error} of ${report.counts.total} rows have errors, so nothing was imported. Fix them and import again.`, {
-      counts: report.counts,
-      rows: report.rows,
-    });
-  }
-  return report;
+      if (studyId) firstLine.set(studyId, line);
+      try {
+        add(await trx.transaction((savepoint) => applyRow(savepoint, hooks, actor, facts, row, line)));
+      } catch (error) {
+        add({ line, studyId, result: 'error', errors: errorsOf(error) });
+      }
+    }
+    const paused = (await listCohorts(trx, actor.access.trialId)).filter((c) => c.status === 'interim_review').map((c) => c.code);
+    return { pausedCohorts: paused.filter((code) => facts.cohorts.find((c) => c.code === code)?.status !== 'interim_review') };
+  });
 }
 
-/** The user's patients in the import's columns, so a site can edit its export and import it back. */
-export function patientsCsv(patients: Patient[]): string {
+/** The patients the actor may see, in the import's columns, so a site can edit its export and import it back. */
+export async function patientsExport(db: Db, actor: Actor): Promise<string> {
+  const { patients } = await listPatients(db, actor.access.trialId, siteScope(actor.access), { sort: 'studyId', dir: 'asc', page: 1, pageSize: 100_000 });
   return toCsv(
     [...IMPORT_COLUMNS],
     patients.map((p) => [

@@ -1,15 +1,20 @@
 /**
- * Patients in PostgreSQL: the only module of the feature that speaks Knex. Reads return camelCase
- * domain objects with the site, cohort and attestation joined in; filtering, sorting and paging of
- * the list happen in SQL so a trial of thousands of patients pages quickly.
+ * The patients store: the only module that reads or writes the patients table (enrolment, outcome,
+ * attestation, stage, and the outcome derived from assessments). Reads return camelCase domain
+ * objects through one mapper, with the site, cohort and attestation joined in; filtering, sorting
+ * and paging of the list happen in SQL so a trial of thousands of patients pages quickly.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { CountablePatient } from '../evaluation/counting.js';
-import type { CohortStatus } from '../trials/trials.repository.js';
+import type { Derivation } from '../assessments/index.js';
+import type { CountablePatient } from '../evaluation/index.js';
 import type { BestOverallResponse, ListQuery, Outcome } from './patients.schema.js';
 
 type Conn = Db | Knex.Transaction;
+
+// Kept for the client, which still imports these names from here; they live in the trials and audit stores.
+export type { SiteRef as TrialSite, CohortRef as TrialCohort } from '../trials/index.js';
+export type { HistoryEntry } from '../audit/index.js';
 /** 'all' for roles that read every site; otherwise the site ids the user holds a site role at. */
 export type SiteScope = string[] | 'all';
 
@@ -198,7 +203,8 @@ export async function listPatients(
   for (const expression of SORT_SQL[query.sort]) page.orderByRaw(`${expression} ${direction} nulls last`);
   page.orderBy('p.cohort_id').orderBy('p.enrolment_seq');
   const ids: string[] = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize).pluck('p.id')) as string[];
-  const byId = new Map(((ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : []) as PatientRow[]).map((row) => [row.id, row]));
+  const found: PatientRow[] = ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : [];
+  const byId = new Map(found.map((row) => [row.id, row]));
   const rows = ids.map((id) => byId.get(id)).filter((row): row is PatientRow => row !== undefined);
   return { patients: rows.map(toPatient), total, counts };
 }
@@ -218,32 +224,61 @@ export async function findPatientByStudyId(db: Conn, trialId: string, studyId: s
   return row ? toPatient(row) : undefined;
 }
 
-/** The trial's code alone, for writes that only name the trial. */
-export async function trialCode(db: Conn, trialId: string): Promise<string | undefined> {
-  const trial = await db('trials').where({ id: trialId }).first('code');
-  return trial?.code;
+/** A patient by id alone (the hooks of other features know the patient, not the trial). */
+export async function findPatientById(db: Conn, patientId: string, options: { forUpdate?: boolean } = {}): Promise<Patient | undefined> {
+  const query = baseQuery(db).where({ 'p.id': patientId }).first(COLUMNS);
+  if (options.forUpdate) query.forUpdate('p');
+  const row: PatientRow | undefined = await query;
+  return row ? toPatient(row) : undefined;
 }
 
-export type TrialSite = { id: string; code: string; name: string };
-export type TrialCohort = { id: string; code: string; name: string; status: CohortStatus; position: number };
-export type TrialFacts = { id: string; code: string; startDate: string | null; sites: TrialSite[]; cohorts: TrialCohort[] };
-
-export async function trialFacts(db: Conn, trialId: string): Promise<TrialFacts | undefined> {
-  const trial = await db('trials').where({ id: trialId }).first('id', 'code', 'start_date');
-  if (!trial) return undefined;
-  const sites: TrialSite[] = await db('trial_sites as ts').join('sites as s', 's.id', 'ts.site_id').where('ts.trial_id', trialId).orderBy('s.code').select('s.id', 's.code', 's.name');
-  const cohorts: TrialCohort[] = await db('cohorts').where({ trial_id: trialId }).orderBy('position').select('id', 'code', 'name', 'status', 'position');
-  return { id: trial.id, code: trial.code, startDate: trial.start_date, sites, cohorts };
+/** Every patient of the trial, ordered by id; with `forUpdate`, locked until the transaction ends. */
+export async function listPatientsOfTrial(db: Conn, trialId: string, options: { forUpdate?: boolean } = {}): Promise<Patient[]> {
+  const query = baseQuery(db).where({ 'p.trial_id': trialId }).orderBy('p.id').select(COLUMNS);
+  if (options.forUpdate) query.forUpdate('p');
+  return ((await query) as PatientRow[]).map(toPatient);
 }
 
-/** Locks the cohort row so enrolments into it are numbered one at a time. */
-export async function lockCohort(trx: Knex.Transaction, cohortId: string): Promise<TrialCohort> {
-  return trx('cohorts').where({ id: cohortId }).forUpdate().first('id', 'code', 'name', 'status', 'position');
+export type CohortPatientAssessment = { assessedOn: string; response: string; notes: string | null };
+
+/** Every patient of the cohorts with their assessments in date order, as a data cut copies them. */
+export async function listPatientsWithAssessments(db: Conn, cohortIds: string[]): Promise<Array<Patient & { assessments: CohortPatientAssessment[] }>> {
+  if (cohortIds.length === 0) return [];
+  const rows: Array<PatientRow & { assessments: CohortPatientAssessment[] | null }> = await baseQuery(db)
+    .whereIn('p.cohort_id', cohortIds)
+    .select(
+      ...COLUMNS,
+      db.raw(`coalesce((select jsonb_agg(jsonb_build_object('assessedOn', a.assessed_on, 'response', a.response, 'notes', a.notes)
+                                           order by a.assessed_on)
+                            from assessments a where a.patient_id = p.id), '[]'::jsonb) as assessments`),
+    );
+  return rows.map((row) => ({ ...toPatient(row), assessments: row.assessments ?? [] }));
 }
 
 export async function nextEnrolmentSeq(trx: Knex.Transaction, cohortId: string): Promise<number> {
   const [{ max }] = await trx('patients').where({ cohort_id: cohortId }).max({ max: 'enrolment_seq' });
   return Number(max ?? 0) + 1;
+}
+
+/** Enrolled patients per cohort. */
+export async function countEnrolledByCohort(db: Conn, cohortIds: string[]): Promise<Map<string, number>> {
+  if (cohortIds.length === 0) return new Map();
+  const rows: Array<{ cohort_id: string; count: string }> = await db('patients')
+    .whereIn('cohort_id', cohortIds)
+    .groupBy('cohort_id')
+    .select('cohort_id')
+    .count({ count: '*' });
+  return new Map(rows.map((row) => [row.cohort_id, Number(row.count)]));
+}
+
+export async function countPatientsInTrial(db: Conn, trialId: string): Promise<number> {
+  const [{ count }] = await db('patients').where({ trial_id: trialId }).count({ count: '*' });
+  return Number(count);
+}
+
+export async function countPatientsAtSite(db: Conn, siteId: string): Promise<number> {
+  const [{ count }] = await db('patients').where({ site_id: siteId }).count({ count: '*' });
+  return Number(count);
 }
 
 export async function countablePatients(db: Conn, cohortIds: string[]): Promise<Map<string, CountablePatient[]>> {
@@ -255,92 +290,6 @@ export async function countablePatients(db: Conn, cohortIds: string[]): Promise<
     .select('id', 'cohort_id', 'enrolment_seq', 'outcome', 'evaluable');
   for (const row of rows) byCohort.get(row.cohort_id)?.push({ id: row.id, enrolmentSeq: row.enrolment_seq, outcome: row.outcome, evaluable: row.evaluable });
   return byCohort;
-}
-
-/** How a cohort is counted: its population, n1 (null for one stage) and n (null without a locked design). */
-export type CountingRule = { cohortId: string; population: 'all_enrolled' | 'evaluable'; n1: number | null; n: number | null };
-
-/**
- * Patients grouped by what the counting rules look at: whether they count, their effective outcome,
- * evaluability, stage (first n1 counting patients in enrolment order) and whether they are among
- * the first n counting patients. A few rows per cohort instead of every patient.
- */
-export type CountingGroup = {
-  cohortId: string;
-  stage: 1 | 2;
-  counts: boolean;
-  outcome: Outcome;
-  evaluable: boolean;
-  withinN: boolean;
-  patients: number;
-};
-
-/** A point of the responders path: the k-th decided counting patient and the responders so far. */
-export type PathPoint = { cohortId: string; evaluable: number; responders: number };
-
-const RULES_SQL = 'select * from unnest(?::uuid[], ?::boolean[], ?::int[], ?::int[]) as r(cohort_id, evaluable_only, n1, n)';
-// The pg driver sends JS arrays (nulls included) as PostgreSQL arrays.
-const rulesBindings = (rules: CountingRule[]) =>
-  [rules.map((r) => r.cohortId), rules.map((r) => r.population === 'evaluable'), rules.map((r) => r.n1), rules.map((r) => r.n)] as Knex.RawBinding[];
-
-// The effective outcome: under "all enrolled" a patient who is not evaluable counts as a non-responder.
-const COUNTED_PATIENTS = `select p.cohort_id, p.enrolment_seq, p.evaluable, r.n1, r.n,
-    (not r.evaluable_only or p.evaluable) as counts,
-    case when not r.evaluable_only and not p.evaluable then 'non_responder' else p.outcome end as outcome
-  from patients p join rules r on r.cohort_id = p.cohort_id`;
-
-export async function countingGroups(db: Conn, rules: CountingRule[]): Promise<CountingGroup[]> {
-  if (rules.length === 0) return [];
-  const { rows } = await db.raw(
-    `with rules as (${RULES_SQL}),
-     counted as (${COUNTED_PATIENTS}),
-     ranked as (
-       select *, count(*) filter (where counts) over (partition by cohort_id order by enrolment_seq rows between unbounded preceding and 1 preceding) as before
-       from counted
-     )
-     select cohort_id, (n1 is null or before < n1) as stage1, counts, outcome, evaluable, (counts and n is not null and before < n) as within_n, count(*)::int as patients
-     from ranked group by 1, 2, 3, 4, 5, 6`,
-    rulesBindings(rules),
-  );
-  return (rows as Array<{ cohort_id: string; stage1: boolean; counts: boolean; outcome: Outcome; evaluable: boolean; within_n: boolean; patients: number }>).map((r) => ({
-    cohortId: r.cohort_id,
-    stage: r.stage1 ? 1 : 2,
-    counts: r.counts,
-    outcome: r.outcome,
-    evaluable: r.evaluable,
-    withinN: r.within_n,
-    patients: r.patients,
-  }));
-}
-
-/**
- * The responders path of each cohort (decided counting patients in enrolment order), thinned to
- * about `maxPoints` evenly spaced points; the first and the last point are always exact.
- */
-export async function responderPaths(db: Conn, rules: CountingRule[], maxPoints: number): Promise<PathPoint[]> {
-  if (rules.length === 0) return [];
-  const { rows } = await db.raw(
-    `with rules as (${RULES_SQL}),
-     counted as (${COUNTED_PATIENTS}),
-     decided as (
-       select cohort_id, row_number() over w as k, count(*) filter (where outcome = 'responder') over w as responders, count(*) over (partition by cohort_id) as total
-       from counted where counts and outcome <> 'pending'
-       window w as (partition by cohort_id order by enrolment_seq rows between unbounded preceding and current row)
-     )
-     select cohort_id, k::int as evaluable, responders::int as responders from decided
-     where k = 1 or k = total or k % ceil(total / ?::numeric)::int = 0
-     order by cohort_id, k`,
-    [...rulesBindings(rules), maxPoints],
-  );
-  return (rows as Array<{ cohort_id: string; evaluable: number; responders: number }>).map((r) => ({ cohortId: r.cohort_id, evaluable: r.evaluable, responders: r.responders }));
-}
-
-/** Patients of the cohort that count under the population (every one, or the evaluable ones). */
-export async function countCounting(db: Conn, cohortId: string, population: 'all_enrolled' | 'evaluable'): Promise<number> {
-  const query = db('patients').where({ cohort_id: cohortId });
-  if (population === 'evaluable') query.where({ evaluable: true });
-  const [{ count }] = await query.count({ count: '*' });
-  return Number(count);
 }
 
 export async function currentStages(trx: Knex.Transaction, cohortId: string): Promise<Map<string, number>> {
@@ -428,39 +377,105 @@ export async function setAttestation(trx: Knex.Transaction, patientId: string, v
   return updated === 1;
 }
 
-export type HistoryEntry = {
-  id: number;
-  at: string;
-  action: string;
-  actor: { id: string | null; email: string | null; name: string | null };
-  before: unknown;
-  after: unknown;
-  reason: string | null;
+/** What the derivation from timepoint assessments stores on a patient. */
+export type DerivedColumns = {
+  patientId: string;
+  derivedBestOverallResponse: BestOverallResponse | null;
+  derivedResponder: boolean | null;
+  derivation: Derivation;
 };
 
-export async function patientHistory(db: Db, patientId: string): Promise<HistoryEntry[]> {
-  const rows: Array<{ id: number; at: Date; action: string; actor_user_id: string | null; email: string | null; name: string | null; before: unknown; after: unknown; reason: string | null }> =
-    await db('audit_log as a')
-      .leftJoin('users as u', 'u.id', 'a.actor_user_id')
-      .where({ 'a.entity_type': 'patient', 'a.entity_id': patientId })
-      .orderBy('a.id', 'asc')
-      .select('a.id', 'a.at', 'a.action', 'a.actor_user_id', 'u.email', 'u.name', 'a.before', 'a.after', 'a.reason');
-  return rows.map((r) => ({
-    id: r.id,
-    at: r.at.toISOString(),
-    action: r.action,
-    actor: { id: r.actor_user_id, email: r.email, name: r.name },
-    before: r.before,
-    after: r.after,
-    reason: r.reason,
+const CHUNK = 500;
+const chunks = <T>(rows: T[]) => Array.from({ length: Math.ceil(rows.length / CHUNK) }, (_, i) => rows.slice(i * CHUNK, (i + 1) * CHUNK));
+
+/** Stores derivations of many patients in a few statements (a trial-wide recompute touches thousands). */
+export async function storeDerivations(trx: Knex.Transaction, rows: DerivedColumns[]): Promise<void> {
+  for (const part of chunks(rows)) {
+    await trx.raw(
+      `update patients as p
+          set derived_best_overall_response = v.bor, derived_responder = v.responder, derivation = v.derivation
+         from (values ${part.map(() => '(?::uuid, ?::text, ?::boolean, ?::jsonb)').join(', ')}) as v(id, bor, responder, derivation)
+        where p.id = v.id`,
+      part.flatMap((r) => [r.patientId, r.derivedBestOverallResponse, r.derivedResponder, JSON.stringify(r.derivation)]),
+    );
+  }
+}
+
+export type OutcomeColumns = { outcome: Outcome; bestOverallResponse: BestOverallResponse | null; responseAssessedOn: string | null };
+
+/** Outcomes written by the derivation; each bumps the version like any other change to an outcome. */
+export async function storeDerivedOutcomes(trx: Knex.Transaction, rows: Array<OutcomeColumns & { patientId: string }>): Promise<void> {
+  for (const part of chunks(rows)) {
+    await trx.raw(
+      `update patients as p
+          set outcome = v.outcome, best_overall_response = v.bor, response_assessed_on = v.assessed_on, version = p.version + 1, updated_at = now()
+         from (values ${part.map(() => '(?::uuid, ?::text, ?::text, ?::date)').join(', ')}) as v(id, outcome, bor, assessed_on)
+        where p.id = v.id`,
+      part.flatMap((r) => [r.patientId, r.outcome, r.bestOverallResponse, r.responseAssessedOn]),
+    );
+  }
+}
+
+export async function storeOutcomeFlags(trx: Knex.Transaction, patientIds: string[], flag: string | null): Promise<void> {
+  for (const part of chunks(patientIds)) await trx('patients').whereIn('id', part).update({ outcome_flag: flag });
+}
+
+export type AttentionRow = {
+  patientId: string;
+  studyId: string;
+  siteId: string;
+  siteCode: string;
+  siteName: string;
+  outcomeFlag: string | null;
+  attention: Derivation['attention'];
+  pendingConfirmation: Derivation['pendingConfirmation'];
+};
+
+/**
+ * Patients that may need a look, from the stored derivation alone (no assessment is loaded, and
+ * only the two parts of the derivation needed here leave the database): any attention item, a
+ * response awaiting confirmation, or a flagged outcome.
+ */
+export async function listAttentionCandidates(db: Conn, trialId: string, siteIds: string[] | 'all'): Promise<AttentionRow[]> {
+  const query = db('patients as p')
+    .join('sites as s', 's.id', 'p.site_id')
+    .where('p.trial_id', trialId)
+    .andWhere((w) => {
+      w.whereNotNull('p.outcome_flag')
+        .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'attention', '[]'::jsonb)) > 0")
+        .orWhereRaw("jsonb_array_length(coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb)) > 0");
+    })
+    .orderBy(['s.code', 'p.study_id'])
+    .select(
+      'p.id',
+      'p.study_id',
+      'p.site_id',
+      's.code as site_code',
+      's.name as site_name',
+      'p.outcome_flag',
+      db.raw("coalesce(p.derivation->'attention', '[]'::jsonb) as attention"),
+      db.raw("coalesce(p.derivation->'pendingConfirmation', '[]'::jsonb) as pending_confirmation"),
+    );
+  if (siteIds !== 'all') query.whereIn('p.site_id', siteIds);
+  const rows: Array<{
+    id: string;
+    study_id: string;
+    site_id: string;
+    site_code: string;
+    site_name: string;
+    outcome_flag: string | null;
+    attention: Derivation['attention'];
+    pending_confirmation: Derivation['pendingConfirmation'];
+  }> = await query;
+  return rows.map((row) => ({
+    patientId: row.id,
+    studyId: row.study_id,
+    siteId: row.site_id,
+    siteCode: row.site_code,
+    siteName: row.site_name,
+    outcomeFlag: row.outcome_flag,
+    attention: row.attention,
+    pendingConfirmation: row.pending_confirmation,
   }));
 }
 
-/** E-mail addresses of the trial's active members in the given roles. */
-export async function memberEmails(db: Conn, trialId: string, roles: string[]): Promise<string[]> {
-  const rows: Array<{ email: string }> = await db('memberships')
-    .where({ trial_id: trialId, status: 'active' })
-    .whereIn('role', roles)
-    .distinct(db.raw('lower(email) as email'));
-  return rows.map((r) => r.email).sort();
-}

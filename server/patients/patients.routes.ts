@@ -4,15 +4,13 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import type { RouteSpec } from '../http/routes.js';
+import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { parseBody, parseQuery } from '../http/validate.js';
 import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
-import { kickMail } from '../mail/outbox.js';
-import { evaluationRoutes } from '../evaluation/evaluation.routes.js';
-import { IMPORT_MAX_BYTES } from './patients.schema.js';
-import { actorFrom, attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
-import { importPatients, importTemplate, patientsCsv, readCsv } from './patients-import.js';
-import { listPatients } from './patients.repository.js';
+import { enrolSchema, IMPORT_MAX_BYTES, listQuerySchema } from './patients.schema.js';
+import { attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
+import { importPatients, importTemplate, patientsExport, readCsv } from './patients-import.js';
 
 const READ: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITE: Role[] = ['coordinator', 'investigator'];
@@ -25,16 +23,16 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json(await listForUser(db, actorFrom(req), req.query));
+      res.json(await listForUser(db, actorOf(req), await parseQuery(listQuerySchema, req.query)));
     },
   },
   {
     method: 'post',
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: WRITE },
-    handler: async (req, res, { db }) => {
-      const { patient, accrual } = await enrol(db, actorFrom(req), req.body);
-      kickMail(req);
+    handler: async (req, res, { db, hooks, mail }) => {
+      const { patient, accrual } = await enrol(db, hooks, actorOf(req), await parseBody(enrolSchema, req.body));
+      mail.kick();
       res.status(201).json({ patient, accrual });
     },
   },
@@ -42,7 +40,7 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'get',
     path: '/api/trials/:trialId/patients/import-template.csv',
     access: { kind: 'trial', roles: READ },
-    handler: async (_req, res) => {
+    handler: (_req, res) => {
       sendCsv(res, 'orrery-patients-template.csv', importTemplate());
     },
   },
@@ -51,9 +49,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/export.csv',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      const actor = actorFrom(req);
-      const { patients } = await listPatients(db, actor.trialId, actor.readScope, { sort: 'studyId', dir: 'asc', page: 1, pageSize: 100_000 });
-      sendCsv(res, 'orrery-patients.csv', patientsCsv(patients));
+      sendCsv(res, 'orrery-patients.csv', await patientsExport(db, actorOf(req)));
     },
   },
   {
@@ -61,11 +57,10 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/import',
     access: { kind: 'trial', roles: WRITE },
     before: [uploadCsv],
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks, mail }) => {
       const rows = readCsv(req.file);
-      const dryRun = isDryRun(req);
-      const report = await importPatients(db, actorFrom(req), rows, { dryRun });
-      if (report.committed) kickMail(req);
+      const report = await importPatients(db, hooks, actorOf(req), rows, { dryRun: isDryRun(req) });
+      if (report.committed) mail.kick();
       res.json(report);
     },
   },
@@ -74,16 +69,16 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json({ patient: await requireVisiblePatient(db, actorFrom(req), String(req.params.patientId)) });
+      res.json({ patient: await requireVisiblePatient(db, actorOf(req), String(req.params.patientId)) });
     },
   },
   {
     method: 'patch',
     path: '/api/trials/:trialId/patients/:patientId',
     access: { kind: 'trial', roles: WRITE },
-    handler: async (req, res, { db }) => {
-      const change = await changeOutcome(db, actorFrom(req), String(req.params.patientId), req.body);
-      if (change.accrual.paused || change.accrual.continuesAtRisk) kickMail(req);
+    handler: async (req, res, { db, hooks, mail }) => {
+      const change = await changeOutcome(db, hooks, actorOf(req), String(req.params.patientId), req.body);
+      if (change.accrual.paused || change.accrual.continuesAtRisk) mail.kick();
       res.json(change);
     },
   },
@@ -91,8 +86,8 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/patients/:patientId/attestation',
     access: { kind: 'trial', roles: ['investigator'] },
-    handler: async (req, res, { db, config }) => {
-      res.status(201).json(await attest(db, config, req, actorFrom(req), String(req.params.patientId)));
+    handler: async (req, res, { db, config, hooks }) => {
+      res.status(201).json(await attest(db, hooks, actorOf(req), String(req.params.patientId), req.body, signInOf(req, config)));
     },
   },
   {
@@ -100,8 +95,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients/:patientId/history',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json(await history(db, actorFrom(req), String(req.params.patientId)));
+      res.json(await history(db, actorOf(req), String(req.params.patientId)));
     },
   },
-  ...evaluationRoutes,
 ];

@@ -70,7 +70,7 @@ export const outcomeSchema = yup.object({
         : s
             .required('Best overall response is required once the outcome is known.')
             .test('matches-outcome', (v, ctx) =>
-              v && !RESPONSES_FOR[outcome as Outcome]?.includes(v as BestOverallResponse)
+              v && !RESPONSES_FOR[outcome as Outcome]?.includes(v)
                 ? ctx.createError({
                     message: outcome === 'responder' ? 'A responder’s best overall response is CR or PR.' : 'A non-responder’s best overall response is SD, PD or NE.',
                   })

@@ -6,55 +6,41 @@
  * are composable: the CSV import calls them row by row.
  */
 import type { Knex } from 'knex';
-import type { Request } from 'express';
 import type { Db } from '../db/knex.js';
-import type { Config } from '../config.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { requireTrialAccess, requireUser } from '../http/routes.js';
-import { siteScope, type SessionUser } from '../auth/access.js';
-import { recordSignature, requireFreshAuthentication } from '../signatures/signatures.js';
-import { currentDesign } from '../design-studio/current-design.js';
+import { siteScope, writableSites, type Actor } from '../auth/access.js';
+import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { currentDesign } from '../design-studio/index.js';
+import { countCounting } from '../evaluation/index.js';
+import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/index.js';
+import { holdsRoleAtSite } from '../people/index.js';
+import { entityHistory } from '../audit/index.js';
 import {
   attestationSchema,
-  enrolSchema,
   isRecorded,
   latestToday,
-  listQuerySchema,
   OUTCOME_FIELDS,
   outcomeSchema,
   type EnrolInput,
+  type ListQuery,
   type OutcomeInput,
 } from './patients.schema.js';
 import {
-  countCounting,
   findPatient,
   findPatientByStudyId,
   insertPatient,
   listPatients,
-  lockCohort,
   nextEnrolmentSeq,
-  patientHistory,
   setAttestation,
-  trialCode,
-  trialFacts,
   updateOutcome,
   type OutcomeFields,
   type Patient,
-  type SiteScope,
-  type TrialFacts,
 } from './patients.repository.js';
 import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
-import { runPatientWriteHooks } from './patient-hooks.js';
+import { emit, type Hooks } from '../hooks.js';
 
-/** Who is acting, and where: read scope for looking, the user's own sites for writing. */
-export type Actor = { user: SessionUser; trialId: string; readScope: SiteScope; writeSiteIds: string[] };
-
-export function actorFrom(req: Request): Actor {
-  const access = requireTrialAccess(req);
-  return { user: requireUser(req), trialId: access.trialId, readScope: siteScope(access), writeSiteIds: access.siteIds };
-}
 
 /** What the audit trail keeps of a patient: the identity and the outcome, never more. */
 export function auditSnapshot(p: Patient) {
@@ -79,30 +65,31 @@ async function requireFacts(db: Db | Knex.Transaction, trialId: string): Promise
   return facts;
 }
 
-export async function listForUser(db: Db, actor: Actor, rawQuery: unknown) {
-  const query = await listQuerySchema.validate(rawQuery ?? {}, { abortEarly: false, stripUnknown: true });
-  const facts = await requireFacts(db, actor.trialId);
-  const result = await listPatients(db, actor.trialId, actor.readScope, query);
-  const scope = actor.readScope;
+/** One page of the trial's patients the actor may see, with the sites and cohorts the filters and the enrolment form offer. */
+export async function listForUser(db: Db, actor: Actor, query: ListQuery) {
+  const facts = await requireFacts(db, actor.access.trialId);
+  const scope = siteScope(actor.access);
+  const result = await listPatients(db, actor.access.trialId, scope, query);
   return {
     ...result,
     page: query.page,
     pageSize: query.pageSize,
     sites: facts.sites.filter((s) => scope === 'all' || scope.includes(s.id)),
-    enrolSites: facts.sites.filter((s) => actor.writeSiteIds.includes(s.id)),
+    enrolSites: facts.sites.filter((s) => writableSites(actor.access).includes(s.id)),
     cohorts: facts.cohorts,
   };
 }
 
+
 /** A patient the user may see (404 otherwise, so other sites' records do not leak). */
 export async function requireVisiblePatient(db: Db | Knex.Transaction, actor: Actor, patientId: string, options: { forUpdate?: boolean } = {}): Promise<Patient> {
-  const patient = /^[0-9a-f-]{36}$/i.test(patientId) ? await findPatient(db, actor.trialId, patientId, actor.readScope, options) : undefined;
+  const patient = /^[0-9a-f-]{36}$/i.test(patientId) ? await findPatient(db, actor.access.trialId, patientId, siteScope(actor.access), options) : undefined;
   if (!patient) throw new NotFoundError('The patient');
   return patient;
 }
 
 function requireWritable(actor: Actor, patient: Patient): void {
-  if (!actor.writeSiteIds.includes(patient.siteId)) throw new ForbiddenError('Outcomes are recorded by the coordinator or investigator of the patient’s site.');
+  if (!writableSites(actor.access).includes(patient.siteId)) throw new ForbiddenError('Outcomes are recorded by the coordinator or investigator of the patient’s site.');
 }
 
 export type EnrolRequest = EnrolInput & Partial<OutcomeFields>;
@@ -113,13 +100,15 @@ export type EnrolRequest = EnrolInput & Partial<OutcomeFields>;
  */
 export async function enrolPatient(
   trx: Knex.Transaction,
+  hooks: Hooks,
   actor: Actor,
   input: EnrolRequest,
   facts?: TrialFacts,
 ): Promise<{ patient: Patient; accrual: AccrualOutcome }> {
-  const trial = facts ?? (await requireFacts(trx, actor.trialId));
+  const trialId = actor.access.trialId;
+  const trial = facts ?? (await requireFacts(trx, trialId));
   const site = trial.sites.find((s) => s.id === input.siteId);
-  if (!site || !actor.writeSiteIds.includes(site.id)) throw new NotFoundError('The site');
+  if (!site || !writableSites(actor.access).includes(site.id)) throw new NotFoundError('The site');
   const studyId = input.studyId.trim().toUpperCase();
   if (!studyId.startsWith(`${site.code}-`)) {
     throw new InputError('The study ID must start with the site code.', { studyId: `A patient of ${site.code} has a study ID starting "${site.code}-".` });
@@ -145,15 +134,16 @@ export async function enrolPatient(
   }
 
   const locked = await lockCohort(trx, cohort.id);
+  if (!locked) throw new NotFoundError('The cohort');
   const design = assertCohortEnrolling(locked, await currentDesign(trx, cohort.id));
-  if (await findPatientByStudyId(trx, actor.trialId, studyId)) {
+  if (await findPatientByStudyId(trx, trialId, studyId)) {
     throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
   }
   const enrolmentSeq = await nextEnrolmentSeq(trx, cohort.id);
   // Stage 1 holds the first n1 counting patients; the newcomer is last in enrolment order.
   const stage: 1 | 2 = design.n1 === null || (await countCounting(trx, cohort.id, design.analysisPopulation)) < design.n1 ? 1 : 2;
   const patientId = await insertPatient(trx, {
-    trialId: actor.trialId,
+    trialId,
     cohortId: cohort.id,
     siteId: site.id,
     studyId,
@@ -166,23 +156,22 @@ export async function enrolPatient(
     if (error.code === '23505') throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
     throw error;
   });
-  const created = (await findPatient(trx, actor.trialId, patientId, 'all')) as Patient;
+  const created = (await findPatient(trx, trialId, patientId, 'all')) as Patient;
   await writeAudit(trx, {
     actorUserId: actor.user.id,
-    trialId: actor.trialId,
+    trialId,
     entityType: 'patient',
     entityId: patientId,
     action: 'enrolled',
     after: auditSnapshot(created),
   });
-  const accrual = await applyAccrualRules(trx, { trialId: actor.trialId, trialCode: trial.code, cohortId: cohort.id, actorUserId: actor.user.id });
-  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
-  return { patient: (await findPatient(trx, actor.trialId, patientId, 'all')) as Patient, accrual };
+  const accrual = await applyAccrualRules(trx, { trialId, trialCode: trial.code, cohortId: cohort.id, actorUserId: actor.user.id });
+  await emit(trx, hooks.patientWritten, { trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
+  return { patient: (await findPatient(trx, trialId, patientId, 'all')) as Patient, accrual };
 }
 
-export async function enrol(db: Db, actor: Actor, body: unknown) {
-  const input = await parseBody(enrolSchema, body);
-  return db.transaction((trx) => enrolPatient(trx, actor, input));
+export async function enrol(db: Db, hooks: Hooks, actor: Actor, input: EnrolInput) {
+  return db.transaction((trx) => enrolPatient(trx, hooks, actor, input));
 }
 
 export type OutcomeChange = {
@@ -210,6 +199,7 @@ function fieldsOf(p: OutcomeFields): OutcomeFields {
  */
 export async function recordOutcome(
   trx: Knex.Transaction,
+  hooks: Hooks,
   actor: Actor,
   patientId: string,
   input: OutcomeInput,
@@ -220,7 +210,7 @@ export async function recordOutcome(
   if (input.version !== before.version) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', { current: before });
   }
-  const next = fieldsOf(input as OutcomeFields);
+  const next = fieldsOf(input);
   if (next.responseAssessedOn && next.responseAssessedOn < before.enrolledOn) {
     throw new InputError('The assessment cannot be before enrolment.', { responseAssessedOn: `The patient was enrolled on ${before.enrolledOn}; the assessment cannot be earlier.` });
   }
@@ -237,16 +227,17 @@ export async function recordOutcome(
     throw new InputError('Changing a recorded outcome is a correction: give the reason.', { [field]: 'A correction needs a reason.' });
   }
   const attestationCleared = before.attested !== null;
+  const trialId = actor.access.trialId;
   if (!(await updateOutcome(trx, before.id, before.version, next, { clearAttestation: attestationCleared }))) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', {
-      current: await findPatient(trx, actor.trialId, before.id, actor.readScope),
+      current: await findPatient(trx, trialId, before.id, siteScope(actor.access)),
     });
   }
-  const after = (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient;
+  const after = (await findPatient(trx, trialId, before.id, 'all')) as Patient;
   const action = correction ? 'outcome_corrected' : 'outcome_recorded';
   await writeAudit(trx, {
     actorUserId: actor.user.id,
-    trialId: actor.trialId,
+    trialId,
     entityType: 'patient',
     entityId: before.id,
     action,
@@ -254,36 +245,36 @@ export async function recordOutcome(
     after: { ...auditSnapshot(after), ...(attestationCleared ? { attestationCleared: true } : {}) },
     reason: input.reason ?? null,
   });
-  const code = options.trialCode ?? (await trialCode(trx, actor.trialId));
+  const code = options.trialCode ?? (await trialCode(trx, trialId));
   if (code === undefined) throw new NotFoundError('The trial');
   const accrual = await applyAccrualRules(trx, {
-    trialId: actor.trialId,
+    trialId,
     trialCode: code,
     cohortId: before.cohortId,
     actorUserId: actor.user.id,
     evaluabilityChanged: previous.evaluable !== next.evaluable,
   });
-  await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
-  return { patient: (await findPatient(trx, actor.trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
+  await emit(trx, hooks.patientWritten, { trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
+  return { patient: (await findPatient(trx, trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
 }
 
-export async function changeOutcome(db: Db, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
+/** The payload is judged only once the patient is known to be visible: another site's patient answers 404 whatever is sent. */
+export async function changeOutcome(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
   await requireVisiblePatient(db, actor, patientId);
   const input = await parseBody(outcomeSchema, body);
-  return db.transaction((trx) => recordOutcome(trx, actor, patientId, input));
+  return db.transaction((trx) => recordOutcome(trx, hooks, actor, patientId, input));
 }
 
 export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete`;
 
 /** The investigator of the patient's site signs the recorded outcome (fresh sign-in required). */
-export async function attest(db: Db, config: Config, req: Request, actor: Actor, patientId: string) {
+export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown, signIn: SignIn) {
+  const trialId = actor.access.trialId;
   const patient = await requireVisiblePatient(db, actor, patientId);
-  const isSiteInvestigator = await db('memberships')
-    .where({ trial_id: actor.trialId, user_id: actor.user.id, role: 'investigator', site_id: patient.siteId, status: 'active' })
-    .first('id');
+  const isSiteInvestigator = await holdsRoleAtSite(db, { trialId, userId: actor.user.id, role: 'investigator', siteId: patient.siteId });
   if (!isSiteInvestigator) throw new ForbiddenError('Only the investigator of the patient’s site can attest the outcome.');
-  const { version } = await parseBody(attestationSchema, req.body);
-  const authenticatedAt = requireFreshAuthentication(req, config);
+  const { version } = await parseBody(attestationSchema, body);
+  const authenticatedAt = requireFreshAuthentication(signIn);
   return db.transaction(async (trx) => {
     const current = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
     if (current.version !== version) {
@@ -293,7 +284,7 @@ export async function attest(db: Db, config: Config, req: Request, actor: Actor,
     if (current.attested) throw new ConflictError(`The outcome of ${current.studyId} is already attested.`, { current });
     const content = { patientId: current.id, studyId: current.studyId, version: current.version, ...fieldsOf(current) };
     const signature = await recordSignature(trx, {
-      trialId: actor.trialId,
+      trialId,
       signer: { id: actor.user.id, email: actor.user.email },
       meaning: attestationMeaning(current.studyId),
       subjectType: 'attestation',
@@ -302,22 +293,22 @@ export async function attest(db: Db, config: Config, req: Request, actor: Actor,
       authenticatedAt,
     });
     await setAttestation(trx, current.id, current.version, signature.id);
-    const after = (await findPatient(trx, actor.trialId, current.id, 'all')) as Patient;
+    const after = (await findPatient(trx, trialId, current.id, 'all')) as Patient;
     await writeAudit(trx, {
       actorUserId: actor.user.id,
-      trialId: actor.trialId,
+      trialId,
       entityType: 'patient',
       entityId: current.id,
       action: 'outcome_attested',
       before: auditSnapshot(current),
       after: auditSnapshot(after),
     });
-    await runPatientWriteHooks(trx, { trialId: actor.trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
+    await emit(trx, hooks.patientWritten, { trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
     return { patient: after, signature };
   });
 }
 
 export async function history(db: Db, actor: Actor, patientId: string) {
   const patient = await requireVisiblePatient(db, actor, patientId);
-  return { patient, entries: await patientHistory(db, patient.id) };
+  return { patient, entries: await entityHistory(db, 'patient', patient.id) };
 }

@@ -1,4 +1,8 @@
-/** Sites and memberships as plain domain objects; the only place in People & sites that touches Knex. */
+/**
+ * The people store: sites, a trial's memberships and the users behind them, as plain domain
+ * objects. The only module that reads or writes the sites and memberships tables (sign-in
+ * provisions users in auth/users.repository.ts).
+ */
 import type { Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 
@@ -76,11 +80,6 @@ export async function updateSiteRow(db: Db, siteId: string, site: { code: string
     if (isUniqueViolation(error)) return false;
     throw error;
   }
-}
-
-export async function countPatientsAtSite(db: Db, siteId: string): Promise<number> {
-  const [{ count }] = await db('patients').where({ site_id: siteId }).count({ count: '*' });
-  return Number(count);
 }
 
 const membershipsQuery = (db: Db) =>
@@ -174,6 +173,75 @@ export async function deleteMembership(db: Db, membershipId: string): Promise<vo
   await db('memberships').where({ id: membershipId }).delete();
 }
 
-export async function findTrialHeading(db: Db, trialId: string): Promise<{ code: string; title: string } | undefined> {
-  return db('trials').where({ id: trialId }).first('code', 'title');
+/** E-mail addresses of the trial's active members in the given roles. */
+export async function memberEmails(db: Db, trialId: string, roles: readonly Role[]): Promise<string[]> {
+  const rows: Array<{ email: string }> = await db('memberships')
+    .where({ trial_id: trialId, status: 'active' })
+    .whereIn('role', roles as Role[])
+    .distinct(db.raw('lower(email) as email'));
+  return rows.map((r) => r.email).sort();
+}
+
+/** Whether the user holds the role at the site on the trial (an investigator attesting their own site's outcome). */
+export async function holdsRoleAtSite(db: Db, input: { trialId: string; userId: string; role: Role; siteId: string }): Promise<boolean> {
+  const row = await db('memberships')
+    .where({ trial_id: input.trialId, user_id: input.userId, role: input.role, site_id: input.siteId, status: 'active' })
+    .first('id');
+  return !!row;
+}
+
+/** Committee members of the trial: how many could sign. */
+export async function countMonitors(db: Db, trialId: string): Promise<number> {
+  const row = await db('memberships').where({ trial_id: trialId, role: 'monitor', status: 'active' }).countDistinct({ n: 'user_id' }).first();
+  return Number(row?.n ?? 0);
+}
+
+/** The trial's people who hear about an applied decision: site staff and sponsors. */
+export async function decisionRecipients(db: Db, trialId: string): Promise<Array<{ email: string; role: string }>> {
+  return db('memberships')
+    .where({ trial_id: trialId, status: 'active' })
+    .whereIn('role', ['coordinator', 'investigator', 'sponsor'])
+    .distinct('email', 'role')
+    .orderBy(['email', 'role']);
+}
+
+export async function statisticianEmails(db: Db, trialId: string): Promise<string[]> {
+  const rows: Array<{ email: string }> = await db('memberships').where({ trial_id: trialId, role: 'statistician', status: 'active' }).distinct('email');
+  return rows.map((row) => row.email);
+}
+
+/** How a user is named to others: their name, else their e-mail address. */
+export async function findUserName(db: Db, userId: string): Promise<string | null> {
+  const row = await db('users').where({ id: userId }).first('name', 'email');
+  return row?.name ?? row?.email ?? null;
+}
+
+export type SponsorRecipient = { userId: string; email: string; name: string | null; trialIds: string[] };
+
+/** Everyone holding an active sponsor membership, with the trials they sponsor. */
+export async function sponsorRecipients(db: Db): Promise<SponsorRecipient[]> {
+  const rows = await db('memberships as m')
+    .join('users as u', 'u.id', 'm.user_id')
+    .where({ 'm.role': 'sponsor', 'm.status': 'active' })
+    .groupBy('u.id', 'u.email', 'u.name')
+    .orderBy('u.email')
+    .select('u.id', 'u.email', 'u.name', db.raw('array_agg(distinct m.trial_id) as trial_ids'));
+  return rows.map((row: { id: string; email: string; name: string | null; trial_ids: string[] }) => ({
+    userId: row.id,
+    email: row.email,
+    name: row.name,
+    trialIds: row.trial_ids,
+  }));
+}
+
+export type OwnMembership = { id: string; trialId: string; trialCode: string; role: Role; siteId: string | null; siteCode: string | null };
+
+/** The user's own active memberships, trial by trial. */
+export async function listOwnMemberships(db: Db, userId: string): Promise<OwnMembership[]> {
+  return db('memberships as m')
+    .join('trials as t', 't.id', 'm.trial_id')
+    .leftJoin('sites as s', 's.id', 'm.site_id')
+    .where({ 'm.user_id': userId, 'm.status': 'active' })
+    .orderBy([{ column: 't.code' }, { column: 'm.role' }])
+    .select('m.id', 'm.trial_id as trialId', 't.code as trialCode', 'm.role', 'm.site_id as siteId', 's.code as siteCode');
 }

@@ -4,22 +4,18 @@
  * see who else works on the trial.
  */
 import type { Request } from 'express';
-import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { actorOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { kickMail } from '../mail/outbox.js';
-import { listMemberships, listSites } from './people.repository.js';
 import { membershipInviteSchema, membershipUpdateSchema, siteSchema, siteUpdateSchema } from './people.schema.js';
-import { createSite, inviteMember, removeMember, updateMember, updateSite } from './people.service.js';
+import { createSite, inviteMember, listSites, memberships, removeMember, updateMember, updateSite } from './people.service.js';
 
 function recordId(req: Request, name: string, what: string): string {
   const id = req.params[name];
   if (!isUuid(id)) throw new NotFoundError(what);
   return id;
 }
-
-/** Queued mail goes out promptly once the transaction that queued it has committed. */
 
 export const peopleRoutes: RouteSpec[] = [
   {
@@ -54,17 +50,17 @@ export const peopleRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/memberships',
     access: { kind: 'trial', roles: ['admin', 'statistician'] },
     handler: async (req, res, { db }) => {
-      res.json({ memberships: await listMemberships(db, requireTrialAccess(req).trialId) });
+      res.json({ memberships: await memberships(db, actorOf(req)) });
     },
   },
   {
     method: 'post',
     path: '/api/trials/:trialId/memberships',
     access: { kind: 'trial', roles: ['admin'] },
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, mail }) => {
       const input = await parseBody(membershipInviteSchema, req.body);
-      const membership = await inviteMember(db, requireUser(req), requireTrialAccess(req).trialId, input, config.appOrigin);
-      kickMail(req);
+      const membership = await inviteMember(db, actorOf(req), input, config.appOrigin);
+      mail.kick();
       res.status(201).json({ membership });
     },
   },
@@ -75,7 +71,7 @@ export const peopleRoutes: RouteSpec[] = [
     handler: async (req, res, { db }) => {
       const membershipId = recordId(req, 'membershipId', 'The membership');
       const input = await parseBody(membershipUpdateSchema, req.body);
-      res.json({ membership: await updateMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId, input) });
+      res.json({ membership: await updateMember(db, actorOf(req), membershipId, input) });
     },
   },
   {
@@ -84,7 +80,7 @@ export const peopleRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['admin'] },
     handler: async (req, res, { db }) => {
       const membershipId = recordId(req, 'membershipId', 'The membership');
-      await removeMember(db, requireUser(req), requireTrialAccess(req).trialId, membershipId);
+      await removeMember(db, actorOf(req), membershipId);
       res.status(204).end();
     },
   },

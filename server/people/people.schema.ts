@@ -1,15 +1,16 @@
 /**
  * Yup schemas for People & sites: global site records and a trial's memberships. Shared by the
- * routes and the client's forms, so this file imports nothing but Yup (and types).
+ * routes and the client's forms, so this file imports nothing but Yup and the roles of auth/access.ts.
  */
 import * as yup from 'yup';
-import type { Role } from '../auth/access.js';
+import { ROLES, SITE_ROLES } from '../auth/access.js';
 
 /** The site code is the prefix of its patients' study IDs. */
 export const SITE_CODE = /^[A-Z0-9]{2,8}$/;
 
-export const MEMBER_ROLES = ['admin', 'statistician', 'coordinator', 'investigator', 'monitor', 'sponsor'] as const satisfies readonly Role[];
-export const SITE_MEMBER_ROLES: readonly string[] = ['coordinator', 'investigator'];
+export const MEMBER_ROLES = ROLES;
+/** Coordinators and investigators hold their role at one site. */
+export const SITE_MEMBER_ROLES: readonly string[] = SITE_ROLES;
 
 const version = yup.number().typeError('The record version is missing.').required('The record version is missing.').integer().min(1);
 

@@ -7,35 +7,29 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
-import type { Role } from '../auth/access.js';
+import type { Actor, Role, SessionUser } from '../auth/access.js';
+import { ROLE_WORDS } from '../words/index.js';
+import { findTrialHeading } from '../trials/index.js';
+import { countPatientsAtSite } from '../patients/index.js';
 import {
-  countPatientsAtSite,
   deleteMembership,
   findMembership,
   findSite,
-  findTrialHeading,
   findUserByEmail,
   insertMembership,
   insertSite,
+  listMemberships,
+  listOwnMemberships,
+  listSites,
   lockActiveAdmins,
   trialHasSite,
   updateMembershipRow,
   updateSiteRow,
   type Membership,
+  type OwnMembership,
   type Site,
 } from './people.repository.js';
 import { SITE_MEMBER_ROLES, type MembershipInviteInput, type MembershipUpdateInput, type SiteInput, type SiteUpdateInput } from './people.schema.js';
-
-type Actor = { id: string; email: string };
-
-const ROLE_WORDS: Record<Role, string> = {
-  admin: 'trial manager (admin)',
-  statistician: 'trial statistician',
-  coordinator: 'site coordinator',
-  investigator: 'site investigator',
-  monitor: 'member of the data monitoring committee',
-  sponsor: 'sponsor',
-};
 
 const siteView = (site: Site) => ({ code: site.code, name: site.name, country: site.country });
 const membershipView = (m: Membership) => ({ email: m.email, role: m.role, siteCode: m.siteCode, status: m.status });
@@ -45,7 +39,19 @@ const siteCodeTaken = (code: string) =>
     fields: { code: 'This code is already in use.' },
   });
 
-export async function createSite(db: Db, actor: Actor, input: SiteInput): Promise<Site> {
+export { listSites };
+
+/** The user's own active memberships (roles come from the database, never the identity provider). */
+export async function membershipsOf(db: Db, user: SessionUser): Promise<OwnMembership[]> {
+  return listOwnMemberships(db, user.id);
+}
+
+/** A trial's members, for its admin and statistician. */
+export async function memberships(db: Db, actor: Actor): Promise<Membership[]> {
+  return listMemberships(db, actor.access.trialId);
+}
+
+export async function createSite(db: Db, actor: SessionUser, input: SiteInput): Promise<Site> {
   return db.transaction(async (trx) => {
     const siteId = await insertSite(trx, input);
     if (!siteId) throw siteCodeTaken(input.code);
@@ -55,7 +61,7 @@ export async function createSite(db: Db, actor: Actor, input: SiteInput): Promis
   });
 }
 
-export async function updateSite(db: Db, actor: Actor, siteId: string, input: SiteUpdateInput): Promise<Site> {
+export async function updateSite(db: Db, actor: SessionUser, siteId: string, input: SiteUpdateInput): Promise<Site> {
   return db.transaction(async (trx) => {
     const before = await findSite(trx, siteId, { lock: true });
     if (!before) throw new NotFoundError('The site');
@@ -111,13 +117,8 @@ function invitationMail(input: {
   return { subject: `Orrery: you are invited to ${input.trial.code} as ${ROLE_WORDS[input.role]}`, text: lines.join('\n') };
 }
 
-export async function inviteMember(
-  db: Db,
-  actor: Actor,
-  trialId: string,
-  input: MembershipInviteInput,
-  appOrigin: string,
-): Promise<Membership> {
+export async function inviteMember(db: Db, { user: actor, access }: Actor, input: MembershipInviteInput, appOrigin: string): Promise<Membership> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const siteId = input.siteId ?? null;
     await checkSiteOnTrial(trx, trialId, siteId);
@@ -151,7 +152,8 @@ function conflictIfStale(current: Membership, version: number): void {
 const lastAdmin = () =>
   new ConflictError('This is the trial’s last active admin. Make someone else admin first, so the trial keeps a manager.');
 
-export async function updateMember(db: Db, actor: Actor, trialId: string, membershipId: string, input: MembershipUpdateInput): Promise<Membership> {
+export async function updateMember(db: Db, { user: actor, access }: Actor, membershipId: string, input: MembershipUpdateInput): Promise<Membership> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const admins = await lockActiveAdmins(trx, trialId);
     const before = await findMembership(trx, trialId, membershipId, { lock: true });
@@ -175,7 +177,8 @@ export async function updateMember(db: Db, actor: Actor, trialId: string, member
   });
 }
 
-export async function removeMember(db: Db, actor: Actor, trialId: string, membershipId: string): Promise<void> {
+export async function removeMember(db: Db, { user: actor, access }: Actor, membershipId: string): Promise<void> {
+  const { trialId } = access;
   await db.transaction(async (trx) => {
     const admins = await lockActiveAdmins(trx, trialId);
     const before = await findMembership(trx, trialId, membershipId, { lock: true });

@@ -3,9 +3,9 @@
  * "committee review pending for 3 days"), from its status, its design and aggregate counts.
  * The "~" is honest: under an evaluable-only protocol, patients found not evaluable are replaced.
  */
-import type { CohortStatus } from '../trials/trials.repository.js';
-import { daysBetween } from '../accrual/calendar.js';
-import { STOP_WORDS, plural } from './words.js';
+import type { CohortStatus } from '../trials/index.js';
+import { daysBetween } from '../accrual/index.js';
+import { STOPPED_FOR, plural } from '../words/index.js';
 
 export type MilestoneKind =
   | 'design-lock'
@@ -51,7 +51,7 @@ const finalDue = (pending: number): Milestone => ({
 
 export function nextMilestone(input: MilestoneInput): Milestone {
   const { status, design, counted } = input;
-  if (status === 'stopped') return { kind: 'none', text: `stopped ${STOP_WORDS[input.stopCategory ?? 'other'] ?? ''}`.trim() };
+  if (status === 'stopped') return { kind: 'none', text: `stopped ${STOPPED_FOR[(input.stopCategory ?? 'other') as keyof typeof STOPPED_FOR] ?? ''}`.trim() };
   if (status === 'completed') return { kind: 'none', text: 'completed' };
   if (!design) return { kind: 'design-lock', text: 'awaiting design lock' };
   if (input.reviewPendingSince) {

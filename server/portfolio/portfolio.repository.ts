@@ -55,21 +55,3 @@ export async function committeeStates(db: Db, cohortIds: string[]): Promise<Map<
     ]),
   );
 }
-
-export type SponsorRecipient = { userId: string; email: string; name: string | null; trialIds: string[] };
-
-/** Everyone holding an active sponsor membership, with the trials they sponsor. */
-export async function sponsorRecipients(db: Db): Promise<SponsorRecipient[]> {
-  const rows = await db('memberships as m')
-    .join('users as u', 'u.id', 'm.user_id')
-    .where({ 'm.role': 'sponsor', 'm.status': 'active' })
-    .groupBy('u.id', 'u.email', 'u.name')
-    .orderBy('u.email')
-    .select('u.id', 'u.email', 'u.name', db.raw('array_agg(distinct m.trial_id) as trial_ids'));
-  return rows.map((row: { id: string; email: string; name: string | null; trial_ids: string[] }) => ({
-    userId: row.id,
-    email: row.email,
-    name: row.name,
-    trialIds: row.trial_ids,
-  }));
-}

@@ -1,10 +1,10 @@
 /** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
 import { requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
-import { toDay } from '../accrual/calendar.js';
-import { digestFor } from '../jobs/weekly-digest.js';
+import { toDay } from '../accrual/index.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
 import { portfolioFor } from './portfolio.service.js';
+import { digestFor } from './digest.service.js';
 
 export const portfolioRoutes: RouteSpec[] = [
   {
@@ -13,7 +13,7 @@ export const portfolioRoutes: RouteSpec[] = [
     access: { kind: 'signed-in' },
     handler: async (req, res, { db }) => {
       const filter = await parseBody(portfolioFilterSchema, req.query);
-      res.json({ portfolio: await portfolioFor(db, requireUser(req).id, filter, toDay(new Date())) });
+      res.json({ portfolio: await portfolioFor(db, requireUser(req), filter, toDay(new Date())) });
     },
   },
   {
@@ -22,8 +22,7 @@ export const portfolioRoutes: RouteSpec[] = [
     access: { kind: 'signed-in' },
     devOnly: true,
     handler: async (req, res, { db }) => {
-      const now = new Date();
-      res.json({ preview: await digestFor(db, requireUser(req).id, now) });
+      res.json({ preview: await digestFor(db, requireUser(req), new Date()) });
     },
   },
 ];

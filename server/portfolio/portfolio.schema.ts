@@ -3,7 +3,7 @@
  * Kept free of server-only imports: the client imports this file directly.
  */
 import { object, string, type InferType } from 'yup';
-import { COHORT_STATUSES } from '../design-studio/design-studio.schema.js';
+import { COHORT_STATUSES } from '../trials/trials.schema.js';
 
 export const portfolioFilterSchema = object({
   status: string().oneOf([...COHORT_STATUSES], 'Choose one of the listed statuses.').optional(),

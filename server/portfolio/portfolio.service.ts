@@ -11,15 +11,14 @@
  * sites, so trial-wide response figures are theirs only once released.
  */
 import type { Db } from '../db/knex.js';
-import type { Role } from '../auth/access.js';
-import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/trials.repository.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/current-design.js';
-import { RECOMMENDATION_LABELS, type RecommendationDecision } from '../data-cuts/data-cuts.schema.js';
-import { cohortTallies, emptyTally } from '../accrual/accrual.repository.js';
-import { countsUnder, designTargets, type DesignTargets, type EnrolmentCounts } from '../accrual/accrual.service.js';
+import type { Role, SessionUser } from '../auth/access.js';
+import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
+import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import type { RecommendationDecision } from '../data-cuts/index.js';
+import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
+import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
-import { STATUS_WORDS } from './words.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
 
 export type Progress = { counted: number; target: number; fraction: number };
@@ -132,16 +131,11 @@ export async function portfolioRows(
         cohortName: cohort.name,
         cohortCount: trial.cohorts.length,
         status: cohort.status,
-        statusWords: STATUS_WORDS[cohort.status],
+        statusWords: STATUS_LABELS[cohort.status],
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
         design: designTargets(design),
-        enrolled: counts.enrolled,
-        counted: counts.counted,
-        evaluable: counts.evaluable,
-        pendingOutcomes: counts.pending,
-        enrolledLastWeek: counts.lastWeekEnrolled,
-        lastEnrolledOn: tally.lastEnrolledOn,
+        ...enrolmentCounts(counts, tally),
         progress: { n1: progress(counts.counted, design?.n1), n: progress(counts.counted, design?.n) },
         nextMilestone: nextMilestone({
           status: cohort.status,
@@ -173,8 +167,8 @@ export async function portfolioRows(
   });
 }
 
-export async function portfolioFor(db: Db, userId: string, filter: PortfolioFilter, today: string): Promise<Portfolio> {
-  const trials = await listTrialsForUser(db, userId);
+export async function portfolioFor(db: Db, user: SessionUser, filter: PortfolioFilter, today: string): Promise<Portfolio> {
+  const trials = await listTrialsForUser(db, user.id);
   const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
   const wanted = filter.indication?.toLowerCase();
   const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;

@@ -4,9 +4,7 @@
  */
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
-import type { Request } from 'express';
-import type { Config } from '../config.js';
-import { ReauthenticationRequiredError, UnauthenticatedError } from '../http/errors.js';
+import { ReauthenticationRequiredError } from '../http/errors.js';
 
 export type SignatureSubject = 'design' | 'amendment' | 'attestation' | 'recommendation';
 
@@ -52,12 +50,17 @@ export function contentHash(value: unknown): string {
   return createHash('sha256').update(JSON.stringify(canonical(value))).digest('hex');
 }
 
-/** The time of the user's last sign-in at the identity provider, if it is fresh enough to sign. */
-export function requireFreshAuthentication(req: Request, config: Config): Date {
-  if (!req.user) throw new UnauthenticatedError();
-  const authTime = req.session.authTime;
-  const ageSeconds = authTime ? Date.now() / 1000 - authTime : Infinity;
-  if (!authTime || ageSeconds > config.signatureFreshnessSeconds) throw new ReauthenticationRequiredError(REAUTH_URL);
+/**
+ * The sign-in behind a signature, as the HTTP layer read it from the session: the time of the
+ * user's last sign-in at the identity provider (seconds since the epoch) and how old it may be.
+ */
+export type SignIn = { authTime: number | undefined; maxAgeSeconds: number };
+
+/** The time of that sign-in, if it is fresh enough to sign; otherwise 401 with the way to sign in again. */
+export function requireFreshAuthentication(signIn: SignIn, now = Date.now()): Date {
+  const { authTime } = signIn;
+  const ageSeconds = authTime ? now / 1000 - authTime : Infinity;
+  if (!authTime || ageSeconds > signIn.maxAgeSeconds) throw new ReauthenticationRequiredError(REAUTH_URL);
   return new Date(authTime * 1000);
 }
 

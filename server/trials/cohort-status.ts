@@ -1,12 +1,13 @@
 /**
- * The trial's life (product brief), kept per cohort: draft → enrolling stage 1 → interim review →
+ * The trial's life, kept per cohort: draft → enrolling stage 1 → interim review →
  * enrolling stage 2 → final analysis → completed, or stopped with a reason. A single-stage design
  * goes from enrolling stage 1 straight to the final analysis. Every transition is audited.
  */
 import type { Knex } from 'knex';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, NotFoundError } from '../http/errors.js';
-import type { CohortStatus } from './trials.repository.js';
+import { lockCohort, setCohortStatus } from './trials.repository.js';
+import type { CohortStatus, StopCategory } from './trials.schema.js';
 
 const NEXT: Record<CohortStatus, CohortStatus[]> = {
   draft: ['enrolling_stage_1', 'stopped'],
@@ -17,8 +18,6 @@ const NEXT: Record<CohortStatus, CohortStatus[]> = {
   completed: [],
   stopped: [],
 };
-
-export type StopCategory = 'futility' | 'efficacy' | 'safety' | 'sponsor' | 'other';
 
 export function canTransition(from: CohortStatus, to: CohortStatus): boolean {
   return NEXT[from].includes(to);
@@ -36,9 +35,9 @@ export async function transitionCohort(
     from?: CohortStatus;
   },
 ): Promise<{ from: CohortStatus; to: CohortStatus }> {
-  const cohort = await trx('cohorts').where({ id: input.cohortId }).forUpdate().first();
+  const cohort = await lockCohort(trx, input.cohortId);
   if (!cohort) throw new NotFoundError('The cohort');
-  const from = cohort.status as CohortStatus;
+  const from = cohort.status;
   if (input.from && input.from !== from) {
     throw new ConflictError(`The cohort is now "${from}", no longer "${input.from}".`, { currentStatus: from });
   }
@@ -48,18 +47,14 @@ export async function transitionCohort(
   if (input.to === 'stopped' && (!input.stopCategory || !input.reason)) {
     throw new ConflictError('Stopping needs a category and a reason.');
   }
-  await trx('cohorts')
-    .where({ id: input.cohortId })
-    .update({
-      status: input.to,
-      stop_category: input.to === 'stopped' ? input.stopCategory : null,
-      stop_reason: input.to === 'stopped' ? input.reason : null,
-      status_changed_at: trx.fn.now(),
-      version: trx.raw('version + 1'),
-    });
+  await setCohortStatus(trx, input.cohortId, {
+    status: input.to,
+    stopCategory: input.to === 'stopped' ? (input.stopCategory ?? null) : null,
+    stopReason: input.to === 'stopped' ? (input.reason ?? null) : null,
+  });
   await writeAudit(trx, {
     actorUserId: input.actorUserId,
-    trialId: cohort.trial_id,
+    trialId: cohort.trialId,
     entityType: 'cohort',
     entityId: input.cohortId,
     action: 'status_changed',

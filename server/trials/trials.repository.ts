@@ -1,15 +1,14 @@
-/** Reads trials and their cohorts as plain domain objects. */
+/**
+ * The trials store: trials with their protocol settings, their cohorts and the sites taking part,
+ * as plain domain objects. The only module that reads or writes the trials, cohorts and
+ * trial_sites tables.
+ */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
+import type { CohortStatus } from './trials.schema.js';
 
-export type CohortStatus =
-  | 'draft'
-  | 'enrolling_stage_1'
-  | 'interim_review'
-  | 'enrolling_stage_2'
-  | 'final_analysis'
-  | 'completed'
-  | 'stopped';
+export type { CohortStatus };
 
 export type Cohort = {
   id: string;
@@ -165,6 +164,16 @@ const toSettings = (row: SettingsRow): ProtocolSettings => ({
   inactivityWarningWeeks: row.inactivity_warning_weeks,
 });
 
+const SETTINGS_COLUMNS: Array<keyof SettingsRow> = [
+  'outcome_source',
+  'confirmation_required',
+  'confirmation_min_days',
+  'sd_min_days',
+  'ne_between_responses',
+  'assessment_interval_days',
+  'inactivity_warning_weeks',
+];
+
 const fromSettings = (settings: ProtocolSettings): SettingsRow => ({
   outcome_source: settings.outcomeSource,
   confirmation_required: settings.confirmationRequired,
@@ -174,6 +183,12 @@ const fromSettings = (settings: ProtocolSettings): SettingsRow => ({
   assessment_interval_days: settings.assessmentIntervalDays,
   inactivity_warning_weeks: settings.inactivityWarningWeeks,
 });
+
+/** The protocol's rules for outcomes and accrual warnings, or undefined when there is no such trial. */
+export async function findProtocolSettings(db: Db, trialId: string): Promise<ProtocolSettings | undefined> {
+  const row: SettingsRow | undefined = await db('trials').where({ id: trialId }).first(SETTINGS_COLUMNS);
+  return row && toSettings(row);
+}
 
 export async function listTrialSites(db: Db, trialId: string): Promise<TrialSite[]> {
   return db('trial_sites as ts')
@@ -300,7 +315,63 @@ export async function setTrialSites(db: Db, trialId: string, sites: Array<{ site
     .merge(['planned_accrual_per_month']);
 }
 
-export async function countPatients(db: Db, trialId: string): Promise<number> {
-  const [{ count }] = await db('patients').where({ trial_id: trialId }).count({ count: '*' });
-  return Number(count);
+
+/** The trial's code alone, for writes that only name the trial. */
+export async function trialCode(db: Db, trialId: string): Promise<string | undefined> {
+  const trial = await db('trials').where({ id: trialId }).first('code');
+  return trial?.code;
+}
+
+/** The trial's code and title, for mail that names it. */
+export async function findTrialHeading(db: Db, trialId: string): Promise<{ code: string; title: string } | undefined> {
+  return db('trials').where({ id: trialId }).first('code', 'title');
+}
+
+export type TrialHeading = { id: string; code: string; title: string; indication: string; sponsorName: string | null };
+
+/** The trial row, locked until the transaction ends (so two data cuts of one trial are numbered in turn). */
+export async function lockTrialHeading(trx: Knex.Transaction, trialId: string): Promise<TrialHeading | undefined> {
+  const row = await trx('trials').where({ id: trialId }).forUpdate().first('id', 'code', 'title', 'indication', 'sponsor_name');
+  return row && { id: row.id, code: row.code, title: row.title, indication: row.indication, sponsorName: row.sponsor_name };
+}
+
+/** The cohorts of a trial in their order. */
+export async function listCohorts(db: Db, trialId: string): Promise<Cohort[]> {
+  return (await cohortsByTrial(db, [trialId])).get(trialId) ?? [];
+}
+
+/** A site or cohort as enrolment and the patient list name it. */
+export type SiteRef = { id: string; code: string; name: string };
+export type CohortRef = { id: string; code: string; name: string; status: CohortStatus; position: number };
+/** What enrolment checks against: the trial's start, its sites and its cohorts. */
+export type TrialFacts = { id: string; code: string; startDate: string | null; sites: SiteRef[]; cohorts: CohortRef[] };
+
+export async function trialFacts(db: Db, trialId: string): Promise<TrialFacts | undefined> {
+  const trial = await db('trials').where({ id: trialId }).first('id', 'code', 'start_date');
+  if (!trial) return undefined;
+  const sites: SiteRef[] = await db('trial_sites as ts').join('sites as s', 's.id', 'ts.site_id').where('ts.trial_id', trialId).orderBy('s.code').select('s.id', 's.code', 's.name');
+  const cohorts: CohortRef[] = await db('cohorts').where({ trial_id: trialId }).orderBy('position').select('id', 'code', 'name', 'status', 'position');
+  return { id: trial.id, code: trial.code, startDate: trial.start_date, sites, cohorts };
+}
+
+/** Locks the cohort row until the transaction ends: enrolments into it are numbered one at a time, and its status moves one change at a time. */
+export async function lockCohort(trx: Knex.Transaction, cohortId: string): Promise<(Cohort & { trialId: string }) | undefined> {
+  const row: CohortRow | undefined = await trx('cohorts').where({ id: cohortId }).forUpdate().first();
+  return row && { ...toCohort(row), trialId: row.trial_id };
+}
+
+export async function setCohortStatus(
+  trx: Knex.Transaction,
+  cohortId: string,
+  change: { status: CohortStatus; stopCategory: string | null; stopReason: string | null },
+): Promise<void> {
+  await trx('cohorts')
+    .where({ id: cohortId })
+    .update({
+      status: change.status,
+      stop_category: change.stopCategory,
+      stop_reason: change.stopReason,
+      status_changed_at: trx.fn.now(),
+      version: trx.raw('version + 1'),
+    });
 }

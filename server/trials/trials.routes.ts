@@ -1,11 +1,10 @@
 /** Trials: the ones a user can see, one trial's record, and setting a trial up (admin; protocol settings: statistician). */
-import { requireTrialAccess, requireUser, type RouteSpec } from '../http/routes.js';
+import { actorOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { ROLES, isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
-import { findTrialDetail, listTrialsForUser } from './trials.repository.js';
 import { cohortSchema, cohortUpdateSchema, protocolSettingsSchema, trialCreateSchema, trialUpdateSchema } from './trials.schema.js';
-import { addCohort, createTrial, updateCohort, updateProtocolSettings, updateTrial } from './trials.service.js';
+import { addCohort, createTrial, trialDetail, trialsFor, updateCohort, updateProtocolSettings, updateTrial } from './trials.service.js';
 
 export const trialsRoutes: RouteSpec[] = [
   {
@@ -13,7 +12,7 @@ export const trialsRoutes: RouteSpec[] = [
     path: '/api/trials',
     access: { kind: 'signed-in' },
     handler: async (req, res, { db }) => {
-      res.json({ trials: await listTrialsForUser(db, requireUser(req).id) });
+      res.json({ trials: await trialsFor(db, requireUser(req)) });
     },
   },
   {
@@ -31,10 +30,7 @@ export const trialsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      const access = requireTrialAccess(req);
-      const trial = await findTrialDetail(db, access.trialId);
-      if (!trial) throw new NotFoundError('The trial');
-      res.json({ trial: { ...trial, myRoles: access.roles, mySiteIds: access.siteIds } });
+      res.json({ trial: await trialDetail(db, actorOf(req)) });
     },
   },
   {
@@ -43,7 +39,7 @@ export const trialsRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['admin'] },
     handler: async (req, res, { db }) => {
       const input = await parseBody(trialUpdateSchema, req.body);
-      res.json({ trial: await updateTrial(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+      res.json({ trial: await updateTrial(db, actorOf(req), input) });
     },
   },
   {
@@ -52,7 +48,7 @@ export const trialsRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['admin'] },
     handler: async (req, res, { db }) => {
       const input = await parseBody(cohortSchema, req.body);
-      res.status(201).json({ cohort: await addCohort(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+      res.status(201).json({ cohort: await addCohort(db, actorOf(req), input) });
     },
   },
   {
@@ -63,16 +59,16 @@ export const trialsRoutes: RouteSpec[] = [
       const input = await parseBody(cohortUpdateSchema, req.body);
       const cohortId = req.params.cohortId;
       if (!isUuid(cohortId)) throw new NotFoundError('The cohort');
-      res.json({ cohort: await updateCohort(db, requireUser(req), requireTrialAccess(req).trialId, cohortId, input) });
+      res.json({ cohort: await updateCohort(db, actorOf(req), cohortId, input) });
     },
   },
   {
     method: 'patch',
     path: '/api/trials/:trialId/protocol-settings',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks }) => {
       const input = await parseBody(protocolSettingsSchema, req.body);
-      res.json({ trial: await updateProtocolSettings(db, requireUser(req), requireTrialAccess(req).trialId, input) });
+      res.json({ trial: await updateProtocolSettings(db, hooks, actorOf(req), input) });
     },
   },
 ];

@@ -1,9 +1,17 @@
 /**
  * Yup schemas for setting up a trial: the trial record, its cohorts and sites, and the
- * statistician's protocol settings for outcomes. Shared by the routes and the client's forms, so
- * this file imports nothing but Yup.
+ * statistician's protocol settings for outcomes; and the codes of a cohort's life that other
+ * payloads name. Shared by the routes and the client's forms, so this file imports nothing but Yup.
  */
 import * as yup from 'yup';
+
+/** A cohort's life: draft → enrolling stage 1 → interim review → enrolling stage 2 → final analysis → completed, or stopped. */
+export const COHORT_STATUSES = ['draft', 'enrolling_stage_1', 'interim_review', 'enrolling_stage_2', 'final_analysis', 'completed', 'stopped'] as const;
+export type CohortStatus = (typeof COHORT_STATUSES)[number];
+
+/** Why a cohort stopped. */
+export const STOP_CATEGORIES = ['futility', 'efficacy', 'safety', 'sponsor', 'other'] as const;
+export type StopCategory = (typeof STOP_CATEGORIES)[number];
 
 /** Empty form inputs arrive as '' — treat them as "not given". */
 const emptyToNull = (value: unknown, original: unknown) => (original === '' || original === undefined ? null : value);

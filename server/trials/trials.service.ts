@@ -4,16 +4,19 @@
  * for outcomes. Each change is one transaction with its audit row; edits are version-locked.
  */
 import type { Db } from '../db/knex.js';
+import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
-import { recomputeDerivationsForTrial } from '../assessments/assessments.service.js';
+import { emit, type Hooks } from '../hooks.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { countPatientsInTrial } from '../patients/index.js';
+import { insertMembership } from '../people/index.js';
 import {
-  countPatients,
   existingSiteIds,
   findCohort,
   findTrialDetail,
   insertCohorts,
   insertTrial,
+  listTrialsForUser,
   setTrialSites,
   sitesInUse,
   updateCohortRow,
@@ -22,6 +25,7 @@ import {
   type Cohort,
   type TrialDetail,
   type TrialFields,
+  type TrialForUser,
 } from './trials.repository.js';
 import {
   DEFAULT_COHORT,
@@ -31,9 +35,6 @@ import {
   type TrialCreateInput,
   type TrialUpdateInput,
 } from './trials.schema.js';
-
-
-type Actor = { id: string; email: string };
 
 const fieldsOf = (input: TrialCreateInput | TrialUpdateInput): TrialFields => ({
   code: input.code,
@@ -80,10 +81,23 @@ function checkVersion(trial: TrialDetail, version: number): void {
   }
 }
 
-export async function createTrial(db: Db, actor: Actor, input: TrialCreateInput): Promise<TrialDetail> {
+/** Every trial the user holds an active role on, with those roles. */
+export async function trialsFor(db: Db, user: SessionUser): Promise<TrialForUser[]> {
+  return listTrialsForUser(db, user.id);
+}
+
+/** The trial as its set-up forms and overview need it, with the actor's roles and sites on it. */
+export async function trialDetail(db: Db, actor: Actor): Promise<TrialDetail & { myRoles: Role[]; mySiteIds: string[] }> {
+  const trial = await findTrialDetail(db, actor.access.trialId);
+  if (!trial) throw new NotFoundError('The trial');
+  return { ...trial, myRoles: actor.access.roles, mySiteIds: actor.access.siteIds };
+}
+
+/** Any trial manager creates a trial, and becomes its admin. */
+export async function createTrial(db: Db, user: SessionUser, input: TrialCreateInput): Promise<TrialDetail> {
   return db.transaction(async (trx) => {
     await checkSitesExist(trx, input.sites);
-    const trialId = await insertTrial(trx, fieldsOf(input), actor.id);
+    const trialId = await insertTrial(trx, fieldsOf(input), user.id);
     if (!trialId) throw codeTaken(input.code);
     const cohorts = input.cohorts.length > 0 ? input.cohorts : [DEFAULT_COHORT];
     await insertCohorts(
@@ -93,14 +107,12 @@ export async function createTrial(db: Db, actor: Actor, input: TrialCreateInput)
     );
     await setTrialSites(trx, trialId, input.sites.map((s) => ({ siteId: s.siteId, plannedAccrualPerMonth: s.plannedAccrualPerMonth ?? null })));
     // The creator manages the new trial; without this nobody could open it.
-    const [membership] = await trx('memberships')
-      .insert({ trial_id: trialId, user_id: actor.id, email: actor.email, role: 'admin', status: 'active', invited_by: actor.id })
-      .returning('id');
+    const membershipId = (await insertMembership(trx, { trialId, email: user.email, role: 'admin', siteId: null, userId: user.id, status: 'active', invitedBy: user.id })) as string;
     const trial = (await findTrialDetail(trx, trialId)) as TrialDetail;
-    await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'trial', entityId: trialId, action: 'created', after: auditView(trial) });
+    await writeAudit(trx, { actorUserId: user.id, trialId, entityType: 'trial', entityId: trialId, action: 'created', after: auditView(trial) });
     for (const cohort of trial.cohorts) {
       await writeAudit(trx, {
-        actorUserId: actor.id,
+        actorUserId: user.id,
         trialId,
         entityType: 'cohort',
         entityId: cohort.id,
@@ -109,18 +121,19 @@ export async function createTrial(db: Db, actor: Actor, input: TrialCreateInput)
       });
     }
     await writeAudit(trx, {
-      actorUserId: actor.id,
+      actorUserId: user.id,
       trialId,
       entityType: 'membership',
-      entityId: membership.id,
+      entityId: membershipId,
       action: 'created',
-      after: { email: actor.email, role: 'admin', status: 'active' },
+      after: { email: user.email, role: 'admin', status: 'active' },
     });
     return trial;
   });
 }
 
-export async function updateTrial(db: Db, actor: Actor, trialId: string, input: TrialUpdateInput): Promise<TrialDetail> {
+export async function updateTrial(db: Db, { user, access }: Actor, input: TrialUpdateInput): Promise<TrialDetail> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const before = await lockTrial(trx, trialId);
     checkVersion(before, input.version);
@@ -135,7 +148,7 @@ export async function updateTrial(db: Db, actor: Actor, trialId: string, input: 
     if (!(await updateTrialRow(trx, trialId, fieldsOf(input)))) throw codeTaken(input.code);
     await setTrialSites(trx, trialId, input.sites.map((s) => ({ siteId: s.siteId, plannedAccrualPerMonth: s.plannedAccrualPerMonth ?? null })));
     const after = (await findTrialDetail(trx, trialId)) as TrialDetail;
-    await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'trial', entityId: trialId, action: 'updated', before: auditView(before), after: auditView(after) });
+    await writeAudit(trx, { actorUserId: user.id, trialId, entityType: 'trial', entityId: trialId, action: 'updated', before: auditView(before), after: auditView(after) });
     return after;
   });
 }
@@ -146,7 +159,8 @@ function requireDraft(trial: TrialDetail): void {
   }
 }
 
-export async function addCohort(db: Db, actor: Actor, trialId: string, input: CohortInput): Promise<Cohort> {
+export async function addCohort(db: Db, { user, access }: Actor, input: CohortInput): Promise<Cohort> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const trial = await lockTrial(trx, trialId);
     requireDraft(trial);
@@ -155,12 +169,13 @@ export async function addCohort(db: Db, actor: Actor, trialId: string, input: Co
     }
     const position = Math.max(0, ...trial.cohorts.map((c) => c.position)) + 1;
     const [cohort] = await insertCohorts(trx, trialId, [{ code: input.code, name: input.name, position }]);
-    await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'cohort', entityId: cohort.id, action: 'created', after: { code: cohort.code, name: cohort.name } });
+    await writeAudit(trx, { actorUserId: user.id, trialId, entityType: 'cohort', entityId: cohort.id, action: 'created', after: { code: cohort.code, name: cohort.name } });
     return cohort;
   });
 }
 
-export async function updateCohort(db: Db, actor: Actor, trialId: string, cohortId: string, input: CohortUpdateInput): Promise<Cohort> {
+export async function updateCohort(db: Db, { user, access }: Actor, cohortId: string, input: CohortUpdateInput): Promise<Cohort> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const trial = await lockTrial(trx, trialId);
     const before = await findCohort(trx, trialId, cohortId, { lock: true });
@@ -174,7 +189,7 @@ export async function updateCohort(db: Db, actor: Actor, trialId: string, cohort
     }
     const after = await updateCohortRow(trx, cohortId, { code: input.code, name: input.name });
     await writeAudit(trx, {
-      actorUserId: actor.id,
+      actorUserId: user.id,
       trialId,
       entityType: 'cohort',
       entityId: cohortId,
@@ -186,23 +201,24 @@ export async function updateCohort(db: Db, actor: Actor, trialId: string, cohort
   });
 }
 
-export async function updateProtocolSettings(db: Db, actor: Actor, trialId: string, input: ProtocolSettingsInput): Promise<TrialDetail> {
+export async function updateProtocolSettings(db: Db, hooks: Hooks, { user, access }: Actor, input: ProtocolSettingsInput): Promise<TrialDetail> {
+  const { trialId } = access;
   return db.transaction(async (trx) => {
     const before = await lockTrial(trx, trialId);
     checkVersion(before, input.version);
     // Once patients are enrolled the rules change how their outcomes count: say why.
-    if (!input.reason && (await countPatients(trx, trialId)) > 0) {
+    if (!input.reason && (await countPatientsInTrial(trx, trialId)) > 0) {
       throw new InputError('Patients are enrolled: give a reason for changing the protocol settings.', {
         reason: 'A reason is required once patients are enrolled.',
       });
     }
     const { reason, version: _version, ...settings } = input;
-    await updateProtocolSettingsRow(trx, trialId, settings as TrialDetail['protocolSettings']);
+    await updateProtocolSettingsRow(trx, trialId, settings);
     const after = (await findTrialDetail(trx, trialId)) as TrialDetail;
-    // The outcome rules changed: every stored derivation (and, when derived, outcome) follows now.
-    await recomputeDerivationsForTrial(trx, trialId, { actorUserId: actor.id });
+    // The outcome rules changed: whatever rests on them follows in this transaction.
+    await emit(trx, hooks.protocolSettingsChanged, { trialId, actorUserId: user.id });
     await writeAudit(trx, {
-      actorUserId: actor.id,
+      actorUserId: user.id,
       trialId,
       entityType: 'trial',
       entityId: trialId,

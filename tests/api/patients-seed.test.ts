@@ -1,5 +1,5 @@
 /**
- * The demo patients make the product brief's scenario true on top of the demo designs, and running
+ * The demo patients make the demo scenario true on top of the demo designs, and running
  * the seed again changes nothing.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

@@ -34,7 +34,8 @@ export async function measure(options: RunOptions): Promise<Measured> {
   const times: number[] = [];
   const statuses: Record<number, number> = {};
   const instance = autocannon({ duration: BENCH_SECONDS, ...options });
-  instance.on('response', (_client: unknown, status: number, _bytes: number, responseTime: number) => {
+  // on() returns the instance itself, whose completion is awaited below.
+  void instance.on('response', (_client: unknown, status: number, _bytes: number, responseTime: number) => {
     times.push(responseTime);
     statuses[status] = (statuses[status] ?? 0) + 1;
   });
@@ -77,9 +78,10 @@ export async function temporaryDatabase(): Promise<{ url: string; remove: () => 
   await ensureDatabase(cluster.url('postgres'), name);
   return {
     url: cluster.url(name),
-    remove: async () => {
+    remove: () => {
       cluster.stop();
       removeDataDir(dataDir);
+      return Promise.resolve();
     },
   };
 }

@@ -90,7 +90,7 @@ describe('cross-trial and cross-site access', () => {
       const values: Record<string, string> = {};
       for (const name of pathParams(spec)) values[name] = name === 'trialId' ? home.trialId : await fill(name, other);
       const secrets = await secretsOf(other, Object.entries(values).filter(([n]) => n !== 'trialId').map(([, v]) => v));
-      for (const role of allowedRoles(spec) as RoleName[]) attempts.push({ label: "another trial's record", role, spec, path: fillPath(spec, values), secrets });
+      for (const role of allowedRoles(spec)) attempts.push({ label: "another trial's record", role, spec, path: fillPath(spec, values), secrets });
     }
     expect(attempts.length).toBeGreaterThan(0);
     expect(await judge(attempts)).toEqual([]);
@@ -118,7 +118,7 @@ describe('cross-trial and cross-site access', () => {
     );
     const attempts: Attempt[] = [];
     for (const spec of routes) {
-      for (const role of allowedRoles(spec).filter((r) => SITE_ROLES.includes(r)) as RoleName[]) {
+      for (const role of allowedRoles(spec).filter((r): r is RoleName => SITE_ROLES.includes(r))) {
         const values: Record<string, string> = {};
         for (const name of pathParams(spec)) {
           if (name === 'trialId') values[name] = home.trialId;
@@ -140,7 +140,7 @@ describe('cross-trial and cross-site access', () => {
     const problems: string[] = [];
     const reads = recordRoutes(stack.server.routes).filter((r) => r.method === 'get' && pathParams(r).includes('trialId') && unfillable(r).length === 0);
     for (const spec of reads) {
-      for (const role of allowedRoles(spec) as RoleName[]) {
+      for (const role of allowedRoles(spec)) {
         const values: Record<string, string> = {};
         for (const name of pathParams(spec)) {
           if (name === 'trialId') values[name] = other.trialId;

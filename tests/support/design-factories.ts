@@ -2,7 +2,7 @@
 import type { Db } from '../../server/db/knex.js';
 import type { Session } from './sign-in.js';
 
-/** The demo trial TSY-201's settings (product brief). */
+/** The demo trial TSY-201's settings (the demo seed's, server/dev/seed/designs.ts). */
 export const TSY201_SETTINGS = { p0: 0.2, p1: 0.4, alpha: 0.05, beta: 0.2, nmax: 60 };
 
 export function lockBody(overrides: Record<string, unknown> = {}): Record<string, unknown> {

@@ -12,8 +12,8 @@ import { matrixAssessment, matrixPatient } from './assessment-factories.js';
 export type ParamContext = { stack: Stack; trial: TrialFixture };
 
 export const paramFixtures: Record<string, (context: ParamContext) => Promise<string>> = {
-  cohortId: async ({ trial }) => trial.cohortIds[0],
-  siteId: async ({ trial }) => Object.values(trial.siteIds)[0],
+  cohortId: ({ trial }) => Promise.resolve(trial.cohortIds[0]),
+  siteId: ({ trial }) => Promise.resolve(Object.values(trial.siteIds)[0]),
   // A fresh pending membership per route, so an allowed DELETE removes nobody the matrix needs.
   membershipId: async ({ stack, trial }) => (await createPendingMembership(stack.db, trial.trialId)).id,
   // One interim cut on the fixture trial's first cohort, shared by every data-cut route.

@@ -9,7 +9,7 @@ import PDFDocument from 'pdfkit';
 import type { AppliedDecision, DataCut, Recommendation } from '../data-cuts.repository.js';
 import type { CohortAnalysis } from '../analysis.js';
 import type { CutAnalysis } from '../data-cuts.service.js';
-import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../data-cuts.schema.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../../words/index.js';
 
 export type ReportInput = {
   cut: DataCut;

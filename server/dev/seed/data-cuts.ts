@@ -6,12 +6,10 @@
  */
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
-import { currentDesign } from '../../design-studio/current-design.js';
-import { canTransition } from '../../trials/cohort-status.js';
-import type { CohortStatus } from '../../trials/trials.repository.js';
-import { insertDecision, releaseToSponsor } from '../../data-cuts/data-cuts.repository.js';
-import { DECISION_TARGET, applyWithin, freezeWithin, signWithin, type Actor } from '../../data-cuts/data-cuts.service.js';
-import type { DecisionAction, RecommendationDecision } from '../../data-cuts/data-cuts.schema.js';
+import { currentDesign } from '../../design-studio/index.js';
+import { canTransition, type CohortStatus } from '../../trials/index.js';
+import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseToSponsor, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
+import type { SessionUser } from '../../auth/access.js';
 
 type Plan = {
   code: string;
@@ -45,7 +43,7 @@ const addDays = (iso: string, days: number) => {
   return d;
 };
 
-async function actor(trx: Knex.Transaction, email: string): Promise<Actor | undefined> {
+async function actor(trx: Knex.Transaction, email: string): Promise<Pick<SessionUser, 'id' | 'email'> | undefined> {
   const row = await trx('users').whereRaw('lower(email) = ?', [email]).first('id', 'email');
   return row ? { id: row.id, email: row.email } : undefined;
 }

@@ -7,10 +7,8 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { transitionCohort, type StopCategory } from '../../trials/cohort-status.js';
-import type { CohortStatus } from '../../trials/trials.repository.js';
-import { chosenDesign } from '../../design-studio/candidates.js';
-import { signatureMeaning, type Selection } from '../../design-studio/design-studio.schema.js';
+import { transitionCohort, type CohortStatus, type StopCategory } from '../../trials/index.js';
+import { chosenDesign, signatureMeaning, type Selection } from '../../design-studio/index.js';
 
 type DemoDesign = {
   trial: string;

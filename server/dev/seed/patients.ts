@@ -1,5 +1,5 @@
 /**
- * Demo patients that make the product brief's scenario true, read against the designs the design
+ * Demo patients that make the demo scenario true, read against the designs the design
  * seed locked: TSY-201 in stage 2 with patients at all four sites (stage 1 passed, a few outcomes
  * pending), TSY-202 with its stage-1 cohort complete and accrual paused, TSY-203 stopped for
  * futility after stage 1, TSY-204's three cohorts enrolling. Dates spread over the trials' lives
@@ -9,8 +9,8 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { currentDesign } from '../../design-studio/current-design.js';
-import { assignStages, type Outcome } from '../../evaluation/counting.js';
+import { currentDesign } from '../../design-studio/index.js';
+import { assignStages, type Outcome } from '../../evaluation/index.js';
 
 /** R responder, N non-responder, P pending, E not evaluable (no post-baseline assessment). */
 type Plan = { trial: string; cohort: string; outcomes: (n1: number, r1: number) => string };

@@ -1,6 +1,6 @@
 /**
- * The invented demo scenario of the product brief: sponsor "Tessaly Bio", agent TSY-17, five
- * trials, four sites and one person per role, each a member of every demo trial in that role.
+ * The invented demo scenario: sponsor "Tessaly Bio", agent TSY-17, five trials, four sites and one
+ * person per role, each a member of every demo trial in that role (the README lists the accounts).
  */
 import type { Knex } from 'knex';
 

@@ -1,4 +1,4 @@
-/** Sessions live in PostgreSQL so any server process can serve any request. */
+/** The session middleware: sessions live in PostgreSQL so any server process can serve any request. */
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import pg from 'pg';

@@ -1,0 +1,8 @@
+/**
+ * How patients count (the one definition) and the live evaluation of a trial's cohorts. Other
+ * features import this feature only through this file.
+ */
+export { assignStages, countsToward, effectiveOutcome, responderPath, tally } from './counting.js';
+export type { AnalysisPopulation, CountablePatient, Outcome, Tally } from './counting.js';
+export { countCounting } from './evaluation.repository.js';
+export { evaluationRoutes } from './evaluation.routes.js';

@@ -1,0 +1,32 @@
+/**
+ * What a write in one feature sets off in another, inside the same transaction: a patient write
+ * re-derives the patient's best overall response from their assessments; a change to the
+ * protocol's outcome rules re-derives every patient of the trial. The features that emit an event
+ * do not know who listens: the composition root (server/app.ts) names every listener and hands the
+ * hooks to the routes, which pass them to the services. Nothing registers itself on import.
+ */
+import type { Knex } from 'knex';
+
+export type PatientWrite = {
+  trialId: string;
+  cohortId: string;
+  patientId: string;
+  action: 'enrolled' | 'outcome_recorded' | 'outcome_corrected' | 'outcome_attested';
+  actorUserId: string;
+};
+
+export type ProtocolSettingsChange = { trialId: string; actorUserId: string };
+
+export type Listener<E> = (trx: Knex.Transaction, event: E) => Promise<void>;
+
+export type Hooks = {
+  /** After every enrolment, outcome change and attestation (the form, the CSV import), before commit. */
+  patientWritten: readonly Listener<PatientWrite>[];
+  /** After the statistician changes the protocol's outcome settings, before commit. */
+  protocolSettingsChanged: readonly Listener<ProtocolSettingsChange>[];
+};
+
+/** Runs the listeners one after another inside the caller's transaction. */
+export async function emit<E>(trx: Knex.Transaction, listeners: readonly Listener<E>[], event: E): Promise<void> {
+  for (const listener of listeners) await listener(trx, event);
+}

@@ -1,0 +1,8 @@
+/**
+ * People & sites: the routes and the people store (sites, memberships, the users behind them).
+ * Other features import this feature only through this file.
+ */
+export { countMonitors, decisionRecipients, findUserName, holdsRoleAtSite, insertMembership, memberEmails, sponsorRecipients, statisticianEmails } from './people.repository.js';
+export type { SponsorRecipient } from './people.repository.js';
+export { peopleRoutes } from './people.routes.js';
+export { membershipsOf } from './people.service.js';
