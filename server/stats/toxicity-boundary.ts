@@ -161,7 +161,7 @@ function validateBounds(bounds: unknown): Cutoffs {
     const k = i + 1;
     if (b === null) return k + 1;
     if (typeof b !== 'number' || !Number.isInteger(b) || b < 1 || b > k) {
-      throw new StatsInputError('bounds', `bounds[${i}] must be null or a whole number from 1 to ${k} (got ${String(b)}).`);
+      throw new StatsInputError('bounds', `bounds[${i}] must be null or a whole number from 1 to ${k} (got ${JSON.stringify(b)}).`);
     }
     return b;
   });

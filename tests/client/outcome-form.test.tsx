@@ -50,7 +50,7 @@ describe('OutcomeForm', () => {
     const recorded = patientRecord({ outcome: 'non_responder', bestOverallResponse: 'SD', responseAssessedOn: '2026-05-04', version: 3 });
     renderWithApp(<OutcomeForm trialId={TRIAL_ID} patient={recorded} canWrite />);
 
-    const response = screen.getByLabelText('Best overall response') as HTMLSelectElement;
+    const response = screen.getByLabelText<HTMLSelectElement>('Best overall response');
     expect(response.value).toBe('SD');
     choose('Outcome', 'responder');
     await waitFor(() => expect(response.value).toBe(''));
@@ -121,8 +121,8 @@ describe('OutcomeForm', () => {
 
     fireEvent.click(within(conflict).getByRole('button', { name: 'Reload the current record' }));
     await waitFor(() => expect(screen.queryByText(/Someone saved this patient/)).not.toBeInTheDocument());
-    expect((screen.getByLabelText('Outcome') as HTMLSelectElement).value).toBe('non_responder');
-    expect((screen.getByLabelText('Best overall response') as HTMLSelectElement).value).toBe('PD');
+    expect(screen.getByLabelText<HTMLSelectElement>('Outcome').value).toBe('non_responder');
+    expect(screen.getByLabelText<HTMLSelectElement>('Best overall response').value).toBe('PD');
     expect(screen.getByLabelText('Date of the response assessment')).toHaveValue('2026-04-20');
   });
 });

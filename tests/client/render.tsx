@@ -35,13 +35,13 @@ export type CannedResponse = { status: number; body?: unknown };
 /** Replaces `fetch` with one that answers each call with the next canned response, in order. */
 export function stubFetch(...responses: CannedResponse[]) {
   const queue = [...responses];
-  const fetchMock = vi.fn(async (_input: RequestInfo | URL, _init?: RequestInit) => {
+  const fetchMock = vi.fn((_input: RequestInfo | URL, _init?: RequestInit) => {
     const next = queue.shift();
-    if (!next) throw new Error('An unexpected request reached the network.');
-    return new Response(next.body === undefined ? null : JSON.stringify(next.body), {
+    if (!next) return Promise.reject(new Error('An unexpected request reached the network.'));
+    return Promise.resolve(new Response(next.body === undefined ? null : JSON.stringify(next.body), {
       status: next.status,
       headers: next.body === undefined ? {} : { 'content-type': 'application/json' },
-    });
+    }));
   });
   vi.stubGlobal('fetch', fetchMock);
   return fetchMock;
@@ -50,5 +50,5 @@ export function stubFetch(...responses: CannedResponse[]) {
 /** The JSON body the app sent with a stubbed call. */
 export function sentBody(fetchMock: ReturnType<typeof stubFetch>, call = 0): unknown {
   const init = fetchMock.mock.calls[call]?.[1];
-  return init?.body ? JSON.parse(String(init.body)) : undefined;
+  return typeof init?.body === 'string' ? JSON.parse(init.body) : undefined;
 }

@@ -29,6 +29,7 @@ export function DataTable<T>({
 }: {
   data: T[];
   // TanStack's column value types differ per column; `any` is its documented way to mix them.
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   columns: ColumnDef<T, any>[];
   /** Names the table for screen readers. */
   label: string;

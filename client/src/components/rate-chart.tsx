@@ -52,7 +52,7 @@ export function RateChart({ rows, title }: { rows: RateRow[]; title: string }) {
   const summary = `${title}: ${shown.map((r) => `${r.label} ${pct(r.estimate as number)} (${pct((r.ci as [number, number])[0])} to ${pct((r.ci as [number, number])[1])})`).join('; ')}.`;
   return (
     <div className="h-72">
-      <ChartView type="bar" data={data as ChartData<'bar'>} options={options as ChartOptions<'bar'>} role="img" aria-label={summary} />
+      <ChartView type="bar" data={data} options={options} role="img" aria-label={summary} />
     </div>
   );
 }

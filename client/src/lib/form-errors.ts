@@ -7,7 +7,7 @@ export function showServerError<T>(error: unknown, helpers: FormikHelpers<T>): v
     const entries = Object.entries(error.fields);
     if (entries.length > 0) {
       helpers.setErrors(entries.reduce((errors, [field, message]) => setIn(errors, field, message), {}));
-      helpers.setTouched(entries.reduce((touched, [field]) => setIn(touched, field, true), {}), false);
+      void helpers.setTouched(entries.reduce((touched, [field]) => setIn(touched, field, true), {}), false);
     }
   }
   helpers.setStatus(error);

@@ -86,7 +86,7 @@ export function CorrectAssessmentForm({ trialId, patientId, enrolledOn, assessme
   const reload = useReloadOnConflict(trialId, patientId);
   return (
     <Formik
-      initialValues={{ date: assessment.date, response: assessment.response as string, notes: assessment.notes ?? '', version: assessment.version, reason: '' }}
+      initialValues={{ date: assessment.date, response: assessment.response, notes: assessment.notes ?? '', version: assessment.version, reason: '' }}
       validationSchema={assessmentCorrectionSchema(enrolledOn)}
       enableReinitialize
       onSubmit={async (values, helpers) => {
@@ -96,7 +96,7 @@ export function CorrectAssessmentForm({ trialId, patientId, enrolledOn, assessme
             version: values.version,
             reason: values.reason,
             ...(values.date !== assessment.date ? { date: values.date } : {}),
-            ...(values.response !== assessment.response ? { response: values.response as Assessment['response'] } : {}),
+            ...(values.response !== assessment.response ? { response: values.response } : {}),
             ...((values.notes || null) !== assessment.notes ? { notes: values.notes || null } : {}),
           });
           onDone();

@@ -13,7 +13,7 @@ export function AuditFiltersForm({ entityTypes, onApply }: { entityTypes: string
     <Formik
       initialValues={empty}
       validationSchema={auditQuerySchema.pick(['entityType', 'entityId', 'actor', 'from', 'to'])}
-      onSubmit={(values) => onApply(Object.fromEntries(Object.entries(values).filter(([, v]) => v !== '')) as AuditFilters)}
+      onSubmit={(values) => onApply(Object.fromEntries(Object.entries(values).filter(([, v]) => v !== '')))}
       onReset={() => onApply({})}
     >
       <Form noValidate className="grid items-end gap-3 sm:grid-cols-3 lg:grid-cols-6">

@@ -12,7 +12,7 @@ function show(value: unknown): string {
       .map(([key, inner]) => `${words(key)} ${show(inner)}`)
       .join(', ');
   }
-  return String(value);
+  return typeof value === 'string' ? value : JSON.stringify(value);
 }
 
 const asRecord = (value: unknown): Record<string, unknown> | undefined =>

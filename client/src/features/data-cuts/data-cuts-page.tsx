@@ -11,7 +11,7 @@ import { SelectField } from '../../components/field';
 import { ApiError } from '../../lib/api';
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
-import { createDataCutSchema } from '../../../../server/data-cuts/data-cuts.schema';
+import { createDataCutSchema, type CutKind } from '../../../../server/data-cuts/data-cuts.schema';
 import { useTrialContext } from '../trials';
 import { useDataCuts } from './get-data-cuts';
 import { useFreezeDataCut } from './use-freeze-data-cut';
@@ -21,15 +21,16 @@ function FreezeForm({ trialId }: { trialId: string }) {
   const trial = useTrialContext();
   const freeze = useFreezeDataCut(trialId);
   const navigate = useNavigate();
+  const initialValues: { cohortId: string; kind: CutKind } = { cohortId: trial.cohorts.length === 1 ? trial.cohorts[0].id : '', kind: 'interim' };
   return (
     <Formik
-      initialValues={{ cohortId: trial.cohorts.length === 1 ? trial.cohorts[0].id : '', kind: 'interim' as 'interim' | 'final' }}
+      initialValues={initialValues}
       validationSchema={createDataCutSchema}
       validateOnChange
       onSubmit={async (values, helpers) => {
         try {
           const { dataCut } = await freeze.mutateAsync({ cohortId: values.cohortId || null, kind: values.kind });
-          navigate(`/trials/${trialId}/data-cuts/${dataCut.id}`);
+          void navigate(`/trials/${trialId}/data-cuts/${dataCut.id}`);
         } catch (error) {
           if (error instanceof ApiError) helpers.setErrors(error.fields);
         }

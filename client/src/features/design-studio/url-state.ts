@@ -77,7 +77,7 @@ export function withValues(params: URLSearchParams, values: StudioValues): URLSe
 export function comparedSettings(params: URLSearchParams): DesignSettings | null {
   if (params.get('run') !== '1') return null;
   const raw = Object.fromEntries(NUMBERS.map((key) => [key, toNumber(params.get(key))]));
-  return designSettingsSchema.isValidSync(raw) ? (raw as DesignSettings) : null;
+  return designSettingsSchema.isValidSync(raw) ? (raw) : null;
 }
 
 const reasonKey = (cohortId: string) => `orrery:design-reason:${cohortId}`;

@@ -10,7 +10,7 @@ const show = (value: unknown) => {
   if (value === null || value === undefined || value === '') return '—';
   if (typeof value === 'boolean') return value ? 'Yes' : 'No';
   // Outcomes read as the words the rest of the page uses, not their stored codes.
-  return OUTCOME_WORDS[value as keyof typeof OUTCOME_WORDS]?.label ?? String(value);
+  return OUTCOME_WORDS[value as keyof typeof OUTCOME_WORDS]?.label ?? (typeof value === 'string' ? value : JSON.stringify(value));
 };
 
 export function ConflictView({ mine, loaded, current, onReload, onKeepMine }: { mine: Entry; loaded: Patient; current: Patient; onReload: () => void; onKeepMine: () => void }) {

@@ -11,7 +11,7 @@ const ACTION_WORDS: Record<string, string> = {
   outcome_attested: 'Outcome attested',
 };
 
-const show = (value: unknown) => (value === null || value === undefined ? '—' : value === true ? 'Yes' : value === false ? 'No' : String(value));
+const show = (value: unknown) => (value === null || value === undefined ? '—' : value === true ? 'Yes' : value === false ? 'No' : typeof value === 'string' ? value : JSON.stringify(value));
 
 function changes(before: unknown, after: unknown): Array<[string, unknown, unknown]> {
   const b = (before ?? {}) as Record<string, unknown>;

@@ -13,7 +13,7 @@ export function MembershipEditor({ membership, sites, onDone }: { membership: Me
   return (
     <Formik
       key={`${membership.id}-${membership.version}`}
-      initialValues={{ role: membership.role as string, siteId: membership.siteId ?? '', version: membership.version }}
+      initialValues={{ role: membership.role, siteId: membership.siteId ?? '', version: membership.version }}
       validationSchema={membershipUpdateSchema}
       onSubmit={async (values, helpers) => {
         helpers.setStatus(undefined);

@@ -19,7 +19,7 @@ export function NewTrialPage() {
             helpers.setStatus(undefined);
             try {
               const trial = await create.mutateAsync(trialCreateSchema.cast(values, { stripUnknown: true }));
-              navigate(`/trials/${trial.id}/people`);
+              void navigate(`/trials/${trial.id}/people`);
             } catch (error) {
               showServerError(error, helpers);
             }

@@ -80,7 +80,7 @@ export function TrialForm({
           <fieldset className="grid gap-2 border border-ink-100 p-3">
             <legend className="px-1 text-xs font-semibold tracking-wide text-ink-700 uppercase">Sites and planned accrual per site</legend>
             <FieldArray name="sites">
-              {({ push, remove }) => (
+              {(sites) => (
                 <>
                   {values.sites.length === 0 && <p className="text-sm text-ink-500">No sites yet. Add the sites that will enrol.</p>}
                   {values.sites.map((_, index) => (
@@ -94,14 +94,14 @@ export function TrialForm({
                         ))}
                       </SelectField>
                       <TextField name={`sites.${index}.plannedAccrualPerMonth`} label="Per month" type="number" min={0} step={1} inputMode="numeric" />
-                      <Button variant="quiet" onClick={() => remove(index)} aria-label={`Remove site ${index + 1}`}>
+                      <Button variant="quiet" onClick={() => sites.remove(index)} aria-label={`Remove site ${index + 1}`}>
                         Remove
                       </Button>
                     </div>
                   ))}
                   <ListError errors={errors} name="sites" />
                   <div>
-                    <Button variant="secondary" onClick={() => push({ siteId: '', plannedAccrualPerMonth: '' })}>
+                    <Button variant="secondary" onClick={() => sites.push({ siteId: '', plannedAccrualPerMonth: '' })}>
                       Add a site
                     </Button>
                   </div>
@@ -115,20 +115,20 @@ export function TrialForm({
               <legend className="px-1 text-xs font-semibold tracking-wide text-ink-700 uppercase">Cohorts</legend>
               <p className="text-xs text-ink-500">Most trials have one cohort. A basket trial has one per tumour type, each with its own design and stopping rules.</p>
               <FieldArray name="cohorts">
-                {({ push, remove }) => (
+                {(cohorts) => (
                   <>
                     {values.cohorts.map((_, index) => (
                       <div key={index} className="grid items-end gap-2 sm:grid-cols-[10rem_1fr_auto]">
                         <TextField name={`cohorts.${index}.code`} label={`Cohort ${index + 1} code`} autoComplete="off" />
                         <TextField name={`cohorts.${index}.name`} label="Name" autoComplete="off" />
-                        <Button variant="quiet" disabled={values.cohorts.length === 1} onClick={() => remove(index)} aria-label={`Remove cohort ${index + 1}`}>
+                        <Button variant="quiet" disabled={values.cohorts.length === 1} onClick={() => cohorts.remove(index)} aria-label={`Remove cohort ${index + 1}`}>
                           Remove
                         </Button>
                       </div>
                     ))}
                     <ListError errors={errors} name="cohorts" />
                     <div>
-                      <Button variant="secondary" onClick={() => push({ code: '', name: '' })}>
+                      <Button variant="secondary" onClick={() => cohorts.push({ code: '', name: '' })}>
                         Add a cohort (basket trial)
                       </Button>
                     </div>

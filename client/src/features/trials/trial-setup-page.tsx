@@ -11,8 +11,8 @@ import { TrialRecordPanel } from './trial-record-panel';
 export function TrialSetupPage() {
   const trial = useTrialContext();
   const isAdmin = hasAnyRole(trial.myRoles, ['admin']);
-  // The trial form and the cohort form share field names, so only one of them is open at a time.
-  const [open, setOpen] = useState<'trial' | string | null>(null);
+  // The trial form and the cohort form share field names, so only one of them is open at a time: 'trial' or a cohort's id.
+  const [open, setOpen] = useState<string | null>(null);
   return (
     <div className="grid gap-4">
       <PageHeader
