@@ -24,7 +24,7 @@ import { healthRoutes } from './health/index.js';
 import { meRoutes } from './me/index.js';
 import { trialsRoutes } from './trials/index.js';
 import { peopleRoutes } from './people/index.js';
-import { designStudioRoutes } from './design-studio/index.js';
+import { designsRoutes } from './designs/index.js';
 import { patientsRoutes } from './patients/index.js';
 import { evaluationRoutes } from './evaluation/index.js';
 import { assessmentsRoutes, rederiveAfterPatientWrite, rederiveTrialAfterSettingsChange } from './assessments/index.js';
@@ -42,7 +42,7 @@ function routeList(oidc: OidcClient): RouteSpec[] {
     ...meRoutes,
     ...trialsRoutes,
     ...peopleRoutes,
-    ...designStudioRoutes,
+    ...designsRoutes,
     ...patientsRoutes,
     ...evaluationRoutes,
     ...assessmentsRoutes,

@@ -9,7 +9,7 @@ import type { Db } from '../db/knex.js';
 import { siteScope, type Actor } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/index.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import type { AnalysisPopulation } from '../evaluation/index.js';
 import {
   cohortTallies,

@@ -5,7 +5,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { LockedDesign } from '../design-studio/index.js';
+import type { LockedDesign } from '../designs/index.js';
 import type { CohortStatus } from '../trials/index.js';
 import type { CutKind } from './data-cuts.schema.js';
 

@@ -10,7 +10,7 @@ import type { Actor, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesigns } from '../design-studio/index.js';
+import { currentDesigns } from '../designs/index.js';
 import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';

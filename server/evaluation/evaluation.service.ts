@@ -9,7 +9,7 @@ import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
 import type { Role } from '../auth/access.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { trialFacts } from '../trials/index.js';
 import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
 import { CAUTIONS } from '../words/index.js';

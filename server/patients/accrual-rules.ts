@@ -8,7 +8,7 @@
 import type { Knex } from 'knex';
 import { ConflictError } from '../http/errors.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { currentDesign, type LockedDesign } from '../design-studio/index.js';
+import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
 import { findCohort, transitionCohort, type Cohort } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';

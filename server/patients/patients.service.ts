@@ -12,7 +12,7 @@ import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../htt
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
-import { currentDesign } from '../design-studio/index.js';
+import { currentDesign } from '../designs/index.js';
 import { countCounting } from '../evaluation/index.js';
 import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/index.js';
 import { holdsRoleAtSite } from '../people/index.js';

@@ -13,7 +13,7 @@
 import type { Db } from '../db/knex.js';
 import type { Role, SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
-import { currentDesigns, type LockedDesign } from '../design-studio/index.js';
+import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
 import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';

@@ -1,6 +1,6 @@
 /** How a cohort's status, its stop category and its analysis population read to a person. */
 import type { CohortStatus, StopCategory } from '../trials/trials.schema.js';
-import type { ANALYSIS_POPULATIONS } from '../design-studio/design-studio.schema.js';
+import type { ANALYSIS_POPULATIONS } from '../designs/designs.schema.js';
 
 /** A status as a label (the Portfolio, the weekly digest). */
 export const STATUS_LABELS: Record<CohortStatus, string> = {

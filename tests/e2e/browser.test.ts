@@ -194,7 +194,7 @@ describe("the trial's journey through the pages", () => {
       await signInThroughPages(page, stack.url, DEMO.statistician);
       const signedInAt = Date.now();
       await page.goto(`${stack.url}/trials/${journeyTrialId}`);
-      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Design studio' }).click();
+      await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Designs' }).click();
       await page.getByLabel('p0', { exact: true }).fill('0.2');
       await page.getByLabel('p1', { exact: true }).fill('0.4');
       await page.getByLabel('α', { exact: true }).fill('0.05');
@@ -206,7 +206,7 @@ describe("the trial's journey through the pages", () => {
       await page.getByLabel('Compare Simon minimax').check();
       await page.getByRole('region', { name: 'Two designs compared' }).waitFor();
       await settle(page);
-      await screenshot(page, 'journey-3-design-studio');
+      await screenshot(page, 'journey-3-designs');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
       // Let the sign-in age past the freshness a signature needs.

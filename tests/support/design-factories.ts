@@ -1,4 +1,4 @@
-/** Builders for Design studio tests: request bodies, an aged sign-in, and counts of what a request wrote. */
+/** Builders for Designs tests: request bodies, an aged sign-in, and counts of what a request wrote. */
 import type { Db } from '../../server/db/knex.js';
 import type { Session } from './sign-in.js';
 

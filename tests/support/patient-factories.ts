@@ -27,7 +27,7 @@ export type DirectDesign = {
 };
 
 /**
- * Locks a design for a cohort as the Design studio would: a signed design version. Defaults are
+ * Locks a design for a cohort as the Designs page would: a signed design version. Defaults are
  * Simon's optimal design for p0 0.20, p1 0.40, α 0.05, β 0.20 (3/13, 12/43).
  */
 export async function lockDesignDirectly(db: Db, input: DirectDesign): Promise<{ designId: string; signatureId: string; version: number }> {

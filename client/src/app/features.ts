@@ -4,7 +4,7 @@ import { portfolioFeature } from '../features/portfolio/routes';
 import { trialOverviewFeature } from '../features/trial-overview/routes';
 import { trialsFeature } from '../features/trials/routes';
 import { peopleFeature } from '../features/people/routes';
-import { designStudioFeature } from '../features/design-studio/routes';
+import { designsFeature } from '../features/designs/routes';
 import { patientsFeature } from '../features/patients/routes';
 import { assessmentsFeature } from '../features/assessments/routes';
 import { dataCutsFeature } from '../features/data-cuts/routes';
@@ -18,7 +18,7 @@ export const features: Feature[] = [
   trialOverviewFeature,
   trialsFeature,
   peopleFeature,
-  designStudioFeature,
+  designsFeature,
   patientsFeature,
   assessmentsFeature,
   dataCutsFeature,

@@ -6,7 +6,7 @@
  */
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
-import { currentDesign } from '../../design-studio/index.js';
+import { currentDesign } from '../../designs/index.js';
 import { canTransition, type CohortStatus } from '../../trials/index.js';
 import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseToSponsor, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';

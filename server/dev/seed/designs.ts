@@ -8,7 +8,7 @@ import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
 import { transitionCohort, type CohortStatus, type StopCategory } from '../../trials/index.js';
-import { chosenDesign, signatureMeaning, type Selection } from '../../design-studio/index.js';
+import { chosenDesign, signatureMeaning, type Selection } from '../../designs/index.js';
 
 type DemoDesign = {
   trial: string;

@@ -9,7 +9,7 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { currentDesign } from '../../design-studio/index.js';
+import { currentDesign } from '../../designs/index.js';
 import { assignStages, type Outcome } from '../../evaluation/index.js';
 
 /** R responder, N non-responder, P pending, E not evaluable (no post-baseline assessment). */

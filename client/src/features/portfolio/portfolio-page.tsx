@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel, statusLabel } from '../../components/ui';
 import { day } from '../../lib/format';
 import { allRoles, useMe } from '../auth';
-import { COHORT_STATUSES } from '../../../../server/design-studio/design-studio.schema';
+import { COHORT_STATUSES } from '../../../../server/designs/designs.schema';
 import type { PortfolioFilter } from '../../../../server/portfolio/portfolio.schema';
 import { usePortfolio } from './get-portfolio';
 import { PortfolioTable } from './portfolio-table';

@@ -11,7 +11,7 @@ export function NewTrialPage() {
   const navigate = useNavigate();
   return (
     <div>
-      <PageHeader title="New trial" subtitle="The trial starts as a draft. The statistician then compares and locks its design in the Design studio." />
+      <PageHeader title="New trial" subtitle="The trial starts as a draft. The statistician then compares and locks its design on the Designs page." />
       <Panel>
         <TrialForm
           submitLabel="Create trial"

@@ -1,5 +1,5 @@
 /**
- * Payloads of the Design studio, shared by the server's routes and the client's forms (the client
+ * Payloads of the Designs page, shared by the server's routes and the client's forms (the client
  * imports this file directly, so it holds nothing but Yup and plain functions).
  */
 import { boolean, number, object, string, type InferType } from 'yup';
@@ -43,7 +43,7 @@ export const designSettingsSchema = object({
 });
 export type DesignSettingsInput = InferType<typeof designSettingsSchema>;
 
-/** The design settings plus what the protocol says about them: the Design studio's form. */
+/** The design settings plus what the protocol says about them: the Designs page's form. */
 export const designFormSchema = designSettingsSchema.shape({
   analysisPopulation: string()
     .required('Choose the analysis population.')

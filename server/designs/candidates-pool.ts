@@ -5,7 +5,7 @@
 import { Worker } from 'node:worker_threads';
 import { AppError, InputError } from '../http/errors.js';
 import { StatsInputError } from '../stats/index.js';
-import type { DesignSettingsInput, Selection } from './design-studio.schema.js';
+import type { DesignSettingsInput, Selection } from './designs.schema.js';
 import type { DesignCandidates, DesignNumbers } from './candidates.js';
 
 /** Far above the slowest search the input bounds allow (about 2 s), so only a fault reaches it. */

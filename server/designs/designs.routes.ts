@@ -1,17 +1,17 @@
 /**
- * Design studio routes. The statistician compares and signs designs; the trial manager (admin)
+ * Designs routes. The statistician compares and signs designs; the trial manager (admin)
  * and the committee (monitor) read them; site roles and sponsors never reach a design route.
  */
 import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
 import { type Role } from '../auth/access.js';
 import { parseBody } from '../http/validate.js';
-import { cohortTransitionSchema, designAmendmentSchema, designLockSchema, designSettingsSchema } from './design-studio.schema.js';
-import { listTrialDesigns, moveCohort, signDesign } from './design-studio.service.js';
+import { cohortTransitionSchema, designAmendmentSchema, designLockSchema, designSettingsSchema } from './designs.schema.js';
+import { listTrialDesigns, moveCohort, signDesign } from './designs.service.js';
 import { runDesignCandidates } from './candidates-pool.js';
 
 const READERS: readonly Role[] = ['statistician', 'admin', 'monitor'];
 
-export const designStudioRoutes: RouteSpec[] = [
+export const designsRoutes: RouteSpec[] = [
   {
     method: 'post',
     path: '/api/trials/:trialId/design-candidates',

@@ -8,7 +8,7 @@ import { Form, Formik } from 'formik';
 import { Button, ErrorNotice, StatusTag } from '../../components/ui';
 import { SelectField, TextAreaField } from '../../components/field';
 import { dateTime } from '../../lib/format';
-import { cohortTransitionSchema } from '../../../../server/design-studio/design-studio.schema';
+import { cohortTransitionSchema } from '../../../../server/designs/designs.schema';
 import { useTransitionCohort } from './use-transition-cohort';
 import type { CohortDesigns } from './types';
 

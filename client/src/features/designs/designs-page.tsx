@@ -1,5 +1,5 @@
 /**
- * Design studio: one tab per cohort. The statistician compares candidate designs for p0, p1, α, β
+ * Designs: one tab per cohort. The statistician compares candidate designs for p0, p1, α, β
  * and nmax, signs one (version 1), signs new versions with a reason, and opens accrual; the trial
  * manager and the committee read the design in force and its signed history.
  */
@@ -7,7 +7,7 @@ import { useState, type KeyboardEvent } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { Formik, useFormikContext } from 'formik';
 import { Cautions, EmptyState, ErrorNotice, Loading, PageHeader, Panel, Spinner, StatusTag } from '../../components/ui';
-import { designFormSchema, type SignatureKind } from '../../../../server/design-studio/design-studio.schema';
+import { designFormSchema, type SignatureKind } from '../../../../server/designs/designs.schema';
 import { useTrialContext, type Trial } from '../trials';
 import { useDesigns } from './get-designs';
 import { useDesignCandidates } from './get-design-candidates';
@@ -20,7 +20,7 @@ import { CohortStatusPanel } from './cohort-status-panel';
 import { candidateList, type CandidateDesign, type CohortDesigns, type DesignSettings } from './types';
 import { comparedSettings, initialValues, withValues, type StudioValues } from './url-state';
 
-export function DesignStudioPage() {
+export function DesignsPage() {
   const trial = useTrialContext();
   const { data: cohorts, isPending, error } = useDesigns(trial.id);
   const [params, setParams] = useSearchParams();
@@ -38,7 +38,7 @@ export function DesignStudioPage() {
   };
   return (
     <div>
-      <PageHeader title="Design studio" subtitle="Compare exact single- and two-stage designs, lock one with your signature, amend it with a reason." />
+      <PageHeader title="Designs: compare, lock and amend" subtitle="Compare exact single- and two-stage designs, lock one with your signature, amend it with a reason." />
       {cohorts.length > 1 && (
         <div role="tablist" aria-label="Cohorts" className="mb-4 flex flex-wrap gap-1 border-b border-ink-200">
           {cohorts.map((cohort, index) => (

@@ -1,11 +1,11 @@
 /**
- * The Design studio's computation, pure: candidate designs with their operating characteristics,
+ * The Designs page's computation, pure: candidate designs with their operating characteristics,
  * and the numbers of a chosen design. It runs in a worker thread (candidates-pool.ts), so it takes
  * and returns plain data only.
  */
 import { InputError } from '../http/errors.js';
 import { operatingCharacteristics, simonDesigns, singleStageDesign, StatsInputError, type OperatingPoint } from '../stats/index.js';
-import { NMAX_LIMIT, type DesignSettingsInput, type Selection } from './design-studio.schema.js';
+import { NMAX_LIMIT, type DesignSettingsInput, type Selection } from './designs.schema.js';
 
 export type DesignNumbers = {
   r1: number | null;

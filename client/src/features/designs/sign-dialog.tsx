@@ -14,7 +14,7 @@ import {
   designLockSchema,
   signatureMeaning,
   type SignatureKind,
-} from '../../../../server/design-studio/design-studio.schema';
+} from '../../../../server/designs/designs.schema';
 import { useSignDesign } from './use-sign-design';
 import { pendingReason, type StudioValues } from './url-state';
 import { ruleText, SELECTION_LABELS, type CandidateDesign, type DesignSettings } from './types';

@@ -1,9 +1,9 @@
-/** The Design studio's records as the server sends them. */
+/** The Designs page's records as the server sends them. */
 import type { OperatingPoint } from '../../../../server/stats/index';
-import type { CandidateDesign, DesignCandidates, DesignNumbers } from '../../../../server/design-studio/candidates';
-import type { DesignSettingsInput, Selection } from '../../../../server/design-studio/design-studio.schema';
-import type { DesignVersion, SignedBy } from '../../../../server/design-studio/design-studio.repository';
-import type { CohortDesigns } from '../../../../server/design-studio/design-studio.service';
+import type { CandidateDesign, DesignCandidates, DesignNumbers } from '../../../../server/designs/candidates';
+import type { DesignSettingsInput, Selection } from '../../../../server/designs/designs.schema';
+import type { DesignVersion, SignedBy } from '../../../../server/designs/designs.repository';
+import type { CohortDesigns } from '../../../../server/designs/designs.service';
 
 export type { CandidateDesign, CohortDesigns, DesignCandidates, DesignNumbers, DesignVersion, OperatingPoint, Selection, SignedBy };
 

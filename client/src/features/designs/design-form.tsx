@@ -2,7 +2,7 @@
 import { useFormikContext } from 'formik';
 import { Button } from '../../components/ui';
 import { CheckboxField, SelectField, TextField } from '../../components/field';
-import { NMAX_LIMIT } from '../../../../server/design-studio/design-studio.schema';
+import { NMAX_LIMIT } from '../../../../server/designs/designs.schema';
 import type { StudioValues } from './url-state';
 
 const SETTINGS = ['p0', 'p1', 'alpha', 'beta', 'nmax'] as const;

@@ -1,10 +1,10 @@
 /**
- * The Design studio keeps its state in the page address: the settings compared, the candidates
+ * The Designs page keeps its state in the page address: the settings compared, the candidates
  * picked for comparison and the candidate being signed. A signature may send the user to the
  * identity provider and back; everything needed to resume is then still in the address (and the
  * reason, which may be long, in sessionStorage).
  */
-import { designSettingsSchema } from '../../../../server/design-studio/design-studio.schema';
+import { designSettingsSchema } from '../../../../server/designs/designs.schema';
 import type { DesignSettings, DesignVersion } from './types';
 
 export type StudioValues = {

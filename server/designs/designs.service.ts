@@ -1,5 +1,5 @@
 /**
- * The Design studio's rules: compare candidate designs, lock one with an electronic signature,
+ * The Designs page's rules: compare candidate designs, lock one with an electronic signature,
  * revise it before the first enrolment or amend it after (always with a reason and a new
  * signature), and open or stop accrual for a cohort.
  *
@@ -15,12 +15,12 @@ import { recordSignature, requireFreshAuthentication, type SignIn } from '../sig
 import type { OperatingPoint } from '../stats/index.js';
 import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, transitionCohort, trialCode, type Cohort, type CohortStatus, type StopCategory } from '../trials/index.js';
 import { countEnrolledByCohort, restageCohort } from '../patients/index.js';
-import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type SignatureKind } from './design-studio.schema.js';
+import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type SignatureKind } from './designs.schema.js';
 import { curveFor, responseGrid } from './candidates.js';
 import { runChosenDesign } from './candidates-pool.js';
-import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './design-studio.repository.js';
+import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './designs.repository.js';
 
-/** A cohort as the Design studio shows it: the trial's cohort record and the trial it belongs to. */
+/** A cohort as the Designs page shows it: the trial's cohort record and the trial it belongs to. */
 export type DesignCohort = Cohort & { trialId: string };
 
 /** The cohort of this trial (undefined for an id that is not one); with `lock`, its row stays locked until the transaction ends. */
