@@ -9,7 +9,7 @@ import PDFDocument from 'pdfkit';
 import type { AppliedDecision, DataCut, Recommendation } from '../data-cuts.repository.js';
 import type { CohortAnalysis } from '../analysis.js';
 import type { CutAnalysis } from '../data-cuts.service.js';
-import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../../words/index.js';
+import { DECISION_LABELS, RECOMMENDATION_LABELS, SENSITIVITY_LABEL, STOP_CATEGORY_LABELS } from '../../words/index.js';
 
 export type ReportInput = {
   cut: DataCut;
@@ -202,16 +202,21 @@ function cohortSection(doc: Doc, c: CohortAnalysis) {
   } else {
     paragraph(doc, 'No decided outcome yet: no response rate.');
   }
-  if (c.rule) paragraph(doc, `Rule (${c.rule.applied === 'stage1' ? 'stage 1' : 'final'}): ${c.rule.decision.replace('-', ' ')}${c.rule.determinedEarly ? ', determined early' : ''}. ${c.rule.message}`);
+  if (c.rule) {
+    paragraph(doc, `Rule (${c.rule.applied === 'stage1' ? 'stage 1' : 'final'}): ${c.rule.decision.replace('-', ' ')}${c.rule.determinedEarly ? ', determined early' : ''}. ${c.rule.message}`);
+    if (c.rule.atRiskNote) paragraph(doc, c.rule.atRiskNote);
+  }
   if (c.inference) {
     const inf = c.inference;
     paragraph(doc, 'Inference after the two-stage design', { bold: true });
     table(doc, [
       ['', 'Estimate', '95% interval', 'p-value'],
-      ['Stage-wise ordering (Koyama & Chen) with UMVUE', fig.pct(inf.umvue), fig.ci(inf.ci), fig.p(inf.pValue)],
+      ['Stage-wise ordering over the attained design, with UMVUE (primary)', fig.pct(inf.umvue), fig.ci(inf.ci), fig.p(inf.pValue)],
+      ...(inf.sensitivity ? [[SENSITIVITY_LABEL, '-', '-', fig.p(inf.sensitivity.pValue)]] : []),
       ['Naive (ignores the stopping rule - biased)', fig.pct(inf.naiveEstimate), fig.ci(inf.naiveCi), fig.p(c.exactTest?.pValue)],
     ], [2.2, 1, 1.6, 1]);
     if (inf.note) paragraph(doc, inf.note, { color: MUTED });
+    if (c.rule?.sensitivityNote) paragraph(doc, c.rule.sensitivityNote, { color: BRASS });
   } else if (c.inferenceNote) {
     paragraph(doc, c.inferenceNote, { color: MUTED });
   }
@@ -237,17 +242,21 @@ function cohortSection(doc: Doc, c: CohortAnalysis) {
   }
   if (c.deviation) {
     const dv = c.deviation;
-    paragraph(doc, 'Deviation from the planned sample size', { bold: true });
-    const oc = (o: typeof dv.asApplied.characteristics) => (o ? [fig.dec(o.typeIError, 4), fig.dec(o.power, 4), fig.dec(o.pet0, 4), fig.dec(o.en0, 1)] : ['-', '-', '-', '-']);
+    paragraph(doc, 'Attained size differs from the design', { bold: true });
+    const oc = dv.applied.characteristics;
     const d = c.design;
     table(doc, [
       ['Rule', 'r1/n1', 'r/n', 'Type I error', 'Power', 'PET0', 'EN0'],
       ['Planned', d.n1 !== null ? `${d.r1}/${d.n1}` : '-', `${d.r}/${d.n}`, fig.dec(d.typeIError, 4), fig.dec(d.power, 4), fig.dec(d.pet0, 4), fig.dec(d.en0, 1)],
-      ['As applied (planned thresholds, actual sizes)', dv.actualN1 !== null ? `${d.r1}/${dv.actualN1}` : '-', `${d.r}/${dv.actualN}`, ...oc(dv.asApplied.characteristics)],
-      ['Adjusted thresholds', dv.actualN1 !== null ? `${dv.adjusted.r1 ?? '-'}/${dv.actualN1}` : '-', `${dv.adjusted.r ?? '-'}/${dv.actualN}`, ...oc(dv.adjusted.characteristics)],
+      [
+        'As applied (thresholds for the attained sizes)',
+        dv.attainedN1 !== null ? `${dv.applied.r1}/${dv.attainedN1}` : '-',
+        `${dv.applied.r}/${dv.attainedN}`,
+        ...(oc ? [fig.dec(oc.typeIError, 4), fig.dec(oc.power, 4), fig.dec(oc.pet0, 4), fig.dec(oc.en0, 1)] : ['-', '-', '-', '-']),
+      ],
     ], [2.4, 0.8, 0.8, 1, 1, 0.8, 0.8]);
     paragraph(doc, dv.method, { size: 7.5, color: MUTED });
-    for (const note of [dv.asApplied.note, dv.adjusted.note]) if (note) paragraph(doc, note, { color: MUTED });
+    if (dv.applied.note) paragraph(doc, dv.applied.note, { color: MUTED });
   }
   paragraph(doc, `Responders resting on derived outcomes: ${c.responderSources.derived}; on entered outcomes: ${c.responderSources.entered}.`);
   boundaryChart(doc, c);
@@ -292,8 +301,8 @@ export async function renderCutReport(input: ReportInput): Promise<Buffer> {
   if (analysis.multiplicity) {
     heading(doc, 'Across cohorts: adjusted p-values');
     table(doc, [
-      ['Cohort', 'p0', 'Exact one-sided p', 'Holm', 'Benjamini-Hochberg'],
-      ...analysis.multiplicity.rows.map((r) => [r.code, String(r.p0), fig.p(r.pValue), fig.p(r.holm), fig.p(r.bh)]),
+      ['Cohort', 'p0', 'p-value', 'Holm', 'Benjamini-Hochberg'],
+      ...analysis.multiplicity.rows.map((r) => [r.code, String(r.p0), `${fig.p(r.pValue)} (${r.basis === 'stage-wise' ? 'stage-wise' : 'exact binomial'})`, fig.p(r.holm), fig.p(r.bh)]),
     ]);
   }
 
@@ -308,6 +317,9 @@ export async function renderCutReport(input: ReportInput): Promise<Buffer> {
 
   heading(doc, 'Cautions');
   for (const caution of analysis.cautions) paragraph(doc, `- ${caution}`);
+
+  heading(doc, 'How verdicts are reached');
+  analysis.rulesStatement.forEach((rule, i) => paragraph(doc, `${i + 1}. ${rule}`));
 
   heading(doc, `Committee recommendations (${input.recommendations.length} of ${input.committeeSize} members signed)`);
   if (input.recommendations.length === 0) paragraph(doc, 'No recommendation signed yet.');

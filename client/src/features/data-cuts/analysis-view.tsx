@@ -1,13 +1,16 @@
 /**
  * A data cut's analysis as the statistician and the committee read it: per cohort the response
- * rate and its intervals, the exact test, the rule, the two-stage inference, the Bayesian figures,
- * sites, deviations and the boundary chart; then multiplicity, open data issues and the cautions.
+ * rate and its intervals, the exact test, the verdict (with patients enrolled at risk and what could
+ * still change it), the two-stage inference with its sensitivity figure, the Bayesian figures, sites,
+ * deviations and the boundary chart; then multiplicity, open data issues, the cautions and how
+ * verdicts are reached.
  */
 import { Suspense, lazy } from 'react';
 import type { ColumnDef } from '@tanstack/react-table';
 import { Cautions, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { decimal, percent, pValue } from '../../lib/format';
+import { SENSITIVITY_LABEL, VERDICT_FIGURE_LABELS, stillOpen } from '../../../../server/words/index';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
 
 const BoundaryChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.BoundaryChart })));
@@ -98,6 +101,13 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
                 <RuleVerdict decision={c.rule.decision} early={c.rule.determinedEarly} />
               </p>
               <p className="text-ink-700">{c.rule.message}</p>
+              {stillOpen(c.rule) && <p className="text-ink-700 tabular-nums">Could still change it: {stillOpen(c.rule)}.</p>}
+              {c.rule.atRiskNote && (
+                <p className="text-ink-700">
+                  <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{VERDICT_FIGURE_LABELS.atRisk}: </span>
+                  <strong className="tabular-nums">{c.rule.atRisk}</strong>. {c.rule.atRiskNote}
+                </p>
+              )}
             </div>
           )}
           {c.inference && (
@@ -106,11 +116,17 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
                 caption="Inference after the two-stage design"
                 head={['', 'Estimate', '95% interval', 'p-value']}
                 rows={[
-                  ['Stage-wise ordering with UMVUE', percent(c.inference.umvue), interval(c.inference.ci), pValue(c.inference.pValue)],
+                  ['Stage-wise ordering over the attained design, with UMVUE (primary)', percent(c.inference.umvue), interval(c.inference.ci), pValue(c.inference.pValue)],
+                  ...(c.inference.sensitivity ? [[SENSITIVITY_LABEL, '—', '—', pValue(c.inference.sensitivity.pValue)]] : []),
                   ['Naive (ignores the stopping rule — biased)', percent(c.inference.naiveEstimate), interval(c.inference.naiveCi), pValue(c.exactTest?.pValue)],
                 ]}
               />
               {c.inference.note && <p className="mt-1 text-xs text-ink-500">{c.inference.note}</p>}
+              {c.rule?.sensitivityNote && (
+                <p role="note" className="mt-1 border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
+                  {c.rule.sensitivityNote}
+                </p>
+              )}
             </div>
           )}
           {c.inferenceNote && <p className="text-xs text-ink-500">{c.inferenceNote}</p>}
@@ -127,20 +143,20 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
           {c.deviation && d && (
             <div>
               <Table
-                caption="Actual size differs from the design"
+                caption="Attained size differs from the design"
                 head={['Rule', 'r1/n1', 'r/n', 'Type I error', 'Power', 'PET0', 'EN0']}
                 rows={[
                   ['Planned', d.n1 !== null ? `${d.r1}/${d.n1}` : '—', `${d.r}/${d.n}`, decimal(d.typeIError, 4), decimal(d.power, 4), decimal(d.pet0, 4), decimal(d.en0, 1)],
-                  ['As applied (planned thresholds, actual sizes)', c.deviation.actualN1 !== null ? `${d.r1}/${c.deviation.actualN1}` : '—', `${d.r}/${c.deviation.actualN}`, ...ocCells(c.deviation.asApplied.characteristics)],
-                  ['Adjusted thresholds', c.deviation.actualN1 !== null ? `${c.deviation.adjusted.r1 ?? '—'}/${c.deviation.actualN1}` : '—', `${c.deviation.adjusted.r ?? '—'}/${c.deviation.actualN}`, ...ocCells(c.deviation.adjusted.characteristics)],
+                  [
+                    'As applied (thresholds for the attained sizes)',
+                    c.deviation.attainedN1 !== null ? `${c.deviation.applied.r1}/${c.deviation.attainedN1}` : '—',
+                    `${c.deviation.applied.r}/${c.deviation.attainedN}`,
+                    ...ocCells(c.deviation.applied.characteristics),
+                  ],
                 ]}
               />
               <p className="mt-1 text-xs text-ink-500">{c.deviation.method}</p>
-              {[c.deviation.asApplied.note, c.deviation.adjusted.note].filter(Boolean).map((note) => (
-                <p key={note} className="text-xs text-ink-500">
-                  {note}
-                </p>
-              ))}
+              {c.deviation.applied.note && <p className="text-xs text-ink-500">{c.deviation.applied.note}</p>}
             </div>
           )}
           <p className="text-xs text-ink-600">
@@ -232,8 +248,8 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
       {multi && (
         <Panel title="Across cohorts">
           <Table
-            head={['Cohort', 'p0', 'Exact one-sided p', 'Holm', 'Benjamini–Hochberg']}
-            rows={multi.rows.map((r) => [r.code, r.p0, pValue(r.pValue), pValue(r.holm), pValue(r.bh)])}
+            head={['Cohort', 'p0', 'p-value', 'Holm', 'Benjamini–Hochberg']}
+            rows={multi.rows.map((r) => [r.code, r.p0, `${pValue(r.pValue)} (${r.basis === 'stage-wise' ? 'stage-wise' : 'exact binomial'})`, pValue(r.holm), pValue(r.bh)])}
           />
           <p className="mt-1 mb-3 text-xs text-ink-500">{multi.method}</p>
           <Suspense fallback={<Loading label="Loading the chart" />}>
@@ -242,6 +258,13 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
         </Panel>
       )}
       <OpenIssues issues={analysis.openIssues} />
+      <Panel title={VERDICT_FIGURE_LABELS.rules}>
+        <ol className="list-decimal space-y-1 pl-5 text-sm text-ink-700">
+          {analysis.rulesStatement.map((rule) => (
+            <li key={rule}>{rule}</li>
+          ))}
+        </ol>
+      </Panel>
     </div>
   );
 }

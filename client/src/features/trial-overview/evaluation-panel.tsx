@@ -1,12 +1,14 @@
 /**
  * The live evaluation of each cohort on the Trial overview: counts, the response rate with its
- * exact interval, the one-sided exact test against p0, where the cohort stands against its locked
- * design (with early determination and what it means for accrual), and the cautions. Charts load
- * on demand.
+ * exact interval, the one-sided exact test against p0, the cohort's verdict under its locked design
+ * (with early determination and what it means for accrual, patients enrolled at risk, what could
+ * still change it, and at a final analysis the p-value it follows with its sensitivity figure), and
+ * the cautions. Charts load on demand.
  */
 import { Suspense, lazy } from 'react';
 import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
+import { VERDICT_FIGURE_LABELS, stillOpen } from '../../../../server/words/index';
 import { useEvaluation, type CohortEvaluation } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
@@ -20,7 +22,11 @@ const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
   undetermined: { label: 'Not yet decided', icon: '…' },
 };
 
-const STAGE_WORDS: Record<string, string> = { stage1: 'Stage-1 rule', stage2: 'Final rule (stage 2)', single: 'Single-stage rule' };
+function ruleName(rule: NonNullable<CohortEvaluation['rule']>, singleStage: boolean): string {
+  if (rule.applied === 'stage1') return 'Stage-1 rule';
+  const name = singleStage ? 'Single-stage rule' : 'Final rule';
+  return rule.look === 'final' ? `${name} (final analysis)` : name;
+}
 
 function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLevel: number }) {
   const design = cohort.design;
@@ -50,21 +56,32 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
               hint={cohort.rate ? `${Math.round(confLevel * 100)}% exact CI ${percent(cohort.rate.ci[0])} – ${percent(cohort.rate.ci[1])}` : 'No outcome yet'}
             />
             <Figure label="One-sided p vs p0" value={cohort.test ? pValue(cohort.test.pValue) : '—'} hint={cohort.test ? `exact binomial, H0: p ≤ ${decimal(cohort.test.p0, 2)}` : undefined} />
+            {cohort.rule && cohort.rule.atRisk > 0 && <Figure label={VERDICT_FIGURE_LABELS.atRisk} value={cohort.rule.atRisk} hint={VERDICT_FIGURE_LABELS.atRiskHint} />}
+            {cohort.rule?.finalTest && cohort.rule.applied === 'final' && (
+              <Figure label={VERDICT_FIGURE_LABELS.primaryPValue[cohort.rule.finalTest.method]} value={pValue(cohort.rule.finalTest.pValue)} hint={`α = ${cohort.rule.finalTest.alpha}; ${VERDICT_FIGURE_LABELS.primaryHint}`} />
+            )}
+            {cohort.rule?.finalTest?.sensitivity && <Figure label={VERDICT_FIGURE_LABELS.sensitivity} value={pValue(cohort.rule.finalTest.sensitivity.pValue)} hint={VERDICT_FIGURE_LABELS.sensitivityHint} />}
           </>
         )}
       </div>
       {cohort.rule && decision && (
         <div className="grid gap-1 text-sm">
           <p>
-            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{STAGE_WORDS[cohort.rule.stage]}: </span>
+            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleName(cohort.rule, design?.r1 === null)}: </span>
             <span className="font-semibold">
               <span aria-hidden>{decision.icon} </span>
               {decision.label}
             </span>
             {cohort.rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
-            {cohort.rule.remainingToDecide > 0 && <span className="text-ink-600 tabular-nums"> · at most {cohort.rule.remainingToDecide} more patients decide it</span>}
+            {stillOpen(cohort.rule) && <span className="text-ink-600 tabular-nums"> · could still change it: {stillOpen(cohort.rule)}</span>}
           </p>
           <p className="text-ink-700">{cohort.rule.message}</p>
+          {cohort.rule.atRiskNote && <p className="text-ink-700">{cohort.rule.atRiskNote}</p>}
+          {cohort.rule.sensitivityNote && (
+            <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-ink-800">
+              {cohort.rule.sensitivityNote}
+            </p>
+          )}
         </div>
       )}
       {cohort.earlyDetermination && (
