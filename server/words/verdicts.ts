@@ -33,12 +33,18 @@ const p = (v: number) => (v < 0.0001 ? '< 0.0001' : v.toFixed(4));
 const responders = (k: number) => plural(k, 'responder');
 const more = (k: number, one: string, many: string) => `${k} more ${k === 1 ? one : many}`;
 
-/** "r = 12 among n = 43", or the attained threshold with where it comes from. */
-function thresholdText(v: Verdict, singleStage: boolean): string {
+/** "r = 12 among n = 43", or "r′ = 16 for the attained 43 patients". */
+function thresholdText(v: Verdict): string {
   const { r, n, source } = v.threshold;
-  if (source === 'planned') return `r = ${r} among n = ${n}`;
-  const from = singleStage ? 'the exact binomial test’s threshold at α' : 'the threshold the stage-wise p-value over the attained design implies';
-  return `r′ = ${r} for the attained ${n} patients (${from})`;
+  return source === 'planned' ? `r = ${r} among n = ${n}` : `r′ = ${r} for the attained ${n} patients`;
+}
+
+/** Where an attained threshold comes from, as a closing sentence; empty at the planned sizes. */
+function thresholdSource(v: Verdict, singleStage: boolean): string {
+  if (v.threshold.source === 'planned') return '';
+  return singleStage
+    ? ` r′ = ${v.threshold.r} is the exact binomial test’s threshold at α for ${v.threshold.n} patients.`
+    : ` r′ = ${v.threshold.r} is the threshold the stage-wise p-value over the attained design implies: more than r′ responders exactly when p ≤ α.`;
 }
 
 function pValueText(test: FinalTest): string {
@@ -78,13 +84,21 @@ function stageOneSentence(v: Verdict, plannedR: number): string {
     default: {
       const settle = v.toSettle as NonNullable<Verdict['toSettle']>;
       const head = v.look === 'final' ? 'Not yet decided' : 'Stage 1 is not yet decided';
-      return `${head}: ${responders(v.responders)} among ${v.decided} decided outcomes of stage 1. ${more(settle.responders, 'responder passes', 'responders pass')} stage 1 (more than r1 = ${r1}); ${more(settle.nonResponders, 'non-responder', 'non-responders')} ${v.look === 'final' && v.counted < n1 ? 'leave it not promising' : 'meet the futility rule'}.${changeableText(v)}`;
+      const negative =
+        v.look === 'final' && v.counted < n1
+          ? more(settle.nonResponders, 'non-responder leaves', 'non-responders leave') + ' it not promising'
+          : more(settle.nonResponders, 'non-responder meets', 'non-responders meet') + ' the futility rule';
+      return `${head}: ${responders(v.responders)} among ${v.decided} decided outcomes of stage 1. ${more(settle.responders, 'responder passes', 'responders pass')} stage 1 (more than r1 = ${r1}); ${negative}.${changeableText(v)}`;
     }
   }
 }
 
 function finalSentence(v: Verdict, singleStage: boolean): string {
-  const threshold = thresholdText(v, singleStage);
+  return finalVerdictSentence(v, singleStage) + thresholdSource(v, singleStage);
+}
+
+function finalVerdictSentence(v: Verdict, singleStage: boolean): string {
+  const threshold = thresholdText(v);
   const test = v.finalTest && v.look === 'final' && !v.determinedEarly ? `; ${pValueText(v.finalTest)}` : '';
   const name = singleStage ? 'The trial' : 'The final analysis';
   const pending = v.counted - v.decided;

@@ -123,8 +123,8 @@ describe('the final analysis of a cut after a two-stage design', () => {
     expect(c.inference?.pValue).toBe(engine.pValue);
     expect(c.inference?.n2Actual).toBe(24);
     expect(c.inference?.note).toMatch(/instead of the planned 30/);
-    expect(c.deviation).toMatchObject({ plannedN: 43, actualN: 37, actualN1: 13 });
-    expect(c.deviation?.adjusted.characteristics?.typeIError).toBeLessThanOrEqual(0.05);
+    expect(c.deviation).toMatchObject({ plannedN: 43, attainedN: 37, attainedN1: 13, applied: { r1: 3, r: c.rule?.threshold.r } });
+    expect(c.deviation?.applied.characteristics?.typeIError).toBeLessThanOrEqual(0.05);
   });
 
   it('when a patient is not evaluable and all enrolled count, then they count as a non-responder in stage 1', () => {
