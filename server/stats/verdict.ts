@@ -207,7 +207,8 @@ function stageOneVerdict(design: VerdictDesign, counts: VerdictCounts, look: Ver
     counted: stage1.counted,
     threshold: { r: r1, n: n1, source: 'planned' },
     attained: null,
-    atRisk: stage2.counted,
+    // Once stage 2 is under way the interim decision has been taken: its patients were not enrolled at risk.
+    atRisk: look === 'stage-2' ? 0 : stage2.counted,
     pendingThatCanChange,
     placesLeft,
     toSettle,
