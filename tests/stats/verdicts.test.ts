@@ -30,6 +30,7 @@ import {
 } from '../../server/stats/index.js';
 import { verdictSentence } from '../../server/words/index.js';
 import { binomUpper, promising } from './reference.js';
+import { frozenPatients } from '../support/cut-patients.js';
 
 type Spec = { outcome: CutPatient['outcome']; count: number };
 const R = (count: number): Spec => ({ outcome: 'responder', count });
@@ -59,31 +60,12 @@ const OPTIMAL_30_50 = design({ p0: 0.3, p1: 0.5, alpha: 0.1, beta: 0.1, r1: 7, n
 const MINIMAX_30_50 = design({ p0: 0.3, p1: 0.5, alpha: 0.05, beta: 0.2, r1: 6, n1: 19, r: 16, n: 39 });
 const SINGLE_20_40 = design({ p0: 0.2, p1: 0.4, alpha: 0.05, beta: 0.2, r1: null, n1: null, r: 11, n: 35 });
 
-function patients(specs: Spec[], cohortId = 'cohort'): CutPatient[] {
-  const outcomes = specs.flatMap((s) => Array.from({ length: s.count }, () => s.outcome));
-  return outcomes.map((outcome, i) => ({
-    patientId: `${cohortId}-p${i + 1}`,
-    studyId: `SA-${String(i + 1).padStart(3, '0')}`,
-    siteId: 'site-a',
-    siteCode: 'SA',
+function patients(specs: Spec[], cohortId: string): CutPatient[] {
+  return frozenPatients(
+    specs.flatMap((s) => Array.from({ length: s.count }, () => ({ outcome: s.outcome }))),
     cohortId,
-    cohortCode: cohortId.toUpperCase(),
-    stage: 1,
-    enrolmentSeq: i + 1,
-    enrolledOn: '2026-01-01',
-    outcome,
-    bestOverallResponse: outcome === 'responder' ? 'PR' : outcome === 'non_responder' ? 'SD' : null,
-    responseAssessedOn: null,
-    evaluable: true,
-    notEvaluableReason: null,
-    attested: true,
-    attestationSignatureId: null,
-    derivedBestOverallResponse: null,
-    derivedResponder: null,
-    outcomeFlag: null,
-    patientVersion: 1,
-    assessments: [],
-  }));
+    cohortId.toUpperCase(),
+  );
 }
 
 type CohortSpec = { id?: string; design: CutDesign; status: CohortStatus; specs: Spec[] };
