@@ -25,6 +25,7 @@ import {
 import { daysBetween, firstOfMonth } from './calendar.js';
 import { projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
 import { cumulativeSeries, type Plan, type SeriesPoint } from './timeline.js';
+import { STATUS_IN_A_SENTENCE } from '../words/index.js';
 
 /** A cohort's counts under its protocol's analysis population (see server/evaluation/counting.ts). */
 export type CohortCounts = {
@@ -79,7 +80,7 @@ export function projectCohort(input: {
 }): CohortProjections {
   const { cohort, design, tally, today } = input;
   if (!design) return { window: null, months: [], targets: [], notes: ['No design is locked yet, so there is no n1 or n to project.'] };
-  if (CLOSED.has(cohort.status)) return { window: null, months: [], targets: [], notes: [`The cohort is ${cohort.status}: nothing left to project.`] };
+  if (CLOSED.has(cohort.status)) return { window: null, months: [], targets: [], notes: [`The cohort is ${STATUS_IN_A_SENTENCE[cohort.status]}: nothing left to project.`] };
   const evaluableOnly = design.analysisPopulation === 'evaluable';
   const counts = countsUnder(tally, design.analysisPopulation);
   const window = rateWindow(today, tally.firstEnrolledOn);
