@@ -10,7 +10,7 @@ import { NotFoundError } from '../http/errors.js';
 import type { Role } from '../auth/access.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
-import { trialFacts } from '../trials/index.js';
+import { trialFacts, type CohortStatus } from '../trials/index.js';
 import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
 import { CAUTIONS } from '../words/index.js';
 import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
@@ -29,7 +29,7 @@ export type CohortEvaluation = {
   cohortId: string;
   cohortCode: string;
   cohortName: string;
-  status: string;
+  status: CohortStatus;
   design: DesignSummary | null;
   enrolled: number;
   counted: number;

@@ -7,7 +7,8 @@
  *
  * - glyphs.ts — the one glyph of each meaning, and what it means;
  * - trial-life.ts — statuses, stop categories, the analysis population;
- * - designs.ts — the kinds of design;
+ * - designs.ts — the kinds of design and the protocol's settings;
+ * - stored-values.ts — a stored code in a change history, in words;
  * - verdict-labels.ts — a rule's verdict as a label;
  * - decisions.ts — recommendations, decisions and the wording of a recommendation's signature;
  * - data-cuts.ts — cut kinds and open data issues;
@@ -27,7 +28,8 @@ export {
   stoppedFor,
   type TrialStatus,
 } from './trial-life.js';
-export { SELECTION_LABELS } from './designs.js';
+export { INTERIM_ACCRUAL_LABELS, NE_BETWEEN_RESPONSES_LABELS, OUTCOME_SOURCE_LABELS, POPULATION_LABELS, SELECTION_LABELS } from './designs.js';
+export { storedValueWords, storedValuesWords } from './stored-values.js';
 export { RULE_STAGE_LABELS, SETTLED_EARLY, VERDICT_WORDS } from './verdict-labels.js';
 export { CHOICE_NOT_MADE, DECISION_WORDS, RECOMMENDATION_WORDS, recommendationMeaning } from './decisions.js';
 export { CUT_KIND_LABELS, METHOD_NAMES, OPEN_ISSUE_WORDS } from './data-cuts.js';

@@ -1,6 +1,7 @@
 import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import type { CohortAccrual, TargetProjection } from './get-accrual';
+import { GLYPHS } from '../../../../server/words';
 
 function TargetRow({ target }: { target: TargetProjection }) {
   return (
@@ -11,7 +12,7 @@ function TargetRow({ target }: { target: TargetProjection }) {
       <td className="py-2 pr-4 tabular-nums">{target.counted}</td>
       {target.reached ? (
         <td colSpan={2} className="py-2 pr-4">
-          <span aria-hidden>✓ </span>Reached
+          <span aria-hidden>{GLYPHS.done} </span>Reached
         </td>
       ) : (
         <>
@@ -68,7 +69,7 @@ export function ProjectionsPanel({ cohorts }: { cohorts: CohortAccrual[] }) {
             )}
             {cohort.projections.notes.map((note) => (
               <p key={note} className="mt-1 text-xs text-ink-600">
-                <span aria-hidden>ⓘ </span>
+                <span aria-hidden>{GLYPHS.note} </span>
                 {note}
               </p>
             ))}

@@ -5,26 +5,16 @@
  * on demand.
  */
 import { Suspense, lazy } from 'react';
-import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
+import { Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
+import { GLYPHS, POPULATION_COUNTS, RULE_STAGE_LABELS, SETTLED_EARLY, VERDICT_WORDS } from '../../../../server/words';
 import { useEvaluation, type CohortEvaluation } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
 
-const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
-  continue: { label: 'Stage 1 passed — continue', icon: '▸' },
-  'stop-futility': { label: 'Futility rule met', icon: '■' },
-  promising: { label: 'Promising', icon: '▲' },
-  'not-promising': { label: 'Not promising', icon: '▽' },
-  undetermined: { label: 'Not yet decided', icon: '…' },
-};
-
-const STAGE_WORDS: Record<string, string> = { stage1: 'Stage-1 rule', stage2: 'Final rule (stage 2)', single: 'Single-stage rule' };
-
 function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLevel: number }) {
   const design = cohort.design;
-  const decision = cohort.rule ? DECISION_WORDS[cohort.rule.decision] : null;
   return (
     <section aria-label={`Cohort ${cohort.cohortCode}`} className="grid gap-3 border-t border-ink-100 pt-3 first:border-0 first:pt-0">
       <div className="flex flex-wrap items-center gap-2">
@@ -35,7 +25,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
         {design && (
           <span className="text-xs text-ink-500 tabular-nums">
             Design v{design.version}: p0 {decimal(design.p0, 2)}, p1 {decimal(design.p1, 2)}
-            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {design.analysisPopulation === 'all_enrolled' ? 'all enrolled count' : 'evaluable patients count'}
+            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {POPULATION_COUNTS[design.analysisPopulation]}
           </span>
         )}
       </div>
@@ -43,7 +33,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
         <Figure label="Enrolled" value={cohort.enrolled} hint={`${cohort.counted} counted`} />
         {!cohort.responseHidden && (
           <>
-            <Figure label="Responders" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
+            <Figure label="Responders / decided" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
             <Figure
               label="Response rate"
               value={cohort.rate ? percent(cohort.rate.estimate) : '—'}
@@ -53,15 +43,14 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
           </>
         )}
       </div>
-      {cohort.rule && decision && (
+      {cohort.rule && (
         <div className="grid gap-1 text-sm">
           <p>
-            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{STAGE_WORDS[cohort.rule.stage]}: </span>
+            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{RULE_STAGE_LABELS[cohort.rule.stage]}: </span>
             <span className="font-semibold">
-              <span aria-hidden>{decision.icon} </span>
-              {decision.label}
+              <Glyphed word={VERDICT_WORDS[cohort.rule.decision]} />
             </span>
-            {cohort.rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
+            {cohort.rule.determinedEarly && <span className="text-ink-600"> ({SETTLED_EARLY})</span>}
             {cohort.rule.remainingToDecide > 0 && <span className="text-ink-600 tabular-nums"> · at most {cohort.rule.remainingToDecide} more patients decide it</span>}
           </p>
           <p className="text-ink-700">{cohort.rule.message}</p>
@@ -69,7 +58,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
       )}
       {cohort.earlyDetermination && (
         <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-          <span aria-hidden>◆ </span>
+          <span aria-hidden>{GLYPHS.settledEarly} </span>
           {cohort.earlyDetermination} {cohort.accrual}
         </p>
       )}
