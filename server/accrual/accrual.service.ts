@@ -23,7 +23,7 @@ import {
   type SiteTally,
 } from './accrual.repository.js';
 import { daysBetween, firstOfMonth } from './calendar.js';
-import { projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
+import { daysOpen, projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
 import { cumulativeSeries, type Plan, type SeriesPoint } from './timeline.js';
 import { STATUS_IN_A_SENTENCE } from '../words/index.js';
 
@@ -63,7 +63,7 @@ export type TargetProjection = Projection & { target: 'n1' | 'n' };
 
 export type CohortProjections = {
   window: (RateWindow & { enrolled: number }) | null;
-  months: Array<{ month: string; enrolled: number }>;
+  months: Array<{ month: string; enrolled: number; daysOpen: number }>;
   targets: TargetProjection[];
   notes: string[];
 };
@@ -85,7 +85,8 @@ export function projectCohort(input: {
   const counts = countsUnder(tally, design.analysisPopulation);
   const window = rateWindow(today, tally.firstEnrolledOn);
   const byMonth = new Map(input.months.map((m) => [m.month, evaluableOnly ? m.evaluable : m.enrolled]));
-  const months = rangeMonths(today, tally.firstEnrolledOn).map((month) => ({ month, enrolled: byMonth.get(month) ?? 0 }));
+  const first = tally.firstEnrolledOn;
+  const months = rangeMonths(today, first).map((month) => ({ month, enrolled: byMonth.get(month) ?? 0, daysOpen: daysOpen(month, first as string) }));
   const project = (target: 'n1' | 'n', size: number): TargetProjection => ({
     target,
     ...projectTarget({ today, counted: counts.counted, target: size, window, enrolledInWindow: counts.windowCounted, months }),
