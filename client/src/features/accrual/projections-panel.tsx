@@ -1,3 +1,4 @@
+import { getDaysInMonth, parseISO } from 'date-fns';
 import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import type { CohortAccrual, TargetProjection } from './get-accrual';
@@ -44,7 +45,7 @@ export function ProjectionsPanel({ cohorts }: { cohorts: CohortAccrual[] }) {
                 Rate window: {cohort.projections.window.enrolled} counting patients from {day(cohort.projections.window.from)} to {day(cohort.projections.window.to)} (
                 {cohort.projections.window.days} days). Range: slowest and fastest of{' '}
                 {cohort.projections.months.length > 0
-                  ? cohort.projections.months.map((m, i) => `${m.month}: ${m.enrolled}${i === 0 && m.daysOpen < 28 ? ` in ${m.daysOpen} days open` : ''}`).join(', ')
+                  ? cohort.projections.months.map((m) => `${m.month}: ${m.enrolled}${m.daysOpen < getDaysInMonth(parseISO(`${m.month}-01`)) ? ` in ${m.daysOpen} days open` : ''}`).join(', ')
                   : 'no month before this one yet'}
                 .
               </p>
