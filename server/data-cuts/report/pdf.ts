@@ -286,8 +286,7 @@ function cohortSection(doc: Doc, c: CohortAnalysis) {
     paragraph(doc, 'No decided outcome yet: no response rate.');
   }
   if (c.rule) {
-    const stage = c.rule.applied === 'stage1' ? RULE_STAGE_LABELS.stage1 : RULE_STAGE_LABELS.stage2;
-    paragraph(doc, `${stage}: ${worded(VERDICT_WORDS[c.rule.decision])}${c.rule.determinedEarly ? ` (${SETTLED_EARLY})` : ''}. ${c.rule.message}`);
+    paragraph(doc, `${RULE_STAGE_LABELS[c.rule.stage]}: ${worded(VERDICT_WORDS[c.rule.decision])}${c.rule.determinedEarly ? ` (${SETTLED_EARLY})` : ''}. ${c.rule.message}`);
   }
   if (c.inference) {
     const inf = c.inference;

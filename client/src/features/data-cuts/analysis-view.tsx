@@ -86,7 +86,7 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
           {c.rule && (
             <div className="text-sm">
               <p className="mb-1 flex flex-wrap items-center gap-2">
-                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{c.rule.applied === 'stage1' ? RULE_STAGE_LABELS.stage1 : RULE_STAGE_LABELS.stage2}</span>
+                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{RULE_STAGE_LABELS[c.rule.stage]}</span>
                 <RuleVerdict decision={c.rule.decision} early={c.rule.determinedEarly} />
               </p>
               <p className="text-ink-700">{c.rule.message}</p>
