@@ -3,13 +3,14 @@
  * with the boundaries (components/boundary-lines.ts). Lines differ by dash and point shape as well
  * as colour, and the chart carries a text summary.
  */
-import { Chart, Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import { Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import { registerChart } from '../../components/chart-setup';
 import { Scatter } from 'react-chartjs-2';
 import { CHART_COLOURS } from '../../components/chart-colours';
 import { boundaryLines } from '../../components/boundary-lines';
 import type { CohortAnalysis } from './types';
 
-Chart.register(LineElement, LinearScale, PointElement, ScatterController, Legend, Tooltip);
+registerChart(LineElement, LinearScale, PointElement, ScatterController, Legend, Tooltip);
 
 const { observed: OBSERVED } = CHART_COLOURS;
 

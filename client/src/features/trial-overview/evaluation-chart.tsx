@@ -3,13 +3,14 @@
  * the locked design's boundaries (components/boundary-lines.ts) and a mark at n1. Lines differ by
  * dash and point shape as well as colour, and the chart carries a text summary for screen readers.
  */
-import { Chart, Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import { Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import { registerChart } from '../../components/chart-setup';
 import { Scatter } from 'react-chartjs-2';
 import { CHART_COLOURS } from '../../components/chart-colours';
 import { boundaryLines, type BoundaryPoint } from '../../components/boundary-lines';
 import type { CohortEvaluation } from './get-evaluation';
 
-Chart.register(ScatterController, LineElement, PointElement, LinearScale, Legend, Tooltip);
+registerChart(ScatterController, LineElement, PointElement, LinearScale, Legend, Tooltip);
 
 const { observed: OBSERVED } = CHART_COLOURS;
 
