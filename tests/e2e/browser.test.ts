@@ -132,7 +132,7 @@ describe('each demo role in the browser', () => {
         await context.close();
       }
     },
-    120_000,
+    240_000,
   );
 
   it('when the glossary is opened, then it lists every glyph of the words module once and Chromium draws each with the shipped Inter', async () => {

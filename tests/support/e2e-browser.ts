@@ -137,21 +137,25 @@ export async function textNotDrawnByInter(page: Page, selector = 'body'): Promis
     const { root } = (await cdp.send('DOM.getDocument', { depth: -1 })) as { root: DomNode };
     const { nodeIds } = (await cdp.send('DOM.querySelectorAll', { nodeId: root.nodeId, selector })) as { nodeIds: number[] };
     const scopes = new Set(nodeIds);
-    const visit = async (node: DomNode, inside: boolean) => {
+    // Collect first, then ask for every element's fonts at once: one round trip each, in parallel.
+    const texts: Array<{ nodeId: number; text: string }> = [];
+    const visit = (node: DomNode, inside: boolean) => {
       const within = inside || scopes.has(node.nodeId);
       if (['SCRIPT', 'STYLE', 'NOSCRIPT', 'TEMPLATE', 'HEAD'].includes(node.nodeName)) return;
       const own = (node.children ?? []).filter((c) => c.nodeType === 3 && c.nodeValue.trim() !== '').map((c) => c.nodeValue.trim());
-      if (within && own.length > 0) {
-        const text = own.join(' ');
-        const missing = [...new Set(Array.from(text))].filter((c) => !/\s/.test(c) && !wholeInter.hasGlyphForCodePoint(c.codePointAt(0) as number));
-        if (missing.length > 0) problems.push(`no Inter glyph for ${missing.join(' ')} in “${text.slice(0, 60)}”`);
-        const { fonts } = (await cdp.send('CSS.getPlatformFontsForNode', { nodeId: node.nodeId })) as { fonts: PlatformFont[] };
-        const others = fonts.filter((f) => f.glyphCount > 0 && !/^Inter/i.test(f.familyName));
-        if (others.length > 0) problems.push(`“${text.slice(0, 60)}” drawn with ${others.map((f) => f.familyName).join(', ')}`);
-      }
-      for (const child of node.children ?? []) if (child.nodeType === 1) await visit(child, within);
+      if (within && own.length > 0) texts.push({ nodeId: node.nodeId, text: own.join(' ') });
+      for (const child of node.children ?? []) if (child.nodeType === 1) visit(child, within);
     };
-    await visit(root, false);
+    visit(root, false);
+    const reports = await Promise.all(
+      texts.map(async ({ nodeId }) => ((await cdp.send('CSS.getPlatformFontsForNode', { nodeId })) as { fonts: PlatformFont[] }).fonts),
+    );
+    texts.forEach(({ text }, i) => {
+      const missing = [...new Set(Array.from(text))].filter((c) => !/\s/.test(c) && !wholeInter.hasGlyphForCodePoint(c.codePointAt(0) as number));
+      if (missing.length > 0) problems.push(`no Inter glyph for ${missing.join(' ')} in “${text.slice(0, 60)}”`);
+      const others = reports[i].filter((f) => f.glyphCount > 0 && !/^Inter/i.test(f.familyName));
+      if (others.length > 0) problems.push(`“${text.slice(0, 60)}” drawn with ${others.map((f) => f.familyName).join(', ')}`);
+    });
   } finally {
     await cdp.detach();
   }

@@ -36,7 +36,8 @@ export const RAW_CODES: readonly string[] = [
 ];
 
 const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\-]/g, '\\$&');
-const KNOWN = new RegExp(`(?<![\\w-])(${RAW_CODES.map(escape).join('|')})(?![\\w-])`, 'gi');
+// Codes are lower case: "Mona Monitor", an invented person's name, is not the role code.
+const KNOWN = new RegExp(`(?<![\\w-])(${RAW_CODES.map(escape).join('|')})(?![\\w-])`, 'g');
 const SNAKE = /(?<![\w.-])[a-z][a-z0-9]*(?:_[a-z0-9]+)+(?![\w-])/g;
 
 /** The raw codes found in a text, each once, with a little of the text around the first. */
