@@ -25,7 +25,7 @@ import {
   watchConsole,
 } from '../support/e2e-browser.js';
 import { rawCodesIn } from '../support/raw-codes.js';
-import { pdfPages } from '../support/pdf-text.js';
+import { namedFonts, pdfPages } from '../support/pdf-text.js';
 import { GLYPHS } from '../../server/words/index.js';
 import { globalNav, trialNav } from '../../client/src/app/features.js';
 import type { NavItem } from '../../client/src/lib/feature.js';
@@ -468,7 +468,7 @@ describe("the trial's journey through the pages", () => {
 
   it('when the journey is over, then no mail the catcher received and no line of the cut’s report carries a raw code, and the report is set in Inter', async () => {
     expect(cutId).toBeDefined();
-    const mails = await eventually(async () => {
+    const mails = await eventually(() => {
       const caught = stack.catcher.messages.filter((m) => m.subject.includes('E2E-201'));
       return caught.some((m) => /recommendation was signed/.test(m.subject)) && caught.some((m) => /resume accrual for stage 2/i.test(m.subject)) ? caught : undefined;
     }, 20_000);
@@ -485,6 +485,7 @@ describe("the trial's journey through the pages", () => {
     expect(report.status).toBe(200);
     const pages = await pdfPages(report.body as Buffer);
     expect(rawCodesIn(pages.join('\n'))).toEqual([]);
+    expect(namedFonts(report.body as Buffer).every((name) => /^[A-Z]{6}\+Inter-/.test(name))).toBe(true);
     expect(pages[0].replace(/\s+/g, ' ')).toContain('Decision support only');
   }, 60_000);
 });

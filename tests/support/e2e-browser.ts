@@ -135,7 +135,7 @@ export async function textNotDrawnByInter(page: Page, selector = 'body'): Promis
     await cdp.send('DOM.enable');
     await cdp.send('CSS.enable');
     const { root } = (await cdp.send('DOM.getDocument', { depth: -1 })) as { root: DomNode };
-    const { nodeIds } = (await cdp.send('DOM.querySelectorAll', { nodeId: root.nodeId, selector })) as { nodeIds: number[] };
+    const { nodeIds } = await cdp.send('DOM.querySelectorAll', { nodeId: root.nodeId, selector });
     const scopes = new Set(nodeIds);
     // Collect first, then ask for every element's fonts at once: one round trip each, in parallel.
     const texts: Array<{ nodeId: number; text: string }> = [];
