@@ -4,10 +4,9 @@
  */
 import { number, object, string, type InferType } from 'yup';
 import { STOP_CATEGORIES } from '../trials/trials.schema.js';
-import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '../words/index.js';
 
-// Kept for the client, which imports these from here; the codes live in trials.schema.ts, the words in server/words/.
-export { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORIES, STOP_CATEGORY_LABELS };
+// Kept for the client, which imports the stop categories from here; they live in trials.schema.ts.
+export { STOP_CATEGORIES };
 
 export const CUT_KINDS = ['interim', 'final'] as const;
 export type CutKind = (typeof CUT_KINDS)[number];
@@ -17,6 +16,25 @@ export type RecommendationDecision = (typeof RECOMMENDATION_DECISIONS)[number];
 
 export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete'] as const;
 export type DecisionAction = (typeof DECISION_ACTIONS)[number];
+
+/** A cohort as the cut froze it: its status then, and whether its design has a stage 2. */
+type FrozenCohort = { status: string; design: { n1: number | null } | null };
+
+/** A stage 2 exists and has not begun: only then can a cohort continue, or resume accrual, for stage 2. */
+export const stage2Ahead = (cohort: FrozenCohort) =>
+  cohort.design !== null && cohort.design.n1 !== null && (cohort.status === 'enrolling_stage_1' || cohort.status === 'interim_review');
+
+/** The recommendations a member may sign on a cut: "continue" only where some cohort has a stage 2 ahead. */
+export const recommendationChoices = (cohorts: readonly FrozenCohort[]): RecommendationDecision[] =>
+  RECOMMENDATION_DECISIONS.filter((decision) => decision !== 'continue' || cohorts.some(stage2Ahead));
+
+/** The decisions the statistician may apply to one cohort of a cut: resuming for stage 2 only where it is ahead. */
+export const decisionChoices = (cohort: FrozenCohort): DecisionAction[] =>
+  DECISION_ACTIONS.filter((action) => action !== 'resume_stage_2' || stage2Ahead(cohort));
+
+/** What a data cut lists as open at the cut, patient by patient. */
+export const OPEN_ISSUE_KINDS = ['pending_outcome', 'unattested_outcome', 'outcome_flag', 'not_evaluable'] as const;
+export type OpenIssueKind = (typeof OPEN_ISSUE_KINDS)[number];
 
 export const createDataCutSchema = object({
   cohortId: string().uuid('Choose a cohort of this trial.').nullable().optional(),

@@ -22,7 +22,8 @@ import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, se
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
-import { DECISION_LABELS, RECOMMENDATION_LABELS, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
+import { decisionChoices, recommendationChoices, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
+import { DECISION_POINT_CAUTIONS, DECISION_WORDS, RECOMMENDATION_WORDS, recommendationMeaning, stoppedFor } from '../words/index.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
 type Author = Pick<SessionUser, 'id' | 'email'>;
@@ -220,6 +221,9 @@ export async function savePrior(db: Db, cutId: string, input: PriorInput, actor:
 
 export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, signIn: SignIn): Promise<{ id: string; signatureId: string }> {
   const cut = await requireCut(db, cutId);
+  if (!recommendationChoices(cut.snapshot.cohorts).includes(input.decision)) {
+    throw new InputError('No cohort of this data cut has a stage 2 still ahead.', { decision: 'Continue to stage 2 applies only where a stage 2 exists and has not begun.' });
+  }
   if (await findRecommendationBy(db, cutId, signer.id)) {
     throw new ConflictError('You have already signed a recommendation on this data cut.');
   }
@@ -242,11 +246,17 @@ export async function signWithin(
   authenticatedAt: Date,
   options: { notify?: boolean } = {},
 ): Promise<{ id: string; signatureId: string }> {
-  const label = RECOMMENDATION_LABELS[input.decision];
+  const label = RECOMMENDATION_WORDS[input.decision].label;
   const signature = await recordSignature(trx, {
     trialId: cut.trialId,
     signer,
-    meaning: `I recommend "${label}" for ${cut.snapshot.trial.code} cohort ${cohortLabel(cut)} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis.`,
+    meaning: recommendationMeaning({
+      decision: input.decision,
+      trialCode: cut.snapshot.trial.code,
+      cohortCodes: cut.snapshot.cohorts.map((c) => c.code),
+      cutSeq: cut.seq,
+      cutId: cut.id,
+    }),
     subjectType: 'recommendation',
     subjectId: cut.id,
     content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
@@ -275,7 +285,7 @@ export async function signWithin(
         kind: 'recommendation_signed',
         to: email,
         subject: `${cut.snapshot.trial.code}: a committee recommendation was signed on data cut ${cut.seq}`,
-        text: `A member of the data monitoring committee signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.`,
+        text: `A committee member signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.\n\n${DECISION_POINT_CAUTIONS.recommendationSigned}`,
         dedupeKey: `recommendation:${id}:${email}`,
       })),
     );
@@ -299,12 +309,12 @@ export const DECISION_TARGET: Record<DecisionAction, CohortStatus> = {
 function decisionMail(trialCode: string, cohortCode: string, action: DecisionAction, reason: string, cut: DataCut, stopCategory: string | null) {
   const what = {
     resume_stage_2: `accrual resumes for stage 2 in cohort ${cohortCode}. Sites may enrol again.`,
-    stop: `cohort ${cohortCode} is stopped (${stopCategory}). Do not enrol further patients; follow the protocol for patients on treatment.`,
+    stop: `cohort ${cohortCode} is stopped ${stoppedFor(stopCategory)}. Do not enrol further patients; follow the protocol for patients on treatment.`,
     final_analysis: `cohort ${cohortCode} moves to the final analysis. Enrolment is closed.`,
     complete: `cohort ${cohortCode} is completed.`,
   }[action];
   return {
-    subject: `${trialCode} ${cohortCode}: ${DECISION_LABELS[action].toLowerCase()}`,
+    subject: `${trialCode} ${cohortCode}: ${DECISION_WORDS[action].label.toLowerCase()}`,
     text: `After the review of data cut ${cut.seq} by the data monitoring committee, ${what}\n\nReason: ${reason}\n\nThis message was sent by Orrery; the decision itself rests with the trial statistician, the data monitoring committee and the ethics board.`,
   };
 }
@@ -330,6 +340,10 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   }
   const current = await findCohort(trx, cut.trialId, cohortId);
   if (!current) throw new NotFoundError('The cohort');
+  const frozen = cut.snapshot.cohorts.find((c) => c.id === cohortId);
+  if (frozen && !decisionChoices(frozen).includes(input.action)) {
+    throw new InputError(`Cohort ${frozen.code} has no stage 2 still ahead.`, { action: 'Resume accrual for stage 2 applies only where a stage 2 exists and has not begun.' });
+  }
   const to = DECISION_TARGET[input.action];
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;

@@ -31,7 +31,7 @@ export type CohortEvaluation = {
   cohortId: string;
   cohortCode: string;
   cohortName: string;
-  status: string;
+  status: CohortStatus;
   design: DesignSummary | null;
   enrolled: number;
   counted: number;

@@ -39,7 +39,7 @@ function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {
   if (row.responseFiguresHidden) lines.push(`    Response figures: not shown. ${row.responseFiguresHiddenReason}`);
   else {
     const rate = row.responseRate === null || row.responseRate === undefined ? '—' : `${(row.responseRate * 100).toFixed(1)}%`;
-    lines.push(`    Response: ${plural(row.responders ?? 0, 'responder')} among ${plural(row.outcomesKnown ?? 0, 'known outcome')} (${rate}, naive estimate)`);
+    lines.push(`    Response: ${plural(row.responders ?? 0, 'responder')} among ${plural(row.outcomesKnown ?? 0, 'decided patient')} (${rate}, naive estimate)`);
   }
   if (row.lastRecommendation) lines.push(`    Last committee recommendation: ${row.lastRecommendation.words} (${row.lastRecommendation.on})`);
   return lines;

@@ -15,7 +15,7 @@ import type { Role, SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
-import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
+import { RECOMMENDATION_WORDS, STATUS_WORDS } from '../words/index.js';
 import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
@@ -97,7 +97,7 @@ const progress = (counted: number, target: number | null | undefined): Progress 
   target ? { counted, target, fraction: Math.min(1, counted / target) } : null;
 
 function decisionWords(decision: string): string {
-  return RECOMMENDATION_LABELS[decision as RecommendationDecision] ?? decision.replace(/_/g, ' ');
+  return RECOMMENDATION_WORDS[decision as RecommendationDecision]?.label ?? 'a recommendation';
 }
 
 /** One row per cohort; `sponsorViewAlways` renders every row as a sponsor sees it (the digest). */
@@ -131,7 +131,7 @@ export async function portfolioRows(
         cohortName: cohort.name,
         cohortCount: trial.cohorts.length,
         status: cohort.status,
-        statusWords: STATUS_LABELS[cohort.status],
+        statusWords: STATUS_WORDS[cohort.status].label,
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
         design: designTargets(design),

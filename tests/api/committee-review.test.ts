@@ -112,6 +112,35 @@ describe('signing a recommendation', () => {
   });
 });
 
+describe('"Continue to stage 2" only where a stage 2 is ahead', () => {
+  it('when a cut of a cohort already in stage 2 or of a single-stage cohort is reviewed, then "continue" is refused with 400 on the decision field and nothing is signed', async () => {
+    const inStage2 = await createTrial(stack.db);
+    await arrangeCohort(stack.db, inStage2, { design: { cohortStatus: 'enrolling_stage_2' }, patients: { SA: outcomes(4, 10) } });
+    const singleStage = await createTrial(stack.db);
+    await arrangeCohort(stack.db, singleStage, { design: { r1: null, n1: null, r: 5, n: 20, cohortStatus: 'enrolling_stage_1' }, patients: { SA: outcomes(3, 5) } });
+    for (const trial of [inStage2, singleStage]) {
+      const cut = await freezeCutDirectly(stack.db, trial);
+      const refused = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+      expect(refused.status).toBe(400);
+      expect(refused.body.error.fields.decision).toMatch(/only where a stage 2 exists and has not begun/);
+      expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
+      expect(await stack.db('signatures').where({ subject_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
+    }
+  });
+
+  it('when resuming stage 2 is applied to a single-stage cohort, then 400 on the action field and the cohort stays as it was', async () => {
+    const trial = await createTrial(stack.db);
+    const { cohortId } = await arrangeCohort(stack.db, trial, { design: { r1: null, n1: null, r: 5, n: 20, cohortStatus: 'enrolling_stage_1' }, patients: { SA: outcomes(3, 5) } });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    await recommendDirectly(stack.db, cut, DEMO.monitor, 'modify_protocol');
+    const refused = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'resume_stage_2', reason: 'No stage 2 to resume.' });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.fields.action).toMatch(/only where a stage 2 exists and has not begun/);
+    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('enrolling_stage_1');
+    expect(await stack.db('data_cut_decisions').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
+  });
+});
+
 describe('who may reach the committee routes', () => {
   it('when a statistician, coordinator, investigator, sponsor or admin tries to sign, then 403; a non-member gets 404 on every route', async () => {
     const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
@@ -232,6 +261,10 @@ describe('applying the decision', () => {
       return got.length >= 1 && got;
     });
     expect(statisticianMail.length).toBe(1);
+    // The mail words the stop category and carries the caution that a recommendation is not yet a decision.
+    expect(statisticianMail[0].text).toContain('"Stop for futility"');
+    expect(statisticianMail[0].text).toContain('A signed recommendation is not yet a decision');
+    expect(mail[0].text).toContain('is stopped for futility');
     const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).orderBy('id', 'desc').first();
     expect(audit.after.status).toBe('stopped');
   });

@@ -1,5 +1,4 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { inflateSync } from 'node:zlib';
 import { createHash } from 'node:crypto';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
@@ -17,6 +16,7 @@ import {
   proportionInterval,
 } from '../../server/stats/index.js';
 import { fig } from '../../server/data-cuts/report/pdf.js';
+import { pdfPages } from '../support/pdf-text.js';
 
 let stack: Stack;
 let sam: Session;
@@ -28,27 +28,6 @@ beforeAll(async () => {
   mona = await stack.signIn(DEMO.monitor);
 });
 afterAll(async () => stack?.close());
-
-/** The text a PDF shows, from its Flate-compressed content streams (pdfkit writes text as hex strings). */
-function pdfText(pdf: Buffer): string {
-  const raw = pdf.toString('latin1');
-  const pieces: string[] = [];
-  for (const match of raw.matchAll(/stream\r?\n/g)) {
-    const start = (match.index ?? 0) + match[0].length;
-    const end = raw.indexOf('endstream', start);
-    let content: string;
-    try {
-      content = inflateSync(pdf.subarray(start, end)).toString('latin1');
-    } catch {
-      continue;
-    }
-    for (const tj of content.matchAll(/\[(.*?)\]\s*TJ/g)) {
-      pieces.push([...tj[1].matchAll(/<([0-9a-fA-F]*)>/g)].map((h) => Buffer.from(h[1], 'hex').toString('latin1')).join(''));
-    }
-    pieces.push('\n');
-  }
-  return pieces.join(' ');
-}
 
 /** The report's bytes as a session downloads them. */
 function downloadReport(session: Session, cutId: string) {
@@ -278,7 +257,7 @@ describe('the report', () => {
     expect(createHash('sha256').update(second.body as Buffer).digest('hex')).toBe(hash);
     expect((await stack.db('data_cuts').where({ id: cut.id }).first()).report_hash).toBe(hash);
 
-    const text = pdfText(bytes);
+    const text = (await pdfPages(bytes)).join('\n');
     const cp = proportionInterval(4, 13);
     expect(text).toContain(fig.ci(cp));
     expect(text).toContain(fig.ci(proportionInterval(4, 13, { method: 'wilson' })));
@@ -293,7 +272,7 @@ describe('the report', () => {
   it('when a cut has patients enrolled at risk, then the report says how many and states how verdicts are reached', async () => {
     const { trial, cohortId } = await atRiskTrial();
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
-    const text = pdfText((await downloadReport(sam, cut.id)).body as Buffer).replace(/\s+/g, ' ');
+    const text = (await pdfPages((await downloadReport(sam, cut.id)).body as Buffer)).join(' ').replace(/\s+/g, ' ');
     expect(text).toMatch(/The futility rule is met: stage 1 ended with 3 responders among its 13 patients/);
     expect(text).toMatch(/2 patients counted beyond the first n1 = 13 are stage-2 patients enrolled at risk/);
     expect(text).toMatch(/How verdicts are reached/);

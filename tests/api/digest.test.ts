@@ -75,7 +75,7 @@ describe('weekly digest', () => {
     expect(section(hidden.code)).toContain('Enrolled 4');
     expect(section(hidden.code)).toContain('Response figures: not shown.');
     expect(section(hidden.code)).not.toMatch(/Response: |responders? among/);
-    expect(section(released.code)).toContain('Response: 1 responder among 3 known outcomes (33.3%, naive estimate)');
+    expect(section(released.code)).toContain('Response: 1 responder among 3 decided patients (33.3%, naive estimate)');
     expect(section(hidden.code)).toContain('Next: stage-1 cohort complete in ~9 patients');
     expect(section(released.code)).toMatch(/Next: committee review pending/);
     expect(mail.body_text).toContain('Decision support only');

@@ -7,7 +7,7 @@
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { createColumnHelper } from '@tanstack/react-table';
-import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
@@ -15,6 +15,7 @@ import { useTrialContext } from '../trials';
 import { ImportPanel } from './import-panel';
 import { useNeedsAttention, type NeedsAttentionItem } from './get-needs-attention';
 import { ATTENTION_WORDS, Tag } from './words';
+import { DECISION_SUPPORT_ONLY, INTERIM_DATA } from '../../../../server/words';
 import type { AttentionKind } from './types';
 
 const column = createColumnHelper<NeedsAttentionItem>();
@@ -82,7 +83,7 @@ export function NeedsAttentionPage() {
         );
       })}
       {hasAnyRole(trial.myRoles, ['coordinator', 'investigator']) && <ImportPanel trialId={trial.id} />}
-      <Cautions items={[CAUTIONS[1], CAUTIONS[0]]} />
+      <Cautions items={[INTERIM_DATA, DECISION_SUPPORT_ONLY]} />
     </div>
   );
 }

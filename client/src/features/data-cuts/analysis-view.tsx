@@ -7,10 +7,11 @@
  */
 import { Suspense, lazy } from 'react';
 import type { ColumnDef } from '@tanstack/react-table';
-import { Cautions, Loading, Panel } from '../../components/ui';
+import { Cautions, Glyphed, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { decimal, percent, pValue } from '../../lib/format';
-import { SENSITIVITY_LABEL, VERDICT_FIGURE_LABELS, stillOpen } from '../../../../server/words/index';
+import { OPEN_ISSUE_WORDS, POPULATION_COUNTS, SELECTION_LABELS, SENSITIVITY_LABEL, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel, stillOpen } from '../../../../server/words';
+import type { InterimDecision } from '../../../../server/stats/index';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
 
 const BoundaryChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.BoundaryChart })));
@@ -18,22 +19,12 @@ const RateChart = lazy(() => import('../../components/rate-chart').then((m) => (
 
 const interval = (ci: [number, number] | null | undefined) => (ci ? `${percent(ci[0])} – ${percent(ci[1])}` : '—');
 
-const RULE_WORDS: Record<string, { icon: string; text: string }> = {
-  continue: { icon: '▸', text: 'Stage 1 passed: continue' },
-  'stop-futility': { icon: '■', text: 'Futility rule met' },
-  promising: { icon: '✓', text: 'Promising' },
-  'not-promising': { icon: '✗', text: 'Not promising' },
-  undetermined: { icon: '…', text: 'Not yet decided' },
-};
-
-/** The rule's verdict: a word with an icon, never colour alone. */
-export function RuleVerdict({ decision, early }: { decision: string; early?: boolean }) {
-  const word = RULE_WORDS[decision] ?? { icon: '•', text: decision };
+/** The rule's verdict: a word with its glyph, never colour alone. */
+export function RuleVerdict({ decision, early }: { decision: InterimDecision; early?: boolean }) {
   return (
     <span className="inline-flex items-center gap-1 rounded-sm border border-ink-300 px-1.5 py-0.5 text-xs font-semibold text-ink-900">
-      <span aria-hidden>{word.icon}</span>
-      {word.text}
-      {early && <span className="font-normal text-ink-500">(determined early)</span>}
+      <Glyphed word={VERDICT_WORDS[decision]} />
+      {early && <span className="font-normal text-ink-500">({SETTLED_EARLY})</span>}
     </span>
   );
 }
@@ -69,8 +60,8 @@ function Table({ head, rows, caption }: { head: string[]; rows: Array<Array<stri
 function designText(c: CohortAnalysis): string {
   const d = c.design;
   if (!d) return 'No locked design at the cut.';
-  const rule = d.r1 !== null ? `stop if ≤ ${d.r1} of ${d.n1}; promising if > ${d.r} of ${d.n}` : `promising if > ${d.r} of ${d.n}`;
-  return `${d.selection.replace('_', '-')} design v${d.version} · p0 ${d.p0} · p1 ${d.p1} · α ${d.alpha} · β ${d.beta} · ${rule} · ${d.analysisPopulation === 'all_enrolled' ? 'all enrolled count' : 'evaluable patients count'}`;
+  const rule = d.r1 !== null ? `stage 1 stops for futility if ≤ ${d.r1} of ${d.n1}; promising if > ${d.r} of ${d.n}` : `promising if > ${d.r} of ${d.n}`;
+  return `${SELECTION_LABELS[d.selection]} design, version ${d.version} · p0 ${d.p0} · p1 ${d.p1} · α ${d.alpha} · β ${d.beta} · ${rule} · ${POPULATION_COUNTS[d.analysisPopulation]}`;
 }
 
 function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
@@ -97,7 +88,7 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
           {c.rule && (
             <div className="text-sm">
               <p className="mb-1 flex flex-wrap items-center gap-2">
-                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{c.rule.applied === 'stage1' ? 'Stage-1 rule' : 'Final rule'}</span>
+                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleLabel(c.rule, c.design?.r1 === null)}</span>
                 <RuleVerdict decision={c.rule.decision} early={c.rule.determinedEarly} />
               </p>
               <p className="text-ink-700">{c.rule.message}</p>
@@ -211,18 +202,12 @@ function SitesTable({ sites }: { sites: SiteRow[] }) {
   );
 }
 
-const ISSUE_WORDS: Record<OpenIssue['issue'], string> = {
-  pending_outcome: '⧗ Outcome pending',
-  unattested_outcome: '✎ Not attested',
-  outcome_flag: '⚑ Outcome flagged',
-  not_evaluable: '⊘ Not evaluable',
-};
 
 const issueColumns: ColumnDef<OpenIssue, string>[] = [
   { accessorKey: 'studyId', header: 'Study ID' },
   { accessorKey: 'siteCode', header: 'Site' },
   { accessorKey: 'cohortCode', header: 'Cohort' },
-  { id: 'issue', accessorFn: (row) => ISSUE_WORDS[row.issue], header: 'Issue' },
+  { id: 'issue', accessorFn: (row) => OPEN_ISSUE_WORDS[row.issue].label, header: 'Issue', cell: ({ row }) => <Glyphed word={OPEN_ISSUE_WORDS[row.original.issue]} /> },
   { accessorKey: 'detail', header: 'Detail' },
 ];
 

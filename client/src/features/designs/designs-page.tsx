@@ -19,6 +19,7 @@ import { VersionHistory } from './version-history';
 import { CohortStatusPanel } from './cohort-status-panel';
 import { candidateList, type CandidateDesign, type CohortDesigns, type DesignSettings } from './types';
 import { comparedSettings, initialValues, withValues, type StudioValues } from './url-state';
+import { GLYPHS } from '../../../../server/words';
 
 export function DesignsPage() {
   const trial = useTrialContext();
@@ -166,7 +167,7 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
               {chooseProblem && <ErrorNotice error={new Error(chooseProblem)} title="Not ready to sign" />}
               {kind === 'amendment' && canSign && (
                 <p className="mb-3 text-sm text-ink-600">
-                  <span aria-hidden>ⓘ </span>
+                  <span aria-hidden>{GLYPHS.note} </span>
                   {cohort.enrolled} patient{cohort.enrolled === 1 ? ' is' : 's are'} enrolled: a change now is an amendment, with a reason and
                   a new signature. The earlier versions stay on record.
                 </p>

@@ -15,6 +15,7 @@ import {
   signatureMeaning,
   type SignatureKind,
 } from '../../../../server/designs/designs.schema';
+import { INTERIM_ACCRUAL_LABELS, POPULATION_LABELS } from '../../../../server/words';
 import { useSignDesign } from './use-sign-design';
 import { pendingReason, type StudioValues } from './url-state';
 import { ruleText, SELECTION_LABELS, type CandidateDesign, type DesignSettings } from './types';
@@ -34,8 +35,8 @@ type Props = {
   onSigned: () => void;
 };
 
-const POPULATION = { all_enrolled: 'All enrolled', evaluable: 'Evaluable, non-evaluable replaced' };
-const INTERIM = { pause: 'Pauses for the interim review', continue_at_risk: 'Continues at risk' };
+const POPULATION = POPULATION_LABELS;
+const INTERIM = INTERIM_ACCRUAL_LABELS;
 
 export function SignDialog({ trialId, trialCode, cohort, candidate, settings, values, kind, currentVersion, returnTo, onClose, onSigned }: Props) {
   const dialog = useRef<HTMLDialogElement>(null);

@@ -17,9 +17,4 @@ export function candidateList(c: DesignCandidates): CandidateDesign[] {
 export const ruleText = (d: { r1: number | null; n1: number | null; r: number; n: number }) =>
   d.r1 === null || d.n1 === null ? `${d.r}/${d.n}` : `${d.r1}/${d.n1}, ${d.r}/${d.n}`;
 
-export const SELECTION_LABELS: Record<Selection, string> = {
-  single_stage: 'Single-stage',
-  optimal: 'Simon optimal',
-  minimax: 'Simon minimax',
-  admissible: 'Admissible',
-};
+export { SELECTION_LABELS } from '../../../../server/words';

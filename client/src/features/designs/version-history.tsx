@@ -3,6 +3,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { dateTime, decimal } from '../../lib/format';
 import { DataTable } from '../../components/data-table';
 import { ruleText, SELECTION_LABELS, type DesignVersion } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<DesignVersion>();
 
@@ -19,7 +20,7 @@ const columns = [
     header: 'Signed by',
     cell: (info) => (
       <span title={info.row.original.signature?.signerEmail}>
-        <span aria-hidden>✍ </span>
+        <span aria-hidden>{GLYPHS.done} </span>
         {info.getValue()}
       </span>
     ),

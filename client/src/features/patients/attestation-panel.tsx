@@ -9,6 +9,7 @@ import { ApiError, reauthenticate } from '../../lib/api';
 import { dateTime } from '../../lib/format';
 import { useAttestOutcome } from './use-attest-outcome';
 import type { Patient } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 const resumeKey = (patientId: string) => `orrery.attest-resume.${patientId}`;
 
@@ -34,7 +35,7 @@ export function AttestationPanel({ trialId, patient, canAttest }: { trialId: str
   if (patient.attested) {
     return (
       <p className="text-sm text-ink-800">
-        <span aria-hidden>✍ </span>Attested by {patient.attested.signerName ?? patient.attested.signerEmail} on {dateTime(patient.attested.signedAt)}.
+        <span aria-hidden>{GLYPHS.done} </span>Attested by {patient.attested.signerName ?? patient.attested.signerEmail} on {dateTime(patient.attested.signedAt)}.
       </p>
     );
   }
@@ -45,13 +46,13 @@ export function AttestationPanel({ trialId, patient, canAttest }: { trialId: str
         <>
           {resuming && (
             <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-ink-800">
-              <span aria-hidden>↺ </span>You signed in again. Check the outcome above and sign.
+              <span aria-hidden>{GLYPHS.restored} </span>You signed in again. Check the outcome above and sign.
             </p>
           )}
           <p className="text-xs text-ink-600">Signing is an electronic signature: “{meaning}” You will be asked to confirm your identity if your sign-in is not recent.</p>
           <div>
             <Button onClick={sign} disabled={attest.isPending} autoFocus={resuming}>
-              <span aria-hidden>✍</span> {attest.isPending ? 'Signing…' : 'Attest this outcome'}
+              {attest.isPending ? 'Signing…' : 'Attest this outcome'}
             </Button>
           </div>
           {attest.error && !(attest.error instanceof ApiError && attest.error.code === 'reauthentication_required') && (

@@ -6,6 +6,7 @@ import { DataTable } from '../../components/data-table';
 import { dateTime } from '../../lib/format';
 import { useSites, type Site } from './get-sites';
 import { SiteForm } from './site-form';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<Site>();
 
@@ -56,7 +57,7 @@ export function SitesPage() {
         >
           {saved && (
             <p role="status" className="mb-3 text-sm text-good-700">
-              <span aria-hidden>✓ </span>
+              <span aria-hidden>{GLYPHS.done} </span>
               {saved}
             </p>
           )}

@@ -1,5 +1,6 @@
 import { useState } from 'react';
-import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel, statusLabel } from '../../components/ui';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
+import { GLYPHS, STATUS_WORDS } from '../../../../server/words';
 import { day } from '../../lib/format';
 import { allRoles, useMe } from '../auth';
 import { COHORT_STATUSES } from '../../../../server/designs/designs.schema';
@@ -47,7 +48,7 @@ export function PortfolioPage() {
                     <option value="">Any</option>
                     {COHORT_STATUSES.map((s) => (
                       <option key={s} value={s}>
-                        {statusLabel(s)}
+                        {STATUS_WORDS[s].label}
                       </option>
                     ))}
                   </select>
@@ -70,7 +71,7 @@ export function PortfolioPage() {
             <PortfolioTable rows={rows} />
             {anyHidden && (
               <p className="mt-3 text-xs text-ink-500">
-                <span aria-hidden>⊘ </span>
+                <span aria-hidden>{GLYPHS.withheld} </span>
                 Not released: for your role on that trial, response figures appear only when the protocol allows it or the statistician releases a data cut.
               </p>
             )}

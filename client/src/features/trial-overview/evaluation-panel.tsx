@@ -6,31 +6,16 @@
  * the cautions. Charts load on demand.
  */
 import { Suspense, lazy } from 'react';
-import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
+import { Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
-import { VERDICT_FIGURE_LABELS, stillOpen } from '../../../../server/words/index';
+import { GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel, stillOpen } from '../../../../server/words';
 import { useEvaluation, type CohortEvaluation } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
 
-const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
-  continue: { label: 'Stage 1 passed — continue', icon: '▸' },
-  'stop-futility': { label: 'Futility rule met', icon: '■' },
-  promising: { label: 'Promising', icon: '▲' },
-  'not-promising': { label: 'Not promising', icon: '▽' },
-  undetermined: { label: 'Not yet decided', icon: '…' },
-};
-
-function ruleName(rule: NonNullable<CohortEvaluation['rule']>, singleStage: boolean): string {
-  if (rule.applied === 'stage1') return 'Stage-1 rule';
-  const name = singleStage ? 'Single-stage rule' : 'Final rule';
-  return rule.look === 'final' ? `${name} (final analysis)` : name;
-}
-
 function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLevel: number }) {
   const design = cohort.design;
-  const decision = cohort.rule ? DECISION_WORDS[cohort.rule.decision] : null;
   return (
     <section aria-label={`Cohort ${cohort.cohortCode}`} className="grid gap-3 border-t border-ink-100 pt-3 first:border-0 first:pt-0">
       <div className="flex flex-wrap items-center gap-2">
@@ -41,7 +26,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
         {design && (
           <span className="text-xs text-ink-500 tabular-nums">
             Design v{design.version}: p0 {decimal(design.p0, 2)}, p1 {decimal(design.p1, 2)}
-            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {design.analysisPopulation === 'all_enrolled' ? 'all enrolled count' : 'evaluable patients count'}
+            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {POPULATION_COUNTS[design.analysisPopulation]}
           </span>
         )}
       </div>
@@ -49,7 +34,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
         <Figure label="Enrolled" value={cohort.enrolled} hint={`${cohort.counted} counted`} />
         {!cohort.responseHidden && (
           <>
-            <Figure label="Responders" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
+            <Figure label="Responders / decided" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
             <Figure
               label="Response rate"
               value={cohort.rate ? percent(cohort.rate.estimate) : '—'}
@@ -64,15 +49,14 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
           </>
         )}
       </div>
-      {cohort.rule && decision && (
+      {cohort.rule && (
         <div className="grid gap-1 text-sm">
           <p>
-            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleName(cohort.rule, design?.r1 === null)}: </span>
+            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleLabel(cohort.rule, design?.r1 === null)}: </span>
             <span className="font-semibold">
-              <span aria-hidden>{decision.icon} </span>
-              {decision.label}
+              <Glyphed word={VERDICT_WORDS[cohort.rule.decision]} />
             </span>
-            {cohort.rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
+            {cohort.rule.determinedEarly && <span className="text-ink-600"> ({SETTLED_EARLY})</span>}
             {stillOpen(cohort.rule) && <span className="text-ink-600 tabular-nums"> · could still change it: {stillOpen(cohort.rule)}</span>}
           </p>
           <p className="text-ink-700">{cohort.rule.message}</p>
@@ -86,7 +70,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
       )}
       {cohort.earlyDetermination && (
         <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-          <span aria-hidden>◆ </span>
+          <span aria-hidden>{GLYPHS.settledEarly} </span>
           {cohort.earlyDetermination} {cohort.accrual}
         </p>
       )}
