@@ -31,8 +31,19 @@ export const recommendationSchema = object({
     .min(10, 'Give the committee’s rationale (at least 10 characters).')
     .max(4000, 'Keep the rationale under 4,000 characters.')
     .required('Give the committee’s rationale.'),
+  /** The analysis version the member reviewed: signing refuses another. */
+  analysisVersion: number().typeError('The analysis version you reviewed is required.').integer().min(1).required('The analysis version you reviewed is required.'),
 });
 export type RecommendationInput = InferType<typeof recommendationSchema>;
+
+/** The one wording of a recommendation's signature: shown in the sign form, recorded with the signature. */
+export function recommendationMeaning(
+  decision: RecommendationDecision,
+  cut: { id: string; seq: number; version: number; snapshot: { trial: { code: string }; cohorts: ReadonlyArray<{ code: string }> } },
+): string {
+  const cohorts = cut.snapshot.cohorts.map((c) => c.code).join(', ');
+  return `I recommend "${RECOMMENDATION_LABELS[decision]}" for ${cut.snapshot.trial.code} cohort ${cohorts} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis version ${cut.version}.`;
+}
 
 export const decisionSchema = object({
   action: string().oneOf(DECISION_ACTIONS, 'Choose what to apply.').required('Choose what to apply.'),

@@ -8,6 +8,7 @@ import { freezeDataCut } from '../../server/data-cuts/data-cuts.service.js';
 import type { DataCut } from '../../server/data-cuts/data-cuts.repository.js';
 import type { RecommendationDecision } from '../../server/data-cuts/data-cuts.schema.js';
 import { DEMO, ensureUser, type TrialFixture } from './factories.js';
+import { signDirectly } from './signature-factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly, type DirectDesign, type DirectPatient } from './patient-factories.js';
 
 const responders = (k: number): DirectPatient[] => Array.from({ length: k }, () => ({ outcome: 'responder' }));
@@ -47,8 +48,7 @@ export async function freezeCutDirectly(db: Db, trial: TrialFixture, options: { 
   );
 }
 
-/** A signed recommendation written straight to the database, as if the member had signed it. */
-/** A signed recommendation written straight to the database; `at` back-dates it (signature and row). */
+/** A signed recommendation written straight to the database, on the cut's current analysis version; `at` back-dates it (signature and row). */
 export async function recommendDirectly(
   db: Db,
   cut: Pick<DataCut, 'id' | 'trialId' | 'seq' | 'contentHash'>,
@@ -58,20 +58,20 @@ export async function recommendDirectly(
 ) {
   const { rationale = 'Reviewed at the committee meeting.', at = new Date() } = options;
   const userId = await ensureUser(db, email);
-  const [signature] = await db('signatures')
-    .insert({
-      trial_id: cut.trialId,
-      signer_user_id: userId,
-      signer_email: email,
-      meaning: `I recommend ${decision} on data cut ${cut.seq} (test fixture)`,
-      subject_type: 'recommendation',
-      subject_id: cut.id,
-      content_hash: cut.contentHash,
-      authenticated_at: at,
-    })
-    .returning('id');
+  const signatureId = await signDirectly(db, {
+    trialId: cut.trialId,
+    signerId: userId,
+    signerEmail: email,
+    intent: { action: 'recommendation', subjectId: cut.id },
+    meaning: `I recommend ${decision} on data cut ${cut.seq} (test fixture)`,
+    subjectType: 'recommendation',
+    subjectId: cut.id,
+    contentHash: cut.contentHash,
+    at,
+  });
+  const version = await db('analysis_versions').where({ data_cut_id: cut.id }).orderBy('version', 'desc').first('id');
   const [row] = await db('recommendations')
-    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signature.id, created_at: at })
+    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signatureId, analysis_version_id: version.id, created_at: at })
     .returning('id');
   return row.id as string;
 }
