@@ -2,7 +2,7 @@
  * Two database roles: the owner, who runs the migrations and owns every table, and the runtime
  * role the server connects as, which may only read and write rows. The runtime role therefore
  * cannot alter a table, disable a trigger or drop the audit log's protection, and gets no UPDATE
- * or DELETE at all on the append-only tables (those guarded by `reject_audit_change`).
+ * or DELETE at all on the append-only tables (those whose rows `reject_audit_change` guards).
  */
 import type { Db } from './knex.js';
 
@@ -23,7 +23,9 @@ export async function grantRuntimeRights(owner: Db, runtimeRole: string): Promis
         from pg_trigger t
         join pg_class c on c.oid = t.tgrelid
         join pg_proc p on p.oid = t.tgfoid
-       where p.proname = 'reject_audit_change' and c.relnamespace = 'public'::regnamespace and c.relkind = 'r'`)
+       where p.proname = 'reject_audit_change' and c.relnamespace = 'public'::regnamespace and c.relkind = 'r'
+         -- a row trigger on UPDATE (tgtype bits: 1 row, 16 update); a TRUNCATE guard alone does not make a table append-only
+         and t.tgtype & 1 = 1 and t.tgtype & 16 = 16`)
   ).rows;
   await owner.transaction(async (trx) => {
     await trx.raw(`grant usage on schema public to ${role}`);

@@ -269,7 +269,7 @@ describe('the report', () => {
       res.on('end', () => done(null, Buffer.concat(chunks)));
     });
     expect(createHash('sha256').update(second.body as Buffer).digest('hex')).toBe(hash);
-    expect((await stack.db('data_cuts').where({ id: cut.id }).first()).report_hash).toBe(hash);
+    expect((await stack.db('data_cut_reports').where({ data_cut_id: cut.id })).map((r) => r.sha256)).toEqual([hash]);
 
     const text = pdfText(bytes);
     const cp = proportionInterval(4, 13);
