@@ -114,7 +114,9 @@ export function authRoutes(client: OidcClient): RouteSpec[] {
           back(res, login.returnTo, 'different-user');
           return;
         }
-        await regenerate(req);
+        // A new sign-in gets a new session id (no fixation); a password entered again by the person signed in keeps it, so their other entries still count.
+        if (req.session.userId !== user.id) await regenerate(req);
+        req.session.login = undefined;
         req.session.userId = user.id;
         req.session.email = user.email;
         req.session.name = user.name;
