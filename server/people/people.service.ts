@@ -149,11 +149,11 @@ async function mailUnblindedGrant(
     statisticians.map((to) => ({
       kind: 'unblinded_role_granted',
       to,
-      subject: `${trial.code}: ${input.email} is now ${ROLE_WORDS[input.role]}`,
+      subject: `${trial.code}: ${input.email} now holds the role ${ROLE_WORDS[input.role]}`,
       text: [
-        `${input.grantedBy} ${input.event} ${input.email} as ${ROLE_WORDS[input.role]} on ${trial.code} (${trial.title}).`,
+        `${input.grantedBy} ${input.event} ${input.email} on ${trial.code} (${trial.title}) in the role ${ROLE_WORDS[input.role]}.`,
         '',
-        `As ${ROLE_WORDS[input.role]} this person sees the trial's efficacy figures across all sites, live and in data cuts.`,
+        "In this role the person sees the trial's efficacy figures across all sites, live and in data cuts.",
         'If this was not agreed, tell the trial manager and review the memberships in Orrery (People & sites).',
       ].join('\n'),
       dedupeKey: `unblinded-grant:${input.membershipId}:${input.role}:${to}`,
