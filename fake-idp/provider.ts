@@ -91,6 +91,7 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port' | 'quir
   const provider = new Provider(options.issuer, configuration);
   provider.proxy = false;
   if (options.quirks?.omitAuthTime) {
+    // eslint-disable-next-line @typescript-eslint/unbound-method -- wrapped below and always called with the token as `this`
     const payload = provider.IdToken.prototype.payload;
     provider.IdToken.prototype.payload = async function withoutAuthTime(this: InstanceType<typeof provider.IdToken>) {
       const { auth_time: _omitted, ...rest } = (await payload.call(this)) as Record<string, unknown>;

@@ -11,7 +11,6 @@ import fc from 'fast-check';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
 import type { Session } from '../support/sign-in.js';
-import type { RouteSpec } from '../../server/http/routes.js';
 import { allowedRoles, fillPath, paramFiller, pathParams, readRoutes, routeLabel, unfillable } from '../support/fuzz-routes.js';
 import { siteScopedParams } from '../support/fuzz-site-records.js';
 import { hostileQuery, type RawQuery } from '../support/fuzz-queries.js';
@@ -58,7 +57,7 @@ describe('fuzzing the query string of every read route', () => {
         fc.asyncProperty(hostileQuery, async (query) => {
           const res = await send(sessions[role], path, query);
           byStatus.set(res.status, (byStatus.get(res.status) ?? 0) + 1);
-          const where = `${routeLabel(spec as RouteSpec)} as ${role}, ${query.kind} ?${query.query.slice(0, 120)} → ${res.status} ${res.text.slice(0, 200)}`;
+          const where = `${routeLabel(spec)} as ${role}, ${query.kind} ?${query.query.slice(0, 120)} → ${res.status} ${res.text.slice(0, 200)}`;
           if (res.status >= 500) throw new Error(`server error: ${where}`);
           if (query.refusedKey !== undefined) {
             if (res.status !== 400 || !res.body.error?.fields?.[query.refusedKey]) throw new Error(`not refused by name: ${where}`);

@@ -9,7 +9,7 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
-import { attestationMeaning } from '../../patients/patients.schema.js';
+import { attestationMeaning } from '../../patients/index.js';
 import { demoSigningSession } from './signing.js';
 import { currentDesign } from '../../designs/index.js';
 import { assignStages, type Outcome } from '../../evaluation/index.js';

@@ -1,18 +1,23 @@
 /**
- * A committee member's recommendation on a data cut, signed electronically. Signing needs a fresh
- * sign-in: when the server asks for one, the form's state is kept in this tab, the member signs in
- * again at the identity provider, and the form comes back filled in to sign.
+ * A committee member's recommendation on a data cut, signed electronically. Each signature needs
+ * the member's password, entered at the identity provider for this cut: when the server asks for
+ * it, the form's state is kept in this tab, the member enters the password and comes back to the
+ * form filled in, reads the statement again and signs. The statement shown is the one recorded.
  */
 import { Field, Form, Formik, useField } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { TextAreaField } from '../../components/field';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { ApiError, confirmIdentityToSign, signingUrlOf } from '../../lib/api';
 import {
   RECOMMENDATION_DECISIONS,
   RECOMMENDATION_LABELS,
+  recommendationMeaning,
   recommendationSchema,
   type RecommendationDecision,
 } from '../../../../server/data-cuts/data-cuts.schema';
+import { useSigningReady } from '../auth';
+import type { DataCut } from '../data-cuts';
 import { useSignRecommendation } from './use-sign-recommendation';
 
 export const RECOMMENDATION_ICONS: Record<RecommendationDecision, string> = {
@@ -60,47 +65,49 @@ function DecisionChoices() {
   );
 }
 
-export function RecommendationForm({ cutId, trialId, meaning }: { cutId: string; trialId: string; meaning: string }) {
-  const sign = useSignRecommendation(cutId, trialId);
-  const draft = readDraft(cutId);
+export function RecommendationForm({ cut, trialId }: { cut: DataCut; trialId: string }) {
+  const sign = useSignRecommendation(cut.id, trialId);
+  const ready = useSigningReady('recommendation', cut.id);
+  const draft = readDraft(cut.id);
   return (
     <Formik<Values>
       initialValues={draft ?? { decision: '', rationale: '' }}
       initialTouched={draft ? { decision: true, rationale: true } : {}}
-      validationSchema={recommendationSchema}
+      validationSchema={recommendationSchema.omit(['analysisVersion'])}
       validateOnChange
       onSubmit={async (values, helpers) => {
         try {
-          await sign.mutateAsync({ decision: values.decision as RecommendationDecision, rationale: values.rationale });
-          sessionStorage.removeItem(draftKey(cutId));
+          await sign.mutateAsync({ decision: values.decision as RecommendationDecision, rationale: values.rationale, analysisVersion: cut.version });
+          sessionStorage.removeItem(draftKey(cut.id));
         } catch (error) {
-          if (error instanceof ApiError && error.code === 'reauthentication_required') {
-            sessionStorage.setItem(draftKey(cutId), JSON.stringify(values));
-            reauthenticate();
+          const signingUrl = signingUrlOf(error);
+          if (signingUrl) {
+            sessionStorage.setItem(draftKey(cut.id), JSON.stringify(values));
+            confirmIdentityToSign(signingUrl);
             return;
           }
           if (error instanceof ApiError) helpers.setErrors(error.fields);
         }
       }}
     >
-      {({ isSubmitting }) => (
+      {({ isSubmitting, values }) => (
         <Form className="grid gap-3" aria-label="Sign a recommendation">
-          {draft && (
-            <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-              <span aria-hidden>↺ </span>You signed in again; your recommendation is as you left it. Review it and sign.
-            </p>
-          )}
+          <SigningNotice ready={ready} />
           <DecisionChoices />
           <TextAreaField name="rationale" label="Rationale" rows={5} hint="What the committee saw and why it recommends this." />
+          <blockquote className="border-l-4 border-brass-500 bg-brass-50 px-4 py-2 text-sm">
+            <p className="text-xs font-semibold tracking-wide text-brass-700 uppercase">Meaning of your signature</p>
+            <p>{values.decision ? recommendationMeaning(values.decision, cut) : 'Choose a recommendation to see the statement you sign.'}</p>
+          </blockquote>
           <p className="text-xs text-ink-600">
-            Signing is an electronic signature: {meaning} You will be asked to confirm your identity if your sign-in is not recent.
+            Signing is an electronic signature: you enter your password at the identity service for this signature, then sign here.
           </p>
           <div>
-            <Button type="submit" disabled={isSubmitting}>
-              <span aria-hidden>✍</span> {isSubmitting ? 'Signing…' : 'Sign the recommendation'}
+            <Button type="submit" disabled={isSubmitting} autoFocus={ready && draft !== null}>
+              <span aria-hidden>✍</span> {isSubmitting ? 'Signing…' : ready ? 'Sign the recommendation' : 'Enter your password and sign'}
             </Button>
           </div>
-          {sign.error && !(sign.error instanceof ApiError && (sign.error.code === 'reauthentication_required' || Object.keys(sign.error.fields).length > 0)) && (
+          {sign.error && !(signingUrlOf(sign.error) || (sign.error instanceof ApiError && Object.keys(sign.error.fields).length > 0)) && (
             <ErrorNotice error={sign.error} title="The recommendation was not signed" />
           )}
         </Form>
