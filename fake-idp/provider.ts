@@ -16,6 +16,8 @@ import { signInPage, signOutPage, page } from './pages.js';
 export type IdpQuirks = {
   /** ID tokens without `auth_time` (a provider that does not say when the password was entered). */
   omitAuthTime?: boolean;
+  /** ID tokens whose `auth_time` is this many seconds earlier (a provider that reuses an old login despite `prompt=login`). */
+  authTimeEarlierBySeconds?: number;
 };
 
 export type IdpOptions = {
@@ -90,12 +92,14 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port' | 'quir
   };
   const provider = new Provider(options.issuer, configuration);
   provider.proxy = false;
-  if (options.quirks?.omitAuthTime) {
+  const quirks = options.quirks ?? {};
+  if (quirks.omitAuthTime || quirks.authTimeEarlierBySeconds) {
     // eslint-disable-next-line @typescript-eslint/unbound-method -- wrapped below and always called with the token as `this`
     const payload = provider.IdToken.prototype.payload;
-    provider.IdToken.prototype.payload = async function withoutAuthTime(this: InstanceType<typeof provider.IdToken>) {
-      const { auth_time: _omitted, ...rest } = (await payload.call(this)) as Record<string, unknown>;
-      return rest;
+    provider.IdToken.prototype.payload = async function withQuirks(this: InstanceType<typeof provider.IdToken>) {
+      const { auth_time: authTime, ...rest } = (await payload.call(this)) as Record<string, unknown>;
+      if (quirks.omitAuthTime || typeof authTime !== 'number') return rest;
+      return { ...rest, auth_time: authTime - (quirks.authTimeEarlierBySeconds ?? 0) };
     };
   }
   return provider;

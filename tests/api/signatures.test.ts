@@ -185,6 +185,20 @@ describe('what the identity provider must say', () => {
     }
   }, 60_000);
 
+  it('when the provider reports a password entered before the request (an old login reused despite prompt=login), then the entry is refused', async () => {
+    const reusing = await startStackOn(await createTestDatabase(), {}, { idp: { authTimeEarlierBySeconds: 600 } });
+    try {
+      const trial = await createTrial(reusing.db);
+      const sam = await reusing.signIn(DEMO.statistician);
+      const landed = await sam.confirmToSign('design', trial.cohortIds[0]);
+      expect(new URL(landed).searchParams.get('signInError')).toBe('not-fresh');
+      expect(await reusing.db('signing_authentications').first()).toBeUndefined();
+      expect((await sam.post(`/api/trials/${trial.trialId}/cohorts/${trial.cohortIds[0]}/design`, lockBody())).status).toBe(401);
+    } finally {
+      await reusing.close();
+    }
+  }, 60_000);
+
   it('when the password entry is older than the time a signature may wait, then it has expired and a new one is needed', async () => {
     const brief = await startStack({ SIGNATURE_FRESHNESS_SECONDS: '1' });
     try {
