@@ -13,9 +13,10 @@ export async function startFaultStack(overrides: Record<string, string> = {}, op
   const dataDir = temporaryDataDir();
   const cluster = startCluster({ dataDir, port: await freePort(), fast: true });
   await ensureOwnedDatabase(cluster.url('postgres'), 'orrery_faults');
-  const urls = { ownerUrl: asRole(cluster.url('postgres'), OWNER_ROLE, 'orrery_faults'), runtimeUrl: asRole(cluster.url('postgres'), RUNTIME_ROLE, 'orrery_faults') };
-  await migrateForRuntime(urls.ownerUrl, urls.runtimeUrl);
-  const stack = await startStackOn(urls, overrides, options);
+  const runtimeUrl = asRole(cluster.url('postgres'), RUNTIME_ROLE, 'orrery_faults');
+  await migrateForRuntime(asRole(cluster.url('postgres'), OWNER_ROLE, 'orrery_faults'), runtimeUrl);
+  // The test's own connection is the cluster's superuser: it watches the server's sessions (pg_stat_activity).
+  const stack = await startStackOn({ ownerUrl: cluster.url('orrery_faults'), runtimeUrl }, overrides, options);
   return {
     stack,
     cluster,
