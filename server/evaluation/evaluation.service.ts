@@ -26,21 +26,7 @@ export const PATH_POINTS = 500;
 
 export type DesignSummary = Pick<
   LockedDesign,
-  | 'version'
-  | 'selection'
-  | 'p0'
-  | 'p1'
-  | 'alpha'
-  | 'beta'
-  | 'r1'
-  | 'n1'
-  | 'r'
-  | 'n'
-  | 'analysisPopulation'
-  | 'interimAccrual'
-  | 'sponsorSeesResponse'
-  | 'typeIError'
-  | 'power'
+  'version' | 'selection' | 'p0' | 'p1' | 'alpha' | 'beta' | 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation' | 'interimAccrual' | 'sponsorSeesResponse' | 'typeIError' | 'power'
 >;
 
 export type CohortEvaluation = {
@@ -197,8 +183,8 @@ export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?
       counted: t.counted,
       decided,
       pending: t.pending,
-      notEvaluable: t.notEvaluable,
       responders: t.responders,
+      notEvaluable: t.notEvaluable,
       stage1: t.stage1,
       stage2: t.stage2,
       rate:
