@@ -31,7 +31,7 @@ const evaluation = async (who: Session) => {
   expect(res.status).toBe(200);
   return res.body.cohorts[0];
 };
-const portfolioRow = async (who: Session) => ((await who.get('/api/portfolio')).body.portfolio.rows as Array<Record<string, any>>).find((r) => r.trialId === trial.trialId) as Record<string, any>;
+const portfolioRow = async (who: Session) => (await who.get('/api/portfolio')).body.portfolio.rows.find((r: { trialId: string }) => r.trialId === trial.trialId);
 const mailsAbout = (subject: string) => stack.catcher.messages.filter((m) => m.subject.startsWith(subject));
 
 async function recordResponder(studyId: string) {

@@ -58,7 +58,8 @@ export const OWN_SITE: Partial<Record<RoleName, string>> = { coordinator: 'SA', 
 const EVALUATION_LIVE = ['responders', 'stage1', 'stage2', 'rate', 'test', 'rule', 'earlyDetermination', 'accrual', 'notes', 'path'];
 const PORTFOLIO_LIVE = ['responders', 'outcomesKnown', 'responseRate', 'stage1Responders', 'lastRecommendation'];
 
-type Body = Record<string, any>;
+// Response bodies as supertest hands them over: untyped JSON.
+type Body = Record<string, unknown> & { cohorts?: Body[]; portfolio?: { rows: Body[] } };
 
 export type RouteEfficacy =
   /** Efficacy keys may appear only for these roles (none: an operational answer). */
@@ -100,8 +101,8 @@ export const EFFICACY_ROUTES: Record<string, RouteEfficacy> = {
   'get /api/data-cuts/:cutId/report.pdf': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/export.csv': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/adrs.csv': { kind: 'frozen-cut' },
-  'get /api/trials/:trialId/evaluation': { kind: 'projected', cohorts: (body) => body.cohorts, live: EVALUATION_LIVE, ownSites: true },
-  'get /api/portfolio': { kind: 'projected', cohorts: (body, trialId) => body.portfolio.rows.filter((r: Body) => r.trialId === trialId), live: PORTFOLIO_LIVE, ownSites: false },
+  'get /api/trials/:trialId/evaluation': { kind: 'projected', cohorts: (body) => body.cohorts ?? [], live: EVALUATION_LIVE, ownSites: true },
+  'get /api/portfolio': { kind: 'projected', cohorts: (body, trialId) => (body.portfolio?.rows ?? []).filter((r) => r.trialId === trialId), live: PORTFOLIO_LIVE, ownSites: false },
   'get /api/dev/digest-preview': { kind: 'digest' },
   'get /api/dev/outbox': { kind: 'mailbox' },
 };
