@@ -9,7 +9,8 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { hasRole, type Actor, type SessionUser } from '../auth/access.js';
+import { hasRole, type Actor, type Role, type SessionUser } from '../auth/access.js';
+import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, type SigningSession } from '../signatures/signatures.js';
@@ -20,6 +21,7 @@ import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
+import { insertReleasedFigures } from '../evaluation/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
 import { findDataCut, insertAnalysisVersion, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, trialOfCut, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
 import { findReport, insertReport, type ReportCoverage } from './reports.repository.js';
@@ -288,6 +290,7 @@ export async function signWithin(
     after: { dataCutId: cut.id, analysisVersion: cut.version, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
   });
   if (options.notify !== false) {
+    // A recommendation on a cut not yet released is live efficacy: it goes to the statisticians only.
     const statisticians = await statisticianEmails(trx, cut.trialId);
     await enqueueMail(
       trx,
@@ -370,7 +373,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
     appliedBy: actor.id,
   });
-  await releaseToSponsor(trx, cutId);
+  await releaseCohort(trx, cut, cohortId, decisionId, actor);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: cut.trialId,
@@ -382,7 +385,9 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
   });
   if (options.notify !== false) {
-    const recipients = await decisionRecipients(trx, cut.trialId);
+    // The decision is a verdict on the cut it releases: its readers are the release's audience.
+    const audience = recipientRoles('released-efficacy', ['coordinator', 'investigator', 'sponsor']);
+    const recipients = (await decisionRecipients(trx, cut.trialId)).filter((r) => audience.includes(r.role as Role));
     const mail = decisionMail(cut.snapshot.trial.code, current.code, input.action, reason, cut, stopCategory);
     await enqueueMail(
       trx,
@@ -396,6 +401,38 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     );
   }
   return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
+}
+
+/**
+ * Releases what a committee decision on the cut makes visible beyond the committee: the cut is
+ * marked released, and the cohort's figures from the cut's analysis are kept as they stand (one
+ * computation: `analyseCut` on the frozen copy), with an audit row. Later outcomes never move them.
+ */
+export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortId: string, decisionId: string, actor: Author): Promise<void> {
+  await releaseToSponsor(trx, cut.id);
+  const analysis = await analyseDataCut(trx, cut.id);
+  if (!analysis.integrity.intact) throw new ConflictError('The data cut no longer matches its content hash: nothing can be released from it.');
+  const cohort = analysis.cohorts.find((c) => c.cohortId === cohortId);
+  // A cohort without a locked design at the cut has no figures to release.
+  if (!cohort?.counts) return;
+  const { counts, responseRate, exactTest, rule, inference, bayes } = cohort;
+  await insertReleasedFigures(trx, {
+    cutId: cut.id,
+    cohortId,
+    decisionId,
+    cutSeq: cut.seq,
+    cutKind: cut.kind,
+    cutAt: cut.cutAt,
+    figures: { counts, responseRate, exactTest, rule, inference, bayes },
+  });
+  await writeAudit(trx, {
+    actorUserId: actor.id,
+    trialId: cut.trialId,
+    entityType: 'data_cut',
+    entityId: cut.id,
+    action: 'figures_released',
+    after: { cohortId, decisionId, cutAt: cut.cutAt, responders: counts.responders, decided: counts.decided, pending: counts.pending },
+  });
 }
 
 /**

@@ -10,3 +10,4 @@ export { DECISION_LABELS, RECOMMENDATION_LABELS } from './decisions.js';
 export { ROLE_WORDS } from './people.js';
 export { RESPONSE_LABELS, responderWords } from './outcomes.js';
 export { CAUTIONS, DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, SIZE_DEVIATION } from './cautions.js';
+export { liveFiguresHidden, releasedAsOf, type HiddenAudience } from './visibility.js';
