@@ -49,6 +49,8 @@ export const recommendationSchema = object({
     .min(10, 'Give the committee’s rationale (at least 10 characters).')
     .max(4000, 'Keep the rationale under 4,000 characters.')
     .required('Give the committee’s rationale.'),
+  /** The analysis version the member reviewed: signing refuses another. */
+  analysisVersion: number().typeError('The analysis version you reviewed is required.').integer().min(1).required('The analysis version you reviewed is required.'),
 });
 export type RecommendationInput = InferType<typeof recommendationSchema>;
 

@@ -2,23 +2,29 @@
  * Data cuts as the business rules see them: freezing a cut (a consistent copy of every patient in
  * scope, hashed), analysing it from the copy only, the committee's signed recommendations, and the
  * decision the statistician applies to the cohort afterwards, with the people who must hear of it.
+ * A cut's analysis settings (the prior) are numbered analysis versions: a recommendation signs
+ * one, and a later change starts the next. Its report is issued once per report version and then
+ * served as stored.
  */
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { Actor, SessionUser } from '../auth/access.js';
+import { hasRole, type Actor, type Role, type SessionUser } from '../auth/access.js';
+import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { contentHash, recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesigns } from '../designs/index.js';
 import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
-import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
+import { insertReleasedFigures } from '../evaluation/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
-import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
+import { findDataCut, insertAnalysisVersion, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, trialOfCut, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
+import { findReport, insertReport, type ReportCoverage } from './reports.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
@@ -183,7 +189,7 @@ export async function cutDetail(db: Db, cutId: string) {
 export type CutAnalysis = Analysis & { integrity: { contentHash: string; recomputedHash: string; intact: boolean } };
 
 /** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
-export async function analyseDataCut(db: Db, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
+export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
   const cut = await requireCut(db, cutId);
   const patients = await readCutPatients(db, cutId);
   const recomputedHash = contentHash(cutContent(cut, patients));
@@ -201,25 +207,32 @@ export async function analyseDataCut(db: Db, cutId: string, override?: Partial<P
   return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
 }
 
+/**
+ * A new prior starts the cut's next analysis version (append-only): a recommendation already
+ * signed keeps pointing at the version it signed, and the version it signed stays as it was.
+ */
 export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Author): Promise<DataCut> {
   return db.transaction(async (trx) => {
     const before = await requireCut(trx, cutId, true);
-    const updated = await updatePrior(trx, cutId, input.version, { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT });
-    if (!updated) throw new ConflictError('Someone changed this setting meanwhile; here is the current one.', { current: before });
+    if (before.version !== input.version) throw new ConflictError('Someone changed this setting meanwhile; here is the current one.', { current: before });
+    const prior = { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT };
+    await insertAnalysisVersion(trx, { dataCutId: cutId, version: before.version + 1, prior, createdBy: actor.id });
+    const updated = (await findDataCut(trx, cutId)) as DataCut;
     await writeAudit(trx, {
       actorUserId: actor.id,
       trialId: before.trialId,
       entityType: 'data_cut',
       entityId: cutId,
       action: 'prior_changed',
-      before: before.prior,
-      after: updated.prior,
+      before: { analysisVersion: before.version, ...before.prior },
+      after: { analysisVersion: updated.version, analysisVersionId: updated.analysisVersionId, ...updated.prior },
     });
     return updated;
   });
 }
 
-export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, signIn: SignIn): Promise<{ id: string; signatureId: string }> {
+/** A committee member signs a recommendation on the cut's current analysis version; the password must have been entered for this cut. */
+export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, session: SigningSession): Promise<{ id: string; signatureId: string }> {
   const cut = await requireCut(db, cutId);
   if (!recommendationChoices(cut.snapshot.cohorts).includes(input.decision)) {
     throw new InputError('No cohort of this data cut has a stage 2 still ahead.', { decision: 'Continue to stage 2 applies only where a stage 2 exists and has not begun.' });
@@ -227,9 +240,9 @@ export async function recommend(db: Db, cutId: string, input: RecommendationInpu
   if (await findRecommendationBy(db, cutId, signer.id)) {
     throw new ConflictError('You have already signed a recommendation on this data cut.');
   }
-  const authTime = requireFreshAuthentication(signIn);
   try {
-    return await db.transaction((trx) => signWithin(trx, cut, input, signer, authTime));
+    // The cut's row lock keeps the analysis version still while the member signs it.
+    return await db.transaction(async (trx) => signWithin(trx, await requireCut(trx, cutId, true), input, signer, session));
   } catch (error) {
     // Two tabs signing at once: the unique key decides, the second is told plainly.
     if ((error as { code?: string }).code === '23505') throw new ConflictError('You have already signed a recommendation on this data cut.');
@@ -243,24 +256,33 @@ export async function signWithin(
   cut: DataCut,
   input: RecommendationInput,
   signer: Author,
-  authenticatedAt: Date,
+  session: SigningSession,
   options: { notify?: boolean } = {},
 ): Promise<{ id: string; signatureId: string }> {
   const label = RECOMMENDATION_WORDS[input.decision].label;
+  if (input.analysisVersion !== cut.version) {
+    throw new ConflictError(`The analysis of data cut ${cut.seq} is now at version ${cut.version} (its prior changed since you opened it). Review it before signing.`, {
+      current: { analysisVersion: cut.version, prior: cut.prior },
+    });
+  }
+  const analysisVersion = { id: cut.analysisVersionId, version: cut.version, prior: cut.prior };
   const signature = await recordSignature(trx, {
     trialId: cut.trialId,
     signer,
+    session,
+    intent: { action: 'recommendation', subjectId: cut.id },
     meaning: recommendationMeaning({
       decision: input.decision,
       trialCode: cut.snapshot.trial.code,
       cohortCodes: cut.snapshot.cohorts.map((c) => c.code),
       cutSeq: cut.seq,
       cutId: cut.id,
+      analysisVersion: cut.version,
     }),
     subjectType: 'recommendation',
     subjectId: cut.id,
-    content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
-    authenticatedAt,
+    // The prior is part of what the member saw: the signature covers the analysis version, not only the frozen data.
+    content: { dataCutId: cut.id, contentHash: cut.contentHash, analysisVersion, decision: input.decision, rationale: input.rationale },
   });
   const id = await insertRecommendation(trx, {
     dataCutId: cut.id,
@@ -268,6 +290,7 @@ export async function signWithin(
     decision: input.decision,
     rationale: input.rationale,
     signatureId: signature.id,
+    analysisVersionId: cut.analysisVersionId,
   });
   await writeAudit(trx, {
     actorUserId: signer.id,
@@ -275,9 +298,10 @@ export async function signWithin(
     entityType: 'recommendation',
     entityId: id,
     action: 'signed',
-    after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
+    after: { dataCutId: cut.id, analysisVersion: cut.version, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
   });
   if (options.notify !== false) {
+    // A recommendation on a cut not yet released is live efficacy: it goes to the statisticians only.
     const statisticians = await statisticianEmails(trx, cut.trialId);
     await enqueueMail(
       trx,
@@ -319,8 +343,10 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
   };
 }
 
-export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author) {
-  return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
+/** Applying the committee's decision is the trial statistician's alone. */
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
+  if (!hasRole(actor.access, 'statistician')) throw new ForbiddenError('Applying the committee’s decision is the trial statistician’s alone.');
+  return db.transaction((trx) => applyWithin(trx, cutId, input, actor.user));
 }
 
 /** Moves the cohort as decided, records the decision, releases the figures and queues the mail, inside the caller's transaction. */
@@ -362,7 +388,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
     appliedBy: actor.id,
   });
-  await releaseToSponsor(trx, cutId);
+  await releaseCohort(trx, cut, cohortId, decisionId, actor);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: cut.trialId,
@@ -374,7 +400,9 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
   });
   if (options.notify !== false) {
-    const recipients = await decisionRecipients(trx, cut.trialId);
+    // The decision is a verdict on the cut it releases: its readers are the release's audience.
+    const audience = recipientRoles('released-efficacy', ['coordinator', 'investigator', 'sponsor']);
+    const recipients = (await decisionRecipients(trx, cut.trialId)).filter((r) => audience.includes(r.role as Role));
     const mail = decisionMail(cut.snapshot.trial.code, current.code, input.action, reason, cut, stopCategory);
     await enqueueMail(
       trx,
@@ -390,14 +418,65 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
 }
 
-/** The cut's PDF report; its hash is kept on the cut, so a printed copy can be checked against it. */
-export async function cutReport(db: Db, cutId: string): Promise<{ pdf: Buffer; hash: string; filename: string }> {
-  const detail = await cutDetail(db, cutId);
-  const analysis = await analyseDataCut(db, detail.dataCut.id);
-  const pdf = await renderCutReport({ cut: detail.dataCut, analysis, ...detail });
-  const hash = createHash('sha256').update(pdf).digest('hex');
-  await setReportHash(db, detail.dataCut.id, hash);
-  return { pdf, hash, filename: `${detail.dataCut.snapshot.trial.code}-data-cut-${detail.dataCut.seq}.pdf` };
+/**
+ * Releases what a committee decision on the cut makes visible beyond the committee: the cut is
+ * marked released, and the cohort's figures from the cut's analysis are kept as they stand (one
+ * computation: `analyseCut` on the frozen copy), with an audit row. Later outcomes never move them.
+ */
+export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortId: string, decisionId: string, actor: Author): Promise<void> {
+  await releaseToSponsor(trx, cut.id);
+  const analysis = await analyseDataCut(trx, cut.id);
+  if (!analysis.integrity.intact) throw new ConflictError('The data cut no longer matches its content hash: nothing can be released from it.');
+  const cohort = analysis.cohorts.find((c) => c.cohortId === cohortId);
+  // A cohort without a locked design at the cut has no figures to release.
+  if (!cohort?.counts) return;
+  const { counts, responseRate, exactTest, rule, inference, bayes } = cohort;
+  await insertReleasedFigures(trx, {
+    cutId: cut.id,
+    cohortId,
+    decisionId,
+    cutSeq: cut.seq,
+    cutKind: cut.kind,
+    cutAt: cut.cutAt,
+    figures: { counts, responseRate, exactTest, rule, inference, bayes },
+  });
+  await writeAudit(trx, {
+    actorUserId: actor.id,
+    trialId: cut.trialId,
+    entityType: 'data_cut',
+    entityId: cut.id,
+    action: 'figures_released',
+    after: { cohortId, decisionId, cutAt: cut.cutAt, responders: counts.responders, decided: counts.decided, pending: counts.pending },
+  });
+}
+
+/**
+ * The cut's PDF report for what it covers now (analysis version, recommendations, decisions). The
+ * first request for a report version renders it and keeps its bytes and hash; every later request
+ * gets those stored bytes, so the hash of a report version never changes.
+ */
+export async function cutReport(db: Db, cutId: string, requester: Author): Promise<{ pdf: Buffer; hash: string; version: number; filename: string }> {
+  return db.transaction(async (trx) => {
+    // The cut's row lock numbers report versions one at a time.
+    const cut = await requireCut(trx, cutId, true);
+    const [recommendationList, decisions, committeeSize] = await Promise.all([listRecommendations(trx, cutId), listDecisions(trx, cutId), countMonitors(trx, cut.trialId)]);
+    const coverage: ReportCoverage = { dataCutId: cutId, analysisVersionId: cut.analysisVersionId, recommendationCount: recommendationList.length, decisionCount: decisions.length };
+    let report = await findReport(trx, coverage);
+    if (!report) {
+      const analysis = await analyseDataCut(trx, cutId);
+      const pdf = await renderCutReport({ cut, analysis, recommendations: recommendationList, decisions, committeeSize });
+      report = await insertReport(trx, { ...coverage, pdf, sha256: createHash('sha256').update(pdf).digest('hex'), createdBy: requester.id });
+      await writeAudit(trx, {
+        actorUserId: requester.id,
+        trialId: cut.trialId,
+        entityType: 'data_cut',
+        entityId: cutId,
+        action: 'report_issued',
+        after: { reportVersion: report.seq, sha256: report.sha256, analysisVersion: cut.version, recommendations: coverage.recommendationCount, decisions: coverage.decisionCount },
+      });
+    }
+    return { pdf: report.pdf, hash: report.sha256, version: report.seq, filename: `${cut.snapshot.trial.code}-data-cut-${cut.seq}-report-${report.seq}.pdf` };
+  });
 }
 
 function csvName(code: string, seq: number, what: string) {

@@ -118,6 +118,9 @@ export const attestationSchema = yup.object({
   version: yup.number().integer().min(1).required('The record version is required.'),
 });
 
+/** The one wording of an attestation's signature: shown before signing, recorded with the signature. */
+export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete.`;
+
 /** The fields of an outcome, compared to decide whether a change is a correction. */
 export const OUTCOME_FIELDS = ['outcome', 'bestOverallResponse', 'responseAssessedOn', 'evaluable', 'notEvaluableReason'] as const;
 

@@ -36,8 +36,10 @@ export function recommendationMeaning(input: {
   cohortCodes: readonly string[];
   cutSeq: number;
   cutId: string;
+  /** The analysis version the member reviewed and signs. */
+  analysisVersion: number;
 }): string {
   const choice = input.decision ? `"${RECOMMENDATION_WORDS[input.decision].label}"` : CHOICE_NOT_MADE;
   const cohorts = `${input.cohortCodes.length === 1 ? 'cohort' : 'cohorts'} ${input.cohortCodes.join(', ')}`;
-  return `I recommend ${choice} for ${input.trialCode} ${cohorts} on data cut ${input.cutSeq} (${input.cutId}), having reviewed its analysis.`;
+  return `I recommend ${choice} for ${input.trialCode} ${cohorts} on data cut ${input.cutSeq} (${input.cutId}), having reviewed its analysis version ${input.analysisVersion}.`;
 }

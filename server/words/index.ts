@@ -47,3 +47,4 @@ export {
   REPORT_FOOTER_CAUTION,
   SIZE_DEVIATION,
 } from './cautions.js';
+export { liveFiguresHidden, releasedAsOf, type HiddenAudience } from './visibility.js';

@@ -7,13 +7,13 @@ import { describe, expect, it } from 'vitest';
 import { screen } from '@testing-library/react';
 import { EvaluationPanel } from '../../client/src/features/trial-overview/evaluation-panel';
 import { describeVerdict, verdictFigures } from '../../server/evaluation/verdict';
-import type { CohortEvaluation } from '../../server/evaluation/evaluation.service';
+import type { LiveCohort } from '../../client/src/features/trial-overview/get-evaluation';
 import type { StageTally, Tally } from '../../server/evaluation/counting';
 import { renderWithApp, stubFetch } from './render';
 
 const stage = (counted: number, decided: number, responders: number): StageTally => ({ counted, decided, responders, pending: counted - decided });
 
-function cohort(design: { r1: number; n1: number; r: number; n: number; p0: number; alpha: number }, stage1: StageTally, stage2: StageTally, status: 'enrolling_stage_1' | 'final_analysis'): CohortEvaluation {
+function cohort(design: { r1: number; n1: number; r: number; n: number; p0: number; alpha: number }, stage1: StageTally, stage2: StageTally, status: 'enrolling_stage_1' | 'final_analysis'): LiveCohort {
   const t: Tally = {
     counted: stage1.counted + stage2.counted,
     decided: stage1.decided + stage2.decided,
@@ -29,10 +29,9 @@ function cohort(design: { r1: number; n1: number; r: number; n: number; p0: numb
     cohortCode: 'MAIN',
     cohortName: 'All patients',
     status,
-    design: { version: 1, selection: 'optimal', p1: design.p0 + 0.2, beta: 0.1, analysisPopulation: 'all_enrolled', interimAccrual: 'continue_at_risk', typeIError: 0.05, power: 0.8, ...design },
+    design: { version: 1, selection: 'optimal', p1: design.p0 + 0.2, beta: 0.1, analysisPopulation: 'all_enrolled', interimAccrual: 'continue_at_risk', typeIError: 0.05, power: 0.8, sponsorSeesResponse: false, ...design },
     enrolled: t.enrolled,
     counted: t.counted,
-    responseHidden: false,
     decided: t.decided,
     pending: t.pending,
     responders: t.responders,
@@ -49,7 +48,7 @@ function cohort(design: { r1: number; n1: number; r: number; n: number; p0: numb
   };
 }
 
-const evaluation = (c: CohortEvaluation) => ({ status: 200, body: { trialId: 't1', confLevel: 0.95, cautions: ['Decision support only.'], cohorts: [c] } });
+const evaluation = (c: LiveCohort) => ({ status: 200, body: { trialId: 't1', confLevel: 0.95, cautions: ['Decision support only.'], cohorts: [c] } });
 
 describe('the evaluation panel', () => {
   it('when stage-2 patients were enrolled at risk, then the panel shows how many and the sentence saying the stage-1 rule leaves them out', async () => {

@@ -32,7 +32,6 @@ import type { NavItem } from '../../client/src/lib/feature.js';
 import { IMPORT_COLUMNS } from '../../server/patients/patients.schema.js';
 
 const ROLES = Object.keys(DEMO) as RoleName[];
-const FRESHNESS_SECONDS = 8;
 
 let stack: Stack;
 let browser: Browser;
@@ -41,8 +40,7 @@ let trial: TrialFixture;
 
 beforeAll(async () => {
   [clientDir, browser] = await Promise.all([buildClient(), launchChromium()]);
-  // Signatures need a sign-in younger than 8 s here, so the journey's design lock asks for a fresh one.
-  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000', SIGNATURE_FRESHNESS_SECONDS: String(FRESHNESS_SECONDS) });
+  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000' });
   trial = await createTrial(stack.db, { code: 'E2E-101', sites: ['RVX', 'HCX'] });
   await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0] });
   await enrolPatientsDirectly(stack.db, {
@@ -248,14 +246,13 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the statistician compares designs and locks one, then the signature needs a fresh sign-in, the locked design is recorded with it and accrual opens', async () => {
+  it('when the statistician compares designs and locks one, then the signature needs the password entered for it at the identity provider, the locked design is recorded with it and accrual opens', async () => {
     expect(journeyTrialId).toBeDefined();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const pageErrors = watchConsole(page);
     try {
       await signInThroughPages(page, stack.url, DEMO.statistician);
-      const signedInAt = Date.now();
       await page.goto(`${stack.url}/trials/${journeyTrialId}`);
       await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Designs' }).click();
       await page.getByLabel('p0', { exact: true }).fill('0.2');
@@ -273,18 +270,20 @@ describe("the trial's journey through the pages", () => {
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
       expect(await wordingProblems(page, 'journey-designs')).toEqual([]);
 
-      // Let the sign-in age past the freshness a signature needs.
-      await page.waitForTimeout(Math.max(0, FRESHNESS_SECONDS * 1000 + 1000 - (Date.now() - signedInAt)));
+      // Being signed in is not enough: the signature sends the statistician to the provider to enter the password for it.
       await page.getByRole('button', { name: /^Lock…: Simon optimal/ }).click();
       const dialog = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      const meaning = await dialog.getByText(/^I approve this design for protocol E2E-PRT v1\.0/).innerText();
       await dialog.getByLabel('I sign with the meaning stated above.').check();
       await screenshot(page, 'journey-4-sign-dialog');
-      await dialog.getByRole('button', { name: 'Sign', exact: true }).click();
+      const askedAt = Date.now();
+      await dialog.getByRole('button', { name: 'Enter your password and sign' }).click();
 
       await page.waitForURL(/\/interaction\//);
       await page.getByText('Confirm it is you').waitFor();
       await confirmIdentity(page, stack.url, DEMO.statistician);
       const reopened = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      await reopened.getByText('You entered your password for this signature').waitFor();
       await reopened.getByLabel('I sign with the meaning stated above.').check();
       await reopened.getByRole('button', { name: 'Sign', exact: true }).click();
       await reopened.waitFor({ state: 'detached' });
@@ -301,8 +300,9 @@ describe("the trial's journey through the pages", () => {
       const design = await stack.db('design_versions').where({ cohort_id: cohort.id }).first();
       expect(design).toMatchObject({ version: 1, selection: 'optimal', r1: 3, n1: 13, r: 12, n: 43 });
       const signature = await stack.db('signatures').where({ id: design.signature_id }).first();
-      expect(signature.signer_email).toBe(DEMO.statistician);
-      expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThan(signedInAt + FRESHNESS_SECONDS * 1000);
+      expect(signature).toMatchObject({ signer_email: DEMO.statistician, signer_name: 'Sam Stat', meaning });
+      // auth_time has whole seconds: the password was entered after the dialog asked for it.
+      expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThanOrEqual(Math.floor(askedAt / 1000) * 1000);
       expect(await stack.db('cohorts').where({ id: cohort.id }).first('status')).toEqual({ status: 'enrolling_stage_1' });
     } finally {
       await context.close();
@@ -391,7 +391,7 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the committee member reviews the cut and signs "continue", then the wording shown before signing is the one recorded', async () => {
+  it('when the monitor reviews the cut and signs "continue", entering the password for it at the identity provider, then the signed recommendation is recorded with the statement shown', async () => {
     expect(cutId).toBeDefined();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
@@ -410,15 +410,21 @@ describe("the trial's journey through the pages", () => {
       await settle(page);
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
       expect(await wordingProblems(page, 'journey-committee-review')).toEqual([]);
-      await form.getByRole('button', { name: 'Sign the recommendation' }).click();
-      await form.waitFor({ state: 'detached' });
+      await form.getByRole('button', { name: 'Enter your password and sign' }).click();
+      await page.waitForURL(/\/interaction\//);
+      await confirmIdentity(page, stack.url, DEMO.monitor);
+      const back = page.getByRole('form', { name: 'Sign a recommendation' });
+      await back.getByText('You entered your password for this signature').waitFor();
+      expect(await back.getByLabel('Rationale').inputValue()).toMatch(/^Four responders among thirteen/);
+      expect((await back.getByRole('blockquote', { name: 'Meaning of the signature' }).innerText()).trim()).toBe(shown);
+      await back.getByRole('button', { name: 'Sign the recommendation' }).click();
+      await back.waitFor({ state: 'detached' });
       await settle(page);
       await screenshot(page, 'journey-10-committee-review');
       expect(pageErrors).toEqual([]);
       const recommendation = await stack.db('recommendations').where({ data_cut_id: cutId }).first();
       expect(recommendation).toMatchObject({ decision: 'continue' });
-      const signature = await stack.db('signatures').where({ id: recommendation.signature_id }).first('meaning');
-      expect(signature.meaning).toBe(shown);
+      expect(await stack.db('signatures').where({ id: recommendation.signature_id }).first()).toMatchObject({ meaning: shown, signer_name: 'Mona Monitor' });
     } finally {
       await context.close();
     }
@@ -445,7 +451,7 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the sponsor signs in, then Portfolio and Accrual show the trial', async () => {
+  it('when the sponsor signs in, then Portfolio and the Trial overview show the figures the decision released, under the cut’s date, and Accrual shows the trial', async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const pageErrors = watchConsole(page);
@@ -453,8 +459,13 @@ describe("the trial's journey through the pages", () => {
       await signInThroughPages(page, stack.url, DEMO.sponsor);
       await settle(page);
       await page.getByRole('main').getByText('E2E-201').first().waitFor();
+      await page.getByRole('main').getByText(/naive, as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}/).first().waitFor();
       await screenshot(page, 'journey-12-portfolio');
       await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('heading', { name: /^Released figures, as of the data cut of / }).waitFor();
+      expect(await page.getByText('Live response figures reach sponsors only where the locked design allows it', { exact: false }).count()).toBe(1);
+      await screenshot(page, 'journey-12b-overview');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
       await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Accrual' }).click();
       await settle(page);
       await screenshot(page, 'journey-13-accrual');

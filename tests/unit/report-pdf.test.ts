@@ -75,6 +75,7 @@ function reportInput(): ReportInput {
     seq: 1,
     kind: 'interim',
     designVersionId: 'd-1',
+    analysisVersionId: 'av-1',
     snapshot: {
       trial: { id: 't-1', code: 'INV-301', title: 'An invented trial', indication: 'Invented indication', sponsorName: 'Invented Sponsor' },
       cohorts: [{ id: 'c-1', code: 'MAIN', name: 'All patients', status: 'interim_review', design: DESIGN }],
@@ -101,11 +102,13 @@ function reportInput(): ReportInput {
         memberName: 'Invented Member',
         memberEmail: 'member@invented.test',
         decision: 'continue',
+        analysisVersion: 1,
         rationale: 'Four responders among thirteen: the futility rule is not met.',
         signature: {
           id: 'sig-1',
           signerUserId: 'u-1',
           signerEmail: 'member@invented.test',
+          signerName: 'Invented Member',
           meaning: 'I recommend "Continue to stage 2" for INV-301 cohort MAIN on data cut 1.',
           subjectType: 'recommendation',
           subjectId: cut.id,

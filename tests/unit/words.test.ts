@@ -143,11 +143,11 @@ describe('the shipped Inter draws every character of the module', () => {
 });
 
 describe('the wording of a recommendation’s signature', () => {
-  const cut = { trialCode: 'INV-1', cohortCodes: ['MAIN'], cutSeq: 2, cutId: 'cut-id' };
+  const cut = { trialCode: 'INV-1', cohortCodes: ['MAIN'], cutSeq: 2, cutId: 'cut-id', analysisVersion: 3 };
 
   it('when no choice is made yet, then the wording says so, and once chosen it names the choice as the server records it', () => {
-    expect(words.recommendationMeaning({ ...cut, decision: null })).toBe(`I recommend ${words.CHOICE_NOT_MADE} for INV-1 cohort MAIN on data cut 2 (cut-id), having reviewed its analysis.`);
-    expect(words.recommendationMeaning({ ...cut, decision: 'stop_futility' })).toBe('I recommend "Stop for futility" for INV-1 cohort MAIN on data cut 2 (cut-id), having reviewed its analysis.');
+    expect(words.recommendationMeaning({ ...cut, decision: null })).toBe(`I recommend ${words.CHOICE_NOT_MADE} for INV-1 cohort MAIN on data cut 2 (cut-id), having reviewed its analysis version 3.`);
+    expect(words.recommendationMeaning({ ...cut, decision: 'stop_futility' })).toBe('I recommend "Stop for futility" for INV-1 cohort MAIN on data cut 2 (cut-id), having reviewed its analysis version 3.');
   });
 
   it('when a cut covers several cohorts, then all are named', () => {

@@ -8,8 +8,9 @@ import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { currentDesign } from '../../designs/index.js';
 import { canTransition, type CohortStatus } from '../../trials/index.js';
-import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseToSponsor, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
+import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseCohort, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
+import { demoSigningSession } from './signing.js';
 
 type Plan = {
   code: string;
@@ -75,7 +76,8 @@ export async function seedDataCuts(trx: Knex.Transaction, trials: Map<string, st
     });
     if (!plan.recommendation || !plan.decision) continue;
 
-    await signWithin(trx, cut, plan.recommendation, monitor, new Date(cutAt.getTime() + 2 * 86_400_000), { notify: false });
+    const session = await demoSigningSession(trx, monitor.id, { action: 'recommendation', subjectId: cut.id }, new Date(cutAt.getTime() + 2 * 86_400_000));
+    await signWithin(trx, cut, { ...plan.recommendation, analysisVersion: cut.version }, monitor, session, { notify: false });
     const target = DECISION_TARGET[plan.decision.action];
     const input = { action: plan.decision.action, reason: plan.decision.reason, stopCategory: plan.decision.stopCategory ?? null, cohortId: cohort.id };
     if (cohort.status === target) {
@@ -92,7 +94,7 @@ export async function seedDataCuts(trx: Knex.Transaction, trials: Map<string, st
         appliedBy: statistician.id,
         appliedAt,
       });
-      await releaseToSponsor(trx, cut.id);
+      await releaseCohort(trx, cut, cohort.id, decisionId, statistician);
       await writeAudit(trx, {
         actorUserId: statistician.id,
         trialId,

@@ -1,16 +1,19 @@
 /**
- * A committee member's recommendation on a data cut, signed electronically. The signature's wording
- * is shown as the server will record it, with the choice filled in as it is made (one function words
- * it for both). "Continue to stage 2" is offered only where a stage 2 is still ahead. Signing needs a
- * fresh sign-in: when the server asks for one, the form's state is kept in this tab, the member signs
- * in again at the identity provider, and the form comes back filled in to sign.
+ * A committee member's recommendation on a data cut, signed electronically. Each signature needs
+ * the member's password, entered at the identity provider for this cut: when the server asks for
+ * it, the form's state is kept in this tab, the member enters the password and comes back to the
+ * form filled in, reads the statement again and signs. The statement shown is the one recorded
+ * (one function words it for both), with the choice filled in as it is made. "Continue to stage 2"
+ * is offered only where a stage 2 is still ahead.
  */
 import { Field, Form, Formik, useField } from 'formik';
 import { Button, DecisionCaution, ErrorNotice } from '../../components/ui';
 import { TextAreaField } from '../../components/field';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { ApiError, confirmIdentityToSign, signingUrlOf } from '../../lib/api';
 import { recommendationChoices, recommendationSchema, type RecommendationDecision } from '../../../../server/data-cuts/data-cuts.schema';
 import { DECISION_POINT_CAUTIONS, GLYPHS, RECOMMENDATION_WORDS, recommendationMeaning } from '../../../../server/words';
+import { useSigningReady } from '../auth';
 import type { DataCutDetail } from '../data-cuts';
 import { useSignRecommendation } from './use-sign-recommendation';
 
@@ -55,9 +58,9 @@ function DecisionChoices({ choices }: { choices: RecommendationDecision[] }) {
 }
 
 export function RecommendationForm({ cut, trialId }: { cut: Cut; trialId: string }) {
-  const cutId = cut.id;
-  const sign = useSignRecommendation(cutId, trialId);
-  const draft = readDraft(cutId);
+  const sign = useSignRecommendation(cut.id, trialId);
+  const ready = useSigningReady('recommendation', cut.id);
+  const draft = readDraft(cut.id);
   const choices = recommendationChoices(cut.snapshot.cohorts);
   const meaningOf = (decision: RecommendationDecision | '') =>
     recommendationMeaning({
@@ -66,21 +69,23 @@ export function RecommendationForm({ cut, trialId }: { cut: Cut; trialId: string
       cohortCodes: cut.snapshot.cohorts.map((c) => c.code),
       cutSeq: cut.seq,
       cutId: cut.id,
+      analysisVersion: cut.version,
     });
   return (
     <Formik<Values>
       initialValues={draft ?? { decision: '', rationale: '' }}
       initialTouched={draft ? { decision: true, rationale: true } : {}}
-      validationSchema={recommendationSchema}
+      validationSchema={recommendationSchema.omit(['analysisVersion'])}
       validateOnChange
       onSubmit={async (values, helpers) => {
         try {
-          await sign.mutateAsync({ decision: values.decision as RecommendationDecision, rationale: values.rationale });
-          sessionStorage.removeItem(draftKey(cutId));
+          await sign.mutateAsync({ decision: values.decision as RecommendationDecision, rationale: values.rationale, analysisVersion: cut.version });
+          sessionStorage.removeItem(draftKey(cut.id));
         } catch (error) {
-          if (error instanceof ApiError && error.code === 'reauthentication_required') {
-            sessionStorage.setItem(draftKey(cutId), JSON.stringify(values));
-            reauthenticate();
+          const signingUrl = signingUrlOf(error);
+          if (signingUrl) {
+            sessionStorage.setItem(draftKey(cut.id), JSON.stringify(values));
+            confirmIdentityToSign(signingUrl);
             return;
           }
           if (error instanceof ApiError) helpers.setErrors(error.fields);
@@ -89,11 +94,7 @@ export function RecommendationForm({ cut, trialId }: { cut: Cut; trialId: string
     >
       {({ values, isSubmitting }) => (
         <Form className="grid gap-3" aria-label="Sign a recommendation">
-          {draft && (
-            <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-              <span aria-hidden>{GLYPHS.restored} </span>You signed in again; your recommendation is as you left it. Review it and sign.
-            </p>
-          )}
+          <SigningNotice ready={ready} />
           <DecisionChoices choices={choices} />
           <TextAreaField name="rationale" label="Rationale" rows={5} hint="What the committee saw and why it recommends this." />
           <div className="text-xs text-ink-600">
@@ -101,15 +102,15 @@ export function RecommendationForm({ cut, trialId }: { cut: Cut; trialId: string
             <blockquote aria-label="Meaning of the signature" className="my-1 border-l-2 border-ink-300 pl-2 text-sm text-ink-900">
               {meaningOf(values.decision)}
             </blockquote>
-            <p>You will be asked to confirm your identity if your sign-in is not recent.</p>
+            <p>You enter your password at the identity service for this signature, then sign here.</p>
           </div>
           <DecisionCaution>{DECISION_POINT_CAUTIONS.signRecommendation}</DecisionCaution>
           <div>
-            <Button type="submit" disabled={isSubmitting}>
-              {isSubmitting ? 'Signing…' : 'Sign the recommendation'}
+            <Button type="submit" disabled={isSubmitting} autoFocus={ready && draft !== null}>
+              {isSubmitting ? 'Signing…' : ready ? 'Sign the recommendation' : 'Enter your password and sign'}
             </Button>
           </div>
-          {sign.error && !(sign.error instanceof ApiError && (sign.error.code === 'reauthentication_required' || Object.keys(sign.error.fields).length > 0)) && (
+          {sign.error && !(signingUrlOf(sign.error) || (sign.error instanceof ApiError && Object.keys(sign.error.fields).length > 0)) && (
             <ErrorNotice error={sign.error} title="The recommendation was not signed" />
           )}
         </Form>

@@ -64,7 +64,9 @@ export function ReviewPage() {
                 </p>
                 <p className="text-ink-700">{r.rationale}</p>
                 <p className="text-xs text-ink-500">
-                  Signed {dateTime(r.signature.signedAt)} after a fresh sign-in at {dateTime(r.signature.authenticatedAt)} · “{r.signature.meaning}”
+                  Signed by {r.signature.signerName ?? r.signature.signerEmail} on {dateTime(r.signature.signedAt)}, password entered at {dateTime(r.signature.authenticatedAt)},
+                  on analysis version {r.analysisVersion}
+                  {r.analysisVersion !== cut.version ? ` (the analysis is now at version ${cut.version})` : ''} · “{r.signature.meaning}”
                 </p>
               </li>
             ))}

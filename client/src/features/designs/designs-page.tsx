@@ -119,16 +119,9 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
   };
 
   const chooseLabel = kind === 'lock' ? 'Lock…' : kind === 'amendment' ? 'Amend to this…' : 'Sign as new version…';
-  const differentUser = params.get('signInError') === 'different-user';
 
   return (
     <div className="grid gap-4">
-      {differentUser && (
-        <ErrorNotice
-          title="Signature not made"
-          error={new Error('The fresh sign-in was made by a different account. A signature must come from the person signed in to Orrery.')}
-        />
-      )}
       <div className="grid gap-4 lg:grid-cols-5">
         {isStatistician && !finished && (
           <Panel title={current ? 'New version of the design' : 'Design settings'} className="lg:col-span-3">

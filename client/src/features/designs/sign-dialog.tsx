@@ -1,14 +1,17 @@
 /**
- * Signing a design: what is signed, the meaning of the signature in words, the reason for a new
- * version, and an explicit confirmation. A sign-in that is too old sends the user to the identity
- * provider (fresh sign-in) and back to this same dialog.
+ * Signing a design: what is signed, the meaning of the signature in words (the text recorded), the
+ * reason for a new version, and an explicit confirmation. Each signature needs the statistician's
+ * password, entered at the identity provider for this cohort's design: the dialog sends them there
+ * and they come back to this same dialog to sign.
  */
 import { useEffect, useRef } from 'react';
 import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { CheckboxField, TextAreaField } from '../../components/field';
 import { decimal } from '../../lib/format';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { confirmIdentityToSign, signingUrlOf } from '../../lib/api';
+import { useSigningReady } from '../auth';
 import {
   designAmendmentSchema,
   designLockSchema,
@@ -41,6 +44,7 @@ const INTERIM = INTERIM_ACCRUAL_LABELS;
 export function SignDialog({ trialId, trialCode, cohort, candidate, settings, values, kind, currentVersion, returnTo, onClose, onSigned }: Props) {
   const dialog = useRef<HTMLDialogElement>(null);
   const sign = useSignDesign(trialId, cohort.id, kind === 'amendment' ? 'amendment' : 'lock');
+  const ready = useSigningReady(kind === 'amendment' ? 'amendment' : 'design', cohort.id);
   const version = currentVersion + 1;
   const needsReason = kind !== 'lock';
   const meaning = signatureMeaning({ kind, version, protocolReference: values.protocolReference, trialCode, cohortCode: cohort.code });
@@ -83,9 +87,10 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
             pendingReason.clear(cohort.id);
             onSigned();
           } catch (error) {
-            if (error instanceof ApiError && error.code === 'reauthentication_required') {
+            const signingUrl = signingUrlOf(error);
+            if (signingUrl) {
               pendingReason.save(cohort.id, form.reason);
-              reauthenticate(returnTo);
+              confirmIdentityToSign(signingUrl, returnTo);
             }
           }
         }}
@@ -97,10 +102,11 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 {kind === 'amendment' ? `Sign an amendment: design version ${version}` : kind === 'revision' ? `Sign design version ${version}` : 'Lock and sign the design'}
               </h2>
               <p className="text-sm text-ink-500">
-                {trialCode}, cohort {cohort.code}. This is an electronic signature: you may be asked to confirm your identity first.
+                {trialCode}, cohort {cohort.code}. This is an electronic signature: you enter your password at the identity service for it.
               </p>
             </header>
             <div className="grid gap-4 px-5 py-4">
+              <SigningNotice ready={ready} />
               <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm tabular-nums">
                 <dt className="text-ink-500">Design</dt>
                 <dd className="font-semibold">
@@ -141,7 +147,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 />
               )}
               <CheckboxField name="confirmMeaning" label="I sign with the meaning stated above." />
-              {sign.error && !(sign.error instanceof ApiError && sign.error.code === 'reauthentication_required') && (
+              {sign.error && !signingUrlOf(sign.error) && (
                 <ErrorNotice error={sign.error} title="The design was not signed" />
               )}
             </div>
@@ -150,7 +156,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 Cancel
               </Button>
               <Button type="submit" disabled={isSubmitting}>
-                {isSubmitting ? 'Signing…' : 'Sign'}
+                {isSubmitting ? 'Signing…' : ready ? 'Sign' : 'Enter your password and sign'}
               </Button>
             </footer>
           </Form>

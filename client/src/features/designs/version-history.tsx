@@ -27,7 +27,7 @@ const columns = [
   }),
   column.accessor((v) => v.signature?.meaning ?? '', { id: 'meaning', header: 'Meaning', cell: (info) => <span className="text-xs">{info.getValue()}</span> }),
   column.accessor((v) => v.signature?.signedAt ?? v.createdAt, { id: 'signedAt', header: 'Signed', cell: (info) => dateTime(info.getValue()) }),
-  column.accessor((v) => v.signature?.authenticatedAt ?? '', { id: 'authAt', header: 'Identity confirmed', cell: (info) => dateTime(info.getValue() || null) }),
+  column.accessor((v) => v.signature?.authenticatedAt ?? '', { id: 'authAt', header: 'Password entered', cell: (info) => dateTime(info.getValue() || null) }),
 ];
 
 export function VersionHistory({ versions }: { versions: DesignVersion[] }) {

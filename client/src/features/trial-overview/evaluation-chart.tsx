@@ -8,14 +8,14 @@ import { registerChart } from '../../components/chart-setup';
 import { Scatter } from 'react-chartjs-2';
 import { CHART_COLOURS } from '../../components/chart-colours';
 import { boundaryLines, type BoundaryPoint } from '../../components/boundary-lines';
-import type { CohortEvaluation } from './get-evaluation';
+import type { LiveCohort } from './get-evaluation';
 
 registerChart(ScatterController, LineElement, PointElement, LinearScale, Legend, Tooltip);
 
 const { observed: OBSERVED } = CHART_COLOURS;
 
 /** For k decided patients, the boundaries of the rule that applies at k: stage 1's up to n1, the final rule's after. */
-export function boundaries(design: NonNullable<CohortEvaluation['design']>): BoundaryPoint[] {
+export function boundaries(design: NonNullable<LiveCohort['design']>): BoundaryPoint[] {
   const points: BoundaryPoint[] = [];
   const twoStage = design.r1 !== null && design.n1 !== null;
   for (let k = 1; k <= design.n; k++) {
@@ -26,7 +26,7 @@ export function boundaries(design: NonNullable<CohortEvaluation['design']>): Bou
   return points;
 }
 
-export function EvaluationChart({ cohort }: { cohort: CohortEvaluation }) {
+export function EvaluationChart({ cohort }: { cohort: LiveCohort }) {
   const design = cohort.design;
   if (!design) return null;
   const lines = boundaries(design);
