@@ -1,18 +1,16 @@
 /**
- * The load-testing parts the API benchmarks share: a bare Express JSON route (the reference every
- * figure is divided by), a fresh database on a temporary cluster, and an autocannon run that keeps
- * every response time so percentiles are exact.
+ * The load-testing parts the API benchmarks share: a fresh database on a temporary cluster and an
+ * autocannon run that keeps every response time so percentiles are exact (the server processes and
+ * the bare reference route are in server-process.ts).
  */
 import { randomBytes } from 'node:crypto';
-import type { AddressInfo } from 'node:net';
-import express from 'express';
 import autocannon from 'autocannon';
 import { ensureDatabase, removeDataDir, startCluster, temporaryDataDir } from '../../server/dev/postgres.js';
 import { freePort } from '../../server/dev/ports.js';
 
 export const BENCH_SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
 
-export type Measured = { p50: number; p95: number; p99: number; perSecond: number; requests: number; failures: number; statuses: Record<number, number> };
+export type Measured = { p50: number; p95: number; p97_5: number; p99: number; perSecond: number; requests: number; failures: number; statuses: Record<number, number> };
 
 function percentile(sorted: number[], q: number): number {
   return sorted.length === 0 ? NaN : sorted[Math.min(sorted.length - 1, Math.ceil(q * sorted.length) - 1)];
@@ -44,29 +42,12 @@ export async function measure(options: RunOptions): Promise<Measured> {
   return {
     p50: percentile(times, 0.5),
     p95: percentile(times, 0.95),
+    p97_5: percentile(times, 0.975),
     p99: percentile(times, 0.99),
     perSecond: result.requests.total / result.duration,
     requests: result.requests.total,
     failures: result.non2xx + result.errors + result.timeouts,
     statuses,
-  };
-}
-
-/** The reference: the cheapest JSON answer Express can give, in this process, in this run. */
-export async function bareExpress(): Promise<{ url: string; close: () => Promise<void> }> {
-  const app = express();
-  app.get('/bare', (_req, res) => {
-    res.json({ ok: true });
-  });
-  const server = app.listen(0, '127.0.0.1');
-  await new Promise<void>((resolve) => server.once('listening', resolve));
-  return {
-    url: `http://127.0.0.1:${(server.address() as AddressInfo).port}/bare`,
-    close: () =>
-      new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      }),
   };
 }
 

@@ -2,8 +2,7 @@
  * Portfolio and Accrual under load: a portfolio of 50 trials × 500 patients, GET /api/portfolio
  * and GET /api/trials/:trialId/accrual as a signed-in sponsor and statistician (autocannon,
  * 20 connections, BENCH_SECONDS each, 8 by default), beside a bare Express JSON route measured in
- * the same run (the shared parts are in api-load.ts). The load generator and both servers share
- * this process, so the ratio is the fair comparison.
+ * the same run (the shared parts are in api-load.ts, the server processes in server-process.ts).
  * Uses DATABASE_URL's server when set, else a temporary PostgreSQL cluster; cleans up after.
  * Run alone with `npx tsx tests/bench/api-portfolio.ts`; `npm run bench` collects the same figures.
  */
@@ -12,13 +11,13 @@ import { pathToFileURL } from 'node:url';
 import pg from 'pg';
 import { ensureDatabase } from '../../server/dev/postgres.js';
 import { createDb, migrateLatest, type Db } from '../../server/db/knex.js';
-import { startStackOn } from '../support/stack.js';
 import { DEMO, createTrial } from '../support/factories.js';
 import { lockDesignDirectly } from '../support/patient-factories.js';
 import { bulkEnrol, daysAgo, setSitePlan, setTrialFields } from '../support/accrual-factories.js';
 import { releaseCutDirectly } from '../support/data-cut-factories.js';
-import { bareExpress, describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
-import type { BenchFigure } from './figures.js';
+import { describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
+import type { BenchFigure, BenchGoal } from './figures.js';
+import { startBareServer, startBenchServer } from './server-process.js';
 
 const TRIALS = 50;
 const PATIENTS = 500;
@@ -79,25 +78,28 @@ async function benchDatabase(): Promise<{ url: string; remove: () => Promise<voi
   return temporaryDatabase();
 }
 
-export async function runApiPortfolioBench(): Promise<BenchFigure[]> {
+const GOAL_MS = { portfolio: 50, accrual: 30 };
+
+export async function runApiPortfolioBench(): Promise<{ figures: BenchFigure[]; goals: BenchGoal[] }> {
   const database = await benchDatabase();
   const db = createDb(database.url);
   const cleanups: Array<() => Promise<void>> = [() => db.destroy(), () => database.remove()];
   try {
     await migrateLatest(db);
     const trialIds = await seedPortfolio(db);
-    const stack = await startStackOn(database.url, { RATE_LIMIT_PER_MINUTE: String(1_000_000_000), JOBS_ENABLED: 'false' });
+    const stack = await startBenchServer(database.url, { workers: 1 });
     cleanups.unshift(() => stack.close());
-    const bare = await bareExpress();
+    const bare = await startBareServer();
     cleanups.unshift(() => bare.close());
     const sessions = { sponsor: await stack.signIn(DEMO.sponsor), statistician: await stack.signIn(DEMO.statistician) };
 
     const reference = await settled(bare.url);
     const targets = [
-      { route: 'GET /api/portfolio', path: '/api/portfolio' },
-      { route: 'GET /api/trials/:trialId/accrual', path: `/api/trials/${trialIds[0]}/accrual` },
+      { route: 'GET /api/portfolio', path: '/api/portfolio', goalMs: GOAL_MS.portfolio },
+      { route: 'GET /api/trials/:trialId/accrual', path: `/api/trials/${trialIds[0]}/accrual`, goalMs: GOAL_MS.accrual },
     ];
     const figures: BenchFigure[] = [];
+    const goals: BenchGoal[] = [];
     for (const target of targets) {
       for (const role of ['sponsor', 'statistician'] as const) {
         const ours = await settled(`${stack.url}${target.path}`, { cookie: sessions[role].cookie });
@@ -108,9 +110,14 @@ export async function runApiPortfolioBench(): Promise<BenchFigure[]> {
           ratio: reference.p95 / ours.p95,
           note: `${describeRun(ours, CONNECTIONS)}; ${describeReference(reference)}`,
         });
+        goals.push({
+          goal: `${target.route} as ${role}, ${TRIALS} trials × ${PATIENTS} patients: p95 ≤ ${target.goalMs} ms`,
+          measured: `p95 ${ours.p95.toFixed(1)} ms (${CONNECTIONS} connections)`,
+          met: ours.p95 <= target.goalMs,
+        });
       }
     }
-    return figures;
+    return { figures, goals };
   } finally {
     for (const cleanup of cleanups) await cleanup().catch((error: Error) => console.warn(`[bench] cleanup: ${error.message}`));
   }
@@ -127,5 +134,7 @@ function printTable(figures: BenchFigure[]): void {
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
-  printTable(await runApiPortfolioBench());
+  const result = await runApiPortfolioBench();
+  printTable(result.figures);
+  for (const g of result.goals) console.log(`${g.met ? 'met    ' : 'not met'}  ${g.goal}: ${g.measured}`);
 }

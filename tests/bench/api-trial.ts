@@ -1,23 +1,34 @@
 /**
- * One trial of 5,000 patients under load on loopback: the live evaluation and the patient list
- * (50 connections) and outcome writes (20 connections, each a real correction with a reason and
- * the record's version), each beside a bare Express JSON route measured in the same run. After the
- * writes, every 200 must be one version step and one audit row: no lost writes.
+ * One trial of 5,000 patients (20,000 assessments) under load on loopback: the live evaluation and
+ * the patient list (50 connections) and outcome writes (20 connections, each a real correction with
+ * a reason and the record's version), each beside a bare Express JSON route measured in the same
+ * run. After the writes, every 200 must be one version step and one audit row: no lost writes.
+ * Then Needs attention on that trial, and a 2,000-patient CSV import into another trial, its dry
+ * run and its commit end to end (checked: 2,000 patients and 2,000 audit rows, nothing else).
+ * The server runs as its own process (server-process.ts); its resident set is read at the end.
  * Run alone with `npx tsx tests/bench/api-trial.ts`; `npm run bench` collects the same figures.
  */
 import { pathToFileURL } from 'node:url';
 import { createDb, migrateLatest, type Db } from '../../server/db/knex.js';
-import { startStackOn } from '../support/stack.js';
+import { recomputeDerivationsForTrial } from '../../server/assessments/assessments.service.js';
 import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
 import { lockDesignDirectly } from '../support/patient-factories.js';
-import { bulkEnrol, daysAgo, today } from '../support/accrual-factories.js';
-import type { BenchFigure } from './figures.js';
-import { BENCH_SECONDS, bareExpress, describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
+import { addDays } from '../../server/accrual/calendar.js';
+import { bulkEnrol, daysAgo, setTrialFields, today } from '../support/accrual-factories.js';
+import { setOutcomeSettings } from '../support/assessment-factories.js';
+import type { Session } from '../support/sign-in.js';
+import type { BenchFigure, BenchGoal } from './figures.js';
+import { BENCH_SECONDS, describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
+import { startBareServer, startBenchServer } from './server-process.js';
 
 const PATIENTS = 5_000;
 const SITES = ['RVB', 'HCB', 'LUB', 'NGB'];
+const ASSESSMENTS_PER_PATIENT = 4;
 const READ_CONNECTIONS = 50;
 const WRITE_CONNECTIONS = 20;
+const IMPORT_ROWS = 2_000;
+const ATTENTION_SAMPLES = 20;
+const MIB = 2 ** 20;
 
 async function seedTrial(db: Db): Promise<TrialFixture> {
   const trial = await createTrial(db, { code: 'BENCH-5000', sites: SITES });
@@ -26,8 +37,90 @@ async function seedTrial(db: Db): Promise<TrialFixture> {
   await lockDesignDirectly(db, { trialId: trial.trialId, cohortId, r1: null, n1: null, r: 1_100, n: PATIENTS });
   const dates = Array.from({ length: PATIENTS }, (_, i) => daysAgo(720 - Math.floor((i * 700) / PATIENTS)));
   await bulkEnrol(db, { trialId: trial.trialId, cohortId, siteIds: SITES.map((s) => trial.siteIds[s]), siteCodes: SITES, dates, n1: null });
+  await seedAssessments(db, trial.trialId);
   await db.raw('analyze');
   return trial;
+}
+
+/** Four assessments per patient (every eighth patient's last response still unconfirmed), then every stored derivation, as Needs attention reads them. */
+async function seedAssessments(db: Db, trialId: string): Promise<void> {
+  await setOutcomeSettings(db, trialId, { confirmationRequired: true, confirmationMinDays: 28, assessmentIntervalDays: 56 });
+  const patients: Array<{ id: string; enrolled_on: string }> = await db('patients').where({ trial_id: trialId }).orderBy('enrolment_seq').select('id', 'enrolled_on');
+  const responses = ['SD', 'PR', 'PR', 'SD'];
+  const rows = patients.flatMap((p, i) =>
+    Array.from({ length: ASSESSMENTS_PER_PATIENT }, (_, k) => ({
+      trial_id: trialId,
+      patient_id: p.id,
+      assessed_on: addDays(p.enrolled_on, 42 * (k + 1)) > today() ? addDays(p.enrolled_on, k + 1) : addDays(p.enrolled_on, 42 * (k + 1)),
+      response: i % 8 === 0 && k === ASSESSMENTS_PER_PATIENT - 1 ? 'PR' : responses[k],
+    })),
+  );
+  for (let i = 0; i < rows.length; i += 2000) await db('assessments').insert(rows.slice(i, i + 2000));
+  await db.transaction((trx) => recomputeDerivationsForTrial(trx, trialId));
+}
+
+/** A second trial for the import: one stage large enough for every imported patient. */
+async function seedImportTrial(db: Db): Promise<TrialFixture> {
+  const trial = await createTrial(db, { code: 'BENCH-IMPORT', sites: SITES });
+  await setTrialFields(db, trial.trialId, { startDate: daysAgo(730) });
+  await lockDesignDirectly(db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], r1: null, n1: null, r: 600, n: 2 * IMPORT_ROWS });
+  return trial;
+}
+
+/** 2,000 new patients at the coordinator's site, a mix of outcomes, as a site's spreadsheet would hold them. */
+function importCsv(): Buffer {
+  const header = 'study_id,site_code,cohort_code,enrolled_on,outcome,best_overall_response,response_assessed_on,evaluable,not_evaluable_reason,correction_reason';
+  const lines = Array.from({ length: IMPORT_ROWS }, (_, i) => {
+    const enrolled = daysAgo(700 - Math.floor((i * 600) / IMPORT_ROWS));
+    const assessed = addDays(enrolled, 56);
+    if (i % 6 === 5) return `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled},pending,,,yes,,`;
+    const responder = i % 4 === 0;
+    return `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled},${responder ? 'responder' : 'non_responder'},${responder ? 'PR' : 'SD'},${assessed},yes,,`;
+  });
+  return Buffer.from([header, ...lines].join('\n') + '\n');
+}
+
+async function timed<T>(work: () => Promise<T>): Promise<{ ms: number; value: T }> {
+  const start = performance.now();
+  const value = await work();
+  return { ms: performance.now() - start, value };
+}
+
+/** The dry run (median of three), then the commit once; both checked for what they wrote. */
+async function importRuns(db: Db, trial: TrialFixture, coordinator: Session): Promise<{ dryRunMs: number[]; commitMs: number }> {
+  const file = importCsv();
+  const upload = (dryRun: boolean) =>
+    coordinator.post(`/api/trials/${trial.trialId}/patients/import${dryRun ? '?dryRun=1' : ''}`).attach('file', file, { filename: 'site.csv', contentType: 'text/csv' });
+  const tally = async () => ({
+    patients: Number((await db('patients').where({ trial_id: trial.trialId }).count({ c: '*' }))[0].c),
+    audits: Number((await db('audit_log').where({ trial_id: trial.trialId, entity_type: 'patient' }).count({ c: '*' }))[0].c),
+  });
+  const dryRunMs: number[] = [];
+  for (let i = 0; i < 3; i += 1) {
+    const { ms, value } = await timed(async () => upload(true));
+    if (value.status !== 200 || value.body.counts.new !== IMPORT_ROWS) throw new Error(`dry run answered ${value.status}: ${JSON.stringify(value.body).slice(0, 400)}`);
+    dryRunMs.push(ms);
+  }
+  const untouched = await tally();
+  if (untouched.patients !== 0 || untouched.audits !== 0) throw new Error(`the dry run wrote ${JSON.stringify(untouched)}`);
+  const commit = await timed(async () => upload(false));
+  if (commit.value.status !== 200 || !commit.value.body.committed) throw new Error(`import answered ${commit.value.status}: ${JSON.stringify(commit.value.body).slice(0, 400)}`);
+  const written = await tally();
+  if (written.patients !== IMPORT_ROWS || written.audits < IMPORT_ROWS) throw new Error(`the import wrote ${JSON.stringify(written)}`);
+  return { dryRunMs: dryRunMs.sort((a, b) => a - b), commitMs: commit.ms };
+}
+
+/** Needs attention one request at a time (what one person opening the page waits for). */
+async function attentionRuns(url: string, cookie: string): Promise<number[]> {
+  const times: number[] = [];
+  for (let i = 0; i < ATTENTION_SAMPLES + 2; i += 1) {
+    const { ms, value } = await timed(async () => fetch(url, { headers: { cookie } }));
+    if (value.status !== 200) throw new Error(`needs attention answered ${value.status}`);
+    const body = (await value.json()) as { sites: Array<{ items: unknown[] }> };
+    if (body.sites.every((s) => s.items.length === 0)) throw new Error('needs attention found nothing to show');
+    if (i >= 2) times.push(ms);
+  }
+  return times.sort((a, b) => a - b);
 }
 
 const figure = (name: string, ours: Measured, reference: Measured, connections: number, extra = ''): BenchFigure => ({
@@ -81,16 +174,22 @@ async function writeTally(db: Db, trialId: string): Promise<{ steps: number; aud
   return { steps: Number(rows[0].steps), audits: Number(rows[0].audits) };
 }
 
-export async function runApiTrialBench(): Promise<BenchFigure[]> {
+export type TrialBenchResult = { figures: BenchFigure[]; goals: BenchGoal[]; residentMiB: number };
+
+const ms = (v: number) => `${v.toFixed(1)} ms`;
+const median = (sorted: number[]) => sorted[Math.floor(sorted.length / 2)];
+
+export async function runApiTrialBench(): Promise<TrialBenchResult> {
   const database = await temporaryDatabase();
   const db = createDb(database.url);
   const cleanups: Array<() => Promise<void>> = [() => db.destroy(), () => database.remove()];
   try {
     await migrateLatest(db);
     const trial = await seedTrial(db);
-    const stack = await startStackOn(database.url, { RATE_LIMIT_PER_MINUTE: String(1_000_000_000), JOBS_ENABLED: 'false' });
+    const importTrial = await seedImportTrial(db);
+    const stack = await startBenchServer(database.url, { workers: 1 });
     cleanups.unshift(() => stack.close());
-    const bare = await bareExpress();
+    const bare = await startBareServer();
     cleanups.unshift(() => bare.close());
     const statistician = await stack.signIn(DEMO.statistician);
     const coordinator = await stack.signIn(DEMO.coordinator);
@@ -120,7 +219,21 @@ export async function runApiTrialBench(): Promise<BenchFigure[]> {
       throw new Error(`lost writes: ${writes.accepted()} answered 200, ${versionSteps} version steps, ${audited} audit rows; uneven: ${JSON.stringify(uneven.rows)}`);
     }
 
-    return [
+    const attention = await attentionRuns(`${stack.url}/api/trials/${trial.trialId}/needs-attention`, statistician.cookie);
+    const imported = await importRuns(db, importTrial, coordinator);
+    const residentMiB = stack.residentBytes() / MIB;
+
+    const within = (ours: Measured, reference: Measured, factor: number) => ours.p95 <= factor * reference.p95;
+    const ratioText = (ours: Measured, reference: Measured) => `p95 ${ms(ours.p95)} vs bare ${ms(reference.p95)} (${(ours.p95 / reference.p95).toFixed(1)}×)`;
+    const goals: BenchGoal[] = [
+      { goal: 'Evaluation at 5,000 patients: p95 within 3× the bare route (50 connections)', measured: ratioText(evaluation, bare50), met: within(evaluation, bare50, 3) },
+      { goal: 'Patient page at 5,000 patients: p95 within 3× the bare route (50 connections)', measured: ratioText(list, bare50), met: within(list, bare50, 3) },
+      { goal: 'Outcome correction: p95 within 3× the bare route (20 connections), no lost write', measured: `${ratioText(written, bare20)}; no write lost`, met: within(written, bare20, 3) },
+      { goal: 'Needs attention at 5,000 patients / 20,000 assessments ≤ 100 ms', measured: `median ${ms(median(attention))}, slowest ${ms(attention[attention.length - 1])} of ${attention.length}`, met: median(attention) <= 100 },
+      { goal: 'CSV import of 2,000 patients ≤ 5 s end to end', measured: ms(imported.commitMs), met: imported.commitMs <= 5000 },
+      { goal: 'CSV import dry run of 2,000 patients ≤ 2 s', measured: `median ${ms(median(imported.dryRunMs))} of 3`, met: median(imported.dryRunMs) <= 2000 },
+    ];
+    const figures = [
       figure(`GET /api/trials/:trialId/evaluation, ${PATIENTS.toLocaleString('en')} patients`, evaluation, bare50, READ_CONNECTIONS),
       figure(`GET /api/trials/:trialId/patients (page of 50), ${PATIENTS.toLocaleString('en')} patients`, list, bare50, READ_CONNECTIONS),
       figure(
@@ -130,13 +243,31 @@ export async function runApiTrialBench(): Promise<BenchFigure[]> {
         WRITE_CONNECTIONS,
         `; no lost writes: ${writes.accepted()} answered 200, ${versionSteps} version steps = ${audited} audit rows (the difference, if any, was in flight at the stop); statuses ${JSON.stringify(written.statuses)}`,
       ),
+      {
+        name: `GET /api/trials/:trialId/needs-attention, ${PATIENTS.toLocaleString('en')} patients / ${(PATIENTS * ASSESSMENTS_PER_PATIENT).toLocaleString('en')} assessments — median of ${ATTENTION_SAMPLES}`,
+        ours: { value: median(attention), unit: 'ms' },
+        reference: { name: 'the goal', value: 100, unit: 'ms' },
+        ratio: 100 / median(attention),
+        note: `one request at a time: fastest ${ms(attention[0])}, slowest ${ms(attention[attention.length - 1])}`,
+      },
+      {
+        name: `POST /api/trials/:trialId/patients/import, ${IMPORT_ROWS.toLocaleString('en')} new patients — end to end`,
+        ours: { value: imported.commitMs, unit: 'ms' },
+        reference: { name: 'the goal', value: 5000, unit: 'ms' },
+        ratio: 5000 / imported.commitMs,
+        note: `dry runs ${imported.dryRunMs.map(ms).join(', ')} (goal 2,000 ms); the commit wrote ${IMPORT_ROWS} patients with their audit rows, the dry runs nothing`,
+      },
     ];
+    return { figures, goals, residentMiB };
   } finally {
     for (const cleanup of cleanups) await cleanup().catch((error: Error) => console.warn(`[bench] cleanup: ${error.message}`));
   }
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
-  for (const f of await runApiTrialBench()) console.log(`${f.name}: ${f.ours.value} ${f.ours.unit} (ratio ${f.ratio.toFixed(3)}) — ${f.note}`);
+  const result = await runApiTrialBench();
+  for (const f of result.figures) console.log(`${f.name}: ${f.ours.value.toFixed(1)} ${f.ours.unit} (ratio ${f.ratio.toFixed(3)}) — ${f.note}`);
+  for (const g of result.goals) console.log(`${g.met ? 'met    ' : 'not met'}  ${g.goal}: ${g.measured}`);
+  console.log(`server resident set: ${result.residentMiB.toFixed(0)} MiB`);
   console.log(`(${BENCH_SECONDS} s per run)`);
 }

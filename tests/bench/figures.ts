@@ -9,3 +9,6 @@ export type BenchFigure = {
   ratio: number;
   note?: string;
 };
+
+/** One goal of the performance issue, judged from the figures of the same run. */
+export type BenchGoal = { goal: string; measured: string; met: boolean };

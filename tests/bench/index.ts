@@ -1,14 +1,17 @@
 /**
- * `npm run bench`: every benchmark in one bounded run (a few minutes) — the statistics engine, the
- * trial API with 5,000 patients (evaluation, patient list, outcome writes), Portfolio and Accrual,
- * each beside its reference measured in the same run — plus the client's initial JavaScript. Prints
- * a table and writes the figures to bench-results/latest.json.
+ * `npm run bench`: every benchmark in one bounded run (several minutes) — the statistics engine, the
+ * seeded demo's pages beside the health route and one worker beside two, the trial API with 5,000
+ * patients (evaluation, patient list, outcome writes, Needs attention, the CSV import), Portfolio
+ * and Accrual, each beside its reference measured in the same run — plus the client's initial
+ * JavaScript and the server's resident memory. Prints the tables and every goal of the performance
+ * issue as met or not met, and writes the figures to bench-results/latest.json.
  */
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { BenchFigure } from './figures.js';
+import type { BenchFigure, BenchGoal } from './figures.js';
 import { runStatsBench } from './stats.js';
+import { printDemoTable, runApiDemoBench } from './api-demo.js';
 import { runApiTrialBench } from './api-trial.js';
 import { runApiPortfolioBench } from './api-portfolio.js';
 import { BENCH_SECONDS } from './api-load.js';
@@ -40,23 +43,46 @@ async function clientSize() {
   }
 }
 
+const MEMORY_GOAL_MIB = 300;
+
 const started = Date.now();
-const sections: Array<[string, () => Promise<BenchFigure[]>]> = [
-  ['Statistics engine', runStatsBench],
-  ['Trial API, one trial of 5,000 patients', runApiTrialBench],
-  ['Portfolio and Accrual API', runApiPortfolioBench],
-];
+const loadAt = () => os.loadavg().map((l) => l.toFixed(2)).join(' ');
 const results: Record<string, BenchFigure[]> = {};
-for (const [section, run] of sections) {
-  console.log(`[bench] ${section} …`);
-  results[section] = await run();
-}
+const goals: BenchGoal[] = [];
+const load: Record<string, string> = {};
+console.log(`[bench] load average ${loadAt()}; statistics engine …`);
+results['Statistics engine'] = await runStatsBench();
+console.log(`[bench] load average ${loadAt()}; the seeded demo …`);
+load['demo'] = loadAt();
+const demo = await runApiDemoBench();
+results['The seeded demo, production start'] = demo.figures;
+console.log(`[bench] load average ${loadAt()}; one trial of 5,000 patients …`);
+load['trial'] = loadAt();
+const trial = await runApiTrialBench();
+results['Trial API, one trial of 5,000 patients'] = trial.figures;
+console.log(`[bench] load average ${loadAt()}; Portfolio and Accrual …`);
+load['portfolio'] = loadAt();
+const portfolio = await runApiPortfolioBench();
+results['Portfolio and Accrual API'] = portfolio.figures;
+load['end'] = loadAt();
 const client = await clientSize();
 
+const residentMiB = Math.max(demo.residentMiB, trial.residentMiB);
+goals.push(...demo.goals, ...trial.goals, ...portfolio.goals, {
+  goal: `The server's resident set after the bench ≤ ${MEMORY_GOAL_MIB} MB`,
+  measured: `${demo.residentMiB.toFixed(0)} MiB after the demo runs, ${trial.residentMiB.toFixed(0)} MiB after the 5,000-patient runs and the import`,
+  met: residentMiB <= MEMORY_GOAL_MIB,
+});
+
+console.log(`\nThe seeded demo (TSY-201), one worker, rate limits lifted — load average at the start ${load['demo']}`);
+printDemoTable(demo.table);
 for (const [section, figures] of Object.entries(results)) printTable(section, figures);
 console.log('\nClient');
 console.log(`  initial JavaScript: ${kib(client.initialGzipBytes)} gzip (${kib(client.initialBytes)} raw, ${client.initialFiles.length} file(s))`);
 console.log(`  all JavaScript of the build: ${kib(client.allJsBytes)} raw in ${client.allJsFiles} files (the rest loads on demand)`);
+
+console.log(`\nGoals of the performance issue (load average: demo ${load['demo']}, trial ${load['trial']}, portfolio ${load['portfolio']}, end ${load['end']})`);
+for (const g of goals) console.log(`  ${g.met ? 'met    ' : 'not met'}  ${g.goal} — ${g.measured}`);
 
 const seconds = (Date.now() - started) / 1000;
 const output = {
@@ -64,7 +90,11 @@ const output = {
   runSeconds: Math.round(seconds),
   secondsPerLoadRun: BENCH_SECONDS,
   machine: { cpus: os.cpus().length, cpuModel: os.cpus()[0]?.model, memoryGiB: Math.round(os.totalmem() / 2 ** 30), node: process.version, loadAverage: os.loadavg() },
+  loadAverageBySection: load,
+  demoTable: demo.table.map(({ route, measured }) => ({ route, perSecond: measured.perSecond, p97_5: measured.p97_5, p95: measured.p95, p50: measured.p50 })),
   figures: results,
+  goals,
+  residentMiB: { demo: demo.residentMiB, trial: trial.residentMiB },
   client,
 };
 const file = path.join(ROOT, 'bench-results', 'latest.json');

@@ -1,0 +1,119 @@
+/**
+ * The seeded demo under load (TSY-201, 23 patients), 50 connections, rate limits lifted: the
+ * server's health route and the signed-in no-op (`GET /api/me`) beside the pages people open most
+ * (evaluation, patient list, Portfolio, Accrual, a data cut's analysis), each judged against the
+ * health route of the same run. Then the same evaluation from one worker and from two against the
+ * one PostgreSQL (the production start, server/cluster.ts), and the server's resident memory.
+ * Run alone with `npx tsx tests/bench/api-demo.ts`.
+ */
+import { pathToFileURL } from 'node:url';
+import { createDb } from '../../server/db/knex.js';
+import { migrateLatest } from '../../server/db/knex.js';
+import { seedDemo } from '../../server/dev/seed/index.js';
+import { DEMO } from '../support/factories.js';
+import type { BenchFigure, BenchGoal } from './figures.js';
+import { BENCH_SECONDS, measure, temporaryDatabase, type Measured } from './api-load.js';
+import { startBenchServer, type BenchServer } from './server-process.js';
+
+const CONNECTIONS = 50;
+const MIB = 2 ** 20;
+
+export type DemoRow = { route: string; measured: Measured };
+export type DemoResult = { table: DemoRow[]; figures: BenchFigure[]; goals: BenchGoal[]; residentMiB: number };
+
+const ms = (v: number) => `${v.toFixed(1)} ms`;
+const rps = (v: number) => `${v.toFixed(0)} req/s`;
+
+async function demoTargets(db: ReturnType<typeof createDb>): Promise<Array<{ route: string; path: string }>> {
+  const trial = await db('trials').where({ code: 'TSY-201' }).first('id');
+  const cut = await db('data_cuts').where({ trial_id: trial.id }).orderBy('cut_at', 'desc').first('id');
+  return [
+    { route: 'GET /api/me (signed in)', path: '/api/me' },
+    { route: 'GET /api/trials/:trialId/evaluation', path: `/api/trials/${trial.id}/evaluation` },
+    { route: 'GET /api/trials/:trialId/patients', path: `/api/trials/${trial.id}/patients?page=1&pageSize=50&sort=studyId` },
+    { route: 'GET /api/portfolio', path: '/api/portfolio' },
+    { route: 'GET /api/trials/:trialId/accrual', path: `/api/trials/${trial.id}/accrual` },
+    { route: 'GET /api/data-cuts/:cutId/analysis', path: `/api/data-cuts/${cut.id}/analysis` },
+  ];
+}
+
+/** One run, then a short pause so requests still in flight finish before the next. */
+async function run(server: BenchServer, path: string, cookie?: string): Promise<Measured> {
+  const measured = await measure({ url: `${server.url}${path}`, connections: CONNECTIONS, headers: cookie ? { cookie } : {} });
+  if (measured.failures > 0) throw new Error(`${path} answered ${JSON.stringify(measured.statuses)} under load`);
+  await new Promise((resolve) => setTimeout(resolve, 1000));
+  return measured;
+}
+
+export async function runApiDemoBench(): Promise<DemoResult> {
+  const database = await temporaryDatabase();
+  const db = createDb(database.url);
+  const cleanups: Array<() => Promise<void>> = [() => db.destroy(), () => database.remove()];
+  try {
+    await migrateLatest(db);
+    await seedDemo(db);
+    await db.raw('analyze');
+    const targets = await demoTargets(db);
+    const one = await startBenchServer(database.url, { workers: 1 });
+    cleanups.unshift(() => one.close());
+    const statistician = await one.signIn(DEMO.statistician);
+
+    const health = await run(one, '/api/health');
+    const table: DemoRow[] = [{ route: 'GET /api/health', measured: health }];
+    for (const target of targets) table.push({ route: target.route, measured: await run(one, target.path, statistician.cookie) });
+    const residentMiB = one.residentBytes() / MIB;
+    await one.close();
+    cleanups.shift();
+
+    // The production start with two workers against the same database, the same request.
+    const evaluationPath = targets[1].path;
+    const oneWorker = table[2].measured;
+    const two = await startBenchServer(database.url, { workers: 2 });
+    cleanups.unshift(() => two.close());
+    const twoWorkers = await run(two, evaluationPath, (await two.signIn(DEMO.statistician)).cookie);
+
+    const goals: BenchGoal[] = table.slice(1).map(({ route, measured }) => {
+      const factor = route.startsWith('GET /api/me') ? 2 : 3;
+      const met = measured.perSecond >= health.perSecond / 2 && measured.p97_5 <= factor * health.p97_5;
+      return {
+        goal: `${route}: at least half of /api/health's throughput, p97.5 within ${factor}× (demo size)`,
+        measured: `${rps(measured.perSecond)} vs ${rps(health.perSecond)} (${(measured.perSecond / health.perSecond).toFixed(2)}), p97.5 ${ms(measured.p97_5)} vs ${ms(health.p97_5)} (${(measured.p97_5 / health.p97_5).toFixed(1)}×)`,
+        met,
+      };
+    });
+    goals.push({
+      goal: 'Two workers against one PostgreSQL serve more than one (evaluation, demo size)',
+      measured: `${rps(twoWorkers.perSecond)} with 2 workers vs ${rps(oneWorker.perSecond)} with 1`,
+      met: twoWorkers.perSecond > oneWorker.perSecond,
+    });
+    const figures: BenchFigure[] = [
+      {
+        name: 'GET /api/trials/:trialId/evaluation (demo), 2 workers vs 1 — throughput',
+        ours: { value: twoWorkers.perSecond, unit: 'req/s' },
+        reference: { name: 'the same route from one worker, same run', value: oneWorker.perSecond, unit: 'req/s' },
+        ratio: oneWorker.perSecond / twoWorkers.perSecond,
+        note: `2 workers: p95 ${ms(twoWorkers.p95)}, p97.5 ${ms(twoWorkers.p97_5)}; 1 worker: p95 ${ms(oneWorker.p95)}, p97.5 ${ms(oneWorker.p97_5)}`,
+      },
+    ];
+    return { table, figures, goals, residentMiB };
+  } finally {
+    for (const cleanup of cleanups) await cleanup().catch((error: Error) => console.warn(`[bench] cleanup: ${error.message}`));
+  }
+}
+
+export function printDemoTable(table: DemoRow[]): void {
+  const rows = table.map(({ route, measured }) => [route, rps(measured.perSecond), ms(measured.p97_5), ms(measured.p95), ms(measured.p50)]);
+  const header = ['route (demo, 50 connections)', 'throughput', 'p97.5', 'p95', 'p50'];
+  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ');
+  console.log(line(header));
+  console.log(widths.map((w) => '─'.repeat(w)).join('  '));
+  for (const row of rows) console.log(line(row));
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const result = await runApiDemoBench();
+  printDemoTable(result.table);
+  for (const g of result.goals) console.log(`${g.met ? 'met    ' : 'not met'}  ${g.goal}: ${g.measured}`);
+  console.log(`server resident set after the demo runs: ${result.residentMiB.toFixed(0)} MiB (${BENCH_SECONDS} s per run)`);
+}

@@ -1,0 +1,134 @@
+/**
+ * The server under load runs as its own process tree, as in production (`server/cluster.ts`, one or
+ * more workers, logging at info to a discarded stdout), so it never shares an event loop with the
+ * load generator; the bare reference route runs in a child process of its own the same way. The
+ * identity provider and the mail catcher stay in this process (they are idle during the load).
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { startIdp } from '../../fake-idp/provider.js';
+import { startMailCatcher } from '../../server/dev/mail-catcher.js';
+import { freePort } from '../../server/dev/ports.js';
+import { ROOT } from '../support/e2e-browser.js';
+import { signIn, type Session } from '../support/sign-in.js';
+
+const TSX = ['--import', 'tsx'];
+
+/** Resident set of a process and its direct children (the cluster's workers), in bytes. */
+export function residentBytes(pid: number): number {
+  const rss = (p: number) => {
+    try {
+      const kib = /VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${p}/status`, 'utf8'))?.[1];
+      return Number(kib ?? 0) * 1024;
+    } catch {
+      return 0;
+    }
+  };
+  const children = (() => {
+    try {
+      return readFileSync(`/proc/${pid}/task/${pid}/children`, 'utf8').trim().split(/\s+/).filter(Boolean).map(Number);
+    } catch {
+      return [];
+    }
+  })();
+  return rss(pid) + children.reduce((sum, child) => sum + rss(child), 0);
+}
+
+async function waitForHealth(url: string, child: ChildProcess, output: () => string): Promise<void> {
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`the server process stopped (${child.exitCode}): ${output()}`);
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) return;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error(`the server process did not answer in time: ${output()}`);
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+}
+
+function stopped(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null) return Promise.resolve();
+  return new Promise((resolve) => {
+    const force = setTimeout(() => child.kill('SIGKILL'), 10_000);
+    child.once('exit', () => {
+      clearTimeout(force);
+      resolve();
+    });
+    child.kill('SIGTERM');
+  });
+}
+
+function spawnNode(script: string, env: Record<string, string>): { child: ChildProcess; output: () => string } {
+  const child = spawn(process.execPath, [...TSX, path.join(ROOT, script)], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'ignore', 'pipe'] });
+  let errors = '';
+  child.stderr?.on('data', (chunk: Buffer) => {
+    errors = (errors + chunk.toString()).slice(-4000);
+  });
+  return { child, output: () => errors };
+}
+
+export type BenchServer = {
+  url: string;
+  workers: number;
+  pid: number;
+  signIn: (email: string) => Promise<Session>;
+  residentBytes: () => number;
+  close: () => Promise<void>;
+};
+
+/**
+ * Orrery on `databaseUrl` as `workers` cluster workers, rate limits lifted and the scheduled jobs
+ * off (they would add load of their own), with its identity provider and mail catcher.
+ */
+export async function startBenchServer(databaseUrl: string, options: { workers: number }): Promise<BenchServer> {
+  const [port, idpPort] = [await freePort(), await freePort()];
+  const origin = `http://localhost:${port}`;
+  const catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0 });
+  const idp = await startIdp({ port: idpPort, appOrigins: [origin] });
+  const { child, output } = spawnNode('server/cluster.ts', {
+    WEB_CONCURRENCY: String(options.workers),
+    DATABASE_URL: databaseUrl,
+    SESSION_SECRET: 'bench-session-secret-bench-session-secret',
+    APP_ORIGIN: origin,
+    PORT: String(port),
+    OIDC_ISSUER: idp.issuer,
+    SMTP_PORT: String(catcher.smtpPort),
+    MAIL_CATCHER_URL: catcher.httpUrl,
+    JOBS_ENABLED: 'false',
+    RATE_LIMIT_PER_MINUTE: String(1_000_000_000),
+    LOG_LEVEL: 'info',
+    SERVE_CLIENT_FROM: '',
+  });
+  try {
+    await waitForHealth(origin, child, output);
+  } catch (error) {
+    await stopped(child);
+    await idp.close();
+    await catcher.close();
+    throw error;
+  }
+  return {
+    url: origin,
+    workers: options.workers,
+    pid: child.pid as number,
+    signIn: (email) => signIn(origin, email),
+    residentBytes: () => residentBytes(child.pid as number),
+    close: async () => {
+      await stopped(child);
+      await idp.close();
+      await catcher.close();
+    },
+  };
+}
+
+/** The reference: the cheapest JSON answer Express gives (bare-server.ts), in a process of its own. */
+export async function startBareServer(): Promise<{ url: string; close: () => Promise<void> }> {
+  const port = await freePort();
+  const { child, output } = spawnNode('tests/bench/bare-server.ts', { PORT: String(port) });
+  const url = `http://127.0.0.1:${port}`;
+  await waitForHealth(url, child, output);
+  return { url: `${url}/bare`, close: () => stopped(child) };
+}
