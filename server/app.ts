@@ -148,6 +148,14 @@ export function createApp(config: Config, db: Db, logger: Logger, mail: Deps['ma
   });
   app.use(['/api', '/auth'], originCheck(config.appOrigin));
   app.use('/api', express.json({ limit: '200kb' }));
+  // Conditional GET: the tag is a hash of the very bytes this viewer receives, so a write or a change
+  // in who may see what changes it; the browser must ask again each time (If-None-Match → 304) and
+  // never share an answer with another user.
+  app.set('etag', 'weak');
+  app.use('/api', (req, res, next) => {
+    if (req.method === 'GET') res.setHeader('Cache-Control', 'private, no-cache');
+    next();
+  });
 
   const oidc = createOidcClient(config);
   const routes = routeList(oidc);

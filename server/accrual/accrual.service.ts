@@ -3,9 +3,12 @@
  * per-site table, projections of the dates n1 and n are reached, and warnings for sites that
  * have enrolled nobody for the trial's configured number of weeks. Aggregate counts only: there
  * are no response figures here, so every role of the trial reads the same kind of content
- * (site roles see their own sites' rows).
+ * (site roles see their own sites' rows). The page for every site, and the cohort tallies the
+ * Portfolio reads, are computed once per data version of the trial and day (server/db/trial-versions.ts).
  */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import { inOneSnapshot, trialDataVersion, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
 import type { Actor } from '../auth/access.js';
 import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
@@ -205,20 +208,61 @@ function timelineStart(trial: Trial, months: string[]): string | null {
   return candidates.sort()[0] ?? null;
 }
 
+const accruals = new VersionedCache<TrialAccrual>(300);
+
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
 export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
-  const { today } = options;
-  const [trial, settings] = await Promise.all([findTrial(db, trialId), findProtocolSettings(db, trialId)]);
+  const key = `${trialId}|${options.today}`;
+  const whole =
+    accruals.get(key, await trialDataVersion(db, trialId)) ??
+    (await inOneSnapshot(db, async (trx) => {
+      const version = await trialDataVersion(trx, trialId);
+      const computed = await computeAccrual(trx, trialId, options.today);
+      accruals.set(key, version, computed);
+      return computed;
+    }));
+  const shown = options.sites;
+  if (shown === 'all') return whole;
+  // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
+  return { ...whole, sitesShown: 'own', sites: whole.sites.filter((s) => shown.includes(s.siteId)), warnings: whole.warnings.filter((w) => shown.includes(w.siteId)) };
+}
+
+/** The cohorts' tallies of these trials as of `today`, each trial's kept per its data version (cohorts without patients are absent). */
+const talliesByTrial = new VersionedCache<Map<string, CohortTally>>(1000);
+
+export async function cohortTalliesOfTrials(db: Db, trials: Array<{ id: string; cohortIds: string[] }>, today: string): Promise<Map<string, CohortTally>> {
+  const versions = await trialDataVersions(db, trials.map((t) => t.id));
+  const found = new Map<string, CohortTally>();
+  const missing = trials.filter((trial) => {
+    const hit = talliesByTrial.get(`${trial.id}|${today}`, versions.get(trial.id) as number);
+    for (const [cohortId, tally] of hit ?? []) found.set(cohortId, tally);
+    return !hit;
+  });
+  if (missing.length === 0) return found;
+  await inOneSnapshot(db, async (trx) => {
+    const fresh = await trialDataVersions(trx, missing.map((t) => t.id));
+    const tallies = await cohortTallies(trx, missing.flatMap((t) => t.cohortIds), today);
+    for (const trial of missing) {
+      const own = new Map(trial.cohortIds.flatMap((id) => (tallies.has(id) ? [[id, tallies.get(id) as CohortTally] as const] : [])));
+      talliesByTrial.set(`${trial.id}|${today}`, fresh.get(trial.id) as number, own);
+      for (const [cohortId, tally] of own) found.set(cohortId, tally);
+    }
+  });
+  return found;
+}
+
+async function computeAccrual(db: Knex.Transaction, trialId: string, today: string): Promise<TrialAccrual> {
+  // One after another: a transaction's queries share its one connection.
+  const trial = await findTrial(db, trialId);
+  const settings = await findProtocolSettings(db, trialId);
   if (!trial || !settings) throw new NotFoundError('The trial');
   const cohortIds = trial.cohorts.map((c) => c.id);
-  const [designs, tallies, monthCounts, siteRows, bySiteMonth, weekly] = await Promise.all([
-    currentDesigns(db, cohortIds),
-    cohortTallies(db, cohortIds, today),
-    recentMonthCounts(db, cohortIds, today),
-    siteTallies(db, trialId, today),
-    monthlyBySite(db, trialId, today),
-    weeklyCounts(db, trialId, today),
-  ]);
+  const designs = await currentDesigns(db, cohortIds);
+  const tallies = await cohortTallies(db, cohortIds, today);
+  const monthCounts = await recentMonthCounts(db, cohortIds, today);
+  const siteRows = await siteTallies(db, trialId, today);
+  const bySiteMonth = await monthlyBySite(db, trialId, today);
+  const weekly = await weeklyCounts(db, trialId, today);
 
   const overallMonthly = new Map<string, number>();
   for (const row of bySiteMonth) overallMonthly.set(row.period, (overallMonthly.get(row.period) ?? 0) + row.enrolled);
@@ -226,16 +270,15 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
   const plan = (perMonth: number | null): Plan | null => (perMonth && trial.startDate ? { perMonth, startDate: trial.startDate } : null);
 
   const enrolling = isEnrolling(trial.cohorts, designs);
-  const visible = siteRows.filter((s) => options.sites === 'all' || options.sites.includes(s.siteId));
   const warnings = enrolling
-    ? visible
+    ? siteRows
         .filter((s) => s.listed)
         .map((s) => inactivityWarning(s, trial.startDate, settings.inactivityWarningWeeks, today))
         .filter((w): w is InactivityWarning => w !== null)
     : [];
   const warned = new Set(warnings.map((w) => w.siteId));
 
-  const sites: SiteRow[] = visible.map((site) => {
+  const sites: SiteRow[] = siteRows.map((site) => {
     const counts = new Map(bySiteMonth.filter((r) => r.siteId === site.siteId).map((r) => [r.period, r.enrolled]));
     return {
       siteId: site.siteId,
@@ -278,7 +321,7 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
     asOf: today,
     plan: { perMonth: trial.plannedAccrualPerMonth, startDate: trial.startDate },
     inactivityWarningWeeks: settings.inactivityWarningWeeks,
-    sitesShown: options.sites === 'all' ? 'all' : 'own',
+    sitesShown: 'all',
     totals: {
       enrolled: sum(siteRows.map((s) => s.enrolled)),
       evaluable: sum(siteRows.map((s) => s.evaluable)),

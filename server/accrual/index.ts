@@ -4,6 +4,6 @@
  */
 export { cohortTallies, emptyTally } from './accrual.repository.js';
 export { accrualRoutes } from './accrual.routes.js';
-export { countsUnder, designTargets, enrolmentCounts, trialAccrual } from './accrual.service.js';
+export { cohortTalliesOfTrials, countsUnder, designTargets, enrolmentCounts, trialAccrual } from './accrual.service.js';
 export type { DesignTargets, EnrolmentCounts, TrialAccrual } from './accrual.service.js';
 export { daysBetween, isoWeekOf, toDay } from './calendar.js';

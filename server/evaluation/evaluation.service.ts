@@ -6,8 +6,12 @@
  * figures only. `evaluateTrial` computes everything; `evaluationFor` projects it for the viewer by
  * the visibility rule (server/auth/visibility.ts): live figures, the released cut's figures, own
  * sites' counts. Numbers come straight from the statistics engine, so they match it by construction.
+ * The whole evaluation is computed once per data version of the trial (server/db/trial-versions.ts)
+ * and kept in memory; the projection runs on every request, so the visibility rule decides each time.
  */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { NotFoundError } from '../http/errors.js';
 import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
@@ -124,8 +128,22 @@ function earlyDetermination(design: LockedDesign, rule: CohortVerdict): { early:
 
 export type TrialEvaluation = { trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] };
 
-/** Every cohort's live evaluation, all of it; `siteIds` asks for those sites' counts too. */
-export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?: readonly string[] } = {}): Promise<TrialEvaluation> {
+// A few hundred trials' evaluations are a few megabytes at most.
+const evaluations = new VersionedCache<TrialEvaluation>(300);
+
+/** Every cohort's live evaluation, all of it, with every site's counts; computed once per data version of the trial. */
+export async function evaluateTrial(db: Db, trialId: string): Promise<TrialEvaluation> {
+  const cached = evaluations.get(trialId, await trialDataVersion(db, trialId));
+  if (cached) return cached;
+  return inOneSnapshot(db, async (trx) => {
+    const version = await trialDataVersion(trx, trialId);
+    const evaluation = await computeEvaluation(trx, trialId);
+    evaluations.set(trialId, version, evaluation);
+    return evaluation;
+  });
+}
+
+async function computeEvaluation(db: Knex.Transaction, trialId: string): Promise<TrialEvaluation> {
   const facts = await trialFacts(db, trialId);
   if (!facts) throw new NotFoundError('The trial');
   const cohortIds = facts.cohorts.map((c) => c.id);
@@ -134,7 +152,10 @@ export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?
     const design = designs.get(cohortId);
     return { cohortId, population: design?.analysisPopulation ?? 'all_enrolled', n1: design?.n1 ?? null };
   });
-  const [groups, points, sites] = await Promise.all([countingGroups(db, rules), responderPaths(db, rules, PATH_POINTS), siteCounts(db, rules, options.siteIds ?? [])]);
+  // One after another: a transaction's queries share its one connection.
+  const groups = await countingGroups(db, rules);
+  const points = await responderPaths(db, rules, PATH_POINTS);
+  const sites = await siteCounts(db, rules, facts.sites.map((site) => site.id));
   const cohorts = facts.cohorts.map((cohort): CohortEvaluation => {
     const design = designs.get(cohort.id);
     const mine = groups.filter((g) => g.cohortId === cohort.id);
@@ -198,14 +219,14 @@ export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: Vi
 
 /** The live evaluation as this viewer may see it: everything computed, then projected cohort by cohort. */
 export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
-  const evaluation = await evaluateTrial(db, access.trialId, { siteIds: access.siteIds });
+  const evaluation = await evaluateTrial(db, access.trialId);
   const released = await latestReleased(db, evaluation.cohorts.map((c) => c.cohortId));
   return {
     ...evaluation,
     cohorts: evaluation.cohorts.map(({ sites, ...cohort }) => {
       const figures = released.get(cohort.cohortId) ?? null;
       const view = efficacyView(access, { sponsorSeesResponse: cohort.design?.sponsorSeesResponse ?? false, released: figures !== null });
-      return projectEfficacy(view, cohort, LIVE_EFFICACY_KEYS, { released: figures, sites });
+      return projectEfficacy(view, cohort, LIVE_EFFICACY_KEYS, { released: figures, sites: sites.filter((site) => access.siteIds.includes(site.siteId)) });
     }),
   };
 }

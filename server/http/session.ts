@@ -1,5 +1,11 @@
-/** The session middleware: sessions live in PostgreSQL so any server process can serve any request. */
-import session from 'express-session';
+/**
+ * The session middleware: sessions live in PostgreSQL so any server process can serve any request.
+ * Every request reads its session (one indexed row), so a sign-out or a removed session holds at
+ * once in every process. The idle timeout rolls with each request, but the stored expiry is pushed
+ * forward at most once per TOUCH_INTERVAL_MS per session instead of with a write on every request;
+ * the cookie still rolls on every response.
+ */
+import session, { type SessionData } from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import pg from 'pg';
 import type { RequestHandler } from 'express';
@@ -29,13 +35,42 @@ declare module 'express-session' {
 
 export const SESSION_COOKIE = 'orrery.sid';
 
+const IDLE_TIMEOUT_MS = 8 * 60 * 60 * 1000;
+/** A stored session may expire this much earlier than its cookie says; in return an active session costs one write a minute, not one per request. */
+export const TOUCH_INTERVAL_MS = 60_000;
+
+type Callback = (error?: unknown) => void;
+
 export function createSessionMiddleware(config: Config, logger: Logger): { middleware: RequestHandler; close: () => Promise<void> } {
-  const pool = new pg.Pool({ connectionString: config.databaseUrl, max: 5, connectionTimeoutMillis: 2000 });
+  const pool = new pg.Pool({ connectionString: config.databaseUrl, max: 10, connectionTimeoutMillis: 2000 });
   pool.on('error', () => {
     // Idle clients dropped by a restarting database are replaced on the next checkout.
   });
   const PgStore = connectPgSimple(session);
-  const store = new PgStore({
+  // The stored expiry of each session as this request loaded it (express-session hands the same object to touch).
+  const loadedExpiry = new WeakMap<object, number>();
+  class ThrottledPgStore extends PgStore {
+    override touch(sid: string, sess: SessionData, callback?: Callback): void {
+      const expires = sess.cookie.expires?.getTime();
+      const loaded = loadedExpiry.get(sess);
+      if (expires === undefined || (loaded !== undefined && expires - loaded < TOUCH_INTERVAL_MS)) {
+        callback?.();
+        return;
+      }
+      // The expiry column and the cookie kept inside the session move together, in one statement that leaves the rest of the session alone.
+      pool
+        .query(`update session set expire = to_timestamp($1 / 1000.0), sess = jsonb_set(sess::jsonb, '{cookie,expires}', to_jsonb($2::text))::json where sid = $3`, [
+          expires,
+          new Date(expires).toISOString(),
+          sid,
+        ])
+        .then(
+          () => callback?.(),
+          (error: unknown) => callback?.(error),
+        );
+    }
+  }
+  const store = new ThrottledPgStore({
     pool,
     tableName: 'session',
     createTableIfMissing: false,
@@ -43,7 +78,7 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
     // The store's own failures (a database outage, a shutdown mid-request) belong in the server log.
     errorLog: (...args: unknown[]) => logger.warn({ err: args.map(String).join(' ') }, 'session store error'),
   });
-  const middleware = session({
+  const sessions = session({
     name: SESSION_COOKIE,
     secret: config.sessionSecret,
     store,
@@ -55,10 +90,16 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
       httpOnly: true,
       sameSite: 'lax',
       secure: config.appOrigin.startsWith('https://'),
-      maxAge: 8 * 60 * 60 * 1000,
+      maxAge: IDLE_TIMEOUT_MS,
       path: '/',
     },
   });
+  const middleware: RequestHandler = (req, res, next) =>
+    sessions(req, res, (error?: unknown) => {
+      const expires = req.session?.cookie.expires;
+      if (expires) loadedExpiry.set(req.session, expires.getTime());
+      next(error);
+    });
   return {
     middleware,
     close: async () => {

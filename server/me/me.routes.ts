@@ -10,12 +10,14 @@ export const meRoutes: RouteSpec[] = [
     access: { kind: 'signed-in' },
     handler: async (req, res, { db, config }) => {
       const user = requireUser(req);
+      // Three small reads at once: the page waits for the slowest, not for their sum.
+      const [memberships, trialManager, signingReady] = await Promise.all([membershipsOf(db, user), isTrialManager(db, user), readyIntents(db, signingSessionOf(req))]);
       res.json({
         user: { id: user.id, email: user.email, name: user.name },
-        memberships: await membershipsOf(db, user),
-        trialManager: await isTrialManager(db, user),
+        memberships,
+        trialManager,
         // The sign dialogs offer their final step when the password for their intent has been entered.
-        signingReady: await readyIntents(db, signingSessionOf(req)),
+        signingReady,
         environment: { development: !config.production, outbox: Boolean(config.mailCatcherUrl) },
       });
     },

@@ -159,12 +159,15 @@ const SORT_SQL: Record<ListQuery['sort'], string[]> = {
 
 export type OutcomeCounts = { total: number; pending: number; responder: number; nonResponder: number; notEvaluable: number; unattested: number };
 
-export async function listPatients(
-  db: Db,
-  trialId: string,
-  scope: SiteScope,
-  query: ListQuery,
-): Promise<{ patients: Patient[]; total: number; counts: OutcomeCounts }> {
+/** Which patients a page of the list holds, in order, with the selection's total and counts: the part of the list that reads every patient. */
+export type PatientPage = { ids: string[]; total: number; counts: OutcomeCounts };
+
+export async function listPatients(db: Conn, trialId: string, scope: SiteScope, query: ListQuery): Promise<{ patients: Patient[]; total: number; counts: OutcomeCounts }> {
+  const { ids, total, counts } = await patientPage(db, trialId, scope, query);
+  return { patients: await patientsInOrder(db, ids), total, counts };
+}
+
+export async function patientPage(db: Conn, trialId: string, scope: SiteScope, query: ListQuery): Promise<PatientPage> {
   // Everything but the outcome filter: the counts at the top show every outcome of the selection.
   const filtered = (q: Knex.QueryBuilder) => {
     scoped(q.where('p.trial_id', trialId), scope);
@@ -206,10 +209,14 @@ export async function listPatients(
   for (const expression of SORT_SQL[query.sort]) page.orderByRaw(`${expression} ${direction} nulls last`);
   page.orderBy('p.cohort_id').orderBy('p.enrolment_seq');
   const ids: string[] = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize).pluck('p.id')) as string[];
+  return { ids, total, counts };
+}
+
+/** The patients with these ids, in the order given (one gone since is left out). */
+export async function patientsInOrder(db: Conn, ids: string[]): Promise<Patient[]> {
   const found: PatientRow[] = ids.length > 0 ? await baseQuery(db).whereIn('p.id', ids).select(COLUMNS) : [];
   const byId = new Map(found.map((row) => [row.id, row]));
-  const rows = ids.map((id) => byId.get(id)).filter((row): row is PatientRow => row !== undefined);
-  return { patients: rows.map(toPatient), total, counts };
+  return ids.map((id) => byId.get(id)).filter((row): row is PatientRow => row !== undefined).map(toPatient);
 }
 
 /** One patient of the trial, or undefined when it does not exist or lies outside the user's sites. */

@@ -7,6 +7,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
@@ -32,12 +33,14 @@ import {
   findPatient,
   findPatientByStudyId,
   insertPatient,
-  listPatients,
   nextEnrolmentSeq,
+  patientPage,
+  patientsInOrder,
   setAttestation,
   updateOutcome,
   type OutcomeFields,
   type Patient,
+  type PatientPage,
 } from './patients.repository.js';
 import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
 import { emit, type Hooks } from '../hooks.js';
@@ -66,13 +69,27 @@ async function requireFacts(db: Db | Knex.Transaction, trialId: string): Promise
   return facts;
 }
 
+// Which patients a page holds (and the counts above it) reads every patient of the selection: kept per data version of the trial.
+const pages = new VersionedCache<{ facts: TrialFacts; page: PatientPage }>(200);
+
 /** One page of the trial's patients the actor may see, with the sites and cohorts the filters and the enrolment form offer. */
 export async function listForUser(db: Db, actor: Actor, query: ListQuery) {
-  const facts = await requireFacts(db, actor.access.trialId);
+  const { trialId } = actor.access;
   const scope = siteScope(actor.access);
-  const result = await listPatients(db, actor.access.trialId, scope, query);
+  const key = JSON.stringify([trialId, scope, query]);
+  const { facts, page } =
+    pages.get(key, await trialDataVersion(db, trialId)) ??
+    (await inOneSnapshot(db, async (trx) => {
+      const version = await trialDataVersion(trx, trialId);
+      const computed = { facts: await requireFacts(trx, trialId), page: await patientPage(trx, trialId, scope, query) };
+      pages.set(key, version, computed);
+      return computed;
+    }));
   return {
-    ...result,
+    // The rows themselves are read fresh: a page is at most a few hundred, found by primary key.
+    patients: await patientsInOrder(db, page.ids),
+    total: page.total,
+    counts: page.counts,
     page: query.page,
     pageSize: query.pageSize,
     sites: facts.sites.filter((s) => scope === 'all' || scope.includes(s.id)),

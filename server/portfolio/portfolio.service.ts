@@ -18,7 +18,7 @@ import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_WORDS, STATUS_WORDS } from '../words/index.js';
-import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
+import { cohortTalliesOfTrials, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
@@ -105,7 +105,11 @@ export async function portfolioRows(
   const cohortIds = trials.flatMap((t) => t.cohorts.map((c) => c.id));
   const [designs, tallies, committee, released] = await Promise.all([
     currentDesigns(db, cohortIds),
-    cohortTallies(db, cohortIds, today),
+    cohortTalliesOfTrials(
+      db,
+      trials.map((t) => ({ id: t.id, cohortIds: t.cohorts.map((c) => c.id) })),
+      today,
+    ),
     committeeStates(db, cohortIds),
     latestReleased(db, cohortIds),
   ]);

@@ -193,6 +193,8 @@ describe('GET /api/portfolio', () => {
     const listen = (q: { sql: string }) => {
       if (!/mail_outbox|session/.test(q.sql)) queries.push(q.sql);
     };
+    // Each measured request finds new trials to count (cohort tallies are kept per trial's data version).
+    await trialWithPatients();
     stack.server.db.on('query', listen);
     await portfolio(sponsor);
     const before = queries.length;

@@ -13,7 +13,8 @@ import { freePort } from '../../server/dev/ports.js';
 import { ROOT } from '../support/e2e-browser.js';
 import { signIn, type Session } from '../support/sign-in.js';
 
-const TSX = ['--import', 'tsx'];
+// BENCH_SERVER_NODE_ARGS profiles the servers, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" (cluster workers inherit it).
+const NODE_ARGS = ['--import', 'tsx', ...(process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean)];
 
 /** Resident set of a process and its direct children (the cluster's workers), in bytes. */
 export function residentBytes(pid: number): number {
@@ -62,7 +63,7 @@ function stopped(child: ChildProcess): Promise<void> {
 }
 
 function spawnNode(script: string, env: Record<string, string>): { child: ChildProcess; output: () => string } {
-  const child = spawn(process.execPath, [...TSX, path.join(ROOT, script)], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'ignore', 'pipe'] });
+  const child = spawn(process.execPath, [...NODE_ARGS, path.join(ROOT, script)], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'ignore', 'pipe'] });
   let errors = '';
   child.stderr?.on('data', (chunk: Buffer) => {
     errors = (errors + chunk.toString()).slice(-4000);
