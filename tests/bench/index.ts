@@ -69,8 +69,8 @@ const client = await clientSize();
 
 const residentMiB = Math.max(demo.residentMiB, trial.residentMiB);
 goals.push(...demo.goals, ...trial.goals, ...portfolio.goals, {
-  goal: `The server's resident set after the bench ≤ ${MEMORY_GOAL_MIB} MB`,
-  measured: `${demo.residentMiB.toFixed(0)} MiB after the demo runs, ${trial.residentMiB.toFixed(0)} MiB after the 5,000-patient runs and the import`,
+  goal: `The server's resident set after the bench ≤ ${MEMORY_GOAL_MIB} MB (the worker that served)`,
+  measured: `${demo.residentMiB.toFixed(0)} MiB after the demo runs, ${trial.residentMiB.toFixed(0)} MiB after the 5,000-patient runs and the import; the cluster's primary, which only forks, ${trial.primaryMiB.toFixed(0)} MiB more`,
   met: residentMiB <= MEMORY_GOAL_MIB,
 });
 
@@ -94,7 +94,7 @@ const output = {
   demoTable: demo.table.map(({ route, measured }) => ({ route, perSecond: measured.perSecond, p97_5: measured.p97_5, p95: measured.p95, p50: measured.p50 })),
   figures: results,
   goals,
-  residentMiB: { demo: demo.residentMiB, trial: trial.residentMiB },
+  residentMiB: { demo: demo.residentMiB, trial: trial.residentMiB, primary: trial.primaryMiB },
   client,
 };
 const file = path.join(ROOT, 'bench-results', 'latest.json');

@@ -16,24 +16,27 @@ import { signIn, type Session } from '../support/sign-in.js';
 // BENCH_SERVER_NODE_ARGS profiles the servers, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" (cluster workers inherit it).
 const NODE_ARGS = ['--import', 'tsx', ...(process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean)];
 
-/** Resident set of a process and its direct children (the cluster's workers), in bytes. */
-export function residentBytes(pid: number): number {
-  const rss = (p: number) => {
-    try {
-      const kib = /VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${p}/status`, 'utf8'))?.[1];
-      return Number(kib ?? 0) * 1024;
-    } catch {
-      return 0;
-    }
-  };
-  const children = (() => {
-    try {
-      return readFileSync(`/proc/${pid}/task/${pid}/children`, 'utf8').trim().split(/\s+/).filter(Boolean).map(Number);
-    } catch {
-      return [];
-    }
-  })();
-  return rss(pid) + children.reduce((sum, child) => sum + rss(child), 0);
+function residentOf(pid: number): number {
+  try {
+    return Number(/VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))?.[1] ?? 0) * 1024;
+  } catch {
+    return 0;
+  }
+}
+
+/** The cluster's workers: the primary's children that run Node (tsx's esbuild helper is another child). */
+function workerPids(primary: number): number[] {
+  try {
+    const children = readFileSync(`/proc/${primary}/task/${primary}/children`, 'utf8').trim().split(/\s+/).filter(Boolean).map(Number);
+    return children.filter((pid) => readFileSync(`/proc/${pid}/cmdline`, 'utf8').split('\0')[0] === process.execPath);
+  } catch {
+    return [];
+  }
+}
+
+/** Resident sets in bytes: each worker (the processes that serve requests) and the primary that only forks them. */
+export function residentBytes(primary: number): { workers: number[]; primary: number } {
+  return { workers: workerPids(primary).map(residentOf), primary: residentOf(primary) };
 }
 
 async function waitForHealth(url: string, child: ChildProcess, output: () => string): Promise<void> {
@@ -76,7 +79,7 @@ export type BenchServer = {
   workers: number;
   pid: number;
   signIn: (email: string) => Promise<Session>;
-  residentBytes: () => number;
+  residentBytes: () => { workers: number[]; primary: number };
   close: () => Promise<void>;
 };
 
