@@ -1,8 +1,9 @@
 /**
  * A version number per trial that every committed change to what its figures are computed from
- * moves on: its patients, cohorts, design versions, the trial row, its sites and their codes. The
- * server keys summaries it keeps in memory (the live evaluation, cohort tallies, the patient list's
- * counts) by this number, so a committed write is seen by the next read in every server process.
+ * moves on: its patients, cohorts, design versions, the trial row, its sites and their codes, its
+ * data cuts with their recommendations, decisions and released figures. The server keys summaries
+ * it keeps in memory (the live evaluation, the Portfolio's and Accrual's figures, the patient
+ * list's counts) by this number, so a committed write is seen by the next read in every server process.
  *
  * The bump runs in the writing transaction itself, as a deferred trigger: it happens at commit, once
  * per trial and transaction (a transaction-local setting remembers it), so writers to one trial
@@ -12,7 +13,8 @@
  */
 import type { Knex } from 'knex';
 
-const BY_TRIAL = ['patients', 'cohorts', 'trial_sites'];
+const BY_TRIAL = ['patients', 'cohorts', 'trial_sites', 'data_cuts'];
+const BY_CUT = ['recommendations', 'data_cut_decisions', 'released_figures'];
 
 export async function up(knex: Knex): Promise<void> {
   await knex.raw(`
@@ -56,6 +58,12 @@ export async function up(knex: Knex): Promise<void> {
       return null;
     end $$`);
   await knex.raw(`
+    create function cut_record_changed() returns trigger language plpgsql as $$
+    begin
+      perform bump_trial_data_version(d.trial_id) from data_cuts d where d.id = new.data_cut_id;
+      return null;
+    end $$`);
+  await knex.raw(`
     create function site_changed() returns trigger language plpgsql as $$
     begin
       perform bump_trial_data_version(ts.trial_id) from trial_sites ts where ts.site_id = new.id;
@@ -72,6 +80,11 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(`
     create constraint trigger design_versions_data_version after insert or update on design_versions
     deferrable initially deferred for each row execute function design_changed()`);
+  for (const table of BY_CUT) {
+    await knex.raw(`
+      create constraint trigger ${table}_data_version after insert or update on ${table}
+      deferrable initially deferred for each row execute function cut_record_changed()`);
+  }
   await knex.raw(`
     create constraint trigger sites_data_version after update on sites
     deferrable initially deferred for each row execute function site_changed()`);
@@ -79,10 +92,12 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   await knex.raw('drop trigger sites_data_version on sites');
+  for (const table of BY_CUT) await knex.raw(`drop trigger ${table}_data_version on ${table}`);
   await knex.raw('drop trigger design_versions_data_version on design_versions');
   await knex.raw('drop trigger trials_data_version on trials');
   for (const table of BY_TRIAL) await knex.raw(`drop trigger ${table}_data_version on ${table}`);
   await knex.raw('drop function site_changed()');
+  await knex.raw('drop function cut_record_changed()');
   await knex.raw('drop function design_changed()');
   await knex.raw('drop function trial_row_changed()');
   await knex.raw('drop function trial_data_changed()');

@@ -3,12 +3,12 @@
  * per-site table, projections of the dates n1 and n are reached, and warnings for sites that
  * have enrolled nobody for the trial's configured number of weeks. Aggregate counts only: there
  * are no response figures here, so every role of the trial reads the same kind of content
- * (site roles see their own sites' rows). The page for every site, and the cohort tallies the
- * Portfolio reads, are computed once per data version of the trial and day (server/db/trial-versions.ts).
+ * (site roles see their own sites' rows). The page for every site is computed once per data version
+ * of the trial and day (server/db/trial-versions.ts).
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, trialDataVersion, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
+import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import type { Actor } from '../auth/access.js';
 import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
@@ -225,30 +225,6 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
   if (shown === 'all') return whole;
   // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
   return { ...whole, sitesShown: 'own', sites: whole.sites.filter((s) => shown.includes(s.siteId)), warnings: whole.warnings.filter((w) => shown.includes(w.siteId)) };
-}
-
-/** The cohorts' tallies of these trials as of `today`, each trial's kept per its data version (cohorts without patients are absent). */
-const talliesByTrial = new VersionedCache<Map<string, CohortTally>>(1000);
-
-export async function cohortTalliesOfTrials(db: Db, trials: Array<{ id: string; cohortIds: string[] }>, today: string): Promise<Map<string, CohortTally>> {
-  const versions = await trialDataVersions(db, trials.map((t) => t.id));
-  const found = new Map<string, CohortTally>();
-  const missing = trials.filter((trial) => {
-    const hit = talliesByTrial.get(`${trial.id}|${today}`, versions.get(trial.id) as number);
-    for (const [cohortId, tally] of hit ?? []) found.set(cohortId, tally);
-    return !hit;
-  });
-  if (missing.length === 0) return found;
-  await inOneSnapshot(db, async (trx) => {
-    const fresh = await trialDataVersions(trx, missing.map((t) => t.id));
-    const tallies = await cohortTallies(trx, missing.flatMap((t) => t.cohortIds), today);
-    for (const trial of missing) {
-      const own = new Map(trial.cohortIds.flatMap((id) => (tallies.has(id) ? [[id, tallies.get(id) as CohortTally] as const] : [])));
-      talliesByTrial.set(`${trial.id}|${today}`, fresh.get(trial.id) as number, own);
-      for (const [cohortId, tally] of own) found.set(cohortId, tally);
-    }
-  });
-  return found;
 }
 
 async function computeAccrual(db: Knex.Transaction, trialId: string, today: string): Promise<TrialAccrual> {

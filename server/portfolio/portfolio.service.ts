@@ -9,8 +9,11 @@
  * committee members, or where the locked design lets sponsors see response; the figures of the
  * cut a committee decision released, labelled with the cut's date, for sponsors and site staff;
  * operational counts only for the trial manager. Hidden keys are absent and `efficacyHidden` says why.
+ * What each trial's rows are computed from is read once per data version of the trial and day
+ * (server/db/trial-versions.ts); the user's trials and roles are read on every request.
  */
 import type { Db } from '../db/knex.js';
+import { inOneSnapshot, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
 import type { Role, SessionUser, TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
@@ -18,8 +21,8 @@ import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_WORDS, STATUS_WORDS } from '../words/index.js';
-import { cohortTalliesOfTrials, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
-import { committeeStates } from './portfolio.repository.js';
+import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type CohortTally, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
+import { committeeStates, type CommitteeState } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
 
@@ -92,6 +95,50 @@ function decisionWords(decision: string): string {
   return RECOMMENDATION_WORDS[decision as RecommendationDecision]?.label ?? 'a recommendation';
 }
 
+/** What the rows of a trial's cohorts are computed from, by cohort (a cohort without patients has no tally). */
+type CohortFigures = {
+  designs: Map<string, LockedDesign>;
+  tallies: Map<string, CohortTally>;
+  committee: Map<string, CommitteeState>;
+  released: Map<string, ReleasedFigures>;
+};
+
+const figuresByTrial = new VersionedCache<CohortFigures>(1000);
+
+async function cohortFigures(db: Db, trials: TrialForUser[], today: string): Promise<CohortFigures> {
+  const key = (trialId: string) => `${trialId}|${today}`;
+  const versions = await trialDataVersions(db, trials.map((t) => t.id));
+  const found: CohortFigures = { designs: new Map(), tallies: new Map(), committee: new Map(), released: new Map() };
+  const add = (figures: CohortFigures) => {
+    for (const part of ['designs', 'tallies', 'committee', 'released'] as const) for (const [id, value] of figures[part]) (found[part] as Map<string, unknown>).set(id, value);
+  };
+  const missing = trials.filter((trial) => {
+    const hit = figuresByTrial.get(key(trial.id), versions.get(trial.id) as number);
+    if (hit) add(hit);
+    return !hit;
+  });
+  if (missing.length === 0) return found;
+  await inOneSnapshot(db, async (trx) => {
+    const fresh = await trialDataVersions(trx, missing.map((t) => t.id));
+    const cohortIds = missing.flatMap((t) => t.cohorts.map((c) => c.id));
+    // One after another: a transaction's queries share its one connection.
+    const all: CohortFigures = {
+      designs: await currentDesigns(trx, cohortIds),
+      tallies: await cohortTallies(trx, cohortIds, today),
+      committee: await committeeStates(trx, cohortIds),
+      released: await latestReleased(trx, cohortIds),
+    };
+    for (const trial of missing) {
+      const own = new Set(trial.cohorts.map((c) => c.id));
+      const mine = <T>(map: Map<string, T>) => new Map([...map].filter(([id]) => own.has(id)));
+      const figures: CohortFigures = { designs: mine(all.designs), tallies: mine(all.tallies), committee: mine(all.committee), released: mine(all.released) };
+      figuresByTrial.set(key(trial.id), fresh.get(trial.id) as number, figures);
+      add(figures);
+    }
+  });
+  return found;
+}
+
 /**
  * One row per cohort, each projected for the viewer's roles on its trial; `viewAs` projects every
  * row for the given access instead (the digest: as a sponsor sees it, whatever else the recipient holds).
@@ -102,17 +149,7 @@ export async function portfolioRows(
   options: { today: string; viewAs?: Pick<TrialAccess, 'roles' | 'siteIds'> },
 ): Promise<PortfolioRow[]> {
   const { today } = options;
-  const cohortIds = trials.flatMap((t) => t.cohorts.map((c) => c.id));
-  const [designs, tallies, committee, released] = await Promise.all([
-    currentDesigns(db, cohortIds),
-    cohortTalliesOfTrials(
-      db,
-      trials.map((t) => ({ id: t.id, cohortIds: t.cohorts.map((c) => c.id) })),
-      today,
-    ),
-    committeeStates(db, cohortIds),
-    latestReleased(db, cohortIds),
-  ]);
+  const { designs, tallies, committee, released } = await cohortFigures(db, trials, today);
   return trials.flatMap((trial) => {
     const access = options.viewAs ?? { roles: trial.myRoles, siteIds: [] };
     return trial.cohorts.map((cohort): PortfolioRow => {

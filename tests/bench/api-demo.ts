@@ -13,7 +13,7 @@ import { seedDemo } from '../../server/dev/seed/index.js';
 import { DEMO } from '../support/factories.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
 import { BENCH_SECONDS, measure, temporaryDatabase, type Measured } from './api-load.js';
-import { startBenchServer, type BenchServer } from './server-process.js';
+import { startBenchServer, type BenchServer } from '../support/server-process.js';
 
 const CONNECTIONS = 50;
 const MIB = 2 ** 20;

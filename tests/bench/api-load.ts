@@ -1,7 +1,7 @@
 /**
  * The load-testing parts the API benchmarks share: a fresh database on a temporary cluster and an
  * autocannon run that keeps every response time so percentiles are exact (the server processes and
- * the bare reference route are in server-process.ts).
+ * the bare reference route are in tests/support/server-process.ts).
  */
 import { randomBytes } from 'node:crypto';
 import autocannon from 'autocannon';

@@ -2,7 +2,7 @@
  * Portfolio and Accrual under load: a portfolio of 50 trials × 500 patients, GET /api/portfolio
  * and GET /api/trials/:trialId/accrual as a signed-in sponsor and statistician (autocannon,
  * 20 connections, BENCH_SECONDS each, 8 by default), beside a bare Express JSON route measured in
- * the same run (the shared parts are in api-load.ts, the server processes in server-process.ts).
+ * the same run (the shared parts are in api-load.ts, the server processes in tests/support/server-process.ts).
  * Uses DATABASE_URL's server when set, else a temporary PostgreSQL cluster; cleans up after.
  * Run alone with `npx tsx tests/bench/api-portfolio.ts`; `npm run bench` collects the same figures.
  */
@@ -17,7 +17,7 @@ import { bulkEnrol, daysAgo, setSitePlan, setTrialFields } from '../support/accr
 import { releaseCutDirectly } from '../support/data-cut-factories.js';
 import { describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
-import { startBareServer, startBenchServer } from './server-process.js';
+import { startBareServer, startBenchServer } from '../support/server-process.js';
 
 const TRIALS = 50;
 const PATIENTS = 500;

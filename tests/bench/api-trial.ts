@@ -5,7 +5,7 @@
  * run. After the writes, every 200 must be one version step and one audit row: no lost writes.
  * Then Needs attention on that trial, and a 2,000-patient CSV import into another trial, its dry
  * run and its commit end to end (checked: 2,000 patients and 2,000 audit rows, nothing else).
- * The server runs as its own process (server-process.ts); its resident set is read at the end.
+ * The server runs as its own process (tests/support/server-process.ts); its resident set is read at the end.
  * Run alone with `npx tsx tests/bench/api-trial.ts`; `npm run bench` collects the same figures.
  */
 import { pathToFileURL } from 'node:url';
@@ -19,7 +19,7 @@ import { setOutcomeSettings } from '../support/assessment-factories.js';
 import type { Session } from '../support/sign-in.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
 import { BENCH_SECONDS, describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
-import { startBareServer, startBenchServer } from './server-process.js';
+import { startBareServer, startBenchServer } from '../support/server-process.js';
 
 const PATIENTS = 5_000;
 const SITES = ['RVB', 'HCB', 'LUB', 'NGB'];

@@ -1,8 +1,9 @@
 /**
- * The server under load runs as its own process tree, as in production (`server/cluster.ts`, one or
- * more workers, logging at info to a discarded stdout), so it never shares an event loop with the
- * load generator; the bare reference route runs in a child process of its own the same way. The
- * identity provider and the mail catcher stay in this process (they are idle during the load).
+ * Orrery as its own process tree, started as in production (`server/cluster.ts`, one or more
+ * workers, logging at info to a discarded stdout): the benchmarks load it without sharing its event
+ * loop (the bare reference route runs in a child process of its own the same way), and the
+ * clustered-start test kills its workers. The identity provider and the mail catcher stay in this
+ * process.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync } from 'node:fs';
@@ -10,8 +11,8 @@ import path from 'node:path';
 import { startIdp } from '../../fake-idp/provider.js';
 import { startMailCatcher } from '../../server/dev/mail-catcher.js';
 import { freePort } from '../../server/dev/ports.js';
-import { ROOT } from '../support/e2e-browser.js';
-import { signIn, type Session } from '../support/sign-in.js';
+import { ROOT } from './e2e-browser.js';
+import { signIn, type Session } from './sign-in.js';
 
 // BENCH_SERVER_NODE_ARGS profiles the servers, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" (cluster workers inherit it).
 const NODE_ARGS = ['--import', 'tsx', ...(process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean)];
@@ -77,7 +78,9 @@ function spawnNode(script: string, env: Record<string, string>): { child: ChildP
 export type BenchServer = {
   url: string;
   workers: number;
+  /** The cluster's primary. */
   pid: number;
+  workerPids: () => number[];
   signIn: (email: string) => Promise<Session>;
   residentBytes: () => { workers: number[]; primary: number };
   close: () => Promise<void>;
@@ -118,6 +121,7 @@ export async function startBenchServer(databaseUrl: string, options: { workers: 
     url: origin,
     workers: options.workers,
     pid: child.pid as number,
+    workerPids: () => workerPids(child.pid as number),
     signIn: (email) => signIn(origin, email),
     residentBytes: () => residentBytes(child.pid as number),
     close: async () => {
