@@ -128,19 +128,27 @@ function earlyDetermination(design: LockedDesign, rule: CohortVerdict): { early:
 
 export type TrialEvaluation = { trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] };
 
-// A few hundred trials' evaluations are a few megabytes at most.
-const evaluations = new VersionedCache<TrialEvaluation>(300);
+type Computed = { evaluation: TrialEvaluation; released: Map<string, ReleasedFigures> };
 
-/** Every cohort's live evaluation, all of it, with every site's counts; computed once per data version of the trial. */
-export async function evaluateTrial(db: Db, trialId: string): Promise<TrialEvaluation> {
+// A few hundred trials' evaluations are a few megabytes at most.
+const evaluations = new VersionedCache<Computed>(300);
+
+/** The evaluation with each cohort's released figures, computed once per data version of the trial. */
+async function computed(db: Db, trialId: string): Promise<Computed> {
   const cached = evaluations.get(trialId, await trialDataVersion(db, trialId));
   if (cached) return cached;
   return inOneSnapshot(db, async (trx) => {
     const version = await trialDataVersion(trx, trialId);
     const evaluation = await computeEvaluation(trx, trialId);
-    evaluations.set(trialId, version, evaluation);
-    return evaluation;
+    const value = { evaluation, released: await latestReleased(trx, evaluation.cohorts.map((c) => c.cohortId)) };
+    evaluations.set(trialId, version, value);
+    return value;
   });
+}
+
+/** Every cohort's live evaluation, all of it, with every site's counts. */
+export async function evaluateTrial(db: Db, trialId: string): Promise<TrialEvaluation> {
+  return (await computed(db, trialId)).evaluation;
 }
 
 async function computeEvaluation(db: Knex.Transaction, trialId: string): Promise<TrialEvaluation> {
@@ -219,8 +227,7 @@ export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: Vi
 
 /** The live evaluation as this viewer may see it: everything computed, then projected cohort by cohort. */
 export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
-  const evaluation = await evaluateTrial(db, access.trialId);
-  const released = await latestReleased(db, evaluation.cohorts.map((c) => c.cohortId));
+  const { evaluation, released } = await computed(db, access.trialId);
   return {
     ...evaluation,
     cohorts: evaluation.cohorts.map(({ sites, ...cohort }) => {
