@@ -20,7 +20,7 @@ import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { trialFacts, type CohortStatus } from '../trials/index.js';
 import { countingGroups, responderPaths, siteCounts, type CountingGroup, type CountingRule, type SiteCounts } from './evaluation.repository.js';
 import { latestReleased, type ReleasedFigures } from './released.repository.js';
-import { CAUTIONS } from '../words/index.js';
+import { CAUTIONS, plural } from '../words/index.js';
 import { tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
 import { describeVerdict, verdictFigures, verdictLook, type CohortVerdict } from './verdict.js';
 
@@ -178,7 +178,7 @@ async function computeEvaluation(db: Knex.Transaction, trialId: string): Promise
     } else {
       notes.push('No locked design yet: the rule state appears once the statistician locks the design.');
     }
-    if (t.pending > 0) notes.push(`${t.pending} outcomes are pending and not in the figures yet.`);
+    if (t.pending > 0) notes.push(`${plural(t.pending, 'outcome')} pending, not in the figures yet.`);
     const path = points.filter((p) => p.cohortId === cohort.id).map((p) => ({ evaluable: p.evaluable, responders: p.responders }));
     const decided = t.decided;
     return {

@@ -141,7 +141,7 @@ export const listQuerySchema = yup.object({
   q: yup.string().trim().max(40).optional(),
   sort: yup.string().oneOf(LIST_SORTS).default('studyId'),
   dir: yup.string().oneOf(['asc', 'desc']).default('asc'),
-  page: yup.number().integer().min(1).default(1),
+  page: yup.number().integer().min(1).max(10_000_000, 'Page must be at most 10,000,000.').default(1),
   pageSize: yup.number().integer().min(1).max(500).default(50),
 });
 export type ListQuery = yup.InferType<typeof listQuerySchema>;

@@ -68,4 +68,13 @@ describe('repeated, list and object query parameters', () => {
     expect(response.body.error.fields.dryRun).toBeTruthy();
     expect(await stack.db('audit_log').count({ n: '*' }).first()).toEqual(before);
   });
+
+  it('when a page or offset is too large for the database to skip to, then 400 names it (it used to answer 500)', async () => {
+    const audit = await sam.get(`/api/trials/${trial.trialId}/audit?offset=9223372036854776000`);
+    expect(audit.status).toBe(400);
+    expect(Object.keys(audit.body.error.fields)).toEqual(['offset']);
+    const patients = await cora.get(`/api/trials/${trial.trialId}/patients?page=9223372036854776000`);
+    expect(patients.status).toBe(400);
+    expect(Object.keys(patients.body.error.fields)).toEqual(['page']);
+  });
 });

@@ -130,6 +130,12 @@ type PlatformFont = { familyName: string; isCustomFont: boolean; glyphCount: num
  */
 export async function textNotDrawnByInter(page: Page, selector = 'body'): Promise<string[]> {
   const problems: string[] = [];
+  // A glyph outside the Latin subsets loads the whole Inter on first use: let the page lay out and
+  // finish loading the fonts it asked for, or the check would see the system font drawn meanwhile.
+  await page.evaluate(async () => {
+    await new Promise((resolve) => requestAnimationFrame(resolve));
+    await document.fonts.ready;
+  });
   const cdp = await page.context().newCDPSession(page);
   try {
     await cdp.send('DOM.enable');

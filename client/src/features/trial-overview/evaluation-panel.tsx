@@ -10,7 +10,7 @@
 import { Suspense, lazy } from 'react';
 import { Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
-import { GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, plural, ruleLabel, stillOpen } from '../../../../server/words';
+import { COUNT_LABELS, GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, plural, ruleLabel, stillOpen } from '../../../../server/words';
 import type { CohortVerdict } from '../../../../server/evaluation/verdict';
 import { liveOf, useEvaluation, type CohortView, type LiveCohort } from './get-evaluation';
 
@@ -141,7 +141,7 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortView; confLevel: num
       </div>
       <div className="flex flex-wrap gap-6">
         <Figure label="Enrolled" value={cohort.enrolled} hint={`${cohort.counted} counted`} />
-        {!live && <Figure label="Decided patients" value={cohort.decided} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />}
+        {!live && <Figure label={COUNT_LABELS.decided} value={cohort.decided} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />}
       </div>
       {live ? (
         <LiveFigures cohort={live} confLevel={confLevel} />
