@@ -16,8 +16,11 @@ export function liveFiguresHidden(audience: HiddenAudience, released: boolean): 
   }
 }
 
+// One formatter for every label: building one per call costs more than the rest of a request's projection.
+const CUT_DATE = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
+
 /** "3 March 2026": a cut's calendar date (UTC, as the cut is stored). */
-const cutDate = (at: string) => new Date(at).toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
+const cutDate = (at: string) => CUT_DATE.format(new Date(at));
 
 /** The label every released figure carries: "as of the data cut of 3 March 2026". */
 export const releasedAsOf = (cutAt: string) => `as of the data cut of ${cutDate(cutAt)}`;
