@@ -108,7 +108,8 @@ export const dataCutsRoutes: RouteSpec[] = [
     access: cutAccess(['statistician', 'admin']),
     handler: async (req, res, { db, mail }) => {
       const input = await parseBody(decisionSchema, req.body);
-      const result = await applyDecision(db, cutId(req), input, actorOf(req).user);
+      const { user, access } = actorOf(req);
+      const result = await applyDecision(db, cutId(req), input, user, access.roles);
       mail.kick();
       res.status(201).json(result);
     },

@@ -12,11 +12,13 @@ export { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORIES, STOP_CATEGORY_
 export const CUT_KINDS = ['interim', 'final'] as const;
 export type CutKind = (typeof CUT_KINDS)[number];
 
-export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol'] as const;
+export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol', 'resume_accrual', 'stop_safety'] as const;
 export type RecommendationDecision = (typeof RECOMMENDATION_DECISIONS)[number];
 
-export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete'] as const;
+export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete', 'resume_accrual'] as const;
 export type DecisionAction = (typeof DECISION_ACTIONS)[number];
+/** Decisions that move the cohort to another status (resuming accrual after a safety review leaves it where it is). */
+export type StatusDecision = Exclude<DecisionAction, 'resume_accrual'>;
 
 export const createDataCutSchema = object({
   cohortId: string().uuid('Choose a cohort of this trial.').nullable().optional(),

@@ -6,13 +6,14 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { Actor, SessionUser } from '../auth/access.js';
+import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import { currentDesigns } from '../designs/index.js';
-import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
-import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { findCohort, listCohorts, lockTrialHeading, resumeAfterSafetyReview, safetyReviewOf, transitionCohort, type Cohort, type CohortStatus } from '../trials/index.js';
+import { currentSafetyState, ruleToxicities } from '../safety/index.js';
+import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
@@ -22,7 +23,16 @@ import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, se
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
-import { DECISION_LABELS, RECOMMENDATION_LABELS, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
+import {
+  DECISION_LABELS,
+  RECOMMENDATION_LABELS,
+  type CreateDataCutInput,
+  type DecisionAction,
+  type DecisionInput,
+  type PriorInput,
+  type RecommendationInput,
+  type StatusDecision,
+} from './data-cuts.schema.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
 type Author = Pick<SessionUser, 'id' | 'email'>;
@@ -289,7 +299,7 @@ export async function recommendations(db: Db, cutId: string) {
   return { recommendations: list, committeeSize, signed: list.length };
 }
 
-export const DECISION_TARGET: Record<DecisionAction, CohortStatus> = {
+export const DECISION_TARGET: Record<StatusDecision, CohortStatus> = {
   resume_stage_2: 'enrolling_stage_2',
   stop: 'stopped',
   final_analysis: 'final_analysis',
@@ -302,6 +312,7 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
     stop: `cohort ${cohortCode} is stopped (${stopCategory}). Do not enrol further patients; follow the protocol for patients on treatment.`,
     final_analysis: `cohort ${cohortCode} moves to the final analysis. Enrolment is closed.`,
     complete: `cohort ${cohortCode} is completed.`,
+    resume_accrual: `accrual resumes in cohort ${cohortCode} after the committee's safety review. Sites may enrol again.`,
   }[action];
   return {
     subject: `${trialCode} ${cohortCode}: ${DECISION_LABELS[action].toLowerCase()}`,
@@ -309,7 +320,30 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
   };
 }
 
-export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author) {
+/**
+ * Accrual resumes after a safety pause only on a cut frozen since the pause began (so the committee
+ * saw the data that paused it), with a member's signed recommendation to resume, and only when no
+ * toxicity has been added since the pause (the committee has not reviewed it).
+ */
+async function requireSafetyReview(trx: Knex.Transaction, cut: DataCut, cohort: Cohort, recommended: string[]): Promise<void> {
+  if (!cohort.safetyPause) throw new ConflictError(`Cohort ${cohort.code} is not paused for safety: there is no accrual to resume after a safety review.`);
+  if (Date.parse(cut.cutAt) < Date.parse(cohort.safetyPause.since)) {
+    throw new ConflictError(`Data cut ${cut.seq} was frozen before accrual paused for safety: freeze a new cut so the committee reviews the data that paused it.`);
+  }
+  if (!recommended.includes('resume_accrual')) {
+    throw new ConflictError('Accrual resumes after a safety pause only on a committee recommendation to resume it, and no member has signed one on this data cut.');
+  }
+  const state = await currentSafetyState(trx, cohort.id);
+  const { pauseToxicities } = await safetyReviewOf(trx, cohort.id);
+  if (state?.crossed && pauseToxicities !== null && ruleToxicities(state) > pauseToxicities) {
+    throw new ConflictError('More toxicities have been recorded since accrual paused: freeze a new data cut so the committee reviews them before accrual resumes.');
+  }
+}
+
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author, roles: readonly Role[]) {
+  if (input.action === 'resume_accrual' && !roles.includes('statistician')) {
+    throw new ForbiddenError('Resuming accrual after a safety pause is the trial statistician’s decision.');
+  }
   return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
 }
 
@@ -330,14 +364,20 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   }
   const current = await findCohort(trx, cut.trialId, cohortId);
   if (!current) throw new NotFoundError('The cohort');
-  const to = DECISION_TARGET[input.action];
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
-  // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
-  if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
-    await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+  let moved: { from: CohortStatus; to: CohortStatus };
+  if (input.action === 'resume_accrual') {
+    await requireSafetyReview(trx, cut, current, signed.map((r) => r.decision));
+    await resumeAfterSafetyReview(trx, { cohortId, reason, actorUserId: actor.id });
+    moved = { from: current.status, to: current.status };
+  } else {
+    // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
+    if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
+      await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+    }
+    moved = await transitionCohort(trx, { cohortId, to: DECISION_TARGET[input.action], actorUserId: actor.id, reason, stopCategory });
   }
-  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory });
   const decisionId = await insertDecision(trx, {
     dataCutId: cutId,
     cohortId,

@@ -4,6 +4,6 @@
  */
 export { releaseToSponsor } from './data-cuts.repository.js';
 export { dataCutsRoutes } from './data-cuts.routes.js';
-export type { DecisionAction, RecommendationDecision } from './data-cuts.schema.js';
+export type { DecisionAction, RecommendationDecision, StatusDecision } from './data-cuts.schema.js';
 export { DECISION_TARGET, applyWithin, freezeWithin, signWithin } from './data-cuts.service.js';
 export { insertDecision } from './decisions.repository.js';

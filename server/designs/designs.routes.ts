@@ -33,9 +33,9 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, hooks }) => {
       const body = await parseBody(designLockSchema, req.body);
-      const design = await signDesign(db, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, signIn: signInOf(req, config) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, signIn: signInOf(req, config) });
       res.status(201).json({ design });
     },
   },
@@ -43,9 +43,11 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design/amendments',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db, config }) => {
+    handler: async (req, res, { db, config, hooks, mail }) => {
       const body = await parseBody(designAmendmentSchema, req.body);
-      const design = await signDesign(db, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, signIn: signInOf(req, config) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, signIn: signInOf(req, config) });
+      // An amendment's safety rule may already be crossed by the data: the pause's mail goes out now.
+      mail.kick();
       res.status(201).json({ design });
     },
   },

@@ -7,6 +7,8 @@ export const RECOMMENDATION_LABELS: Record<RecommendationDecision, string> = {
   stop_futility: 'Stop for futility',
   stop_other: 'Stop for another reason',
   modify_protocol: 'Modify the protocol',
+  resume_accrual: 'Resume accrual after the safety review',
+  stop_safety: 'Stop for safety',
 };
 
 /** A decision the statistician applies to a cohort from a data cut. */
@@ -15,4 +17,5 @@ export const DECISION_LABELS: Record<DecisionAction, string> = {
   stop: 'Stop the cohort',
   final_analysis: 'Go to the final analysis',
   complete: 'Complete the cohort',
+  resume_accrual: 'Resume accrual after the safety review',
 };

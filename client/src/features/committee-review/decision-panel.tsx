@@ -1,6 +1,7 @@
 /**
  * The statistician applies the committee's decision: resume accrual for stage 2, stop with a
- * category and reason, go to the final analysis, or complete. Sites and sponsors are e-mailed.
+ * category and reason, go to the final analysis, complete, or resume accrual after a safety pause.
+ * Sites and sponsors are e-mailed.
  */
 import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
@@ -17,7 +18,7 @@ import {
 import type { DataCutDetail } from '../data-cuts';
 import { useApplyDecision } from './use-apply-decision';
 
-export const DECISION_ICONS: Record<DecisionAction, string> = { resume_stage_2: '▸▸', stop: '■', final_analysis: '∑', complete: '✓' };
+export const DECISION_ICONS: Record<DecisionAction, string> = { resume_stage_2: '▸▸', stop: '■', final_analysis: '∑', complete: '✓', resume_accrual: '↻' };
 
 type Values = { action: DecisionAction | ''; cohortId: string; stopCategory: string; reason: string };
 

@@ -20,6 +20,8 @@ export const RECOMMENDATION_ICONS: Record<RecommendationDecision, string> = {
   stop_futility: '■',
   stop_other: '⏹',
   modify_protocol: '✎',
+  resume_accrual: '↻',
+  stop_safety: '⊘',
 };
 
 type Values = { decision: RecommendationDecision | ''; rationale: string };

@@ -1,0 +1,116 @@
+/**
+ * The live safety state of every cohort of a trial: patients counted against the locked toxicity
+ * definition (in SQL), the toxicity rate among assessable patients with its exact
+ * (Clopper–Pearson) interval, and where the cohort stands against its safety rule — the
+ * continuous toxicity boundary or the Bryant–Day stage-1 toxicity limit — with the distance to
+ * it. Compute, then describe: the numbers come from the statistics engine and toxicity.ts, the
+ * sentences from server/words.
+ */
+import type { Db } from '../db/knex.js';
+import { NotFoundError } from '../http/errors.js';
+import { proportionInterval } from '../stats/index.js';
+import { currentDesigns, type LockedDesign, type ToxicityDefinition } from '../designs/index.js';
+import { listCohorts, type SafetyPause } from '../trials/index.js';
+import { CAUTIONS, describeSafetyState, toxicityDefinitionSentence } from '../words/index.js';
+import { safetyCounts } from './safety.repository.js';
+import { ruleOfDesign, todayIso } from './safety-rules.js';
+import { safetyRuleState } from './toxicity.js';
+import type { SafetyCounts, SafetyRule, SafetyRuleState } from './safety.schema.js';
+
+export const SAFETY_CONF_LEVEL = 0.95;
+
+export type SafetyRuleSummary = {
+  version: number;
+  safetyRule: SafetyRule;
+  definition: ToxicityDefinition;
+  boundary: { theta: number; alpha: number; n: number; nominalLevel: number; crossingProbability: number; bounds: Array<number | null> } | null;
+  bryantDay: { n1: number; t1: number; n: number; t: number; toxAcceptable: number; toxUnacceptable: number; alphaT: number } | null;
+};
+
+export type CohortSafety = {
+  cohortId: string;
+  cohortCode: string;
+  cohortName: string;
+  status: string;
+  safetyPause: SafetyPause | null;
+  rule: SafetyRuleSummary | null;
+  counts: SafetyCounts | null;
+  rate: { toxicities: number; assessable: number; estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
+  state: SafetyRuleState | null;
+  /** The definition and the state in sentences. */
+  sentences: string[];
+};
+
+function summary(design: LockedDesign, definition: ToxicityDefinition): SafetyRuleSummary {
+  return {
+    version: design.version,
+    safetyRule: design.safetyRule,
+    definition,
+    boundary: design.boundary && {
+      theta: design.boundary.theta,
+      alpha: design.boundary.alpha,
+      n: design.boundary.bounds.length,
+      nominalLevel: design.boundary.nominalLevel,
+      crossingProbability: design.boundary.crossingProbability,
+      bounds: design.boundary.bounds,
+    },
+    bryantDay:
+      design.bryantDay && design.n1 !== null
+        ? {
+            n1: design.n1,
+            t1: design.bryantDay.t1,
+            n: design.n,
+            t: design.bryantDay.t,
+            toxAcceptable: design.bryantDay.toxAcceptable,
+            toxUnacceptable: design.bryantDay.toxUnacceptable,
+            alphaT: design.bryantDay.alphaT,
+          }
+        : null,
+  };
+}
+
+export async function safetyOfTrial(db: Db, trialId: string, today = todayIso()): Promise<{ trialId: string; confLevel: number; cautions: string[]; cohorts: CohortSafety[] }> {
+  const cohorts = await listCohorts(db, trialId);
+  if (cohorts.length === 0 && !(await db('trials').where({ id: trialId }).first('id'))) throw new NotFoundError('The trial');
+  const designs = await currentDesigns(db, cohorts.map((c) => c.id));
+  const definitions = cohorts.flatMap((c) => {
+    const toxicity = designs.get(c.id)?.toxicity;
+    return toxicity ? [{ cohortId: c.id, ...toxicity }] : [];
+  });
+  const counted = await safetyCounts(db, definitions, today);
+  return {
+    trialId,
+    confLevel: SAFETY_CONF_LEVEL,
+    cautions: [...CAUTIONS],
+    cohorts: cohorts.map((cohort): CohortSafety => {
+      const design = designs.get(cohort.id);
+      const rule = ruleOfDesign(design);
+      const base = { cohortId: cohort.id, cohortCode: cohort.code, cohortName: cohort.name, status: cohort.status, safetyPause: cohort.safetyPause };
+      const counts = counted.get(cohort.id);
+      if (!design?.toxicity || !rule || !counts) {
+        const sentences = [design ? 'The locked design monitors response only: adverse events are recorded, and no toxicity rule is applied.' : 'No locked design yet.'];
+        return { ...base, rule: null, counts: null, rate: null, state: null, sentences };
+      }
+      const state = safetyRuleState(rule, counts);
+      const assessable = counts.toxic + counts.notToxic;
+      return {
+        ...base,
+        rule: summary(design, design.toxicity),
+        counts,
+        rate:
+          assessable > 0
+            ? {
+                toxicities: counts.toxic,
+                assessable,
+                estimate: counts.toxic / assessable,
+                ci: proportionInterval(counts.toxic, assessable, { method: 'clopper-pearson', confLevel: SAFETY_CONF_LEVEL }),
+                confLevel: SAFETY_CONF_LEVEL,
+                method: 'clopper-pearson',
+              }
+            : null,
+        state,
+        sentences: [toxicityDefinitionSentence(design.toxicity), ...describeSafetyState(state)],
+      };
+    }),
+  };
+}

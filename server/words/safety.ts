@@ -1,0 +1,105 @@
+/**
+ * How adverse events, the protocol's toxicity definition and the safety rules read to a person.
+ * Grade words are the general grade descriptions of the NCI Common Terminology Criteria for Adverse
+ * Events (CTCAE) v5.0.
+ */
+import type { Attribution, EventOutcome, SafetyRule, SafetyRuleState, ToxicityStatus } from '../safety/safety.schema.js';
+import { plural } from './counts.js';
+
+/** NCI CTCAE v5.0, general grade descriptions (short form). */
+export const GRADE_WORDS: Record<number, string> = {
+  1: 'Mild',
+  2: 'Moderate',
+  3: 'Severe',
+  4: 'Life-threatening',
+  5: 'Death',
+};
+
+export const CTCAE_SOURCE = 'NCI Common Terminology Criteria for Adverse Events (CTCAE) v5.0';
+
+/** "Grade 3 (Severe)"; "not graded yet" for a missing grade. */
+export const gradeText = (grade: number | null) => (grade === null ? 'not graded yet' : `grade ${grade} (${GRADE_WORDS[grade]})`);
+
+export const ATTRIBUTION_WORDS: Record<Attribution, string> = {
+  unrelated: 'Unrelated',
+  unlikely: 'Unlikely related',
+  possible: 'Possibly related',
+  probable: 'Probably related',
+  definite: 'Definitely related',
+};
+
+export const attributionText = (attribution: Attribution | null) => (attribution === null ? 'attribution not assessed yet' : ATTRIBUTION_WORDS[attribution].toLowerCase());
+
+export const EVENT_OUTCOME_WORDS: Record<EventOutcome, string> = {
+  recovered: 'Recovered',
+  recovering: 'Recovering',
+  not_recovered: 'Not recovered',
+  recovered_with_sequelae: 'Recovered with sequelae',
+  fatal: 'Fatal',
+  unknown: 'Unknown',
+};
+
+export const SAFETY_RULE_WORDS: Record<SafetyRule, string> = {
+  none: 'Response only',
+  toxicity_boundary: 'Response with a continuous toxicity boundary',
+  bryant_day: 'Bryant–Day: response and toxicity together',
+};
+
+export const TOXICITY_STATUS_WORDS: Record<ToxicityStatus, string> = {
+  toxic: 'Toxicity',
+  not_toxic: 'No toxicity',
+  not_assessable: 'Not yet assessable',
+};
+
+/** The protocol's definition of a toxicity in one sentence; enrolment stands for the first dose. */
+export function toxicityDefinitionSentence(definition: { minGrade: number; windowDays: number }): string {
+  const grade = definition.minGrade === 5 ? 'of CTCAE grade 5 (Death)' : `of CTCAE grade ${definition.minGrade} (${GRADE_WORDS[definition.minGrade]}) or higher`;
+  return `A toxicity is an adverse event ${grade}, possibly, probably or definitely related to the agent, with onset within ${definition.windowDays} days of enrolment (enrolment stands for the first dose).`;
+}
+
+/** Why a cohort's accrual is paused, without figures: the cohort's status is read by everyone on the trial. */
+export function safetyPauseReason(rule: 'toxicity_boundary' | 'bryant_day'): string {
+  return rule === 'bryant_day'
+    ? 'The stage-1 toxicity limit of the locked Bryant–Day design was crossed.'
+    : 'The continuous toxicity boundary of the locked design was reached.';
+}
+
+/** What a crossing was, with its figures, for the statisticians and the committee. */
+export function crossingSentence(state: SafetyRuleState): string {
+  if (state.rule === 'bryant_day') {
+    return `${plural(state.stage1Toxicities, 'toxicity', 'toxicities')} among the stage-1 patients: more than the stage-1 limit t1 = ${state.t1}.`;
+  }
+  return `${plural(state.toxicities, 'toxicity', 'toxicities')} among ${plural(state.assessable, 'assessable patient')}: at or above the boundary b = ${state.bound}.`;
+}
+
+/** Where a cohort stands against its safety rule, in sentences for the overview, mail and report. */
+export function describeSafetyState(state: SafetyRuleState): string[] {
+  if (state.rule === 'bryant_day') {
+    const stage1 = state.crossed
+      ? `Stage-1 toxicity limit crossed: ${plural(state.stage1Toxicities, 'toxicity', 'toxicities')} among the stage-1 patients, more than t1 = ${state.t1}.`
+      : `${plural(state.stage1Toxicities, 'toxicity', 'toxicities')} among the stage-1 patients so far (${state.stage1Assessable} of n1 = ${state.n1} assessable); the cohort stops after stage 1 with more than t1 = ${state.t1}, so ${plural(state.toStage1Limit, 'more toxicity', 'more toxicities')} would cross the limit.`;
+    const final = state.finalLimitExceeded
+      ? `More than t = ${state.t} toxicities in all (${state.toxicities}): the final toxicity rule of the design can no longer be met.`
+      : `Final toxicity rule: at most t = ${state.t} toxicities among n = ${state.n} patients; ${state.toxicities} so far.`;
+    return [stage1, final];
+  }
+  const sentences: string[] = [];
+  if (state.crossed) {
+    sentences.push(`Boundary reached: ${plural(state.toxicities, 'toxicity', 'toxicities')} among ${plural(state.assessable, 'assessable patient')}, at or above the boundary b = ${state.bound}.`);
+  } else if (state.bound === null) {
+    sentences.push(`${plural(state.toxicities, 'toxicity', 'toxicities')} among ${plural(state.assessable, 'assessable patient')}: no stop is possible yet at this number of patients.`);
+  } else {
+    sentences.push(`${plural(state.toxicities, 'toxicity', 'toxicities')} among ${plural(state.assessable, 'assessable patient')}; the boundary there is ${state.bound}.`);
+  }
+  if (!state.crossed) {
+    sentences.push(
+      state.toNextStop === null
+        ? `The boundary can no longer be reached within its n = ${state.n} patients.`
+        : `${plural(state.toNextStop, 'more toxicity', 'more toxicities')} in a row among the next assessable patients would reach it.`,
+    );
+  }
+  if (state.beyondN) sentences.push(`More patients are assessable than the boundary's n = ${state.n}: its last value applies.`);
+  return sentences;
+}
+
+export const SAFETY_PAUSED = 'Accrual paused for a safety review';
