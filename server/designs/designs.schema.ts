@@ -103,7 +103,9 @@ const lockFields = {
   selection: string()
     .required('Choose a design.')
     .oneOf(SELECTIONS, 'Choose single-stage, optimal, minimax or an admissible design.')
-    .when('safetyRule', { is: 'bryant_day', then: (s) => s.oneOf(['optimal', 'minimax'], 'A Bryant–Day design is the optimal or the minimax one.') }),
+    .test('bryant-day-selection', 'A Bryant–Day design is the optimal or the minimax one.', function (value) {
+      return this.parent.safetyRule !== 'bryant_day' || value === 'optimal' || value === 'minimax';
+    }),
   admissibleIndex: number()
     .typeError('Choose which admissible design.')
     .integer('Choose which admissible design.')

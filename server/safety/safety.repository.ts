@@ -31,7 +31,7 @@ export async function safetyCounts(db: Conn, definitions: CountingDefinition[], 
      judged as (
        select p.cohort_id, p.stage, (p.enrolled_on + d.window_days) as last_day,
               coalesce(bool_or(e.grade >= d.min_grade and e.attribution in ${RELATED_SQL}), false) as toxic,
-              coalesce(bool_or((e.grade is null or e.attribution is null)
+              coalesce(bool_or(e.id is not null and (e.grade is null or e.attribution is null)
                                and (e.grade is null or e.grade >= d.min_grade)
                                and (e.attribution is null or e.attribution in ${RELATED_SQL})), false) as awaiting
          from patients p

@@ -30,6 +30,8 @@ export type ToxicityDerivation = {
   qualifyingEventId: string | null;
   /** Events in the window that would count once graded or attributed. */
   awaitingEventIds: string[];
+  /** Not assessable only because such an event awaits its grade or attribution. */
+  awaitsAssessment: boolean;
   explanation: string[];
 };
 
@@ -97,19 +99,20 @@ export function deriveToxicity(input: { enrolledOn: string; events: EventForToxi
     windowEndsOn: lastDay,
     qualifyingEventId: qualifying[0]?.event.id ?? null,
     awaitingEventIds: awaiting.map((j) => j.event.id).filter((id): id is string => id !== undefined),
+    awaitsAssessment: status === 'not_assessable' && awaiting.length > 0,
     explanation,
   };
 }
 
 /** A cohort's tally from each patient's derivation (the reference the SQL counts are compared against). */
-export function countToxicities(patients: Array<{ stage: 1 | 2; derivation: Pick<ToxicityDerivation, 'status' | 'awaitingEventIds'> }>): SafetyCounts {
+export function countToxicities(patients: Array<{ stage: 1 | 2; derivation: Pick<ToxicityDerivation, 'status' | 'awaitsAssessment'> }>): SafetyCounts {
   const counts: SafetyCounts = { enrolled: 0, toxic: 0, notToxic: 0, notAssessable: 0, awaitingAssessment: 0, stage1: { enrolled: 0, toxic: 0, notToxic: 0 } };
   for (const { stage, derivation } of patients) {
     counts.enrolled += 1;
     if (derivation.status === 'toxic') counts.toxic += 1;
     else if (derivation.status === 'not_toxic') counts.notToxic += 1;
     else counts.notAssessable += 1;
-    if (derivation.status === 'not_assessable' && derivation.awaitingEventIds.length > 0) counts.awaitingAssessment += 1;
+    if (derivation.awaitsAssessment) counts.awaitingAssessment += 1;
     if (stage === 1) {
       counts.stage1.enrolled += 1;
       if (derivation.status === 'toxic') counts.stage1.toxic += 1;

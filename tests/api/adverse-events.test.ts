@@ -43,7 +43,7 @@ const auditRows = (entityId: string) => stack.db('audit_log').where({ entity_id:
 const eventCount = async (patientId: string) => Number((await stack.db('adverse_events').where({ patient_id: patientId }).count({ n: '*' }))[0].n);
 
 describe('recording adverse events', () => {
-  it('when a coordinator records an event at their site, then it is stored, audited, and the patient's toxicity status comes back explained', async () => {
+  it('when a coordinator records an event at their site, then it is stored, audited, and the patient’s toxicity status comes back explained', async () => {
     const patient = await enrolOne(stack.db, trial, { enrolledOn: ENROLLED });
     const res = await cora.post(url(patient.id), EVENT);
     expect(res.status).toBe(201);
