@@ -7,7 +7,7 @@ import { AppError, InputError } from '../http/errors.js';
 import { StatsInputError } from '../stats/index.js';
 import type { DesignSettingsInput, Selection } from './designs.schema.js';
 import type { DesignCandidates, DesignNumbers } from './candidates.js';
-import type { BryantDayCharacteristicsInput, SafetyDesignSettings } from '../safety/safety.schema.js';
+import type { BryantDayCharacteristicsInput, SafetyDesignSettings } from '../safety/index.js';
 import type { BryantDayDesign } from '../stats/index.js';
 import type { BryantDayChoice, BryantDayGrid } from './safety-candidates.js';
 

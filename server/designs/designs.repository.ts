@@ -5,7 +5,7 @@
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
-import type { SafetyRule } from '../safety/safety.schema.js';
+import type { SafetyRule } from '../safety/index.js';
 
 type Conn = Db | Knex.Transaction;
 

@@ -17,7 +17,7 @@ import {
   type ToxicityBoundary,
   type ToxicityOperatingPoint,
 } from '../stats/index.js';
-import type { BryantDayCharacteristicsInput, SafetyDesignSettings, ToxicityBoundarySettings } from '../safety/safety.schema.js';
+import type { BryantDayCharacteristicsInput, SafetyDesignSettings, ToxicityBoundarySettings } from '../safety/index.js';
 
 /** Both designs, or 400 naming nmax when no design of at most nmax patients meets the three constraints. */
 export function safetyDesigns(settings: SafetyDesignSettings): { optimal: BryantDayDesign; minimax: BryantDayDesign } {

@@ -225,7 +225,9 @@ export async function listEvents(db: Db, trialId: string, scope: string[] | 'all
     if (query.serious !== undefined) q.where('e.serious', query.serious);
     if (query.q) {
       const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-      q.where((w) => w.whereILike('p.study_id', like).orWhereILike('e.term', like));
+      q.where((w) => {
+        w.whereILike('p.study_id', like).orWhereILike('e.term', like);
+      });
     }
     return q;
   };

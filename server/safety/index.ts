@@ -7,3 +7,4 @@ export { safetyRoutes } from './safety.routes.js';
 export { applySafetyAfterDesignSigned, applySafetyRules, currentSafetyState, ruleOfDesign, ruleToxicities } from './safety-rules.js';
 export { safetyCounts } from './safety.repository.js';
 export { safetyRuleState } from './toxicity.js';
+export type { BryantDayCharacteristicsInput, SafetyDesignSettings, SafetyRule, ToxicityBoundarySettings } from './safety.schema.js';

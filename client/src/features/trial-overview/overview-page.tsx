@@ -1,7 +1,8 @@
 import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
-import { ROLE_LABELS } from '../../lib/roles';
+import { hasAnyRole, ROLE_LABELS } from '../../lib/roles';
 import { useTrialContext } from '../trials';
+import { PausedTag, SafetyOverview } from '../safety';
 import { EvaluationPanel } from './evaluation-panel';
 
 export function OverviewPage() {
@@ -29,7 +30,10 @@ export function OverviewPage() {
               <span>
                 <span className="font-mono text-xs text-ink-500">{cohort.code}</span> {cohort.name}
               </span>
-              <StatusTag status={cohort.status} />
+              <span className="flex flex-wrap justify-end gap-1">
+                <StatusTag status={cohort.status} />
+                {cohort.safetyPause && <PausedTag />}
+              </span>
             </li>
           ))}
         </ul>
@@ -37,6 +41,12 @@ export function OverviewPage() {
       <div className="lg:col-span-3">
         <EvaluationPanel trialId={trial.id} />
       </div>
+      {/* Safety figures, like efficacy figures, are the statistician's and the committee's. */}
+      {hasAnyRole(trial.myRoles, ['statistician', 'monitor']) && (
+        <div className="lg:col-span-3">
+          <SafetyOverview trialId={trial.id} />
+        </div>
+      )}
     </div>
   );
 }
