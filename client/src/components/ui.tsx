@@ -1,6 +1,7 @@
 /** Small shared building blocks in Orrery's look: ink navy, one brass accent, dense and print-like. */
 import type { ButtonHTMLAttributes, ReactNode } from 'react';
 import { ApiError } from '../lib/api';
+import { SAFETY_PAUSED } from '../../../server/words';
 
 export function Button({
   variant = 'primary',
@@ -143,6 +144,16 @@ export function StatusTag({ status }: { status: string }) {
     <span className={`inline-flex items-center gap-1 rounded-sm border px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap ${tone}`}>
       <span aria-hidden>{text.icon}</span>
       {text.label}
+    </span>
+  );
+}
+
+/** Beside a cohort's status: its accrual is paused because its safety rule was crossed. */
+export function SafetyPauseTag() {
+  return (
+    <span className="inline-flex items-center gap-1 rounded-sm border border-alert-600 px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap text-alert-600">
+      <span aria-hidden>⏸</span>
+      {SAFETY_PAUSED}
     </span>
   );
 }

@@ -1,5 +1,7 @@
-/** What other features use of Safety: the patient page's events panel, the overview's live safety, the pause tag and the keys. */
+/**
+ * What other features use of Safety: the patient page's events panel, the overview's live safety
+ * (load it lazily: the overview comes with the app), and the keys.
+ */
 export { AdverseEventsPanel } from './adverse-events-panel';
 export { SafetyOverview } from './safety-state';
-export { PausedTag } from './words';
 export { safetyKeys } from './query-keys';

@@ -4,11 +4,10 @@
  * it is, the protocol's definition in a sentence, and the cautions. Shown to the statistician and
  * the committee only (the server refuses the figures to anyone else).
  */
-import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
+import { Cautions, ErrorNotice, Figure, Loading, Panel, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { percent } from '../../lib/format';
 import { SAFETY_RULE_WORDS } from '../../../../server/words';
 import { useSafety } from './get-safety';
-import { PausedTag } from './words';
 import type { CohortSafety } from './types';
 
 function RuleFigures({ cohort }: { cohort: CohortSafety }) {
@@ -43,7 +42,7 @@ export function CohortSafetyBlock({ cohort }: { cohort: CohortSafety }) {
           <span className="font-mono text-xs text-ink-500">{cohort.cohortCode}</span> {cohort.cohortName}
         </h3>
         <StatusTag status={cohort.status} />
-        {cohort.safetyPause && <PausedTag />}
+        {cohort.safetyPause && <SafetyPauseTag />}
         {cohort.rule && <span className="text-xs text-ink-500">{SAFETY_RULE_WORDS[cohort.rule.safetyRule]} · design v{cohort.rule.version}</span>}
       </div>
       {cohort.counts && (

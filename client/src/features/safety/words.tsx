@@ -40,11 +40,3 @@ export const outcomeLabel = (outcome: EventOutcome) => EVENT_OUTCOME_WORDS[outco
 export function SeriousTag({ serious }: { serious: boolean }) {
   return serious ? <Tag icon="✚" strong>Serious</Tag> : <span className="text-xs text-ink-500">Not serious</span>;
 }
-
-export function PausedTag() {
-  return (
-    <Tag icon="⏸" strong>
-      Accrual paused for safety
-    </Tag>
-  );
-}

@@ -1,9 +1,12 @@
-import { Panel, StatusTag } from '../../components/ui';
+import { lazy, Suspense } from 'react';
+import { Loading, Panel, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import { hasAnyRole, ROLE_LABELS } from '../../lib/roles';
 import { useTrialContext } from '../trials';
-import { PausedTag, SafetyOverview } from '../safety';
 import { EvaluationPanel } from './evaluation-panel';
+
+// Safety's page code stays out of the bundle the app starts with.
+const SafetyOverview = lazy(() => import('../safety').then((m) => ({ default: m.SafetyOverview })));
 
 export function OverviewPage() {
   const trial = useTrialContext();
@@ -32,7 +35,7 @@ export function OverviewPage() {
               </span>
               <span className="flex flex-wrap justify-end gap-1">
                 <StatusTag status={cohort.status} />
-                {cohort.safetyPause && <PausedTag />}
+                {cohort.safetyPause && <SafetyPauseTag />}
               </span>
             </li>
           ))}
@@ -44,7 +47,9 @@ export function OverviewPage() {
       {/* Safety figures, like efficacy figures, are the statistician's and the committee's. */}
       {hasAnyRole(trial.myRoles, ['statistician', 'monitor']) && (
         <div className="lg:col-span-3">
-          <SafetyOverview trialId={trial.id} />
+          <Suspense fallback={<Loading label="Loading the safety state" />}>
+            <SafetyOverview trialId={trial.id} />
+          </Suspense>
         </div>
       )}
     </div>
