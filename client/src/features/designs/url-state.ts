@@ -111,7 +111,7 @@ export function withValues(params: URLSearchParams, values: StudioValues): URLSe
 export function comparedSettings(params: URLSearchParams): DesignSettings | null {
   if (params.get('run') !== '1' || params.get('rule') === 'bryant_day') return null;
   const raw = Object.fromEntries(NUMBERS.map((key) => [key, toNumber(params.get(key))]));
-  return designSettingsSchema.isValidSync(raw) ? (raw) : null;
+  return designSettingsSchema.isValidSync(raw) ? raw : null;
 }
 
 /** Whether the form still holds the settings (and safety rule) of the comparison in the address. */
@@ -134,7 +134,7 @@ export function comparedSafetySettings(params: URLSearchParams): SafetyDesignSet
     beta: number('beta'),
     nmax: number('nmax'),
   };
-  return safetyDesignSettingsSchema.isValidSync(raw) ? (raw as SafetyDesignSettings) : null;
+  return safetyDesignSettingsSchema.isValidSync(raw) ? raw : null;
 }
 
 /** The continuous boundary's θ and α when a comparison with a toxicity boundary was asked for. */
