@@ -11,7 +11,7 @@ import globals from 'globals';
 /** Server folders of the shared kernel: any feature imports them directly. */
 const KERNEL = 'server/(http|db|csv|mail|signatures|stats)';
 /** Single kernel files that sit in a feature's folder or at the top. */
-const KERNEL_FILES = ['server/auth/access.ts', 'server/audit/audit.ts', 'server/config.ts', 'server/hooks.ts'];
+const KERNEL_FILES = ['server/auth/access.ts', 'server/auth/visibility.ts', 'server/audit/audit.ts', 'server/config.ts', 'server/hooks.ts'];
 
 const feature = { element: { type: 'feature' } };
 const otherFeature = { element: { type: 'feature', captured: { feature: '!{{ from.element.captured.feature }}' } } };

@@ -6,7 +6,8 @@
  * (site roles see their own sites' rows).
  */
 import type { Db } from '../db/knex.js';
-import { siteScope, type Actor } from '../auth/access.js';
+import type { Actor } from '../auth/access.js';
+import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
 import { findProtocolSettings, findTrial, type Cohort, type Trial } from '../trials/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
@@ -293,7 +294,7 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
   };
 }
 
-/** The Accrual page as the actor sees it: site roles get their own sites' rows. */
+/** The Accrual page as the actor sees it: operational figures only; site staff get their own sites' rows. */
 export async function accrualFor(db: Db, actor: Actor, today: string): Promise<TrialAccrual> {
-  return trialAccrual(db, actor.access.trialId, { today, sites: siteScope(actor.access) });
+  return trialAccrual(db, actor.access.trialId, { today, sites: operationalSites(actor.access) });
 }

@@ -32,9 +32,15 @@ export function hasRole(access: TrialAccess | undefined, ...roles: Role[]): bool
 export const hasAnyRole = (mine: readonly string[] | undefined, allowed: readonly Role[]) =>
   !!mine && mine.some((role) => (allowed as readonly string[]).includes(role));
 
-/** Site roles see their own sites only; every other role that reaches patient data sees all. */
-export function siteScope(access: TrialAccess): string[] | 'all' {
-  return access.roles.some((role) => !SITE_ROLES.includes(role)) ? 'all' : access.siteIds;
+/** Roles that read every site's patient records: the statistician and committee members (the rule: server/auth/visibility.ts). */
+export const ALL_SITES_ROLES: readonly Role[] = ['statistician', 'monitor'];
+
+/**
+ * Sites whose patient records the user reads: every site for the statistician and committee
+ * members, their own for site staff, none for anyone else — whatever other roles they hold.
+ */
+export function siteScope(access: Pick<TrialAccess, 'roles' | 'siteIds'>): string[] | 'all' {
+  return hasAnyRole(access.roles, ALL_SITES_ROLES) ? 'all' : access.siteIds;
 }
 
 /** Patient data is written by the site roles at their own sites only, whatever other roles they hold. */

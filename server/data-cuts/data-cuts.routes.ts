@@ -1,13 +1,17 @@
 /**
  * Data cuts, their analysis, the committee's signed recommendations, the applied decision, the
  * report and the exports. Statisticians freeze and analyse cuts and apply decisions (admins may
- * apply too); committee members (monitors) read cuts and sign recommendations. Coordinators,
- * investigators and sponsors are kept out of every route here.
+ * apply too); committee members (monitors) read cuts and sign recommendations. Who reads a cut is
+ * the visibility rule's `FROZEN_CUT_READERS` (server/auth/visibility.ts): coordinators, investigators
+ * and sponsors are kept out of every route here, and see a released cut's figures only as the
+ * evaluation and the Portfolio project them.
  */
 import { number, object } from 'yup';
 import type { Request } from 'express';
 import { sendCsv } from '../csv/upload.js';
 import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import type { Role } from '../auth/access.js';
+import { FROZEN_CUT_READERS } from '../auth/visibility.js';
 import { parseBody, parseQuery } from '../http/validate.js';
 import { createDataCutSchema, decisionSchema, priorSchema, recommendationSchema } from './data-cuts.schema.js';
 import {
@@ -24,8 +28,8 @@ import {
   trialOfCut,
 } from './data-cuts.service.js';
 
-const READERS = ['statistician', 'monitor'] as const;
-const cutAccess = (roles: readonly ('statistician' | 'monitor' | 'admin')[]) =>
+const READERS = FROZEN_CUT_READERS;
+const cutAccess = (roles: readonly Role[]) =>
   ({ kind: 'trial', roles, trialOf: async (db, params) => trialOfCut(db, params.cutId) }) as const satisfies RouteSpec['access'];
 
 const cutId = (req: Request) => String(req.params.cutId);

@@ -7,6 +7,7 @@ import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
+import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
@@ -18,6 +19,7 @@ import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
 import { adrsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
+import { insertReleasedFigures } from '../evaluation/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
 import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
@@ -278,6 +280,7 @@ export async function signWithin(
     after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
   });
   if (options.notify !== false) {
+    // A recommendation on a cut not yet released is live efficacy: it goes to the statisticians only.
     const statisticians = await statisticianEmails(trx, cut.trialId);
     await enqueueMail(
       trx,
@@ -388,7 +391,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
     appliedBy: actor.id,
   });
-  await releaseToSponsor(trx, cutId);
+  await releaseCohort(trx, cut, cohortId, decisionId, actor);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: cut.trialId,
@@ -400,7 +403,9 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     reason,
   });
   if (options.notify !== false) {
-    const recipients = await decisionRecipients(trx, cut.trialId);
+    // The decision is a verdict on the cut it releases: its readers are the release's audience.
+    const audience = recipientRoles('released-efficacy', ['coordinator', 'investigator', 'sponsor']);
+    const recipients = (await decisionRecipients(trx, cut.trialId)).filter((r) => audience.includes(r.role as Role));
     const mail = decisionMail(cut.snapshot.trial.code, current.code, input.action, reason, cut, stopCategory);
     await enqueueMail(
       trx,
@@ -414,6 +419,38 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
     );
   }
   return { decision: (await listDecisions(trx, cutId)).find((d) => d.id === decisionId), appliedByName: await findUserName(trx, actor.id) };
+}
+
+/**
+ * Releases what a committee decision on the cut makes visible beyond the committee: the cut is
+ * marked released, and the cohort's figures from the cut's analysis are kept as they stand (one
+ * computation: `analyseCut` on the frozen copy), with an audit row. Later outcomes never move them.
+ */
+export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortId: string, decisionId: string, actor: Author): Promise<void> {
+  await releaseToSponsor(trx, cut.id);
+  const analysis = await analyseDataCut(trx, cut.id);
+  if (!analysis.integrity.intact) throw new ConflictError('The data cut no longer matches its content hash: nothing can be released from it.');
+  const cohort = analysis.cohorts.find((c) => c.cohortId === cohortId);
+  // A cohort without a locked design at the cut has no figures to release.
+  if (!cohort?.counts) return;
+  const { counts, responseRate, exactTest, rule, inference, bayes } = cohort;
+  await insertReleasedFigures(trx, {
+    cutId: cut.id,
+    cohortId,
+    decisionId,
+    cutSeq: cut.seq,
+    cutKind: cut.kind,
+    cutAt: cut.cutAt,
+    figures: { counts, responseRate, exactTest, rule, inference, bayes },
+  });
+  await writeAudit(trx, {
+    actorUserId: actor.id,
+    trialId: cut.trialId,
+    entityType: 'data_cut',
+    entityId: cut.id,
+    action: 'figures_released',
+    after: { cohortId, decisionId, cutAt: cut.cutAt, responders: counts.responders, decided: counts.decided, pending: counts.pending },
+  });
 }
 
 /** The cut's PDF report; its hash is kept on the cut, so a printed copy can be checked against it. */

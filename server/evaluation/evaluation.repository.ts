@@ -37,7 +37,7 @@ const rulesBindings = (rules: CountingRule[]) =>
   [rules.map((r) => r.cohortId), rules.map((r) => r.population === 'evaluable'), rules.map((r) => r.n1), rules.map((r) => r.n)] as Knex.RawBinding[];
 
 // The effective outcome: under "all enrolled" a patient who is not evaluable counts as a non-responder.
-const COUNTED_PATIENTS = `select p.cohort_id, p.enrolment_seq, p.evaluable, r.n1, r.n,
+const COUNTED_PATIENTS = `select p.cohort_id, p.site_id, p.enrolment_seq, p.evaluable, r.n1, r.n,
     (not r.evaluable_only or p.evaluable) as counts,
     case when not r.evaluable_only and not p.evaluable then 'non_responder' else p.outcome end as outcome
   from patients p join rules r on r.cohort_id = p.cohort_id`;
@@ -86,6 +86,38 @@ export async function responderPaths(db: Conn, rules: CountingRule[], maxPoints:
     [...rulesBindings(rules), maxPoints],
   );
   return (rows as Array<{ cohort_id: string; evaluable: number; responders: number }>).map((r) => ({ cohortId: r.cohort_id, evaluable: r.evaluable, responders: r.responders }));
+}
+
+/** One site's live counts in one cohort, under the cohort's population. */
+export type SiteCounts = { cohortId: string; siteId: string; siteCode: string; enrolled: number; counted: number; decided: number; responders: number; pending: number };
+
+/** Live counts by cohort and site, for the given sites only (none asked, no query). */
+export async function siteCounts(db: Conn, rules: CountingRule[], siteIds: readonly string[]): Promise<SiteCounts[]> {
+  if (rules.length === 0 || siteIds.length === 0) return [];
+  const { rows } = await db.raw(
+    `with rules as (${RULES_SQL}),
+     counted as (${COUNTED_PATIENTS} where p.site_id = any(?::uuid[]))
+     select c.cohort_id, c.site_id, s.code as site_code,
+            count(*)::int as enrolled,
+            count(*) filter (where c.counts)::int as counted,
+            count(*) filter (where c.counts and c.outcome <> 'pending')::int as decided,
+            count(*) filter (where c.counts and c.outcome = 'responder')::int as responders,
+            count(*) filter (where c.counts and c.outcome = 'pending')::int as pending
+       from counted c join sites s on s.id = c.site_id
+      group by 1, 2, 3
+      order by s.code`,
+    [...rulesBindings(rules), [...siteIds]],
+  );
+  return (rows as Array<{ cohort_id: string; site_id: string; site_code: string; enrolled: number; counted: number; decided: number; responders: number; pending: number }>).map((r) => ({
+    cohortId: r.cohort_id,
+    siteId: r.site_id,
+    siteCode: r.site_code,
+    enrolled: r.enrolled,
+    counted: r.counted,
+    decided: r.decided,
+    responders: r.responders,
+    pending: r.pending,
+  }));
 }
 
 /** Patients of the cohort that count under the population (every one, or the evaluable ones). */

@@ -1,10 +1,12 @@
 /**
- * The live evaluation of a trial's cohorts. Every member may read it: it is aggregate, never
- * patient-level; sponsors get response figures only where the design releases them to sponsors.
+ * The live evaluation of a trial's cohorts. Every member may call it; what each receives follows
+ * the visibility rule (server/auth/visibility.ts): the statistician and committee members every
+ * figure, site staff their own sites' counts, sponsors and site staff the released cut's figures
+ * (and live ones where the design lets sponsors see response), the trial manager operational counts.
  */
 import { actorOf, type RouteSpec } from '../http/routes.js';
 import { ROLES } from '../auth/access.js';
-import { evaluateTrial } from './evaluation.service.js';
+import { evaluationFor } from './evaluation.service.js';
 
 export const evaluationRoutes: RouteSpec[] = [
   {
@@ -12,8 +14,7 @@ export const evaluationRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/evaluation',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      const { access } = actorOf(req);
-      res.json(await evaluateTrial(db, access.trialId, access.roles));
+      res.json(await evaluationFor(db, actorOf(req).access));
     },
   },
 ];

@@ -2,16 +2,20 @@
  * The live evaluation of every cohort of a trial: counts under the protocol's analysis population,
  * the response rate with its exact (Clopper–Pearson) interval, the exact one-sided binomial test
  * against p0, and where the cohort stands against its locked design's rules (including early
- * determination). Aggregate figures only; a sponsor sees response figures only where the design
- * lets them. Numbers come straight from the statistics engine, so they match it by construction.
+ * determination). Aggregate figures only. `evaluateTrial` computes everything; `evaluationFor`
+ * projects it for the viewer by the visibility rule (server/auth/visibility.ts): live figures, the
+ * released cut's figures, own sites' counts. Numbers come straight from the statistics engine, so
+ * they match it by construction.
  */
 import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
-import type { Role } from '../auth/access.js';
+import type { TrialAccess } from '../auth/access.js';
+import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
 import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { trialFacts } from '../trials/index.js';
-import { countingGroups, responderPaths, type CountingGroup, type CountingRule } from './evaluation.repository.js';
+import { countingGroups, responderPaths, siteCounts, type CountingGroup, type CountingRule, type SiteCounts } from './evaluation.repository.js';
+import { latestReleased, type ReleasedFigures } from './released.repository.js';
 import { CAUTIONS } from '../words/index.js';
 import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
 
@@ -22,7 +26,7 @@ export const PATH_POINTS = 500;
 
 export type DesignSummary = Pick<
   LockedDesign,
-  'version' | 'selection' | 'p0' | 'p1' | 'alpha' | 'beta' | 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation' | 'interimAccrual' | 'typeIError' | 'power'
+  'version' | 'selection' | 'p0' | 'p1' | 'alpha' | 'beta' | 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation' | 'interimAccrual' | 'sponsorSeesResponse' | 'typeIError' | 'power'
 >;
 
 export type CohortEvaluation = {
@@ -33,14 +37,12 @@ export type CohortEvaluation = {
   design: DesignSummary | null;
   enrolled: number;
   counted: number;
-  /** Response figures below are null when the caller may not see them. */
-  responseHidden: boolean;
-  decided: number | null;
-  pending: number | null;
-  responders: number | null;
-  notEvaluable: number | null;
-  stage1: StageTally | null;
-  stage2: StageTally | null;
+  decided: number;
+  pending: number;
+  notEvaluable: number;
+  responders: number;
+  stage1: StageTally;
+  stage2: StageTally;
   rate: { estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
   test: { x: number; n: number; p0: number; pValue: number; alternative: 'greater' } | null;
   rule: (InterimStatus & { basis: { responders: number; evaluable: number; stage1Responders?: number } }) | null;
@@ -52,6 +54,8 @@ export type CohortEvaluation = {
    * thinned to about PATH_POINTS evenly spaced points; the first and the last are always exact.
    */
   path: Array<{ evaluable: number; responders: number }>;
+  /** Live counts at the sites asked for (a viewer's own sites). */
+  sites: SiteCounts[];
 };
 
 function summary(d: LockedDesign): DesignSummary {
@@ -68,6 +72,7 @@ function summary(d: LockedDesign): DesignSummary {
     n: d.n,
     analysisPopulation: d.analysisPopulation,
     interimAccrual: d.interimAccrual,
+    sponsorSeesResponse: d.sponsorSeesResponse,
     typeIError: d.typeIError,
     power: d.power,
   };
@@ -136,7 +141,10 @@ function earlyDetermination(design: LockedDesign, rule: InterimStatus): { early:
   return { early: rule.message, accrual: null };
 }
 
-export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Promise<{ trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] }> {
+export type TrialEvaluation = { trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] };
+
+/** Every cohort's live evaluation, all of it; `siteIds` asks for those sites' counts too. */
+export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?: readonly string[] } = {}): Promise<TrialEvaluation> {
   const facts = await trialFacts(db, trialId);
   if (!facts) throw new NotFoundError('The trial');
   const cohortIds = facts.cohorts.map((c) => c.id);
@@ -145,41 +153,11 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
     const design = designs.get(cohortId);
     return { cohortId, population: design?.analysisPopulation ?? 'all_enrolled', n1: design?.n1 ?? null, n: design?.n ?? null };
   });
-  const [groups, points] = await Promise.all([countingGroups(db, rules), responderPaths(db, rules, PATH_POINTS)]);
-  const sponsorOnly = roles.every((role) => role === 'sponsor');
+  const [groups, points, sites] = await Promise.all([countingGroups(db, rules), responderPaths(db, rules, PATH_POINTS), siteCounts(db, rules, options.siteIds ?? [])]);
   const cohorts = facts.cohorts.map((cohort): CohortEvaluation => {
     const design = designs.get(cohort.id);
     const mine = groups.filter((g) => g.cohortId === cohort.id);
     const t = tallyOfGroups(mine);
-    const hidden = sponsorOnly && !design?.sponsorSeesResponse;
-    const base = {
-      cohortId: cohort.id,
-      cohortCode: cohort.code,
-      cohortName: cohort.name,
-      status: cohort.status,
-      design: design ? summary(design) : null,
-      enrolled: t.enrolled,
-      counted: t.counted,
-      responseHidden: hidden,
-    };
-    if (hidden) {
-      return {
-        ...base,
-        decided: null,
-        pending: null,
-        responders: null,
-        notEvaluable: null,
-        stage1: null,
-        stage2: null,
-        rate: null,
-        test: null,
-        rule: null,
-        earlyDetermination: null,
-        accrual: null,
-        notes: ['Response figures are not released to the sponsor for this cohort.'],
-        path: [],
-      };
-    }
     const notes: string[] = [];
     let rule: CohortEvaluation['rule'] = null;
     let early: string | null = null;
@@ -196,7 +174,13 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
     const path = points.filter((p) => p.cohortId === cohort.id).map((p) => ({ evaluable: p.evaluable, responders: p.responders }));
     const decided = t.decided;
     return {
-      ...base,
+      cohortId: cohort.id,
+      cohortCode: cohort.code,
+      cohortName: cohort.name,
+      status: cohort.status,
+      design: design ? summary(design) : null,
+      enrolled: t.enrolled,
+      counted: t.counted,
       decided,
       pending: t.pending,
       responders: t.responders,
@@ -216,7 +200,33 @@ export async function evaluateTrial(db: Db, trialId: string, roles: Role[]): Pro
       accrual,
       notes,
       path,
+      sites: sites.filter((s) => s.cohortId === cohort.id),
     };
   });
   return { trialId, confLevel: CONF_LEVEL, cautions: [...CAUTIONS], cohorts };
+}
+
+/**
+ * Keys of a cohort's evaluation that carry live efficacy: responders (also inside the stage
+ * tallies), the rate and its interval, the test, the rule's verdict with the notes and accrual
+ * words that follow from it, and the responders path. Enrolled, counted, decided, pending and not
+ * evaluable are operational.
+ */
+export const LIVE_EFFICACY_KEYS = ['responders', 'stage1', 'stage2', 'rate', 'test', 'rule', 'earlyDetermination', 'accrual', 'notes', 'path'] as const;
+
+export type VisibleCohortEvaluation = Projected<Omit<CohortEvaluation, 'sites'>, (typeof LIVE_EFFICACY_KEYS)[number], ReleasedFigures, SiteCounts>;
+export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: VisibleCohortEvaluation[] };
+
+/** The live evaluation as this viewer may see it: everything computed, then projected cohort by cohort. */
+export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
+  const evaluation = await evaluateTrial(db, access.trialId, { siteIds: access.siteIds });
+  const released = await latestReleased(db, evaluation.cohorts.map((c) => c.cohortId));
+  return {
+    ...evaluation,
+    cohorts: evaluation.cohorts.map(({ sites, ...cohort }) => {
+      const figures = released.get(cohort.cohortId) ?? null;
+      const view = efficacyView(access, { sponsorSeesResponse: cohort.design?.sponsorSeesResponse ?? false, released: figures !== null });
+      return projectEfficacy(view, cohort, LIVE_EFFICACY_KEYS, { released: figures, sites });
+    }),
+  };
 }

@@ -7,6 +7,7 @@
  */
 import type { Knex } from 'knex';
 import { ConflictError } from '../http/errors.js';
+import { recipientRoles } from '../auth/visibility.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
@@ -81,7 +82,8 @@ export async function applyAccrualRules(
     reason: `Stage 1 complete: ${n1} patients counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
   });
   const atRisk = design.interimAccrual === 'continue_at_risk';
-  const recipients = await memberEmails(trx, input.trialId, ['statistician', 'monitor']);
+  // The message carries stage-1 responder counts: live efficacy, for the statistician and committee only.
+  const recipients = await memberEmails(trx, input.trialId, recipientRoles('live-efficacy', ['statistician', 'monitor']));
   const label = `${input.trialCode} ${cohort.code}`;
   const accrualLine = atRisk
     ? 'The protocol lets accrual continue at risk during the review: sites may keep enrolling.'

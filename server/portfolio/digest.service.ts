@@ -1,15 +1,16 @@
 /**
  * The weekly digest to sponsors: one e-mail per sponsor summarising accrual of the trials they
- * sponsor — aggregate counts, the next milestone, projections and idle sites; response figures only
- * where the protocol or a released data cut lets a sponsor see them, even when the recipient holds
- * other roles too (mail travels further than a screen). The scheduled job (server/jobs/weekly-digest.ts)
- * queues these once per ISO week; the development preview renders one without queueing it.
+ * sponsor — aggregate counts, the next milestone, projections and idle sites; response figures as
+ * the visibility rule gives them to a sponsor (the released cut's frozen figures with its date, live
+ * ones only where the locked design allows), even when the recipient holds other roles too (mail
+ * travels further than a screen). The scheduled job (server/jobs/weekly-digest.ts) queues these once
+ * per ISO week; the development preview renders one without queueing it.
  */
 import type { Db } from '../db/knex.js';
 import type { SessionUser } from '../auth/access.js';
 import { listTrialsForUser, type TrialForUser } from '../trials/index.js';
 import { isoWeekOf, toDay, trialAccrual, type TrialAccrual } from '../accrual/index.js';
-import { portfolioRows, type PortfolioRow } from './portfolio.service.js';
+import { portfolioRows, type PortfolioRow, type ResponseFigures } from './portfolio.service.js';
 import { sponsorRecipients, type SponsorRecipient } from '../people/index.js';
 import { DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, plural } from '../words/index.js';
 
@@ -17,6 +18,14 @@ import { DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, plural } from '..
 const CAUTIONS = [DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES];
 
 export type Digest = { period: string; to: string; subject: string; text: string };
+
+/** The digest is written as a sponsor sees the trial, whatever else the recipient holds there. */
+const SPONSOR_VIEW = { roles: ['sponsor' as const], siteIds: [] };
+
+function responseWords(figures: ResponseFigures): string {
+  const rate = figures.responseRate === null ? '—' : `${(figures.responseRate * 100).toFixed(1)}%`;
+  return `${plural(figures.responders, 'responder')} among ${plural(figures.outcomesKnown, 'known outcome')} (${rate}, naive estimate)`;
+}
 
 function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {
   const target = row.design
@@ -36,11 +45,11 @@ function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {
       lines.push(`    ${label}: ${projection.expected ? `expected ${projection.expected}${range}` : 'cannot project'} — ${projection.note}`);
     }
   }
-  if (row.responseFiguresHidden) lines.push(`    Response figures: not shown. ${row.responseFiguresHiddenReason}`);
-  else {
-    const rate = row.responseRate === null || row.responseRate === undefined ? '—' : `${(row.responseRate * 100).toFixed(1)}%`;
-    lines.push(`    Response: ${plural(row.responders ?? 0, 'responder')} among ${plural(row.outcomesKnown ?? 0, 'known outcome')} (${rate}, naive estimate)`);
-  }
+  // The projection keeps the live keys exactly when it gives no reason for hiding them.
+  const live = row.efficacyHidden === undefined ? (row as PortfolioRow & ResponseFigures) : null;
+  if (live) lines.push(`    Response (live): ${responseWords(live)}`);
+  if (row.released) lines.push(`    Response ${row.released.label}: ${responseWords(row.released)}`);
+  if (!live && !row.released) lines.push(`    Response figures: not shown. ${row.efficacyHidden}`);
   if (row.lastRecommendation) lines.push(`    Last committee recommendation: ${row.lastRecommendation.words} (${row.lastRecommendation.on})`);
   return lines;
 }
@@ -63,7 +72,7 @@ async function composeDigest(db: Db, recipient: SponsorRecipient, now: Date, cac
   const period = isoWeekOf(today);
   const trials = (await listTrialsForUser(db, recipient.userId)).filter((t) => recipient.trialIds.includes(t.id));
   if (trials.length === 0) return null;
-  const rows = await portfolioRows(db, trials, { today, sponsorViewAlways: true });
+  const rows = await portfolioRows(db, trials, { today, viewAs: SPONSOR_VIEW });
   const sections: string[] = [];
   for (const trial of trials) {
     if (!cache.has(trial.id)) cache.set(trial.id, trialAccrual(db, trial.id, { today, sites: 'all' }));
@@ -71,7 +80,7 @@ async function composeDigest(db: Db, recipient: SponsorRecipient, now: Date, cac
   }
   const text = [
     `Orrery weekly digest, week ${period} (figures as of ${today})`,
-    `For ${recipient.name ?? recipient.email}: accrual of the ${plural(trials.length, 'trial')} you sponsor. Aggregate counts only; response figures appear only where the protocol or a released data cut allows it. Projections use the last 90 days' accrual; the range comes from the slowest and fastest of the last complete months.`,
+    `For ${recipient.name ?? recipient.email}: accrual of the ${plural(trials.length, 'trial')} you sponsor. Aggregate counts only; response figures are those of the data cut a committee decision released, as of that cut's date (live ones only where the protocol allows it). Projections use the last 90 days' accrual; the range comes from the slowest and fastest of the last complete months.`,
     '',
     ...sections,
     'Read with care:',

@@ -1,14 +1,12 @@
 /**
- * What the committee has done with each cohort's data cuts: the latest recommendation, a cut
- * still waiting for review, and whether a cut was released to the sponsor. A cut without a
- * cohort covers every cohort of its trial. One aggregate query for all cohorts at once.
+ * What the committee has done with each cohort's data cuts: the latest recommendation and a cut
+ * still waiting for review (what was released lives with the evaluation's released figures). A cut
+ * without a cohort covers every cohort of its trial. One aggregate query for all cohorts at once.
  */
 import type { Db } from '../db/knex.js';
 
 export type CommitteeState = {
   cohortId: string;
-  /** When a cut of this cohort was first released to the sponsor; null if never. */
-  releasedToSponsorAt: string | null;
   /** Date of the latest cut when it has neither a recommendation nor an applied decision yet. */
   reviewPendingSince: string | null;
   lastRecommendation: { decision: string; on: string } | null;
@@ -18,12 +16,11 @@ export async function committeeStates(db: Db, cohortIds: string[]): Promise<Map<
   if (cohortIds.length === 0) return new Map();
   const { rows } = await db.raw(
     `with cuts as (
-       select c.id as cohort_id, d.id as cut_id, d.cut_at, d.released_to_sponsor_at
+       select c.id as cohort_id, d.id as cut_id, d.cut_at
          from cohorts c
          join data_cuts d on d.trial_id = c.trial_id and (d.cohort_id = c.id or d.cohort_id is null)
         where c.id = any(?::uuid[]))
      select c.id as cohort_id,
-            (select min(released_to_sponsor_at) from cuts where cuts.cohort_id = c.id) as released_at,
             latest.cut_at as latest_cut_at,
             latest.reviewed,
             rec.decision, rec.created_at as decided_at
@@ -44,11 +41,10 @@ export async function committeeStates(db: Db, cohortIds: string[]): Promise<Map<
   );
   const day = (value: Date | null) => (value ? value.toISOString().slice(0, 10) : null);
   return new Map(
-    rows.map((row: { cohort_id: string; released_at: Date | null; latest_cut_at: Date | null; reviewed: boolean | null; decision: string | null; decided_at: Date | null }) => [
+    rows.map((row: { cohort_id: string; latest_cut_at: Date | null; reviewed: boolean | null; decision: string | null; decided_at: Date | null }) => [
       row.cohort_id,
       {
         cohortId: row.cohort_id,
-        releasedToSponsorAt: row.released_at ? row.released_at.toISOString() : null,
         reviewPendingSince: row.latest_cut_at && !row.reviewed ? day(row.latest_cut_at) : null,
         lastRecommendation: row.decision && row.decided_at ? { decision: row.decision, on: day(row.decided_at) as string } : null,
       },

@@ -3,21 +3,23 @@
  * enrolment against n1 and n, the next milestone, the committee's last recommendation — built
  * from aggregate queries only.
  *
- * Sponsors (users whose only role on a trial is sponsor) get aggregate counts. Response figures
- * (responders, known outcomes, response rate) reach them only where the design lets the sponsor
- * see response or a data cut of the cohort was released to the sponsor; otherwise the keys are
- * left out of the row entirely and `responseFiguresHidden` says why. Site staff (coordinators and
- * investigators without a trial-wide role) follow the same rule: their scope is their own
- * sites, so trial-wide response figures are theirs only once released.
+ * Every row is computed in full, then projected by the visibility rule (server/auth/visibility.ts)
+ * for the user's roles on that trial: live response figures (responders, known outcomes, rate,
+ * stage-1 responders) and the committee's last recommendation only for the statistician and
+ * committee members, or where the locked design lets sponsors see response; the figures of the
+ * cut a committee decision released, labelled with the cut's date, for sponsors and site staff;
+ * operational counts only for the trial manager. Hidden keys are absent and `efficacyHidden` says why.
  */
 import type { Db } from '../db/knex.js';
-import type { Role, SessionUser } from '../auth/access.js';
+import type { Role, SessionUser, TrialAccess } from '../auth/access.js';
+import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
+import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
 import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
 import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
-import { committeeStates, type CommitteeState } from './portfolio.repository.js';
+import { committeeStates } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
 import type { PortfolioFilter } from './portfolio.schema.js';
 
@@ -25,33 +27,37 @@ export type Progress = { counted: number; target: number; fraction: number };
 
 export type ResponseFigures = { responders: number; outcomesKnown: number; responseRate: number | null; stage1Responders: number };
 
-export type PortfolioRow = EnrolmentCounts & {
-  trialId: string;
-  trialCode: string;
-  trialTitle: string;
-  indication: string;
-  sponsorName: string | null;
-  myRoles: Role[];
-  /** 'sponsor' when the user's only role on the trial is sponsor; 'site' for site staff without a trial-wide role. */
-  view: RowView;
-  cohortId: string;
-  cohortCode: string;
-  cohortName: string;
-  cohortCount: number;
-  status: Cohort['status'];
-  statusWords: string;
-  stage: 1 | 2 | null;
-  stageWords: string;
-  design: DesignTargets | null;
-  progress: { n1: Progress | null; n: Progress | null };
-  nextMilestone: Milestone;
-  lastRecommendation: { decision: string; words: string; on: string } | null;
-  committeeReviewPendingSince: string | null;
-  releasedToSponsorAt: string | null;
-  responseFiguresHidden: boolean;
-  /** Why the response figures are hidden, in a sentence; only when they are. */
-  responseFiguresHiddenReason?: string;
-} & Partial<ResponseFigures>;
+/** A released cut's response figures, in the row's terms, with the cut they stand at. */
+export type ReleasedResponse = ResponseFigures & { cutId: string; cutSeq: number; cutAt: string; releasedAt: string };
+
+/** A row as computed, before the visibility rule. */
+type ComputedRow = EnrolmentCounts &
+  ResponseFigures & {
+    trialId: string;
+    trialCode: string;
+    trialTitle: string;
+    indication: string;
+    sponsorName: string | null;
+    myRoles: Role[];
+    cohortId: string;
+    cohortCode: string;
+    cohortName: string;
+    cohortCount: number;
+    status: Cohort['status'];
+    statusWords: string;
+    stage: 1 | 2 | null;
+    stageWords: string;
+    design: DesignTargets | null;
+    progress: { n1: Progress | null; n: Progress | null };
+    nextMilestone: Milestone;
+    lastRecommendation: { decision: string; words: string; on: string } | null;
+    committeeReviewPendingSince: string | null;
+  };
+
+/** Keys of a row that carry live efficacy; a recommendation is a verdict on unreleased figures. */
+const LIVE_KEYS = ['responders', 'outcomesKnown', 'responseRate', 'stage1Responders', 'lastRecommendation'] as const;
+
+export type PortfolioRow = Projected<ComputedRow, (typeof LIVE_KEYS)[number], ReleasedResponse>;
 
 export type Portfolio = {
   asOf: string;
@@ -60,30 +66,16 @@ export type Portfolio = {
   indications: string[];
 };
 
-export type RowView = 'full' | 'sponsor' | 'site';
-
-const TRIAL_WIDE_ROLES: readonly Role[] = ['admin', 'statistician', 'monitor'];
-
-/** How a user with these roles on a trial sees its rows. */
-export function viewFor(roles: readonly Role[]): RowView {
-  if (roles.some((role) => TRIAL_WIDE_ROLES.includes(role))) return 'full';
-  return roles.every((role) => role === 'sponsor') ? 'sponsor' : 'site';
-}
-
-const HIDDEN_REASON: Record<Exclude<RowView, 'full'>, string> = {
-  sponsor: 'Response figures are shown to sponsors only when the protocol allows it or the statistician releases a data cut.',
-  site: 'Trial-wide response figures are shown to site staff only when the protocol allows it or the statistician releases a data cut; your own patients are on the Patients page.',
-};
-
-/** Whether response figures may be shown, and if not, why. */
-export function responseVisibility(
-  view: RowView,
-  design: Pick<LockedDesign, 'sponsorSeesResponse'> | undefined,
-  committee: Pick<CommitteeState, 'releasedToSponsorAt'> | undefined,
-): { visible: true } | { visible: false; reason: string } {
-  if (view === 'full' || design?.sponsorSeesResponse || committee?.releasedToSponsorAt) return { visible: true };
-  return { visible: false, reason: HIDDEN_REASON[view] };
-}
+const releasedResponse = (figures: ReleasedFigures): ReleasedResponse => ({
+  responders: figures.counts.responders,
+  outcomesKnown: figures.counts.decided,
+  responseRate: figures.responseRate?.estimate ?? null,
+  stage1Responders: figures.counts.stage1.responders,
+  cutId: figures.cutId,
+  cutSeq: figures.cutSeq,
+  cutAt: figures.cutAt,
+  releasedAt: figures.releasedAt,
+});
 
 function stageOf(status: Cohort['status'], design: LockedDesign | undefined, counted: number): PortfolioRow['stage'] {
   if (!design || status === 'draft') return null;
@@ -100,32 +92,39 @@ function decisionWords(decision: string): string {
   return RECOMMENDATION_LABELS[decision as RecommendationDecision] ?? decision.replace(/_/g, ' ');
 }
 
-/** One row per cohort; `sponsorViewAlways` renders every row as a sponsor sees it (the digest). */
+/**
+ * One row per cohort, each projected for the viewer's roles on its trial; `viewAs` projects every
+ * row for the given access instead (the digest: as a sponsor sees it, whatever else the recipient holds).
+ */
 export async function portfolioRows(
   db: Db,
   trials: TrialForUser[],
-  options: { today: string; sponsorViewAlways?: boolean },
+  options: { today: string; viewAs?: Pick<TrialAccess, 'roles' | 'siteIds'> },
 ): Promise<PortfolioRow[]> {
   const { today } = options;
   const cohortIds = trials.flatMap((t) => t.cohorts.map((c) => c.id));
-  const [designs, tallies, committee] = await Promise.all([currentDesigns(db, cohortIds), cohortTallies(db, cohortIds, today), committeeStates(db, cohortIds)]);
+  const [designs, tallies, committee, released] = await Promise.all([
+    currentDesigns(db, cohortIds),
+    cohortTallies(db, cohortIds, today),
+    committeeStates(db, cohortIds),
+    latestReleased(db, cohortIds),
+  ]);
   return trials.flatMap((trial) => {
-    const view = options.sponsorViewAlways ? 'sponsor' : viewFor(trial.myRoles);
+    const access = options.viewAs ?? { roles: trial.myRoles, siteIds: [] };
     return trial.cohorts.map((cohort): PortfolioRow => {
       const design = designs.get(cohort.id);
       const tally = tallies.get(cohort.id) ?? emptyTally(cohort.id);
       const counts = countsUnder(tally, design?.analysisPopulation ?? 'all_enrolled');
       const state = committee.get(cohort.id);
       const stage = stageOf(cohort.status, design, counts.counted);
-      const visibility = responseVisibility(view, design, state);
-      const row: PortfolioRow = {
+      const outcomesKnown = counts.counted - counts.pending;
+      const row: ComputedRow = {
         trialId: trial.id,
         trialCode: trial.code,
         trialTitle: trial.title,
         indication: trial.indication,
         sponsorName: trial.sponsorName,
         myRoles: trial.myRoles,
-        view,
         cohortId: cohort.id,
         cohortCode: cohort.code,
         cohortName: cohort.name,
@@ -151,18 +150,14 @@ export async function portfolioRows(
           ? { ...state.lastRecommendation, words: decisionWords(state.lastRecommendation.decision) }
           : null,
         committeeReviewPendingSince: state?.reviewPendingSince ?? null,
-        releasedToSponsorAt: state?.releasedToSponsorAt ?? null,
-        responseFiguresHidden: !visibility.visible,
-      };
-      if (!visibility.visible) return { ...row, responseFiguresHiddenReason: visibility.reason };
-      const outcomesKnown = counts.counted - counts.pending;
-      return {
-        ...row,
         responders: counts.responders,
         outcomesKnown,
         responseRate: outcomesKnown > 0 ? counts.responders / outcomesKnown : null,
         stage1Responders: counts.stage1Responders,
       };
+      const figures = released.get(cohort.id);
+      const view = efficacyView(access, { sponsorSeesResponse: design?.sponsorSeesResponse ?? false, released: figures !== undefined });
+      return projectEfficacy(view, row, LIVE_KEYS, { released: figures && releasedResponse(figures) });
     });
   });
 }

@@ -26,3 +26,4 @@ export {
   toxicityDefinitionSentence,
 } from './safety.js';
 export { CAUTIONS, DECISION_SUPPORT_ONLY, INTERIM_DATA, NAIVE_ESTIMATES, SIZE_DEVIATION } from './cautions.js';
+export { liveFiguresHidden, releasedAsOf, type HiddenAudience } from './visibility.js';

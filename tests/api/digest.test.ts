@@ -1,13 +1,14 @@
 /**
  * The weekly digest to sponsors: a scheduled job claimed once per ISO week across server
- * processes, one e-mail per sponsor, aggregate figures with response figures only where released,
- * and a development preview.
+ * processes, one e-mail per sponsor, aggregate figures with response figures only where released
+ * (the released cut's frozen figures, under its date), and a development preview.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eventually, startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type Member, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
-import { cutDataDirectly, daysAgo } from '../support/accrual-factories.js';
+import { daysAgo } from '../support/accrual-factories.js';
+import { releaseCutDirectly } from '../support/data-cut-factories.js';
 import { isoWeekOf, toDay } from '../../server/accrual/calendar.js';
 
 const OTHER_SPONSOR = 'lena.stat@tessaly.test';
@@ -36,7 +37,7 @@ beforeAll(async () => {
   stack = await startStack();
   hidden = await trialWithPatients();
   released = await trialWithPatients();
-  await cutDataDirectly(stack.db, { trialId: released.trialId, cohortId: released.cohortIds[0], releasedToSponsorAt: new Date() });
+  await releaseCutDirectly(stack.db, released);
   otherSponsors = await trialWithPatients([
     { email: DEMO.statistician, role: 'statistician' },
     { email: OTHER_SPONSOR, role: 'sponsor' },
@@ -66,7 +67,7 @@ describe('weekly digest', () => {
     expect(await stack.db('job_runs').where({ job: 'weekly-digest' }).orderBy('period').pluck('period')).toEqual(['2026-W50', '2026-W51']);
 
     const caught = await eventually(() => (stack.catcher.messages.filter((m) => m.subject.startsWith('Orrery weekly digest')).length === 4 ? stack.catcher.messages : undefined));
-    expect(caught.filter((m) => m.to.includes(DEMO.sponsor))).toHaveLength(2);
+    expect(caught.filter((m) => m.to.includes(DEMO.sponsor) && m.subject.startsWith('Orrery weekly digest'))).toHaveLength(2);
   });
 
   it('when the digest is written, then a sponsor reads aggregate counts and response figures only for the released trial', async () => {
@@ -75,9 +76,10 @@ describe('weekly digest', () => {
     expect(section(hidden.code)).toContain('Enrolled 4');
     expect(section(hidden.code)).toContain('Response figures: not shown.');
     expect(section(hidden.code)).not.toMatch(/Response: |responders? among/);
-    expect(section(released.code)).toContain('Response: 1 responder among 3 known outcomes (33.3%, naive estimate)');
+    expect(section(released.code)).toMatch(/Response as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}: 1 responder among 3 known outcomes \(33\.3%, naive estimate\)/);
+    expect(section(released.code)).not.toMatch(/Response \(live\)|Last committee recommendation/);
     expect(section(hidden.code)).toContain('Next: stage-1 cohort complete in ~9 patients');
-    expect(section(released.code)).toMatch(/Next: committee review pending/);
+    expect(section(released.code)).toMatch(/Next: full cohort \(n = 43\) enrolled/);
     expect(mail.body_text).toContain('Decision support only');
     expect(mail.body_text).not.toContain(otherSponsors.code);
     const [other] = (await digestRows()).filter((r) => r.to_address === OTHER_SPONSOR);

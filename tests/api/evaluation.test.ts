@@ -59,14 +59,14 @@ describe('the live evaluation', () => {
 
   it('when r1 + 1 responders are reached before n1 (common practice: stage 1 is then settled), then the evaluation says so and what happens to accrual', async () => {
     const trial = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43 }, [R, R, N, R, R, P, P]);
-    const res = await s.coordinator.get(`/api/trials/${trial.trialId}/evaluation`);
+    const res = await s.statistician.get(`/api/trials/${trial.trialId}/evaluation`);
     const c = res.body.cohorts[0];
     expect(c.rule).toMatchObject({ stage: 'stage1', decision: 'continue', determinedEarly: true, remainingToDecide: 0 });
     expect(c.rule).toMatchObject(evaluateTwoStage({ r1: 3, n1: 13, r: 12, n: 43 }, { responders: 4, evaluable: 5 }));
     expect(c.earlyDetermination).toMatch(/^Stage 1 is settled early: r1 \+ 1 = 4 responders were reached before n1 = 13/);
     expect(c.accrual).toMatch(/still pauses at n1 = 13/);
     const atRisk = await arrange({ p0: 0.2, p1: 0.4, r1: 3, n1: 13, r: 12, n: 43, interimAccrual: 'continue_at_risk' }, [R, R, R, R]);
-    const other = (await s.coordinator.get(`/api/trials/${atRisk.trialId}/evaluation`)).body.cohorts[0];
+    const other = (await s.statistician.get(`/api/trials/${atRisk.trialId}/evaluation`)).body.cohorts[0];
     expect(other.accrual).toMatch(/continue at risk/);
   });
 
@@ -90,12 +90,20 @@ describe('the live evaluation', () => {
     expect(c.rule).toMatchObject({ ...evaluateTwoStage({ r: 10, n: 35 }, { responders: 1, evaluable: 2 }), stage: 'single' });
   });
 
-  it('when the design releases response figures to the sponsor, then the sponsor sees them; the admin always sees the aggregate figures', async () => {
+  it('when the design lets sponsors see response, then the sponsor gets the live figures; otherwise neither the sponsor nor the trial manager gets a response key, and each is told why', async () => {
     const hidden = await arrange({}, [R, N]);
-    expect((await s.sponsor.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: true, enrolled: 2, responders: null });
-    expect((await s.admin.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: false, responders: 1 });
+    for (const who of [s.sponsor, s.admin]) {
+      const c = (await who.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0];
+      expect(c).toMatchObject({ enrolled: 2, counted: 2, decided: 2, pending: 0 });
+      for (const key of ['responders', 'stage1', 'stage2', 'rate', 'test', 'rule', 'earlyDetermination', 'accrual', 'notes', 'path', 'released', 'ownSites']) expect(c).not.toHaveProperty(key);
+      expect(c.efficacyHidden).toEqual(expect.any(String));
+    }
+    expect((await s.admin.get(`/api/trials/${hidden.trialId}/evaluation`)).body.cohorts[0].efficacyHidden).toMatch(/operational figures only/);
     const shown = await arrange({ sponsorSeesResponse: true }, [R, N]);
-    expect((await s.sponsor.get(`/api/trials/${shown.trialId}/evaluation`)).body.cohorts[0]).toMatchObject({ responseHidden: false, responders: 1, decided: 2 });
+    const sponsorView = (await s.sponsor.get(`/api/trials/${shown.trialId}/evaluation`)).body.cohorts[0];
+    expect(sponsorView).toMatchObject({ responders: 1, decided: 2, rate: { estimate: 0.5 } });
+    expect(sponsorView).not.toHaveProperty('efficacyHidden');
+    expect((await s.admin.get(`/api/trials/${shown.trialId}/evaluation`)).body.cohorts[0]).not.toHaveProperty('responders');
   });
 
   it('when a cohort has no locked design, then counts are given and the rule state is absent', async () => {

@@ -84,7 +84,8 @@ describe('site scoping and who sees patient-level rows', () => {
 
   it('when the sponsor reads the evaluation of a design that does not release response figures, then only enrolment counts are there', async () => {
     const res = await s.sponsor.get(`/api/trials/${trial.trialId}/evaluation`);
-    expect(res.body.cohorts[0]).toMatchObject({ responseHidden: true, responders: null, rate: null, test: null, rule: null, path: [] });
+    for (const key of ['responders', 'rate', 'test', 'rule', 'path']) expect(res.body.cohorts[0]).not.toHaveProperty(key);
+    expect(res.body.cohorts[0].efficacyHidden).toMatch(/sponsors/);
     expect(res.body.cohorts[0].enrolled).toBeGreaterThan(0);
   });
 });

@@ -1,13 +1,15 @@
 /**
  * The Portfolio over HTTP: every trial the user belongs to, one row per cohort, with status,
  * progress against n1 and n, the next milestone and the committee's last recommendation — and
- * response figures kept from sponsors unless the protocol or a released data cut allows them.
+ * live response figures kept from sponsors unless the protocol allows them; a released data cut's
+ * frozen figures instead, labelled with the cut's date.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, addMember, createTrial, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly, type DirectPatient } from '../support/patient-factories.js';
 import { PATIENT_LEVEL_KEYS, RESPONSE_KEYS, cutDataDirectly, daysAgo, keysDeep, recommendDirectly, setTrialFields } from '../support/accrual-factories.js';
+import { releaseCutDirectly } from '../support/data-cut-factories.js';
 import type { Session } from '../support/sign-in.js';
 
 type Row = Record<string, unknown> & { trialId: string; cohortId: string; nextMilestone: { text: string; kind: string } };
@@ -19,7 +21,7 @@ let statistician: Session;
 let hidden: TrialFixture;
 /** The protocol lets the sponsor see response. */
 let open: TrialFixture;
-/** The sponsor sees response after a data cut is released. */
+/** A committee decision released a data cut of the cohort. */
 let released: TrialFixture;
 
 const eight: DirectPatient[] = [
@@ -49,7 +51,7 @@ beforeAll(async () => {
   hidden = await trialWithPatients({ indication: 'Recurrent ovarian cancer' });
   open = await trialWithPatients({ sponsorSeesResponse: true, indication: 'Soft-tissue sarcoma' });
   released = await trialWithPatients();
-  await cutDataDirectly(stack.db, { trialId: released.trialId, cohortId: released.cohortIds[0], releasedToSponsorAt: new Date() });
+  await releaseCutDirectly(stack.db, released);
   sponsor = await stack.signIn(DEMO.sponsor);
   statistician = await stack.signIn(DEMO.statistician);
 }, 120_000);
@@ -63,8 +65,9 @@ describe('GET /api/portfolio', () => {
     expect(RESPONSE_KEYS.filter((k) => keys.has(k))).toEqual([]);
     expect(PATIENT_LEVEL_KEYS.filter((k) => keys.has(k))).toEqual([]);
     expect(PATIENT_LEVEL_KEYS.filter((k) => keysDeep(res.body).has(k))).toEqual([]);
-    expect(row).toMatchObject({ view: 'sponsor', responseFiguresHidden: true, enrolled: 8, pendingOutcomes: 3 });
-    expect(row.responseFiguresHiddenReason).toMatch(/sponsor/);
+    expect(row).toMatchObject({ enrolled: 8, pendingOutcomes: 3 });
+    expect(row).not.toHaveProperty('released');
+    expect(row.efficacyHidden).toMatch(/sponsors/);
   });
 
   it('when site staff read a trial whose protocol hides response, then they get counts without trial-wide response figures', async () => {
@@ -72,35 +75,44 @@ describe('GET /api/portfolio', () => {
       const res = await (await stack.signIn(email)).get('/api/portfolio');
       const row = res.body.portfolio.rows.find((r: Row) => r.trialId === hidden.trialId);
       expect(RESPONSE_KEYS.filter((k) => keysDeep(row).has(k))).toEqual([]);
-      expect(row).toMatchObject({ view: 'site', responseFiguresHidden: true, enrolled: 8 });
-      expect(rowOf(res.body.portfolio.rows, open)).toMatchObject({ view: 'site', responders: 3 });
+      expect(row).toMatchObject({ enrolled: 8, efficacyHidden: expect.stringMatching(/site staff/) });
+      expect(rowOf(res.body.portfolio.rows, open)).toMatchObject({ responders: 3 });
     }
   });
 
   it('when the protocol lets the sponsor see response, then the sponsor receives the response figures', async () => {
     const row = rowOf(await portfolio(sponsor), open);
-    expect(row).toMatchObject({ view: 'sponsor', responseFiguresHidden: false, responders: 3, outcomesKnown: 5, responseRate: 0.6 });
-    expect(keysDeep(row).has('responseFiguresHiddenReason')).toBe(false);
+    expect(row).toMatchObject({ responders: 3, outcomesKnown: 5, responseRate: 0.6 });
+    expect(keysDeep(row).has('efficacyHidden')).toBe(false);
   });
 
-  it('when a data cut of the cohort was released to the sponsor, then the sponsor receives the response figures', async () => {
+  it('when a committee decision released a data cut of the cohort, then the sponsor receives that cut’s figures under its date, and no live key', async () => {
     const row = rowOf(await portfolio(sponsor), released);
-    expect(row).toMatchObject({ responseFiguresHidden: false, responders: 3, outcomesKnown: 5 });
-    expect(row.releasedToSponsorAt).toEqual(expect.any(String));
+    expect(RESPONSE_KEYS.filter((k) => k in row)).toEqual([]);
+    expect(row.released).toMatchObject({ responders: 3, outcomesKnown: 5, responseRate: 0.6, stage1Responders: 3, label: expect.stringMatching(/^as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}$/) });
+  });
+
+  it('when the trial manager reads the portfolio, then no row carries a response figure, live or released', async () => {
+    const rows = await portfolio(await stack.signIn(DEMO.admin));
+    for (const trial of [hidden, open, released]) {
+      const row = rowOf(rows, trial);
+      expect([...RESPONSE_KEYS, 'released'].filter((k) => keysDeep(row).has(k))).toEqual([]);
+      expect(row.efficacyHidden).toMatch(/operational figures only/);
+    }
   });
 
   it('when the statistician reads the portfolio, then every row carries its response figures', async () => {
     const rows = await portfolio(statistician);
-    for (const trial of [hidden, open, released]) expect(rowOf(rows, trial)).toMatchObject({ view: 'full', responders: 3, stage1Responders: 3 });
+    for (const trial of [hidden, open, released]) expect(rowOf(rows, trial)).toMatchObject({ responders: 3, stage1Responders: 3 });
   });
 
-  it('when a user holds the sponsor role and another role on a trial, then that trial is shown in full', async () => {
+  it('when a user holds the sponsor role and the statistician role on a trial, then that trial is shown in full (the union of the two)', async () => {
     const trial = await trialWithPatients();
     const both = 'lena.stat@tessaly.test';
     await addMember(stack.db, trial.trialId, { email: both, role: 'sponsor' });
     await addMember(stack.db, trial.trialId, { email: both, role: 'statistician' });
     const session = await stack.signIn(both);
-    expect(rowOf(await portfolio(session), trial)).toMatchObject({ view: 'full', responders: 3 });
+    expect(rowOf(await portfolio(session), trial)).toMatchObject({ responders: 3 });
   });
 
   it('when a cohort is part-way through stage 1, then progress and the next milestone count the patients still needed', async () => {

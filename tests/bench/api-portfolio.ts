@@ -15,7 +15,8 @@ import { createDb, migrateLatest, type Db } from '../../server/db/knex.js';
 import { startStackOn } from '../support/stack.js';
 import { DEMO, createTrial } from '../support/factories.js';
 import { lockDesignDirectly } from '../support/patient-factories.js';
-import { bulkEnrol, cutDataDirectly, daysAgo, setSitePlan, setTrialFields } from '../support/accrual-factories.js';
+import { bulkEnrol, daysAgo, setSitePlan, setTrialFields } from '../support/accrual-factories.js';
+import { releaseCutDirectly } from '../support/data-cut-factories.js';
 import { bareExpress, describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
 import type { BenchFigure } from './figures.js';
 
@@ -31,7 +32,7 @@ async function settled(url: string, headers: Record<string, string> = {}): Promi
   return measured;
 }
 
-/** 50 trials of 500 patients at four sites over two years; every fifth trial has a data cut released to the sponsor. */
+/** 50 trials of 500 patients at four sites over two years; every fifth trial has a data cut a committee decision released. */
 export async function seedPortfolio(db: Db): Promise<string[]> {
   const trialIds: string[] = [];
   for (let t = 0; t < TRIALS; t += 1) {
@@ -49,7 +50,7 @@ export async function seedPortfolio(db: Db): Promise<string[]> {
     await lockDesignDirectly(db, { trialId: trial.trialId, cohortId, r1: 40, n1: 200, r: 120, n: 520, cohortStatus: 'enrolling_stage_2' });
     const dates = Array.from({ length: PATIENTS }, (_, i) => daysAgo(720 - Math.floor((i * 720) / PATIENTS)));
     await bulkEnrol(db, { trialId: trial.trialId, cohortId, siteIds: SITES.map((s) => trial.siteIds[s]), siteCodes: SITES, dates, n1: 200 });
-    if (t % 5 === 0) await cutDataDirectly(db, { trialId: trial.trialId, cohortId, releasedToSponsorAt: new Date() });
+    if (t % 5 === 0) await releaseCutDirectly(db, trial, { action: 'final_analysis' });
     trialIds.push(trial.trialId);
   }
   await db.raw('analyze');

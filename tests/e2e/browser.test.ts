@@ -368,7 +368,7 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the sponsor signs in, then Portfolio and Accrual show the trial', async () => {
+  it('when the sponsor signs in, then Portfolio and the Trial overview show the figures the decision released, under the cut’s date, and Accrual shows the trial', async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const pageErrors = watchConsole(page);
@@ -376,8 +376,13 @@ describe("the trial's journey through the pages", () => {
       await signInThroughPages(page, stack.url, DEMO.sponsor);
       await settle(page);
       await page.getByRole('main').getByText('E2E-201').first().waitFor();
+      await page.getByRole('main').getByText(/naive, as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}/).first().waitFor();
       await screenshot(page, 'journey-12-portfolio');
       await page.goto(`${stack.url}/trials/${journeyTrialId}`);
+      await page.getByRole('heading', { name: /^Released figures, as of the data cut of / }).waitFor();
+      expect(await page.getByText('Live response figures reach sponsors only where the locked design allows it', { exact: false }).count()).toBe(1);
+      await screenshot(page, 'journey-12b-overview');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
       await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Accrual' }).click();
       await settle(page);
       await screenshot(page, 'journey-13-accrual');

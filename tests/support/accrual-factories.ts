@@ -31,10 +31,10 @@ export async function setSitePlan(db: Db, trialId: string, siteId: string, plann
   await db('trial_sites').where({ trial_id: trialId, site_id: siteId }).update({ planned_accrual_per_month: plannedPerMonth });
 }
 
-/** A frozen data cut of a cohort (or of the whole trial when cohortId is null), with placeholder counts. */
+/** A data cut row of a cohort (or of the whole trial when cohortId is null) with placeholder counts and no patients: for milestones, not analyses. */
 export async function cutDataDirectly(
   db: Db,
-  input: { trialId: string; cohortId: string | null; kind?: 'interim' | 'final'; cutAt?: Date; releasedToSponsorAt?: Date | null },
+  input: { trialId: string; cohortId: string | null; kind?: 'interim' | 'final'; cutAt?: Date },
 ): Promise<string> {
   const [{ max }] = await db('data_cuts').where({ trial_id: input.trialId }).max({ max: 'seq' });
   const [row] = await db('data_cuts')
@@ -52,7 +52,6 @@ export async function cutDataDirectly(
       unattested_count: 0,
       flagged_count: 0,
       not_evaluable_count: 0,
-      released_to_sponsor_at: input.releasedToSponsorAt ?? null,
     })
     .returning('id');
   return row.id;
@@ -97,8 +96,8 @@ export async function bulkEnrol(
   for (let i = 0; i < rows.length; i += 1000) await db('patients').insert(rows.slice(i, i + 1000));
 }
 
-/** Response figures a sponsor must not receive unless released, and fields that would identify a patient. */
-export const RESPONSE_KEYS = ['responders', 'responseRate', 'outcomesKnown', 'stage1Responders'];
+/** Live response figures (and the committee's verdict) a sponsor must not receive unless the design allows them, and fields that would identify a patient. */
+export const RESPONSE_KEYS = ['responders', 'responseRate', 'outcomesKnown', 'stage1Responders', 'lastRecommendation'];
 export const PATIENT_LEVEL_KEYS = ['patients', 'patientId', 'studyId', 'study_id', 'outcome', 'bestOverallResponse', 'best_overall_response', 'enrolledOn', 'enrolmentSeq'];
 
 /** Every object key anywhere in a JSON value, however deep. */

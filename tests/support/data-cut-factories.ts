@@ -4,9 +4,9 @@
  * state a test starts from; the signing route itself is tested over HTTP).
  */
 import type { Db } from '../../server/db/knex.js';
-import { freezeDataCut } from '../../server/data-cuts/data-cuts.service.js';
+import { applyDecision, freezeDataCut } from '../../server/data-cuts/data-cuts.service.js';
 import type { DataCut } from '../../server/data-cuts/data-cuts.repository.js';
-import type { RecommendationDecision } from '../../server/data-cuts/data-cuts.schema.js';
+import type { DecisionAction, RecommendationDecision } from '../../server/data-cuts/data-cuts.schema.js';
 import { DEMO, ensureUser, type TrialFixture } from './factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly, type DirectDesign, type DirectPatient } from './patient-factories.js';
 
@@ -47,7 +47,6 @@ export async function freezeCutDirectly(db: Db, trial: TrialFixture, options: { 
   );
 }
 
-/** A signed recommendation written straight to the database, as if the member had signed it. */
 /** A signed recommendation written straight to the database; `at` back-dates it (signature and row). */
 export async function recommendDirectly(
   db: Db,
@@ -89,5 +88,23 @@ export function matrixCut(db: Db, trial: TrialFixture): Promise<string> {
     })();
     matrixCuts.set(trial.trialId, cut);
   }
+  return cut;
+}
+
+/**
+ * A cut released as the committee's process releases one: frozen through the service, a member's
+ * recommendation, and the statistician's decision applied through the service (which keeps the
+ * released figures and queues the decision mail). Resuming stage 2 by default.
+ */
+export async function releaseCutDirectly(
+  db: Db,
+  trial: TrialFixture,
+  options: { cohortId?: string; action?: DecisionAction; recommendation?: RecommendationDecision } = {},
+): Promise<DataCut> {
+  const cohortId = options.cohortId ?? trial.cohortIds[0];
+  const cut = await freezeCutDirectly(db, trial, { cohortId });
+  await recommendDirectly(db, cut, DEMO.monitor, options.recommendation ?? 'continue');
+  const statistician = await ensureUser(db, DEMO.statistician);
+  await applyDecision(db, cut.id, { action: options.action ?? 'resume_stage_2', reason: 'The committee recommends continuing (test fixture).', cohortId }, { id: statistician, email: DEMO.statistician }, ['statistician']);
   return cut;
 }

@@ -8,7 +8,7 @@ import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { currentDesign } from '../../designs/index.js';
 import { canTransition, type CohortStatus } from '../../trials/index.js';
-import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseToSponsor, signWithin, type RecommendationDecision, type StatusDecision } from '../../data-cuts/index.js';
+import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseCohort, signWithin, type RecommendationDecision, type StatusDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
 
 type Plan = {
@@ -92,7 +92,7 @@ export async function seedDataCuts(trx: Knex.Transaction, trials: Map<string, st
         appliedBy: statistician.id,
         appliedAt,
       });
-      await releaseToSponsor(trx, cut.id);
+      await releaseCohort(trx, cut, cohort.id, decisionId, statistician);
       await writeAudit(trx, {
         actorUserId: statistician.id,
         trialId,

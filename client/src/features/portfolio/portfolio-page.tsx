@@ -18,7 +18,8 @@ export function PortfolioPage() {
   const showDigest = !!me?.environment.outbox && allRoles(me).includes('sponsor');
   const rows = data?.rows ?? [];
   const trials = new Set(rows.map((r) => r.trialId)).size;
-  const anyHidden = rows.some((r) => r.responseFiguresHidden);
+  const hiddenReasons = [...new Set(rows.filter((r) => !r.released).flatMap((r) => (r.efficacyHidden ? [r.efficacyHidden] : [])))];
+  const anyReleased = rows.some((r) => r.efficacyHidden !== undefined && r.released);
   return (
     <div className="grid gap-4">
       <PageHeader title="Portfolio" subtitle={data ? `Every trial you take part in, as of ${day(data.asOf)}.` : 'Every trial you take part in.'} />
@@ -68,12 +69,18 @@ export function PortfolioPage() {
             }
           >
             <PortfolioTable rows={rows} />
-            {anyHidden && (
+            {anyReleased && (
               <p className="mt-3 text-xs text-ink-500">
-                <span aria-hidden>⊘ </span>
-                Not released: for your role on that trial, response figures appear only when the protocol allows it or the statistician releases a data cut.
+                <span aria-hidden>❄ </span>
+                Released figures are those of the data cut a committee decision released, frozen at the date shown: later outcomes do not move them.
               </p>
             )}
+            {hiddenReasons.map((reason) => (
+              <p key={reason} className="mt-3 text-xs text-ink-500">
+                <span aria-hidden>⊘ </span>
+                Not released: {reason}
+              </p>
+            ))}
           </Panel>
           {showDigest && <DigestPreviewPanel />}
           <Cautions />

@@ -21,19 +21,31 @@ const MILESTONE_ICONS: Record<string, string> = {
 };
 
 function ResponseCell({ row }: { row: PortfolioRow }) {
-  if (row.responseFiguresHidden) {
+  // The server leaves the live figures out exactly when it says why.
+  if (row.efficacyHidden === undefined) {
     return (
-      <span className="text-xs text-ink-500" title={row.responseFiguresHiddenReason}>
-        <span aria-hidden>⊘ </span>
-        Not released
-        <span className="sr-only">: {row.responseFiguresHiddenReason}</span>
+      <span className="tabular-nums">
+        {row.responders} / {row.outcomesKnown}
+        <span className="block text-xs text-ink-500">{percent(row.responseRate)} naive, live</span>
+      </span>
+    );
+  }
+  if (row.released) {
+    return (
+      <span className="tabular-nums">
+        <span aria-hidden>❄ </span>
+        {row.released.responders} / {row.released.outcomesKnown}
+        <span className="block text-xs text-ink-500">
+          {percent(row.released.responseRate)} naive, {row.released.label}
+        </span>
       </span>
     );
   }
   return (
-    <span className="tabular-nums">
-      {row.responders} / {row.outcomesKnown}
-      <span className="block text-xs text-ink-500">{percent(row.responseRate)} naive</span>
+    <span className="text-xs text-ink-500" title={row.efficacyHidden}>
+      <span aria-hidden>⊘ </span>
+      Not released
+      <span className="sr-only">: {row.efficacyHidden}</span>
     </span>
   );
 }
@@ -90,12 +102,16 @@ export function PortfolioTable({ rows }: { rows: PortfolioRow[] }) {
           </span>
         ),
       }),
-      column.accessor((r) => r.responseRate ?? -1, { id: 'response', header: 'Responders / known', cell: ({ row }) => <ResponseCell row={row.original} /> }),
+      column.accessor((r) => r.responseRate ?? r.released?.responseRate ?? -1, { id: 'response', header: 'Responders / known', cell: ({ row }) => <ResponseCell row={row.original} /> }),
       column.accessor((r) => r.lastRecommendation?.on ?? '', {
         id: 'recommendation',
         header: 'Last recommendation',
         cell: ({ row: { original: r } }) =>
-          r.lastRecommendation ? (
+          r.lastRecommendation === undefined ? (
+            <span className="text-xs text-ink-400" title={r.efficacyHidden}>
+              —<span className="sr-only">not shown for your role on this trial</span>
+            </span>
+          ) : r.lastRecommendation ? (
             <span>
               {r.lastRecommendation.words}
               <span className="block text-xs text-ink-500">{day(r.lastRecommendation.on)}</span>

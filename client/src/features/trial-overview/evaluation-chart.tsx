@@ -6,14 +6,14 @@
 import { Chart, Legend, LineElement, LinearScale, PointElement, ScatterController, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
 import { Scatter } from 'react-chartjs-2';
 import { CHART_COLOURS } from '../../components/chart-colours';
-import type { CohortEvaluation } from './get-evaluation';
+import type { LiveCohort } from './get-evaluation';
 
 Chart.register(ScatterController, LineElement, PointElement, LinearScale, Legend, Tooltip);
 
 const { ink: INK, brass: BRASS, observed: OBSERVED } = CHART_COLOURS;
 
 /** For k patients with an outcome: at or below `futility` the negative result is settled, at or above `success` the positive one. */
-export function boundaries(design: NonNullable<CohortEvaluation['design']>) {
+export function boundaries(design: NonNullable<LiveCohort['design']>) {
   const points: Array<{ k: number; futility: number | null; success: number }> = [];
   const twoStage = design.r1 !== null && design.n1 !== null;
   for (let k = 1; k <= design.n; k++) {
@@ -24,7 +24,7 @@ export function boundaries(design: NonNullable<CohortEvaluation['design']>) {
   return points;
 }
 
-export function EvaluationChart({ cohort }: { cohort: CohortEvaluation }) {
+export function EvaluationChart({ cohort }: { cohort: LiveCohort }) {
   const design = cohort.design;
   if (!design) return null;
   const lines = boundaries(design);

@@ -1,13 +1,16 @@
 /**
- * The live evaluation of each cohort on the Trial overview: counts, the response rate with its
- * exact interval, the one-sided exact test against p0, where the cohort stands against its locked
- * design (with early determination and what it means for accrual), and the cautions. Charts load
- * on demand.
+ * The evaluation of each cohort on the Trial overview, as the server's visibility rule lets this
+ * user see it: the live figures (counts, the response rate with its exact interval, the one-sided
+ * exact test against p0, where the cohort stands against its locked design, with early
+ * determination), or the reason they are absent; the figures of the data cut a committee decision
+ * released, labelled with the cut's date; and site staff's own sites' counts. Charts load on demand.
  */
 import { Suspense, lazy } from 'react';
 import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
-import { useEvaluation, type CohortEvaluation } from './get-evaluation';
+import { plural } from '../../../../server/words';
+import type { InterimStatus } from '../../../../server/stats';
+import { liveOf, useEvaluation, type CohortView, type LiveCohort } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
@@ -22,9 +25,106 @@ const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
 
 const STAGE_WORDS: Record<string, string> = { stage1: 'Stage-1 rule', stage2: 'Final rule (stage 2)', single: 'Single-stage rule' };
 
-function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLevel: number }) {
+function RuleLine({ rule }: { rule: Pick<InterimStatus, 'stage' | 'decision' | 'determinedEarly' | 'remainingToDecide' | 'message'> }) {
+  const decision = DECISION_WORDS[rule.decision];
+  if (!decision) return null;
+  return (
+    <div className="grid gap-1 text-sm">
+      <p>
+        <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{STAGE_WORDS[rule.stage]}: </span>
+        <span className="font-semibold">
+          <span aria-hidden>{decision.icon} </span>
+          {decision.label}
+        </span>
+        {rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
+        {rule.remainingToDecide > 0 && <span className="text-ink-600 tabular-nums"> · at most {rule.remainingToDecide} more patients decide it</span>}
+      </p>
+      <p className="text-ink-700">{rule.message}</p>
+    </div>
+  );
+}
+
+function LiveFigures({ cohort, confLevel }: { cohort: LiveCohort; confLevel: number }) {
+  return (
+    <>
+      <div className="flex flex-wrap gap-6">
+        <Figure label="Responders" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
+        <Figure
+          label="Response rate"
+          value={cohort.rate ? percent(cohort.rate.estimate) : '—'}
+          hint={cohort.rate ? `${Math.round(confLevel * 100)}% exact CI ${percent(cohort.rate.ci[0])} – ${percent(cohort.rate.ci[1])}` : 'No outcome yet'}
+        />
+        <Figure label="One-sided p vs p0" value={cohort.test ? pValue(cohort.test.pValue) : '—'} hint={cohort.test ? `exact binomial, H0: p ≤ ${decimal(cohort.test.p0, 2)}` : undefined} />
+      </div>
+      {cohort.rule && <RuleLine rule={cohort.rule} />}
+      {cohort.earlyDetermination && (
+        <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
+          <span aria-hidden>◆ </span>
+          {cohort.earlyDetermination} {cohort.accrual}
+        </p>
+      )}
+      {cohort.notes.length > 0 && (
+        <ul className="list-disc pl-5 text-xs text-ink-600">
+          {cohort.notes.map((note) => (
+            <li key={note}>{note}</li>
+          ))}
+        </ul>
+      )}
+      {cohort.design && (
+        <Suspense fallback={<Loading label="Loading the chart" />}>
+          <EvaluationChart cohort={cohort} />
+        </Suspense>
+      )}
+    </>
+  );
+}
+
+/** The frozen figures of the released cut, under the cut's date: they do not move with later outcomes. */
+function ReleasedFigures({ released }: { released: NonNullable<CohortView['released']> }) {
+  const rate = released.responseRate;
+  return (
+    <section aria-label={`Released figures, ${released.label}`} className="grid gap-2 border-l-4 border-ink-300 pl-3">
+      <h4 className="text-xs font-semibold tracking-wide text-ink-600 uppercase">
+        <span aria-hidden>❄ </span>Released figures, {released.label}
+      </h4>
+      <div className="flex flex-wrap gap-6">
+        <Figure label="Responders" value={`${released.counts.responders} / ${released.counts.decided}`} hint={`${released.counts.pending} pending at the cut`} />
+        <Figure
+          label="Response rate"
+          value={rate ? percent(rate.estimate) : '—'}
+          hint={rate ? `${Math.round(rate.confLevel * 100)}% exact CI ${percent(rate.clopperPearson[0])} – ${percent(rate.clopperPearson[1])}` : 'No outcome at the cut'}
+        />
+        <Figure label="One-sided p vs p0" value={released.exactTest ? pValue(released.exactTest.pValue) : '—'} hint={released.exactTest ? `exact binomial, H0: p ≤ ${decimal(released.exactTest.p0, 2)}` : undefined} />
+      </div>
+      {released.rule && <RuleLine rule={released.rule} />}
+    </section>
+  );
+}
+
+/** Site staff's own sites, live: counts only, never a rate or a test across the trial. */
+function OwnSites({ sites }: { sites: NonNullable<CohortView['ownSites']> }) {
+  return (
+    <section aria-label="Your sites" className="grid gap-1 text-sm">
+      <h4 className="text-xs font-semibold tracking-wide text-ink-600 uppercase">Your sites, live</h4>
+      {sites.length === 0 ? (
+        <p className="text-ink-600">No patient enrolled at your sites yet.</p>
+      ) : (
+        <ul className="grid gap-0.5 tabular-nums">
+          {sites.map((site) => (
+            <li key={site.siteId}>
+              <span className="font-mono text-xs text-ink-500">{site.siteCode}</span> {plural(site.responders, 'responder')} among {plural(site.decided, 'patient')} with an outcome ·{' '}
+              {site.pending} pending · {site.enrolled} enrolled
+            </li>
+          ))}
+        </ul>
+      )}
+    </section>
+  );
+}
+
+function CohortBlock({ cohort, confLevel }: { cohort: CohortView; confLevel: number }) {
   const design = cohort.design;
-  const decision = cohort.rule ? DECISION_WORDS[cohort.rule.decision] : null;
+  const live = liveOf(cohort);
   return (
     <section aria-label={`Cohort ${cohort.cohortCode}`} className="grid gap-3 border-t border-ink-100 pt-3 first:border-0 first:pt-0">
       <div className="flex flex-wrap items-center gap-2">
@@ -41,50 +141,18 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortEvaluation; confLeve
       </div>
       <div className="flex flex-wrap gap-6">
         <Figure label="Enrolled" value={cohort.enrolled} hint={`${cohort.counted} counted`} />
-        {!cohort.responseHidden && (
-          <>
-            <Figure label="Responders" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
-            <Figure
-              label="Response rate"
-              value={cohort.rate ? percent(cohort.rate.estimate) : '—'}
-              hint={cohort.rate ? `${Math.round(confLevel * 100)}% exact CI ${percent(cohort.rate.ci[0])} – ${percent(cohort.rate.ci[1])}` : 'No outcome yet'}
-            />
-            <Figure label="One-sided p vs p0" value={cohort.test ? pValue(cohort.test.pValue) : '—'} hint={cohort.test ? `exact binomial, H0: p ≤ ${decimal(cohort.test.p0, 2)}` : undefined} />
-          </>
-        )}
+        {!live && <Figure label="Outcomes known" value={cohort.decided} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />}
       </div>
-      {cohort.rule && decision && (
-        <div className="grid gap-1 text-sm">
-          <p>
-            <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{STAGE_WORDS[cohort.rule.stage]}: </span>
-            <span className="font-semibold">
-              <span aria-hidden>{decision.icon} </span>
-              {decision.label}
-            </span>
-            {cohort.rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
-            {cohort.rule.remainingToDecide > 0 && <span className="text-ink-600 tabular-nums"> · at most {cohort.rule.remainingToDecide} more patients decide it</span>}
-          </p>
-          <p className="text-ink-700">{cohort.rule.message}</p>
-        </div>
-      )}
-      {cohort.earlyDetermination && (
-        <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-          <span aria-hidden>◆ </span>
-          {cohort.earlyDetermination} {cohort.accrual}
+      {live ? (
+        <LiveFigures cohort={live} confLevel={confLevel} />
+      ) : (
+        <p role="note" className="text-sm text-ink-600">
+          <span aria-hidden>⊘ </span>
+          {cohort.efficacyHidden}
         </p>
       )}
-      {cohort.notes.length > 0 && (
-        <ul className="list-disc pl-5 text-xs text-ink-600">
-          {cohort.notes.map((note) => (
-            <li key={note}>{note}</li>
-          ))}
-        </ul>
-      )}
-      {!cohort.responseHidden && design && (
-        <Suspense fallback={<Loading label="Loading the chart" />}>
-          <EvaluationChart cohort={cohort} />
-        </Suspense>
-      )}
+      {cohort.ownSites && <OwnSites sites={cohort.ownSites} />}
+      {cohort.released && <ReleasedFigures released={cohort.released} />}
     </section>
   );
 }
@@ -94,10 +162,11 @@ export function EvaluationPanel({ trialId }: { trialId: string }) {
   if (isPending) return <Loading label="Evaluating the cohorts" />;
   if (error) return <ErrorNotice error={error} title="The evaluation could not be loaded" />;
   const rates = data.cohorts
-    .filter((c) => c.design && c.rate)
+    .map(liveOf)
+    .filter((c): c is LiveCohort => !!c?.design && !!c.rate)
     .map((c) => ({ label: c.cohortCode, estimate: c.rate?.estimate ?? null, ci: c.rate?.ci ?? null, p0: c.design?.p0 ?? 0, p1: c.design?.p1 ?? 0 }));
   return (
-    <Panel title="Live evaluation">
+    <Panel title="Evaluation">
       <div className="grid gap-4">
         {data.cohorts.map((cohort) => (
           <CohortBlock key={cohort.cohortId} cohort={cohort} confLevel={data.confLevel} />
