@@ -26,6 +26,8 @@ import {
 import { CAUTIONS, plural } from '../words/index.js';
 import type { CutCohort, CutDesign, CutPatient, CutSnapshot } from './data-cuts.repository.js';
 import type { CutKind } from './data-cuts.schema.js';
+import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
+import { cohortSafety, type CohortSafetyAnalysis } from './safety-analysis.js';
 
 export const CONF_LEVEL = 0.95;
 
@@ -35,6 +37,8 @@ export type AnalysisInput = {
   cut: { id: string; seq: number; kind: CutKind; cutAt: string; contentHash: string; cohortId: string | null };
   snapshot: CutSnapshot;
   patients: CutPatient[];
+  /** The cut's frozen adverse events (none for cuts frozen before safety monitoring). */
+  adverseEvents?: CutAdverseEvent[];
   prior: PriorSetting;
   /** Where the prior came from: the cut's saved setting or this request's query. */
   priorSource: 'saved' | 'request';
@@ -127,6 +131,8 @@ export type Analysis = {
   openIssues: OpenIssue[];
   cautions: string[];
   methods: Record<string, string>;
+  /** Per cohort: adverse events, toxicities against the locked definition, the safety rule and the joint verdict. */
+  safety: CohortSafetyAnalysis[];
 };
 
 /** Why a threshold could not be found or applied: none exists at these sizes, or the engine refused the sizes. */
@@ -665,5 +671,15 @@ export function analyseCut(input: AnalysisInput): Analysis {
     openIssues,
     cautions,
     methods: METHODS,
+    safety: input.snapshot.cohorts.map((cohort) =>
+      cohortSafety({
+        cohort,
+        patients: input.patients.filter((p) => p.cohortId === cohort.id),
+        events: input.adverseEvents ?? [],
+        eventsFrozen: input.snapshot.adverseEventsFrozen === true,
+        cutOn: input.cut.cutAt.slice(0, 10),
+        response: cohorts.find((c) => c.cohortId === cohort.id)?.counts ?? null,
+      }),
+    ),
   };
 }

@@ -10,6 +10,13 @@ import { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORY_LABELS } from '..
 export { DECISION_LABELS, RECOMMENDATION_LABELS, STOP_CATEGORIES, STOP_CATEGORY_LABELS };
 
 export const CUT_KINDS = ['interim', 'final'] as const;
+
+/** A cut's CSV datasets: the patients listing, the response dataset (ADRS-style) and the adverse events (SDTM AE names). */
+export const CUT_DATASETS = ['patients', 'adrs', 'ae'] as const;
+export type CutDataset = (typeof CUT_DATASETS)[number];
+export const cutExportQuerySchema = object({
+  dataset: string().oneOf(CUT_DATASETS, `dataset is one of ${CUT_DATASETS.join(', ')}.`).default('patients'),
+});
 export type CutKind = (typeof CUT_KINDS)[number];
 
 export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol', 'resume_accrual', 'stop_safety'] as const;

@@ -13,16 +13,17 @@ import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
 import { currentDesigns } from '../designs/index.js';
 import { findCohort, listCohorts, lockTrialHeading, resumeAfterSafetyReview, safetyReviewOf, transitionCohort, type Cohort, type CohortStatus } from '../trials/index.js';
-import { currentSafetyState, ruleToxicities } from '../safety/index.js';
+import { currentSafetyState, listEventsOfCohorts, ruleToxicities } from '../safety/index.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
-import { adrsCsv, patientsCsv } from './exports.js';
+import { adrsCsv, adverseEventsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
 import { insertReleasedFigures } from '../evaluation/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
 import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
+import { byPatientThenOnset, insertCutAdverseEvents, readCutAdverseEvents, type CutAdverseEvent } from './cut-adverse-events.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
 import {
@@ -34,6 +35,7 @@ import {
   type PriorInput,
   type RecommendationInput,
   type StatusDecision,
+  type CutDataset,
 } from './data-cuts.schema.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
@@ -41,9 +43,33 @@ type Author = Pick<SessionUser, 'id' | 'email'>;
 
 export { trialOfCut };
 
-/** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
-export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
-  return { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+/**
+ * The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every
+ * patient, and every adverse event where the cut froze them (older cuts keep the hash they had).
+ */
+export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[], adverseEvents: CutAdverseEvent[]) {
+  const content = { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+  return cut.snapshot.adverseEventsFrozen ? { ...content, adverseEvents } : content;
+}
+
+/** A live adverse event in the shape the cut keeps (the hash covers exactly these fields). */
+function asCutAdverseEvent(e: Awaited<ReturnType<typeof listEventsOfCohorts>>[number]): CutAdverseEvent {
+  return {
+    eventId: e.id,
+    patientId: e.patientId,
+    studyId: e.studyId,
+    siteCode: e.siteCode,
+    cohortId: e.cohortId,
+    onsetOn: e.onsetOn,
+    term: e.term,
+    grade: e.grade,
+    attribution: e.attribution,
+    serious: e.serious,
+    outcome: e.outcome,
+    attested: e.attested !== null,
+    attestationSignatureId: e.attested?.signatureId ?? null,
+    eventVersion: e.version,
+  };
 }
 
 /** A live patient in the shape the cut keeps (the hash covers exactly these fields). */
@@ -132,13 +158,23 @@ export async function freezeWithin(
               interimAccrual: d.interimAccrual,
               sponsorSeesResponse: d.sponsorSeesResponse,
               protocolReference: d.protocolReference,
+              safetyRule: d.safetyRule,
+              toxicity: d.toxicity,
+              boundary: d.boundary,
+              bryantDay: d.bryantDay,
             }
           : null,
       };
     }),
+    adverseEventsFrozen: true,
   };
   const live = (await listPatientsWithAssessments(trx, scope.map((c) => c.id))).map(asCutPatient).sort(byCohortThenSeq);
   const patients = history ? live.filter((p) => p.enrolledOn <= history.enrolledOnOrBefore) : live;
+  const frozenPatients = new Set(patients.map((p) => p.patientId));
+  const adverseEvents = (await listEventsOfCohorts(trx, scope.map((c) => c.id)))
+    .filter((e) => frozenPatients.has(e.patientId) && (!history || e.onsetOn <= history.enrolledOnOrBefore))
+    .map(asCutAdverseEvent)
+    .sort(byPatientThenOnset);
   const base = {
     trialId: input.trialId,
     cohortId: input.cohortId ?? null,
@@ -158,10 +194,11 @@ export async function freezeWithin(
     seq: await nextSeq(trx, input.trialId),
     designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
     createdBy: actor.id,
-    contentHash: contentHash(cutContent(base, patients)),
+    contentHash: contentHash(cutContent(base, patients, adverseEvents)),
     counts,
   });
   await insertCutPatients(trx, cut.id, patients);
+  await insertCutAdverseEvents(trx, cut.id, adverseEvents);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: input.trialId,
@@ -196,8 +233,8 @@ export type CutAnalysis = Analysis & { integrity: { contentHash: string; recompu
 /** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
 export async function analyseDataCut(db: Db, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
   const cut = await requireCut(db, cutId);
-  const patients = await readCutPatients(db, cutId);
-  const recomputedHash = contentHash(cutContent(cut, patients));
+  const [patients, adverseEvents] = await Promise.all([readCutPatients(db, cutId), readCutAdverseEvents(db, cutId)]);
+  const recomputedHash = contentHash(cutContent(cut, patients, adverseEvents));
   const overridden = override && (override.a !== undefined || override.thetaT !== undefined);
   const prior: PriorSetting = overridden
     ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
@@ -206,6 +243,7 @@ export async function analyseDataCut(db: Db, cutId: string, override?: Partial<P
     cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
     snapshot: cut.snapshot,
     patients,
+    adverseEvents,
     prior,
     priorSource: overridden ? 'request' : 'saved',
   });
@@ -434,6 +472,10 @@ export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortI
   // A cohort without a locked design at the cut has no figures to release.
   if (!cohort?.counts) return;
   const { counts, responseRate, exactTest, rule, inference, bayes } = cohort;
+  const cohortSafety = analysis.safety.find((s) => s.cohortId === cohortId);
+  const safety = cohortSafety?.eventsFrozen
+    ? { safetyRule: cohortSafety.safetyRule, counts: cohortSafety.counts, toxicityRate: cohortSafety.toxicityRate, state: cohortSafety.state, joint: cohortSafety.joint, sentences: cohortSafety.sentences }
+    : undefined;
   await insertReleasedFigures(trx, {
     cutId: cut.id,
     cohortId,
@@ -441,7 +483,7 @@ export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortI
     cutSeq: cut.seq,
     cutKind: cut.kind,
     cutAt: cut.cutAt,
-    figures: { counts, responseRate, exactTest, rule, inference, bayes },
+    figures: { counts, responseRate, exactTest, rule, inference, bayes, safety },
   });
   await writeAudit(trx, {
     actorUserId: actor.id,
@@ -467,10 +509,16 @@ function csvName(code: string, seq: number, what: string) {
   return `${code}-data-cut-${seq}-${what}.csv`.replace(/[^A-Za-z0-9._-]/g, '_');
 }
 
-/** One of the cut's CSV datasets, from its frozen patients. */
-export async function cutExport(db: Db, cutId: string, dataset: 'patients' | 'adrs'): Promise<{ csv: string; filename: string }> {
+/** One of the cut's CSV datasets, from its frozen patients and adverse events. */
+export async function cutExport(db: Db, cutId: string, dataset: CutDataset): Promise<{ csv: string; filename: string }> {
   const { dataCut } = await cutDetail(db, cutId);
   const patients = await readCutPatients(db, cutId);
+  if (dataset === 'ae') {
+    const analysis = await analyseDataCut(db, cutId);
+    const toxic = new Set(analysis.safety.flatMap((c) => c.qualifyingEventIds));
+    const csv = adverseEventsCsv(dataCut, patients, await readCutAdverseEvents(db, cutId), toxic);
+    return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
+  }
   const csv = dataset === 'adrs' ? adrsCsv(dataCut, patients) : patientsCsv(dataCut, patients);
   return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
 }

@@ -130,6 +130,13 @@ export async function listEventsOfPatient(db: Conn, patientId: string): Promise<
   return rows.map(toEvent);
 }
 
+/** Every event of the cohorts' patients (a data cut copies them), by patient and onset. */
+export async function listEventsOfCohorts(db: Conn, cohortIds: string[]): Promise<AdverseEvent[]> {
+  if (cohortIds.length === 0) return [];
+  const rows: EventRow[] = await baseQuery(db).whereIn('p.cohort_id', cohortIds).orderBy(['p.study_id', 'e.onset_on', 'e.id']).select(COLUMNS);
+  return rows.map(toEvent);
+}
+
 export async function findEvent(db: Conn, patientId: string, eventId: string, options: { forUpdate?: boolean } = {}): Promise<AdverseEvent | undefined> {
   const query = baseQuery(db).where({ 'e.id': eventId, 'e.patient_id': patientId }).first(COLUMNS);
   if (options.forUpdate) query.forUpdate('e');

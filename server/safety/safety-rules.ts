@@ -13,6 +13,7 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import type { Listener, DesignSigned } from '../hooks.js';
 import { enqueueMail } from '../mail/outbox.js';
+import { recipientRoles } from '../auth/visibility.js';
 import { currentDesign, type LockedDesign, type ToxicityDefinition } from '../designs/index.js';
 import { lockCohort, pauseForSafety, safetyReviewOf, trialCode } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';
@@ -25,7 +26,7 @@ import type { SafetyRuleState } from './safety.schema.js';
 export const todayIso = () => new Date().toISOString().slice(0, 10);
 
 /** The rule of a design version, or null when it monitors response only. */
-export function ruleOfDesign(design: LockedDesign | undefined): SafetyRuleOfDesign | null {
+export function ruleOfDesign(design: (Partial<Pick<LockedDesign, 'boundary' | 'bryantDay'>> & Pick<LockedDesign, 'n1' | 'n'>) | null | undefined): SafetyRuleOfDesign | null {
   if (design?.boundary) return { rule: 'toxicity_boundary', bounds: design.boundary.bounds };
   if (design?.bryantDay && design.n1 !== null) return { rule: 'bryant_day', n1: design.n1, t1: design.bryantDay.t1, n: design.n, t: design.bryantDay.t };
   return null;
@@ -82,7 +83,8 @@ async function queuePauseMail(
   trx: Knex.Transaction,
   input: { trialId: string; cohortId: string; cohortCode: string; design: LockedDesign & { toxicity: ToxicityDefinition }; state: SafetyRuleState; toxicities: number },
 ): Promise<void> {
-  const recipients = await memberEmails(trx, input.trialId, ['statistician', 'monitor']);
+  // The crossing's figures are live safety figures: only their readers get this mail.
+  const recipients = await memberEmails(trx, input.trialId, recipientRoles('live-efficacy', ['statistician', 'monitor']));
   const label = `${(await trialCode(trx, input.trialId)) ?? ''} ${input.cohortCode}`;
   const text = [
     `Accrual to ${label} is paused: ${safetyPauseReason(input.state.rule).replace(/^The/, 'the').replace(/\.$/, '')} (design version ${input.design.version}).`,

@@ -245,3 +245,16 @@ export type SafetyRuleState =
       /** More than t toxicities in all: the final toxicity rule can no longer be met. */
       finalLimitExceeded: boolean;
     };
+
+/** Where a Bryant–Day cohort stands on response and toxicity together (worded by server/words). */
+export type JointVerdict = {
+  verdict: 'stop_toxicity_stage1' | 'stop_response_stage1' | 'promising' | 'not_promising_response' | 'not_promising_toxicity' | 'stage1_open' | 'stage2_open';
+  r1: number;
+  n1: number;
+  t1: number;
+  r: number;
+  n: number;
+  t: number;
+  stage1: { responses: number; decided: number; toxicities: number; assessable: number };
+  final: { responses: number; decided: number; toxicities: number; assessable: number };
+};

@@ -3,7 +3,7 @@
  * Grade words are the general grade descriptions of the NCI Common Terminology Criteria for Adverse
  * Events (CTCAE) v5.0.
  */
-import type { Attribution, EventOutcome, SafetyRule, SafetyRuleState, ToxicityStatus } from '../safety/safety.schema.js';
+import type { Attribution, EventOutcome, JointVerdict, SafetyRule, SafetyRuleState, ToxicityStatus } from '../safety/safety.schema.js';
 import { plural } from './counts.js';
 
 /** NCI CTCAE v5.0, general grade descriptions (short form). */
@@ -103,3 +103,28 @@ export function describeSafetyState(state: SafetyRuleState): string[] {
 }
 
 export const SAFETY_PAUSED = 'Accrual paused for a safety review';
+
+export type { JointVerdict };
+
+/** A Bryant–Day cohort's response and toxicity read together at a data cut. */
+export function describeJointVerdict(v: JointVerdict): string[] {
+  const stage1 = `Stage 1: ${plural(v.stage1.responses, 'response')} among ${v.stage1.decided} decided and ${plural(v.stage1.toxicities, 'toxicity', 'toxicities')} among ${v.stage1.assessable} assessable of n1 = ${v.n1} (stop with at most r1 = ${v.r1} responses or more than t1 = ${v.t1} toxicities).`;
+  const final = `In all: ${plural(v.final.responses, 'response')} among ${v.final.decided} decided and ${plural(v.final.toxicities, 'toxicity', 'toxicities')} among ${v.final.assessable} assessable of n = ${v.n} (promising with more than r = ${v.r} responses and at most t = ${v.t} toxicities).`;
+  const verdict: Record<JointVerdict['verdict'], string> = {
+    stop_toxicity_stage1: 'Joint verdict: stop after stage 1 — the stage-1 toxicity limit is crossed.',
+    stop_response_stage1: 'Joint verdict: stop after stage 1 — too few responses.',
+    promising: 'Joint verdict: promising — enough responses with acceptable toxicity.',
+    not_promising_response: 'Joint verdict: not promising — too few responses at n.',
+    not_promising_toxicity: 'Joint verdict: not promising — too many toxicities at n.',
+    stage1_open: 'Joint verdict: open — stage 1 is not complete yet.',
+    stage2_open: 'Joint verdict: open — stage 1 passed; stage 2 is not complete yet.',
+  };
+  return [verdict[v.verdict], stage1, final];
+}
+
+/** A data cut frozen before adverse events were frozen with cuts. */
+export const frozenEventsMissing = () => 'This data cut was frozen before adverse events were frozen with data cuts: it has no safety section.';
+
+/** A cohort with no toxicity rule at the cut. */
+export const responseOnlySafety = (hasDesign: boolean) =>
+  hasDesign ? 'The locked design monitors response only: adverse events are listed, and no toxicity rule is applied.' : 'No locked design at the cut: no toxicity rule is applied.';
