@@ -2,24 +2,22 @@
  * Safety routes. Adverse events are recorded by the site roles at their own sites (other sites'
  * patients answer 404 on every route) and read by them there, and by the statistician and the
  * committee everywhere; the investigator of the patient's site attests them. The live safety state
- * shows figures: until the trial-wide visibility rule covers them, only the statistician and the
- * committee read it. The stateless safety calculations are the statistician's.
+ * shows figures: every member may call it, and what each receives follows the visibility rule
+ * (server/auth/visibility.ts), as for efficacy. The stateless safety calculations are the statistician's.
  */
 import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
 import { parseBody, parseQuery } from '../http/validate.js';
-import type { Role } from '../auth/access.js';
+import { ROLES, type Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
 import { boundaryWithCurve, runBryantDayGrid, runSafetyDesigns } from '../designs/index.js';
 import { toxicityBoundary } from '../stats/index.js';
 import { bryantDayCharacteristicsSchema, EVENT_IMPORT_MAX_BYTES, eventListQuerySchema, safetyDesignSettingsSchema, toxicityBoundarySchema } from './safety.schema.js';
 import { addEvent, attestEvent, correctEvent, patientEvents, removeEvent, trialEvents } from './adverse-events.service.js';
 import { eventImportTemplate, importEvents, readEventCsv } from './adverse-events-import.js';
-import { safetyOfTrial } from './safety.service.js';
+import { safetyFor } from './safety.service.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITERS: Role[] = ['coordinator', 'investigator'];
-/** Who sees safety figures until the visibility rule of the confidentiality work covers them. */
-const FIGURE_READERS: Role[] = ['statistician', 'monitor'];
 const BASE = '/api/trials/:trialId/patients/:patientId/adverse-events';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
@@ -102,9 +100,9 @@ export const safetyRoutes: RouteSpec[] = [
   {
     method: 'get',
     path: '/api/trials/:trialId/safety',
-    access: { kind: 'trial', roles: FIGURE_READERS },
+    access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      res.json(await safetyOfTrial(db, actorOf(req).access.trialId));
+      res.json(await safetyFor(db, actorOf(req).access));
     },
   },
   {

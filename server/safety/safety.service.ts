@@ -7,11 +7,14 @@
  * sentences from server/words.
  */
 import type { Db } from '../db/knex.js';
+import type { TrialAccess } from '../auth/access.js';
+import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
+import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import { NotFoundError } from '../http/errors.js';
 import { proportionInterval } from '../stats/index.js';
 import { currentDesigns, type LockedDesign, type ToxicityDefinition } from '../designs/index.js';
 import { listCohorts, type SafetyPause } from '../trials/index.js';
-import { CAUTIONS, describeSafetyState, toxicityDefinitionSentence } from '../words/index.js';
+import { CAUTIONS, describeSafetyState, responseOnlySafety, toxicityDefinitionSentence } from '../words/index.js';
 import { safetyCounts } from './safety.repository.js';
 import { ruleOfDesign, todayIso } from './safety-rules.js';
 import { safetyRuleState } from './toxicity.js';
@@ -33,11 +36,16 @@ export type CohortSafety = {
   cohortName: string;
   status: string;
   safetyPause: SafetyPause | null;
-  rule: SafetyRuleSummary | null;
+  /** The locked design lets sponsors see response (the visibility rule reads it). */
+  sponsorSeesResponse: boolean;
+  /** The safety rule the design locked (not a figure: every member reads the design). */
+  lockedRule: SafetyRuleSummary | null;
+  /** The protocol's toxicity definition in a sentence. */
+  definition: string | null;
   counts: SafetyCounts | null;
   rate: { toxicities: number; assessable: number; estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
   state: SafetyRuleState | null;
-  /** The definition and the state in sentences. */
+  /** Where the cohort stands against its rule, in sentences. */
   sentences: string[];
 };
 
@@ -85,17 +93,25 @@ export async function safetyOfTrial(db: Db, trialId: string, today = todayIso())
     cohorts: cohorts.map((cohort): CohortSafety => {
       const design = designs.get(cohort.id);
       const rule = ruleOfDesign(design);
-      const base = { cohortId: cohort.id, cohortCode: cohort.code, cohortName: cohort.name, status: cohort.status, safetyPause: cohort.safetyPause };
+      const base = {
+        cohortId: cohort.id,
+        cohortCode: cohort.code,
+        cohortName: cohort.name,
+        status: cohort.status,
+        safetyPause: cohort.safetyPause,
+        sponsorSeesResponse: design?.sponsorSeesResponse ?? false,
+      };
       const counts = counted.get(cohort.id);
       if (!design?.toxicity || !rule || !counts) {
-        const sentences = [design ? 'The locked design monitors response only: adverse events are recorded, and no toxicity rule is applied.' : 'No locked design yet.'];
-        return { ...base, rule: null, counts: null, rate: null, state: null, sentences };
+        const sentences = [design ? responseOnlySafety(true) : 'No locked design yet.'];
+        return { ...base, lockedRule: null, definition: null, counts: null, rate: null, state: null, sentences };
       }
       const state = safetyRuleState(rule, counts);
       const assessable = counts.toxic + counts.notToxic;
       return {
         ...base,
-        rule: summary(design, design.toxicity),
+        lockedRule: summary(design, design.toxicity),
+        definition: toxicityDefinitionSentence(design.toxicity),
         counts,
         rate:
           assessable > 0
@@ -109,8 +125,37 @@ export async function safetyOfTrial(db: Db, trialId: string, today = todayIso())
               }
             : null,
         state,
-        sentences: [toxicityDefinitionSentence(design.toxicity), ...describeSafetyState(state)],
+        sentences: describeSafetyState(state),
       };
+    }),
+  };
+}
+
+/**
+ * Keys of a cohort's safety state that carry live safety figures: the counts, the toxicity rate and
+ * its interval, the rule's state and its sentences. The status, the pause, the locked rule and the
+ * definition are every member's.
+ */
+export const LIVE_SAFETY_KEYS = ['counts', 'rate', 'state', 'sentences'] as const;
+
+type ReleasedSafetyFigures = NonNullable<ReleasedFigures['safety']> & { cutId: string; cutSeq: number; cutAt: string };
+export type VisibleCohortSafety = Projected<CohortSafety, (typeof LIVE_SAFETY_KEYS)[number], ReleasedSafetyFigures>;
+
+/**
+ * The live safety state as this viewer may see it (server/auth/visibility.ts: safety figures are
+ * efficacy figures): everything computed, then projected cohort by cohort, with the safety part
+ * of the latest released cut where the viewer may see it.
+ */
+export async function safetyFor(db: Db, access: TrialAccess): Promise<Omit<Awaited<ReturnType<typeof safetyOfTrial>>, 'cohorts'> & { cohorts: VisibleCohortSafety[] }> {
+  const computed = await safetyOfTrial(db, access.trialId);
+  const released = await latestReleased(db, computed.cohorts.map((c) => c.cohortId));
+  return {
+    ...computed,
+    cohorts: computed.cohorts.map((cohort) => {
+      const figures = released.get(cohort.cohortId);
+      const releasedSafety = figures?.safety ? { ...figures.safety, cutId: figures.cutId, cutSeq: figures.cutSeq, cutAt: figures.cutAt } : null;
+      const view = efficacyView(access, { sponsorSeesResponse: cohort.sponsorSeesResponse, released: releasedSafety !== null });
+      return projectEfficacy(view, cohort, LIVE_SAFETY_KEYS, { released: releasedSafety });
     }),
   };
 }

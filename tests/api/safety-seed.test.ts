@@ -33,7 +33,7 @@ describe('demo safety', () => {
   it('when TSY-201 is read, then its boundary is locked with the design and the cohort is one toxicity short of it, not paused', async () => {
     const { cohorts } = await safetyOfTrial(db, await trialId('TSY-201'), todayIso);
     const [cohort] = cohorts;
-    expect(cohort.rule).toMatchObject({ safetyRule: 'toxicity_boundary', definition: { minGrade: 3, windowDays: 28 }, boundary: { theta: 0.25, alpha: 0.1, n: 43 } });
+    expect(cohort.lockedRule).toMatchObject({ safetyRule: 'toxicity_boundary', definition: { minGrade: 3, windowDays: 28 }, boundary: { theta: 0.25, alpha: 0.1, n: 43 } });
     expect(cohort.safetyPause).toBeNull();
     expect(cohort.state).toMatchObject({ rule: 'toxicity_boundary', crossed: false });
     if (cohort.state?.rule !== 'toxicity_boundary') throw new Error('expected the boundary');

@@ -2,11 +2,11 @@
 import type { AdverseEvent } from '../../../../server/safety/adverse-events.repository';
 import type { EventWrite, PatientEventsView } from '../../../../server/safety/adverse-events.service';
 import type { EventImportReport, EventRowResult } from '../../../../server/safety/adverse-events-import';
-import type { CohortSafety } from '../../../../server/safety/safety.service';
+import type { CohortSafety, VisibleCohortSafety } from '../../../../server/safety/safety.service';
 import type { ToxicityDerivation } from '../../../../server/safety/toxicity';
 
-export type { AdverseEvent, CohortSafety, EventImportReport, EventRowResult, EventWrite, PatientEventsView, ToxicityDerivation };
+export type { AdverseEvent, CohortSafety, VisibleCohortSafety, EventImportReport, EventRowResult, EventWrite, PatientEventsView, ToxicityDerivation };
 
-export type TrialSafety = { trialId: string; confLevel: number; cautions: string[]; cohorts: CohortSafety[] };
+export type TrialSafety = { trialId: string; confLevel: number; cautions: string[]; cohorts: VisibleCohortSafety[] };
 
 export type EventFilters = { cohortId?: string; siteId?: string; q?: string; minGrade?: number; serious?: boolean; page: number; pageSize: number };

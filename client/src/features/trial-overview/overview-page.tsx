@@ -1,7 +1,7 @@
 import { lazy, Suspense } from 'react';
 import { Loading, Panel, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
-import { hasAnyRole, ROLE_LABELS } from '../../lib/roles';
+import { ROLE_LABELS } from '../../lib/roles';
 import { useTrialContext } from '../trials';
 import { EvaluationPanel } from './evaluation-panel';
 
@@ -44,14 +44,12 @@ export function OverviewPage() {
       <div className="lg:col-span-3">
         <EvaluationPanel trialId={trial.id} />
       </div>
-      {/* Safety figures, like efficacy figures, are the statistician's and the committee's. */}
-      {hasAnyRole(trial.myRoles, ['statistician', 'monitor']) && (
-        <div className="lg:col-span-3">
-          <Suspense fallback={<Loading label="Loading the safety state" />}>
-            <SafetyOverview trialId={trial.id} />
-          </Suspense>
-        </div>
-      )}
+      {/* Every member sees the safety panel; the server leaves out the figures the visibility rule withholds. */}
+      <div className="lg:col-span-3">
+        <Suspense fallback={<Loading label="Loading the safety state" />}>
+          <SafetyOverview trialId={trial.id} />
+        </Suspense>
+      </div>
     </div>
   );
 }
