@@ -86,7 +86,7 @@ export function cohortSafety(input: { cohort: CutCohort; patients: CutPatient[];
 
   const derived = patients.map((p) => ({
     studyId: p.studyId,
-    stage: (p.stage === 2 ? 2 : 1) as 1 | 2,
+    stage: p.stage === 2 ? (2 as const) : (1 as const),
     derivation: deriveToxicity({ enrolledOn: p.enrolledOn, events: events.filter((e) => e.patientId === p.patientId).map((e) => ({ ...e, id: e.eventId })), definition, today: input.cutOn }),
   }));
   const counts = countToxicities(derived);

@@ -1,5 +1,4 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { inflateSync } from 'node:zlib';
 import { createHash } from 'node:crypto';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
@@ -17,6 +16,7 @@ import {
   proportionInterval,
 } from '../../server/stats/index.js';
 import { fig } from '../../server/data-cuts/report/pdf.js';
+import { pdfText } from '../support/pdf-text.js';
 
 let stack: Stack;
 let sam: Session;
@@ -28,27 +28,6 @@ beforeAll(async () => {
   mona = await stack.signIn(DEMO.monitor);
 });
 afterAll(async () => stack?.close());
-
-/** The text a PDF shows, from its Flate-compressed content streams (pdfkit writes text as hex strings). */
-function pdfText(pdf: Buffer): string {
-  const raw = pdf.toString('latin1');
-  const pieces: string[] = [];
-  for (const match of raw.matchAll(/stream\r?\n/g)) {
-    const start = (match.index ?? 0) + match[0].length;
-    const end = raw.indexOf('endstream', start);
-    let content: string;
-    try {
-      content = inflateSync(pdf.subarray(start, end)).toString('latin1');
-    } catch {
-      continue;
-    }
-    for (const tj of content.matchAll(/\[(.*?)\]\s*TJ/g)) {
-      pieces.push([...tj[1].matchAll(/<([0-9a-fA-F]*)>/g)].map((h) => Buffer.from(h[1], 'hex').toString('latin1')).join(''));
-    }
-    pieces.push('\n');
-  }
-  return pieces.join(' ');
-}
 
 async function stage1Trial(): Promise<{ trial: TrialFixture; cohortId: string }> {
   const trial = await createTrial(stack.db);
