@@ -1,7 +1,8 @@
 /**
  * A data cut's analysis as the statistician and the committee read it: per cohort the response
  * rate and its intervals, the exact test, the rule, the two-stage inference, the Bayesian figures,
- * sites, deviations and the boundary chart; then multiplicity, open data issues and the cautions.
+ * sites, deviations and the boundary chart; then multiplicity, the safety section, open data issues
+ * and the cautions.
  */
 import { Suspense, lazy } from 'react';
 import type { ColumnDef } from '@tanstack/react-table';
@@ -9,6 +10,7 @@ import { Cautions, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { decimal, percent, pValue } from '../../lib/format';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
+import { SafetySection } from './safety-section';
 
 const BoundaryChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.BoundaryChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
@@ -35,7 +37,7 @@ export function RuleVerdict({ decision, early }: { decision: string; early?: boo
   );
 }
 
-function Table({ head, rows, caption }: { head: string[]; rows: Array<Array<string | number>>; caption?: string }) {
+export function Table({ head, rows, caption }: { head: string[]; rows: Array<Array<string | number>>; caption?: string }) {
   return (
     <table className="w-full text-sm tabular-nums">
       {caption && <caption className="pb-1 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase">{caption}</caption>}
@@ -241,6 +243,7 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
           </Suspense>
         </Panel>
       )}
+      <SafetySection analysis={analysis} />
       <OpenIssues issues={analysis.openIssues} />
     </div>
   );
