@@ -15,6 +15,7 @@ import { bryantDayCharacteristicsSchema, EVENT_IMPORT_MAX_BYTES, eventListQueryS
 import { addEvent, attestEvent, correctEvent, patientEvents, removeEvent, trialEvents } from './adverse-events.service.js';
 import { eventImportTemplate, importEvents, readEventCsv } from './adverse-events-import.js';
 import { safetyFor } from './safety.service.js';
+import { safetyAttention } from './attention.js';
 
 const READERS: Role[] = ['coordinator', 'investigator', 'statistician', 'monitor'];
 const WRITERS: Role[] = ['coordinator', 'investigator'];
@@ -95,6 +96,14 @@ export const safetyRoutes: RouteSpec[] = [
       const report = await importEvents(db, actorOf(req), rows, { dryRun: isDryRun(req) });
       if (report.committed && report.pausedCohorts.length > 0) mail.kick();
       res.json(report);
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/trials/:trialId/safety/needs-attention',
+    access: { kind: 'trial', roles: READERS },
+    handler: async (req, res, { db }) => {
+      res.json(await safetyAttention(db, actorOf(req)));
     },
   },
   {

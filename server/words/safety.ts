@@ -128,3 +128,25 @@ export const frozenEventsMissing = () => 'This data cut was frozen before advers
 /** A cohort with no toxicity rule at the cut. */
 export const responseOnlySafety = (hasDesign: boolean) =>
   hasDesign ? 'The locked design monitors response only: adverse events are listed, and no toxicity rule is applied.' : 'No locked design at the cut: no toxicity rule is applied.';
+
+/** Needs attention: an event that cannot be judged against the toxicity definition yet. */
+export function eventAwaitsAssessment(event: { term: string; onsetOn: string; gradeMissing: boolean; attributionMissing: boolean }): string {
+  const missing = event.gradeMissing && event.attributionMissing ? 'its grade and attribution' : event.gradeMissing ? 'its grade' : 'its attribution';
+  return `The ${event.term} with onset on ${event.onsetOn} still needs ${missing}.`;
+}
+
+/** Needs attention: a serious event the site investigator has not attested. */
+export const seriousEventUnattested = (event: { term: string; onsetOn: string }) => `The serious event ${event.term} with onset on ${event.onsetOn} is not attested by the site investigator yet.`;
+
+/** Needs attention: a toxicity window that closes soon with no event counting yet. */
+export function toxicityWindowClosing(lastDay: string, today: string): string {
+  const days = Math.round((Date.parse(`${lastDay}T00:00:00Z`) - Date.parse(`${today}T00:00:00Z`)) / 86_400_000);
+  const when = days === 0 ? 'today' : days === 1 ? 'tomorrow' : `in ${days} days, on ${lastDay}`;
+  return `The toxicity window closes ${when}: record any adverse event with onset in the window before it is judged.`;
+}
+
+export const SAFETY_ATTENTION_WORDS: Record<'event-awaits-assessment' | 'serious-event-unattested' | 'toxicity-window-closing', { label: string; icon: string }> = {
+  'event-awaits-assessment': { label: 'Event without grade or attribution', icon: '?' },
+  'serious-event-unattested': { label: 'Serious event not attested', icon: '✎' },
+  'toxicity-window-closing': { label: 'Toxicity window closing', icon: '⧗' },
+};

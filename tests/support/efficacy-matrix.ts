@@ -99,6 +99,7 @@ export const EFFICACY_ROUTES: Record<string, RouteEfficacy> = {
   'get /api/trials/:trialId/patients/:patientId/history': { kind: 'patient-records' },
   'get /api/trials/:trialId/patients/:patientId/assessments': { kind: 'patient-records' },
   'get /api/trials/:trialId/needs-attention': { kind: 'patient-records' },
+  'get /api/trials/:trialId/safety/needs-attention': { kind: 'patient-records' },
   'get /api/trials/:trialId/data-cuts': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/analysis': { kind: 'frozen-cut' },

@@ -10,3 +10,4 @@ export type { AdverseEvent, CohortSafety, VisibleCohortSafety, EventImportReport
 export type TrialSafety = { trialId: string; confLevel: number; cautions: string[]; cohorts: VisibleCohortSafety[] };
 
 export type EventFilters = { cohortId?: string; siteId?: string; q?: string; minGrade?: number; serious?: boolean; page: number; pageSize: number };
+export type { SafetyAttentionItem, SafetyAttentionKind, SafetyAttentionSite } from '../../../../server/safety/attention';
