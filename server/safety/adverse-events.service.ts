@@ -84,7 +84,12 @@ export async function patientEvents(db: Db, actor: Actor, patientId: string): Pr
   return view(db, await visiblePatient(db, actor, patientId, siteScope(actor.access)));
 }
 
-export type EventWrite = PatientEventsView & { event: AdverseEvent; safety: SafetyOutcome };
+/**
+ * What a write answers: the patient's events and whether the write paused the cohort's accrual —
+ * the pause is operational, the cohort's counts are not (site staff write; the figures are read
+ * through the visibility rule on the safety route).
+ */
+export type EventWrite = PatientEventsView & { event: AdverseEvent; safety: Pick<SafetyOutcome, 'paused'> };
 
 /** Inserts one checked event of a locked patient and audits it; the caller applies the safety rules. */
 export async function createEvent(trx: Knex.Transaction, patient: Patient, input: EventFields, userId: string, reason?: string): Promise<AdverseEvent> {
@@ -122,8 +127,8 @@ export async function addEvent(db: Db, actor: Actor, patientId: string, body: un
     const patient = await visiblePatient(trx, actor, patientId, writableSites(access), true);
     const input = await parseBody(eventSchema(patient.enrolledOn), body);
     const event = await createEvent(trx, patient, { ...input, notes: input.notes ?? null }, user.id);
-    const safety = await applySafetyRules(trx, { trialId: access.trialId, cohortId: patient.cohortId, actorUserId: user.id });
-    return { ...(await view(trx, patient)), event, safety };
+    const { paused } = await applySafetyRules(trx, { trialId: access.trialId, cohortId: patient.cohortId, actorUserId: user.id });
+    return { ...(await view(trx, patient)), event, safety: { paused } };
   });
 }
 
@@ -150,8 +155,8 @@ export async function correctEvent(db: Db, actor: Actor, patientId: string, even
     // The combined record must still hold together (grade 5 goes with a fatal outcome).
     await parseBody(eventSchema(patient.enrolledOn), changes);
     const { event, attestationCleared } = await applyEventCorrection(trx, before, changes, user.id, input.reason);
-    const safety = await applySafetyRules(trx, { trialId: access.trialId, cohortId: patient.cohortId, actorUserId: user.id });
-    return { ...(await view(trx, patient)), event, safety, attestationCleared };
+    const { paused } = await applySafetyRules(trx, { trialId: access.trialId, cohortId: patient.cohortId, actorUserId: user.id });
+    return { ...(await view(trx, patient)), event, safety: { paused }, attestationCleared };
   });
 }
 
