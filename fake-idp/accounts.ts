@@ -1,9 +1,9 @@
 /** The local identity provider's accounts: one demo person per role (the README lists them), plus a few spare people. All invented. */
-export type Account = { sub: string; email: string; name: string; password: string };
+export type Account = { sub: string; email: string; name: string; password: string; emailVerified: boolean };
 
 export const DEMO_PASSWORD = 'demo';
 
-const person = (sub: string, email: string, name: string): Account => ({ sub, email, name, password: DEMO_PASSWORD });
+const person = (sub: string, email: string, name: string, emailVerified = true): Account => ({ sub, email, name, password: DEMO_PASSWORD, emailVerified });
 
 export const accounts: Account[] = [
   person('u-ada', 'ada.admin@tessaly.test', 'Ada Admin'),
@@ -17,6 +17,8 @@ export const accounts: Account[] = [
   person('u-hal', 'hal.coord@tessaly.test', 'Hal Coord'),
   person('u-mika', 'mika.monitor@tessaly.test', 'Mika Monitor'),
   person('u-lena', 'lena.stat@tessaly.test', 'Lena Stat'),
+  // An account whose e-mail address the provider has not verified: Orrery refuses to sign it in.
+  person('u-uma', 'uma.unverified@tessaly.test', 'Uma Unverified', false),
 ];
 
 export function findAccountByEmail(email: string): Account | undefined {

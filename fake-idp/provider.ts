@@ -1,7 +1,9 @@
 /**
  * A local OpenID Connect provider standing in for the organisation's hosted identity service:
  * authorization code with PKCE, its own sign-in page, no consent screen for the first-party
- * client, and `prompt=login` honoured (a fresh password entry, needed for electronic signatures).
+ * client, `prompt=login` and `max_age=0` honoured (a fresh password entry, needed for electronic
+ * signatures), `auth_time` in every ID token and `email_verified` among the claims. For
+ * development and tests only: it refuses to start in production mode.
  */
 import { generateKeyPairSync } from 'node:crypto';
 import type { AddressInfo } from 'node:net';
@@ -10,17 +12,26 @@ import Provider, { type Configuration, type KoaContextWithOIDC } from 'oidc-prov
 import { accounts, findAccountByEmail, findAccountBySub } from './accounts.js';
 import { signInPage, signOutPage, page } from './pages.js';
 
+/** Ways a test makes this provider depart from what Orrery requires, to show the refusal. */
+export type IdpQuirks = {
+  /** ID tokens without `auth_time` (a provider that does not say when the password was entered). */
+  omitAuthTime?: boolean;
+  /** ID tokens whose `auth_time` is this many seconds earlier (a provider that reuses an old login despite `prompt=login`). */
+  authTimeEarlierBySeconds?: number;
+};
+
 export type IdpOptions = {
   port: number;
   issuer?: string;
   /** Origins of the Orrery servers allowed to use this provider (their /auth/callback). */
   appOrigins: string[];
   clientId?: string;
+  quirks?: IdpQuirks;
 };
 
 export type RunningIdp = { issuer: string; close: () => Promise<void> };
 
-export function createProvider(options: Required<Omit<IdpOptions, 'port'>>): Provider {
+export function createProvider(options: Required<Omit<IdpOptions, 'port' | 'quirks'>> & { quirks?: IdpQuirks }): Provider {
   const { privateKey } = generateKeyPairSync('rsa', { modulusLength: 2048 });
   const configuration: Configuration = {
     clients: [
@@ -57,7 +68,7 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port'>>): Pro
       if (!account) return undefined;
       return {
         accountId: account.sub,
-        claims: () => ({ sub: account.sub, email: account.email, email_verified: true, name: account.name }),
+        claims: () => ({ sub: account.sub, email: account.email, email_verified: account.emailVerified, name: account.name }),
       };
     },
     async loadExistingGrant(ctx) {
@@ -81,12 +92,25 @@ export function createProvider(options: Required<Omit<IdpOptions, 'port'>>): Pro
   };
   const provider = new Provider(options.issuer, configuration);
   provider.proxy = false;
+  const quirks = options.quirks ?? {};
+  if (quirks.omitAuthTime || quirks.authTimeEarlierBySeconds) {
+    // eslint-disable-next-line @typescript-eslint/unbound-method -- wrapped below and always called with the token as `this`
+    const payload = provider.IdToken.prototype.payload;
+    provider.IdToken.prototype.payload = async function withQuirks(this: InstanceType<typeof provider.IdToken>) {
+      const { auth_time: authTime, ...rest } = (await payload.call(this)) as Record<string, unknown>;
+      if (quirks.omitAuthTime || typeof authTime !== 'number') return rest;
+      return { ...rest, auth_time: authTime - (quirks.authTimeEarlierBySeconds ?? 0) };
+    };
+  }
   return provider;
 }
 
 export async function startIdp(options: IdpOptions): Promise<RunningIdp> {
+  if (process.env.NODE_ENV === 'production') {
+    throw new Error('The local identity provider stands in for development and tests only; production signs in at the organisation’s own OpenID provider.');
+  }
   const issuer = options.issuer ?? `http://localhost:${options.port}`;
-  const provider = createProvider({ issuer, appOrigins: options.appOrigins, clientId: options.clientId ?? 'orrery' });
+  const provider = createProvider({ issuer, appOrigins: options.appOrigins, clientId: options.clientId ?? 'orrery', quirks: options.quirks });
   const app = express();
   app.disable('x-powered-by');
 

@@ -1,9 +1,9 @@
 /**
- * The composition root. Builds the Express application — security headers, logging, limits,
- * sessions, the Origin check, every route, the built client in production, the one error handler —
- * and names everything that is wired rather than called: every feature's route list, every hook a
- * feature's write sets off in another, and every scheduled job. Nothing registers itself on import;
- * what is not listed here does not run.
+ * The composition root. Builds the Express application — security headers, logging, limits, the
+ * one query-string rule, sessions, the Origin check, every route, the built client in production,
+ * the one error handler — and names everything that is wired rather than called: every feature's
+ * route list, every hook a feature's write sets off in another, and every scheduled job. Nothing
+ * registers itself on import; what is not listed here does not run.
  */
 import path from 'node:path';
 import { existsSync } from 'node:fs';
@@ -18,6 +18,7 @@ import { authRoutes, createOidcClient, type OidcClient } from './auth/index.js';
 import { createSessionMiddleware } from './http/session.js';
 import { mountRoutes, type Deps, type RouteSpec } from './http/routes.js';
 import { apiNotFound, errorHandler } from './http/error-handler.js';
+import { singleValuedQuery } from './http/query.js';
 import type { Hooks } from './hooks.js';
 import { weeklyDigestJob, type ScheduledJob } from './jobs/index.js';
 import { healthRoutes } from './health/index.js';
@@ -138,6 +139,9 @@ export function createApp(config: Config, db: Db, logger: Logger, mail: Deps['ma
   const apiLimiter = limited(config.rateLimitPerMinute, 'Too many requests. Wait a minute and try again.');
   // Load balancers poll the health route; it must never be throttled into looking down.
   app.use('/api', (req, res, next) => (req.path === '/health' ? next() : apiLimiter(req, res, next)));
+
+  // Every route's query string, once for all: a parameter given twice or as a list or object is a 400 naming it.
+  app.use(['/api', '/auth'], singleValuedQuery);
 
   const sessions = createSessionMiddleware(config, logger);
   const withSession: RequestHandler = (req, res, next) => (req.path === '/api/health' ? next() : sessions.middleware(req, res, next));

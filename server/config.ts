@@ -11,7 +11,7 @@ export type Config = {
   mailFrom: string;
   /** Development only: the mail catcher's listing, shown on the Outbox page. */
   mailCatcherUrl?: string;
-  /** A signature needs a sign-in at most this old. */
+  /** How long a password entered for one signature stays usable for it. */
   signatureFreshnessSeconds: number;
   mailPollMs: number;
   mailRetryBaseMs: number;
@@ -24,6 +24,17 @@ export type Config = {
 };
 
 export class ConfigError extends Error {}
+
+const LOOPBACK = new Set(['localhost', '127.0.0.1', '[::1]', '::1']);
+
+function urlOrProblem(name: string, value: string, problems: string[]): URL | undefined {
+  try {
+    return new URL(value);
+  } catch {
+    problems.push(`${name} is not a URL ("${value}")`);
+    return undefined;
+  }
+}
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const problems: string[] = [];
@@ -61,11 +72,15 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInRateLimitPerMinute: integer('SIGN_IN_RATE_LIMIT_PER_MINUTE', 30),
     jobsEnabled: env.JOBS_ENABLED !== 'false',
   };
-  if (production && config.sessionSecret.length < 32) problems.push('SESSION_SECRET must be at least 32 characters in production');
-  try {
-    new URL(config.appOrigin);
-  } catch {
-    problems.push(`APP_ORIGIN is not a URL ("${config.appOrigin}")`);
+  const appOrigin = urlOrProblem('APP_ORIGIN', config.appOrigin, problems);
+  const issuer = urlOrProblem('OIDC_ISSUER', config.oidcIssuer, problems);
+  if (production) {
+    if (config.sessionSecret && config.sessionSecret.length < 32) problems.push('SESSION_SECRET must be at least 32 characters in production');
+    if (!env.APP_ORIGIN || (appOrigin && appOrigin.protocol !== 'https:')) problems.push('APP_ORIGIN must be the https address people use in production');
+    if (!env.OIDC_ISSUER || (issuer && issuer.protocol !== 'https:')) problems.push('OIDC_ISSUER must be your organisation’s OpenID provider over https in production');
+    if (issuer && LOOPBACK.has(issuer.hostname)) {
+      problems.push('OIDC_ISSUER points at this machine: the local identity provider stands in for development only');
+    }
   }
   if (problems.length > 0) throw new ConfigError(`Configuration problems:\n - ${problems.join('\n - ')}`);
   return config;

@@ -1,8 +1,9 @@
 /** Starts one Orrery server process: database pool, HTTP listener, mail worker and scheduled jobs. */
 import type { AddressInfo } from 'node:net';
 import { pino, type Logger } from 'pino';
-import type { Config } from './config.js';
+import { ConfigError, type Config } from './config.js';
 import { createDb, type Db } from './db/knex.js';
+import { runtimeRoleProblems } from './db/roles.js';
 import { createApp, type AppParts } from './app.js';
 import type { Express } from 'express';
 import { startMailWorker, type MailWorker } from './mail/outbox.js';
@@ -21,6 +22,17 @@ export type RunningServer = {
 
 export async function startServer(config: Config, logger: Logger = pino({ level: config.logLevel })): Promise<RunningServer> {
   const db = createDb(config.databaseUrl, { logger: { warn: (m) => logger.warn(m), error: (m) => logger.warn(m) } });
+  if (config.production) {
+    // The database's own protections (append-only triggers) hold only if the server cannot drop them.
+    const problems = await runtimeRoleProblems(db).catch(async (error: unknown) => {
+      await db.destroy();
+      throw error;
+    });
+    if (problems.length > 0) {
+      await db.destroy();
+      throw new ConfigError(`Configuration problems:\n - ${problems.join('\n - ')}\n   Connect DATABASE_URL as a role with row rights only; migrations run as the owner (MIGRATION_DATABASE_URL, npm run migrate).`);
+    }
+  }
   const mail = startMailWorker(db, config, logger);
   const { app, routes, jobs: scheduledJobs, close: closeApp } = createApp(config, db, logger, mail);
   const jobs = startJobs(db, config, logger, mail, scheduledJobs);

@@ -24,8 +24,9 @@ import {
   type SiteTally,
 } from './accrual.repository.js';
 import { daysBetween, firstOfMonth } from './calendar.js';
-import { projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
+import { daysOpen, projectTarget, rangeMonths, rateWindow, type Projection, type RateWindow } from './projection.js';
 import { cumulativeSeries, type Plan, type SeriesPoint } from './timeline.js';
+import { STATUS_IN_A_SENTENCE } from '../words/index.js';
 
 /** A cohort's counts under its protocol's analysis population (see server/evaluation/counting.ts). */
 export type CohortCounts = {
@@ -63,7 +64,7 @@ export type TargetProjection = Projection & { target: 'n1' | 'n' };
 
 export type CohortProjections = {
   window: (RateWindow & { enrolled: number }) | null;
-  months: Array<{ month: string; enrolled: number }>;
+  months: Array<{ month: string; enrolled: number; daysOpen: number }>;
   targets: TargetProjection[];
   notes: string[];
 };
@@ -80,12 +81,13 @@ export function projectCohort(input: {
 }): CohortProjections {
   const { cohort, design, tally, today } = input;
   if (!design) return { window: null, months: [], targets: [], notes: ['No design is locked yet, so there is no n1 or n to project.'] };
-  if (CLOSED.has(cohort.status)) return { window: null, months: [], targets: [], notes: [`The cohort is ${cohort.status}: nothing left to project.`] };
+  if (CLOSED.has(cohort.status)) return { window: null, months: [], targets: [], notes: [`The cohort is ${STATUS_IN_A_SENTENCE[cohort.status]}: nothing left to project.`] };
   const evaluableOnly = design.analysisPopulation === 'evaluable';
   const counts = countsUnder(tally, design.analysisPopulation);
   const window = rateWindow(today, tally.firstEnrolledOn);
   const byMonth = new Map(input.months.map((m) => [m.month, evaluableOnly ? m.evaluable : m.enrolled]));
-  const months = rangeMonths(today, tally.firstEnrolledOn).map((month) => ({ month, enrolled: byMonth.get(month) ?? 0 }));
+  const first = tally.firstEnrolledOn;
+  const months = rangeMonths(today, first).map((month) => ({ month, enrolled: byMonth.get(month) ?? 0, daysOpen: daysOpen(month, first as string) }));
   const project = (target: 'n1' | 'n', size: number): TargetProjection => ({
     target,
     ...projectTarget({ today, counted: counts.counted, target: size, window, enrolledInWindow: counts.windowCounted, months }),

@@ -121,7 +121,9 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
       const after = derivedOutcome(derivation);
       if (before.outcome !== after.outcome || before.bestOverallResponse !== after.bestOverallResponse || before.responseAssessedOn !== after.responseAssessedOn) {
         outcomes.push({ patientId: patient.id, ...after });
-        audits.push({ patient, action: 'outcome_derived', before, after });
+        // The attestation signed the old outcome: it no longer stands.
+        const attestation = patient.attested ? { attestationCleared: true, clearedAttestationSignatureId: patient.attested.signatureId } : {};
+        audits.push({ patient, action: 'outcome_derived', before: { ...before, attestationSignatureId: patient.attested?.signatureId ?? null }, after: { ...after, ...attestation } });
       }
     } else if (disagreesWithDerivation({ outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse }, derivation)) {
       flag = DISAGREES_FLAG;

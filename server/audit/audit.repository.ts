@@ -1,4 +1,4 @@
-/** Reads the audit trail: a trial's entries with the actors' e-mail addresses, filtered and paged, and one record's history. */
+/** Reads the audit trail: a trial's entries (or the installation-wide ones about sites) with the actors' e-mail addresses, filtered and paged, and one record's history. */
 import type { Db } from '../db/knex.js';
 import type { AuditQuery } from './audit.schema.js';
 
@@ -17,17 +17,18 @@ export type AuditEntry = {
 
 type AuditRow = Omit<AuditEntry, 'at'> & { at: Date };
 
-export async function listAuditEntries(
-  db: Db,
-  trialId: string,
-  query: AuditQuery,
-  options: { hiddenEntityTypes: readonly string[] },
-): Promise<{ entries: AuditEntry[]; total: number; entityTypes: string[] }> {
-  const visible = db('audit_log as a')
-    .where('a.trial_id', trialId)
-    .modify((q) => {
-      if (options.hiddenEntityTypes.length > 0) q.whereNotIn('a.entity_type', options.hiddenEntityTypes as string[]);
-    });
+/** Which entries a page is drawn from: one trial's (less the hidden entity types), or the installation-wide records of some types (sites). */
+export type AuditScope = { trialId: string; hiddenEntityTypes: readonly string[] } | { trialId: null; entityTypes: readonly string[] };
+
+export async function listAuditEntries(db: Db, scope: AuditScope, query: AuditQuery): Promise<{ entries: AuditEntry[]; total: number; entityTypes: string[] }> {
+  const visible = db('audit_log as a').modify((q) => {
+    if (scope.trialId === null) {
+      q.whereNull('a.trial_id').whereIn('a.entity_type', scope.entityTypes as string[]);
+    } else {
+      q.where('a.trial_id', scope.trialId);
+      if (scope.hiddenEntityTypes.length > 0) q.whereNotIn('a.entity_type', scope.hiddenEntityTypes as string[]);
+    }
+  });
   const filtered = visible
     .clone()
     .leftJoin('users as u', 'u.id', 'a.actor_user_id')

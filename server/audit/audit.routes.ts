@@ -1,8 +1,8 @@
-/** The Audit trail of a trial, for the statistician and the admin (without patient-level entries). */
+/** The Audit trail of a trial, for the statistician and the admin (without patient-level entries); changes to the shared sites, for trial managers. */
 import { actorOf, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
 import { auditQuerySchema } from './audit.schema.js';
-import { auditTrail } from './audit.service.js';
+import { auditTrail, siteChanges } from './audit.service.js';
 
 export const auditRoutes: RouteSpec[] = [
   {
@@ -11,6 +11,14 @@ export const auditRoutes: RouteSpec[] = [
     access: { kind: 'trial', roles: ['statistician', 'admin'] },
     handler: async (req, res, { db }) => {
       res.json(await auditTrail(db, actorOf(req), await parseBody(auditQuerySchema, req.query)));
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/audit/sites',
+    access: { kind: 'role-anywhere', roles: ['admin'] },
+    handler: async (req, res, { db }) => {
+      res.json(await siteChanges(db, await parseBody(auditQuerySchema, req.query)));
     },
   },
 ];

@@ -27,6 +27,6 @@ export const auditQuerySchema = yup.object({
     return !value || !from || value >= from;
   }),
   limit: yup.number().typeError('Page size must be a number.').integer().min(1).max(200, 'At most 200 entries a page.').default(50),
-  offset: yup.number().typeError('Offset must be a number.').integer().min(0).default(0),
+  offset: yup.number().typeError('Offset must be a number.').integer().min(0).max(1_000_000_000, 'Offset must be at most 1,000,000,000.').default(0),
 });
 export type AuditQuery = yup.InferType<typeof auditQuerySchema>;

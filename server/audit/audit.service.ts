@@ -27,6 +27,12 @@ export const PATIENT_LEVEL_ENTITY_TYPES = [
 export async function auditTrail(db: Db, actor: Actor, query: AuditQuery) {
   const seesPatientData = actor.access.roles.includes('statistician');
   const hiddenEntityTypes = seesPatientData ? [] : PATIENT_LEVEL_ENTITY_TYPES;
-  const page = await listAuditEntries(db, actor.access.trialId, query, { hiddenEntityTypes });
+  const page = await listAuditEntries(db, { trialId: actor.access.trialId, hiddenEntityTypes }, query);
   return { ...page, limit: query.limit, offset: query.offset, patientLevelHidden: !seesPatientData };
+}
+
+/** Changes to the shared list of sites (which belong to no one trial), for trial managers. */
+export async function siteChanges(db: Db, query: AuditQuery) {
+  const page = await listAuditEntries(db, { trialId: null, entityTypes: ['site'] }, query);
+  return { ...page, limit: query.limit, offset: query.offset };
 }

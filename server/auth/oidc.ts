@@ -5,13 +5,30 @@
 import * as oidc from 'openid-client';
 import type { Config } from '../config.js';
 
+/** What Orrery takes from the provider: who, their verified e-mail, their name, and when the password was entered. */
+export type IdentityClaims = {
+  subject: string;
+  email: string;
+  name: string | null;
+  /** `auth_time` of the ID token (seconds since the epoch); absent when the provider did not say. */
+  authTime: number | undefined;
+  idToken: string;
+};
+
+/** A sign-in the provider answered but Orrery refuses; `code` goes back to the sign-in page. */
+export class SignInRefused extends Error {
+  constructor(
+    readonly code: 'unverified-email' | 'no-email',
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
 export type OidcClient = {
   redirectUri: string;
   authorizationUrl: (input: { state: string; nonce: string; codeVerifier: string; forceLogin: boolean; loginHint?: string }) => Promise<URL>;
-  exchange: (
-    currentUrl: URL,
-    checks: { state: string; nonce: string; codeVerifier: string },
-  ) => Promise<{ subject: string; email: string; name: string | null; authTime: number; idToken: string }>;
+  exchange: (currentUrl: URL, checks: { state: string; nonce: string; codeVerifier: string }) => Promise<IdentityClaims>;
   endSessionUrl: (idToken: string | undefined) => Promise<string>;
 };
 
@@ -62,12 +79,14 @@ export function createOidcClient(config: Config): OidcClient {
       if (!claims) throw new Error('the identity provider returned no ID token');
       const info = await oidc.fetchUserInfo(conf, tokens.access_token, claims.sub);
       const email = [info.email, claims.email].find((value): value is string => typeof value === 'string')?.toLowerCase() ?? '';
-      if (!email) throw new Error('the identity provider returned no e-mail address');
+      if (!email) throw new SignInRefused('no-email', 'the identity provider returned no e-mail address');
+      // Roles attach to e-mail addresses: one the provider has not verified could claim someone else's invitation.
+      if ((info.email_verified ?? claims.email_verified) !== true) throw new SignInRefused('unverified-email', 'the identity provider has not verified the e-mail address');
       return {
         subject: claims.sub,
         email,
         name: info.name ?? (claims.name as string | undefined) ?? null,
-        authTime: typeof claims.auth_time === 'number' ? claims.auth_time : Math.floor(Date.now() / 1000),
+        authTime: typeof claims.auth_time === 'number' ? claims.auth_time : undefined,
         idToken: tokens.id_token ?? '',
       };
     },

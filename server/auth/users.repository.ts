@@ -1,4 +1,4 @@
-/** Users are provisioned from the identity provider's claims; pending invitations attach on first sign-in. */
+/** Users are provisioned from the identity provider's claims; pending invitations and trial-manager grants attach on first sign-in. */
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import type { SessionUser } from './access.js';
@@ -31,6 +31,10 @@ export async function provisionUser(db: Db, claims: { subject: string; email: st
       })
       .update({ user_id: user.id, status: 'active', updated_at: trx.fn.now() })
       .returning(['id', 'trial_id', 'role']);
+    const granted = await trx('trial_manager_grants').whereRaw('lower(email) = ?', [claims.email]).whereNull('user_id').update({ user_id: user.id }).returning('id');
+    for (const grant of granted) {
+      await writeAudit(trx, { actorUserId: user.id, entityType: 'trial_manager_grant', entityId: grant.id, action: 'activated', after: { email: user.email } });
+    }
     for (const membership of activated) {
       await writeAudit(trx, {
         actorUserId: user.id,

@@ -5,13 +5,30 @@
  * Compute, then describe: `cohortFigures` returns numbers and states only, `describeCohort` turns
  * them into the notes and cautions a person reads. Pure: no database, no I/O — the report, the API
  * and the tests all call `analyseCut`.
+ *
+ * The verdict is the live evaluation's computation (server/evaluation/verdict.ts, rules in
+ * server/stats/verdict.ts), at the look the cut's kind and the cohort's status at the cut give; the
+ * inference, the final-size deviation, the predictive probability and the multiplicity adjustment
+ * follow from it, so the page cannot disagree with itself. `rulesStatement` carries the rules to the
+ * reader (the report prints them).
  */
-import { countsToward, effectiveOutcome, responderPath, tally, type CountablePatient, type Tally } from '../evaluation/index.js';
+import {
+  assignStages,
+  countsToward,
+  describeVerdict,
+  effectiveOutcome,
+  responderPath,
+  tally,
+  verdictFigures,
+  verdictLook,
+  type CohortVerdict,
+  type CountablePatient,
+  type Tally,
+} from '../evaluation/index.js';
 import {
   StatsInputError,
   adjustPValues,
   binomialTest,
-  evaluateTwoStage,
   heterogeneity,
   operatingCharacteristics,
   posteriorProbability,
@@ -19,12 +36,13 @@ import {
   proportionInterval,
   twoStageInference,
   type DesignRule,
+  type FinalTest,
   type HeterogeneityResult,
-  type InterimStatus,
   type TwoStageInference,
+  type Verdict,
 } from '../stats/index.js';
-import { CAUTIONS, plural } from '../words/index.js';
-import type { CutCohort, CutDesign, CutPatient, CutSnapshot } from './data-cuts.repository.js';
+import { CAUTIONS, VERDICT_METHODS, VERDICT_RULES, plural } from '../words/index.js';
+import type { CutCohort, CutDesign, CutPatient, CutSnapshot, DataCut } from './data-cuts.repository.js';
 import type { CutKind } from './data-cuts.schema.js';
 import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
 import { cohortSafety, type CohortSafetyAnalysis } from './safety-analysis.js';
@@ -48,13 +66,13 @@ type Interval = [number, number];
 
 export type OperatingSummary = { typeIError: number; power: number; pet0: number | null; en0: number };
 
+/** A final look at sizes other than planned: the thresholds the verdict uses there, with their operating characteristics. */
 export type Deviation = {
   plannedN1: number | null;
-  actualN1: number | null;
   plannedN: number;
-  actualN: number;
-  asApplied: { rule: DesignRule; characteristics: OperatingSummary | null; note: string | null };
-  adjusted: { r1: number | null; r: number | null; characteristics: OperatingSummary | null; note: string | null };
+  attainedN1: number | null;
+  attainedN: number;
+  applied: { r1: number | null; r: number; characteristics: OperatingSummary | null; note: string | null };
   method: string;
 };
 
@@ -87,8 +105,19 @@ export type CohortAnalysis = {
     jeffreys: Interval;
   } | null;
   exactTest: { pValue: number; oneSidedLower: number; alternative: 'greater'; p0: number } | null;
-  rule: (InterimStatus & { applied: 'stage1' | 'final'; note: string | null }) | null;
-  inference: (TwoStageInference & { x1: number; n1: number; x2: number | null; n2Actual: number; confLevel: number; note: string }) | null;
+  rule: CohortVerdict | null;
+  inference:
+    | (TwoStageInference & {
+        x1: number;
+        n1: number;
+        x2: number | null;
+        n2Actual: number;
+        confLevel: number;
+        /** Koyama & Chen §4 beside the primary p-value where stage 2 differs from the plan. */
+        sensitivity: FinalTest['sensitivity'];
+        note: string;
+      })
+    | null;
   inferenceNote: string | null;
   bayes: {
     prior: { a: number; b: number; source: 'default' | 'saved' | 'request' };
@@ -118,7 +147,8 @@ export type OpenIssue = {
 
 export type Multiplicity = {
   method: string;
-  rows: Array<{ cohortId: string; code: string; p0: number; pValue: number; holm: number; bh: number }>;
+  /** Each cohort's p-value: stage-wise for a two-stage cohort at its final analysis, the exact binomial one otherwise. */
+  rows: Array<{ cohortId: string; code: string; p0: number; basis: FinalTest['method']; pValue: number; holm: number; bh: number }>;
 };
 
 export type Analysis = {
@@ -131,30 +161,18 @@ export type Analysis = {
   openIssues: OpenIssue[];
   cautions: string[];
   methods: Record<string, string>;
+  /** How verdicts are reached, for the reader (the report prints it). */
+  rulesStatement: string[];
   /** Per cohort: adverse events, toxicities against the locked definition, the safety rule and the joint verdict. */
   safety: CohortSafetyAnalysis[];
 };
 
-/** Why a threshold could not be found or applied: none exists at these sizes, or the engine refused the sizes. */
-type ThresholdFailure = { kind: 'none-found' } | { kind: 'engine'; message: string };
-
-/** A deviation from the planned sizes, in numbers. */
-type DeviationFigures = Omit<Deviation, 'asApplied' | 'adjusted' | 'method'> & {
-  asApplied: { rule: DesignRule; characteristics: OperatingSummary | null; failure: string | null };
-  adjusted: { r1: number | null; r: number | null; characteristics: OperatingSummary | null; failure: ThresholdFailure | null };
+/** A final-size deviation in numbers. */
+type DeviationFigures = Omit<Deviation, 'applied' | 'method'> & {
+  applied: { r1: number | null; r: number; characteristics: OperatingSummary | null; failure: string | null };
 };
 
-/** The rule as applied at the cut, and what bears on how it was applied. */
-type RuleFigures = {
-  status: InterimStatus;
-  applied: 'stage1' | 'final';
-  /** Stage-2 outcomes held back until every stage-1 outcome is in. */
-  waitingStage2: number;
-  /** More decided patients than the planned n: the adjusted threshold shown, and the size it applies to (single stage). */
-  overRun: { stages: 1 | 2; decided: number; r: number; n: number } | null;
-};
-
-type InferenceResult = TwoStageInference & { x1: number; n1: number; x2: number | null; n2Actual: number; confLevel: number };
+type InferenceResult = TwoStageInference & { x1: number; n1: number; x2: number | null; n2Actual: number; confLevel: number; sensitivity: FinalTest['sensitivity'] };
 
 /** The stage-wise inference of a final cut, or why there is none. */
 type InferenceFigures =
@@ -187,7 +205,7 @@ type CohortFigures = {
   counts: Tally;
   responseRate: CohortAnalysis['responseRate'];
   exactTest: CohortAnalysis['exactTest'];
-  rule: RuleFigures;
+  rule: Verdict;
   inference: InferenceFigures;
   bayes: BayesFigures;
   sites: SiteRow[];
@@ -204,155 +222,37 @@ const METHODS: Record<string, string> = {
   responseRate:
     'Response rate among patients with a decided outcome under the protocol’s analysis population (all enrolled: a patient who is not evaluable counts as a non-responder; evaluable: such patients are left out). Pending outcomes are left out. Intervals: Clopper–Pearson (exact), Wilson score and Jeffreys, two-sided 95%.',
   exactTest: 'Exact one-sided binomial test of H0: p ≤ p0 against p > p0, with the matching one-sided 95% lower limit.',
-  rule: 'Stage 1: stop for futility when responders ≤ r1 among n1; final: promising when responders > r among n. A rule is determined early once the remaining patients cannot change it.',
-  inference:
-    'After a two-stage design: p-value and 95% interval under the stage-wise ordering (Koyama & Chen 2008) and the unbiased estimate (UMVUE, Jung & Kim 2004), computed with the actual stage-2 size. The naive estimate and interval ignore the stopping rule and are biased.',
-  bayes:
-    'Posterior probability P(p > p0 | data) under a Beta(a, b) prior, and the predictive probability that at nmax patients the posterior probability will exceed θT (Lee & Liu 2008). Default prior: Beta(p0, 1 − p0) — centred on the null rate and worth one patient, so the data dominate; default θT = 0.90.',
+  rule: VERDICT_METHODS.rule,
+  inference: VERDICT_METHODS.inference,
+  bayes: VERDICT_METHODS.bayes,
   sites: 'Response by site with exact (Clopper–Pearson) 95% intervals; heterogeneity by Pearson chi-square and the exact Fisher / Freeman–Halton test over sites with decided outcomes.',
-  multiplicity: 'Each cohort against its own p0 (exact one-sided test); adjusted p-values by Holm (1979) and Benjamini–Hochberg (1995) across the cohorts with decided outcomes.',
-  deviation:
-    'When the actual stage-1 or total size differs from the design’s n1 or n: the planned thresholds applied to the actual sizes, with their exact type I error, power, PET0 and EN0 (binomial); and adjusted thresholds (common practice): r1′ is the largest futility threshold whose probability of stopping under p1 at the actual stage-1 size does not exceed the planned design’s, and r′ is the smallest final threshold that keeps the exact type I error at or below α given r1′ and the actual sizes.',
+  multiplicity: VERDICT_METHODS.multiplicity,
+  deviation: VERDICT_METHODS.deviation,
 };
-
-function ruleOf(design: CutDesign, n1: number | null, n: number): DesignRule {
-  return design.r1 !== null && n1 !== null ? { r1: design.r1, n1, r: design.r, n } : { r: design.r, n };
-}
 
 function characteristics(rule: DesignRule, p0: number, p1: number): OperatingSummary {
   const [atP0, atP1] = operatingCharacteristics(rule, [p0, p1]);
   return { typeIError: atP0.probPromising, power: atP1.probPromising, pet0: rule.r1 === undefined ? null : atP0.pet, en0: atP0.expectedN };
 }
 
-/** Largest futility threshold at n1′ whose chance of stopping under p1 is no more than the planned design's. */
-function adjustedR1(design: CutDesign, actualN1: number): number | null {
-  if (design.r1 === null || design.n1 === null) return null;
-  if (actualN1 === design.n1) return design.r1;
-  // P(X1 ≤ k | n, p1) = 1 − P(promising) of the single-stage rule "more than k among n".
-  const stopUnderP1 = (k: number, n: number) => 1 - operatingCharacteristics({ r: k, n }, [design.p1])[0].probPromising;
-  const planned = stopUnderP1(design.r1, design.n1);
-  let best: number | null = null;
-  for (let k = 0; k < actualN1; k++) {
-    if (stopUnderP1(k, actualN1) <= planned + 1e-12) best = k;
-    else break;
-  }
-  return best;
-}
-
-/** Smallest final threshold keeping the exact type I error at or below α with the actual sizes. */
-function adjustedR(design: CutDesign, r1: number | null, n1: number | null, n: number): number | null {
-  for (let r = Math.max(0, r1 ?? 0); r < n; r++) {
-    const rule: DesignRule = r1 !== null && n1 !== null ? { r1, n1, r, n } : { r, n };
-    try {
-      if (operatingCharacteristics(rule, [design.p0])[0].probPromising <= design.alpha) return r;
-    } catch (error) {
-      if (!(error instanceof StatsInputError)) throw error;
-    }
-  }
-  return null;
-}
-
-function deviationOf(design: CutDesign, kind: CutKind, t: Tally): DeviationFigures | null {
-  if (t.counted === 0) return null;
-  const twoStage = design.r1 !== null && design.n1 !== null;
-  let actualN1: number | null = null;
-  let actualN = design.n;
-  let deviates = false;
-  if (twoStage && kind === 'interim') {
-    // At an interim cut every counting patient already enrolled belongs to the look at stage 1.
-    actualN1 = t.counted;
-    deviates = actualN1 > (design.n1 as number);
-  } else if (twoStage) {
-    actualN1 = t.stage1.counted;
-    actualN = t.counted;
-    const stoppedAtStage1 = t.stage2.counted === 0 && t.stage1.responders <= (design.r1 as number);
-    deviates = actualN1 !== design.n1 || (!stoppedAtStage1 && actualN !== design.n);
-  } else if (kind === 'final') {
-    actualN = t.counted;
-    deviates = actualN !== design.n;
-  }
-  if (!deviates) return null;
-  if (twoStage && actualN1 !== null && actualN1 >= actualN) actualN = Math.max(design.n, actualN1 + 1);
-
-  const asAppliedRule = ruleOf(design, actualN1, actualN);
-  let asAppliedOc: OperatingSummary | null = null;
-  let asAppliedFailure: string | null = null;
+/** The final-size deviation of a verdict reached at sizes other than planned; none under the stage-1 rule (a cohort stopped at stage 1). */
+function deviationOf(design: CutDesign, verdict: Verdict): DeviationFigures | null {
+  if (verdict.applied !== 'final' || verdict.threshold.source === 'planned' || !verdict.attained) return null;
+  const { n1, n } = verdict.attained;
+  const r = verdict.threshold.r;
+  const rule: DesignRule = design.r1 !== null && n1 !== null ? { r1: design.r1, n1, r, n } : { r, n };
+  let oc: OperatingSummary | null = null;
+  let failure: string | null = null;
   try {
-    asAppliedOc = characteristics(asAppliedRule, design.p0, design.p1);
+    oc = characteristics(rule, design.p0, design.p1);
   } catch (error) {
     if (!(error instanceof StatsInputError)) throw error;
-    asAppliedFailure = error.message;
+    failure = error.message;
   }
-  const r1Adj = twoStage ? adjustedR1(design, actualN1 as number) : null;
-  const rAdj = twoStage && r1Adj === null ? null : adjustedR(design, r1Adj, twoStage ? actualN1 : null, actualN);
-  let adjustedOc: OperatingSummary | null = null;
-  let adjustedFailure: ThresholdFailure | null = null;
-  if (rAdj === null) {
-    adjustedFailure = { kind: 'none-found' };
-  } else {
-    try {
-      adjustedOc = characteristics(r1Adj !== null ? { r1: r1Adj, n1: actualN1 as number, r: rAdj, n: actualN } : { r: rAdj, n: actualN }, design.p0, design.p1);
-    } catch (error) {
-      if (!(error instanceof StatsInputError)) throw error;
-      adjustedFailure = { kind: 'engine', message: error.message };
-    }
-  }
-  return {
-    plannedN1: design.n1,
-    actualN1,
-    plannedN: design.n,
-    actualN,
-    asApplied: { rule: asAppliedRule, characteristics: asAppliedOc, failure: asAppliedFailure },
-    adjusted: { r1: r1Adj, r: rAdj, characteristics: adjustedOc, failure: adjustedFailure },
-  };
+  return { plannedN1: design.n1, plannedN: design.n, attainedN1: n1, attainedN: n, applied: { r1: design.r1, r, characteristics: oc, failure } };
 }
 
-function ruleStatus(design: CutDesign, t: Tally, deviation: DeviationFigures | null): RuleFigures {
-  const twoStage = design.r1 !== null && design.n1 !== null;
-  const plain = { waitingStage2: 0, overRun: null };
-  if (!twoStage) {
-    if (t.decided <= design.n) {
-      return { status: evaluateTwoStage({ r: design.r, n: design.n }, { responders: t.responders, evaluable: t.decided }), applied: 'final', ...plain };
-    }
-    const r = deviation?.adjusted.r ?? design.r;
-    const n = Math.max(t.decided, deviation?.actualN ?? t.decided);
-    return {
-      status: evaluateTwoStage({ r, n }, { responders: t.responders, evaluable: t.decided }),
-      applied: 'final',
-      waitingStage2: 0,
-      overRun: { stages: 1, decided: t.decided, r, n },
-    };
-  }
-  const r1 = design.r1 as number;
-  const n1 = design.n1 as number;
-  const { stage1, stage2 } = t;
-  if (stage1.decided < n1 || stage2.counted === 0) {
-    return {
-      status: evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders: stage1.responders, evaluable: stage1.decided }),
-      applied: 'stage1',
-      waitingStage2: stage2.decided,
-      overRun: null,
-    };
-  }
-  const evaluable = n1 + stage2.decided;
-  const responders = stage1.responders + stage2.responders;
-  if (evaluable <= design.n) {
-    return {
-      status: evaluateTwoStage({ r1, n1, r: design.r, n: design.n }, { responders, evaluable, stage1Responders: stage1.responders }),
-      applied: 'final',
-      ...plain,
-    };
-  }
-  const r = Math.max(deviation?.adjusted.r ?? design.r, r1);
-  return {
-    status: evaluateTwoStage({ r1, n1, r, n: evaluable }, { responders, evaluable, stage1Responders: stage1.responders }),
-    applied: 'final',
-    waitingStage2: 0,
-    overRun: { stages: 2, decided: evaluable, r, n: evaluable },
-  };
-}
-
-function inferenceOf(design: CutDesign, t: Tally): InferenceFigures {
+function inferenceOf(design: CutDesign, t: Tally, finalTest: FinalTest | null): InferenceFigures {
   if (design.r1 === null || design.n1 === null) return { state: 'not-applicable' };
   const { stage1, stage2 } = t;
   if (stage1.decided === 0) return { state: 'no-stage-1' };
@@ -367,7 +267,7 @@ function inferenceOf(design: CutDesign, t: Tally): InferenceFigures {
     );
     return {
       state: 'computed',
-      result: { ...result, x1, n1, x2: stopped ? null : stage2.responders, n2Actual, confLevel: CONF_LEVEL },
+      result: { ...result, x1, n1, x2: stopped ? null : stage2.responders, n2Actual, confLevel: CONF_LEVEL, sensitivity: finalTest?.sensitivity ?? null },
       pending: stage1.pending + stage2.pending,
       stage1: { actual: n1, planned: design.n1 },
       stage2LeftOut: stopped ? stage2.decided : 0,
@@ -430,11 +330,37 @@ function responderSourcesOf(patients: CutPatient[], population: CutDesign['analy
   return { derived, entered: responders.length - derived };
 }
 
+/** A cohort's tally and verdict at the cut, at the look the cut's kind and the cohort's status give. */
+function verdictAtCut(cohort: CutCohort, design: CutDesign, countable: CountablePatient[], kind: CutKind) {
+  const t = tally(countable, design.n1, design.analysisPopulation);
+  const look = verdictLook(cohort.status, kind === 'final');
+  return { t, look, verdict: verdictFigures(design, t, look) };
+}
+
+/**
+ * Each frozen patient's stage (1 for the first n1 counting patients) and whether they are a stage-2
+ * patient enrolled at risk, whom the cohort's verdict leaves out: what the exports mark.
+ */
+export function stagesAtCut(cut: Pick<DataCut, 'kind' | 'snapshot'>, patients: CutPatient[]): Map<string, { stage: 1 | 2; atRisk: boolean }> {
+  const marks = new Map<string, { stage: 1 | 2; atRisk: boolean }>();
+  for (const cohort of cut.snapshot.cohorts) {
+    const countable = patients.filter((p) => p.cohortId === cohort.id).map(toCountable);
+    const population = cohort.design?.analysisPopulation ?? 'all_enrolled';
+    const stages = assignStages(countable, cohort.design?.n1 ?? null, population);
+    const atRisk = cohort.design ? verdictAtCut(cohort, cohort.design, countable, cut.kind).verdict.atRisk > 0 : false;
+    for (const p of countable) {
+      const stage = stages.get(p.id) ?? 1;
+      marks.set(p.id, { stage, atRisk: atRisk && stage === 2 && countsToward(p, population) });
+    }
+  }
+  return marks;
+}
+
 /** One cohort with a locked design at the cut, in numbers and states. */
 function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatient[], input: AnalysisInput): CohortFigures {
   const population = design.analysisPopulation;
   const countable = patients.map(toCountable);
-  const t = tally(countable, design.n1, population);
+  const { t, look, verdict } = verdictAtCut(cohort, design, countable, input.cut.kind);
   const x = t.responders;
   const n = t.decided;
   const responseRate =
@@ -450,9 +376,9 @@ function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatien
         }
       : null;
   const test = n > 0 ? binomialTest(x, n, design.p0, { alternative: 'greater', confLevel: CONF_LEVEL }) : null;
-  const deviation = deviationOf(design, input.cut.kind, t);
   const prior = resolvePrior(input.prior, design.p0, input.priorSource);
-  const nmax = Math.max(design.n, n);
+  // The predictive probability projects to the attained size at a final look (at least one patient: the prior alone otherwise).
+  const nmax = look === 'final' ? Math.max(t.counted, 1) : Math.max(design.n, t.counted);
   const sites = sitesOf(patients, population);
   const withOutcomes = sites.filter((s) => s.decided > 0);
   let het: CohortFigures['heterogeneity'] = null;
@@ -468,8 +394,8 @@ function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatien
     counts: t,
     responseRate,
     exactTest: test ? { pValue: test.pValue, oneSidedLower: test.ci[0], alternative: 'greater', p0: design.p0 } : null,
-    rule: ruleStatus(design, t, deviation),
-    inference: input.cut.kind === 'final' ? inferenceOf(design, t) : { state: 'not-applicable' },
+    rule: verdict,
+    inference: look === 'final' ? inferenceOf(design, t, verdict.finalTest) : { state: 'not-applicable' },
     bayes: {
       prior,
       thetaT: input.prior.thetaT,
@@ -480,7 +406,7 @@ function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatien
     sites,
     heterogeneity: het,
     heterogeneityGap,
-    deviation,
+    deviation: deviationOf(design, verdict),
     responderSources: responderSourcesOf(patients, population),
     boundaries: boundariesOf(design),
     path: responderPath(countable, population),
@@ -488,14 +414,6 @@ function cohortFigures(cohort: CutCohort, design: CutDesign, patients: CutPatien
 }
 
 const fmt = (v: number, digits = 3) => Number(v.toFixed(digits)).toString();
-
-function ruleNote(rule: RuleFigures, design: CutDesign): string | null {
-  if (rule.overRun?.stages === 1) {
-    return `More decided patients (${rule.overRun.decided}) than the planned n = ${design.n}: the rule shown uses the adjusted threshold r′ = ${rule.overRun.r} for n = ${rule.overRun.n}.`;
-  }
-  if (rule.overRun) return `More decided patients (${rule.overRun.decided}) than the planned n = ${design.n}: the final rule shown uses the adjusted threshold r′ = ${rule.overRun.r}.`;
-  return rule.waitingStage2 > 0 ? `${plural(rule.waitingStage2, 'stage-2 outcome')} wait until every stage-1 outcome is in.` : null;
-}
 
 function describeInference(inference: InferenceFigures): { inference: CohortAnalysis['inference']; inferenceNote: string | null } {
   if (inference.state === 'not-applicable') return { inference: null, inferenceNote: null };
@@ -517,22 +435,18 @@ function describeInference(inference: InferenceFigures): { inference: CohortAnal
 
 function describeDeviation(deviation: DeviationFigures | null): Deviation | null {
   if (!deviation) return null;
-  const { asApplied, adjusted } = deviation;
-  const adjustedNote =
-    adjusted.failure?.kind === 'none-found'
-      ? 'No threshold at these sizes keeps the type I error at or below α and the futility loss no worse than planned.'
-      : (adjusted.failure?.message ?? null);
+  const { applied } = deviation;
   return {
     plannedN1: deviation.plannedN1,
-    actualN1: deviation.actualN1,
     plannedN: deviation.plannedN,
-    actualN: deviation.actualN,
-    asApplied: {
-      rule: asApplied.rule,
-      characteristics: asApplied.characteristics,
-      note: asApplied.failure === null ? null : `The planned thresholds cannot be applied to these sizes: ${asApplied.failure}`,
+    attainedN1: deviation.attainedN1,
+    attainedN: deviation.attainedN,
+    applied: {
+      r1: applied.r1,
+      r: applied.r,
+      characteristics: applied.characteristics,
+      note: applied.failure === null ? null : `The operating characteristics of these thresholds cannot be computed at the attained sizes: ${applied.failure}`,
     },
-    adjusted: { r1: adjusted.r1, r: adjusted.r, characteristics: adjusted.characteristics, note: adjustedNote },
     method: METHODS.deviation,
   };
 }
@@ -544,17 +458,15 @@ const HETEROGENEITY_GAPS: Record<NonNullable<CohortFigures['heterogeneityGap']>,
 
 /** The cohort's figures with the notes, statements and cautions a person reads beside them. */
 function describeCohort(figures: CohortFigures): CohortAnalysis {
-  const { cohort, design, counts, rule, bayes } = figures;
-  const note = ruleNote(rule, design);
+  const { cohort, design, counts, bayes } = figures;
   const { inference, inferenceNote } = describeInference(figures.inference);
   const deviation = describeDeviation(figures.deviation);
   const { prior } = bayes;
   const cautions: string[] = [];
   if (counts.pending > 0) cautions.push(`${plural(counts.pending, 'outcome')} still pending at the cut: the figures may change.`);
-  if (deviation) cautions.push('The actual sample size differs from the design: read the operating characteristics of the rule as applied.');
+  if (deviation) cautions.push('The attained sample size differs from the design: read the operating characteristics of the thresholds as applied.');
   if (inference) cautions.push('Report the stage-wise p-value, interval and the UMVUE: the naive figures ignore the stopping rule and are biased.');
   if (figures.responderSources.derived > 0) cautions.push(`${plural(figures.responderSources.derived, 'responder')} rest on outcomes derived from timepoint assessments.`);
-  if (note) cautions.push(note);
   return {
     cohortId: cohort.id,
     code: cohort.code,
@@ -564,7 +476,7 @@ function describeCohort(figures: CohortFigures): CohortAnalysis {
     counts,
     responseRate: figures.responseRate,
     exactTest: figures.exactTest,
-    rule: { ...rule.status, applied: rule.applied, note },
+    rule: describeVerdict(figures.rule, design),
     inference,
     inferenceNote,
     bayes: {
@@ -633,16 +545,18 @@ export function analyseCut(input: AnalysisInput): Analysis {
         )
       : withoutDesign(cohort),
   );
-  const tested = cohorts.filter((c) => c.exactTest);
+  const tested = cohorts.flatMap((c) => {
+    if (!c.exactTest) return [];
+    const stageWise = c.rule?.finalTest?.method === 'stage-wise' ? c.rule.finalTest : null;
+    const basis: FinalTest['method'] = stageWise ? 'stage-wise' : 'exact-binomial';
+    return [{ cohortId: c.cohortId, code: c.code, p0: c.exactTest.p0, basis, pValue: stageWise ? stageWise.pValue : c.exactTest.pValue }];
+  });
   let multiplicity: Multiplicity | null = null;
   if (input.snapshot.cohorts.length > 1 && tested.length >= 2) {
-    const ps = tested.map((c) => c.exactTest!.pValue);
+    const ps = tested.map((row) => row.pValue);
     const holm = adjustPValues(ps, 'holm');
     const bh = adjustPValues(ps, 'bh');
-    multiplicity = {
-      method: METHODS.multiplicity,
-      rows: tested.map((c, i) => ({ cohortId: c.cohortId, code: c.code, p0: c.exactTest!.p0, pValue: ps[i], holm: holm[i], bh: bh[i] })),
-    };
+    multiplicity = { method: METHODS.multiplicity, rows: tested.map((row, i) => ({ ...row, holm: holm[i], bh: bh[i] })) };
   }
   const saved = input.prior.a !== null && input.prior.b !== null;
   const openIssues = openIssuesOf(input.patients);
@@ -671,6 +585,7 @@ export function analyseCut(input: AnalysisInput): Analysis {
     openIssues,
     cautions,
     methods: METHODS,
+    rulesStatement: [...VERDICT_RULES],
     safety: input.snapshot.cohorts.map((cohort) =>
       cohortSafety({
         cohort,

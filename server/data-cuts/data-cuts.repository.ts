@@ -1,7 +1,9 @@
 /**
  * The data cuts store: one row per cut with its frozen trial and designs (the snapshot), its
- * content hash, counts, prior and release, read back as plain domain objects. The frozen patients,
- * the recommendations and the applied decisions have their own stores beside this one.
+ * content hash, counts and release, read back as plain domain objects together with the cut's
+ * current analysis version (its prior) and latest report. The analysis versions, the reports, the
+ * frozen patients, the recommendations and the applied decisions have their own stores beside
+ * this one.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
@@ -67,10 +69,15 @@ export type DataCut = {
   createdBy: string | null;
   contentHash: string;
   counts: CutCounts;
+  /** SHA-256 of the latest report issued (null until the report is first downloaded). */
   reportHash: string | null;
+  /** The prior of the current analysis version. */
   prior: { a: number | null; b: number | null; thetaT: number };
   releasedToSponsorAt: string | null;
+  /** The current analysis version's number: a change of prior starts the next one. */
   version: number;
+  /** The current analysis version's id (what a recommendation signed now points at). */
+  analysisVersionId: string;
   createdAt: string;
 };
 
@@ -90,13 +97,15 @@ type DataCutRow = {
   unattested_count: number;
   flagged_count: number;
   not_evaluable_count: number;
-  report_hash: string | null;
+  released_to_sponsor_at: Date | null;
+  created_at: Date;
+  /** From the current analysis version and the latest report (see `withCurrentVersion`). */
+  analysis_version_id: string;
+  analysis_version: number;
   prior_a: number | null;
   prior_b: number | null;
   theta_t: number;
-  released_to_sponsor_at: Date | null;
-  version: number;
-  created_at: Date;
+  report_hash: string | null;
 };
 
 function toDataCut(row: DataCutRow): DataCut {
@@ -121,9 +130,21 @@ function toDataCut(row: DataCutRow): DataCut {
     reportHash: row.report_hash,
     prior: { a: row.prior_a, b: row.prior_b, thetaT: row.theta_t },
     releasedToSponsorAt: row.released_to_sponsor_at?.toISOString() ?? null,
-    version: row.version,
+    version: row.analysis_version,
+    analysisVersionId: row.analysis_version_id,
     createdAt: row.created_at.toISOString(),
   };
+}
+
+/** The cut's row with its current analysis version and the hash of its latest report. */
+function withCurrentVersion(conn: Conn, alias = 'd') {
+  return conn(`data_cuts as ${alias}`)
+    .joinRaw(
+      `join lateral (select id as analysis_version_id, version as analysis_version, prior_a, prior_b, theta_t
+                       from analysis_versions v where v.data_cut_id = ${alias}.id order by v.version desc limit 1) av on true`,
+    )
+    .joinRaw(`left join lateral (select sha256 as report_hash from data_cut_reports r where r.data_cut_id = ${alias}.id order by r.seq desc limit 1) rep on true`)
+    .select(`${alias}.*`, 'av.*', 'rep.report_hash');
 }
 
 export async function nextSeq(trx: Knex.Transaction, trialId: string): Promise<number> {
@@ -131,11 +152,12 @@ export async function nextSeq(trx: Knex.Transaction, trialId: string): Promise<n
   return Number(row?.seq ?? 0) + 1;
 }
 
+/** Inserts the cut; the database gives it analysis version 1 (the stated default prior, Beta(p0, 1 − p0) per cohort, θT 0.9). */
 export async function insertDataCut(
   trx: Knex.Transaction,
-  cut: Omit<DataCut, 'id' | 'reportHash' | 'prior' | 'releasedToSponsorAt' | 'version' | 'createdAt'>,
+  cut: Omit<DataCut, 'id' | 'reportHash' | 'prior' | 'releasedToSponsorAt' | 'version' | 'analysisVersionId' | 'createdAt'>,
 ): Promise<DataCut> {
-  const [row] = await trx('data_cuts')
+  const [inserted] = await trx('data_cuts')
     .insert({
       trial_id: cut.trialId,
       cohort_id: cut.cohortId,
@@ -152,13 +174,28 @@ export async function insertDataCut(
       flagged_count: cut.counts.flagged,
       not_evaluable_count: cut.counts.notEvaluable,
     })
-    .returning('*');
-  return toDataCut(row as DataCutRow);
+    .returning('id');
+  return (await findDataCut(trx, inserted.id)) as DataCut;
+}
+
+/** An analysis version: append-only; the highest number is the cut's current analysis. */
+export async function insertAnalysisVersion(
+  trx: Knex.Transaction,
+  input: { dataCutId: string; version: number; prior: DataCut['prior']; createdBy: string | null },
+): Promise<void> {
+  await trx('analysis_versions').insert({
+    data_cut_id: input.dataCutId,
+    version: input.version,
+    prior_a: input.prior.a,
+    prior_b: input.prior.b,
+    theta_t: input.prior.thetaT,
+    created_by: input.createdBy,
+  });
 }
 
 export async function findDataCut(conn: Conn, cutId: string, options: { forUpdate?: boolean } = {}): Promise<DataCut | undefined> {
-  const query = conn('data_cuts').where({ id: cutId });
-  const row: DataCutRow | undefined = await (options.forUpdate ? query.forUpdate().first() : query.first());
+  const query = withCurrentVersion(conn).where('d.id', cutId);
+  const row: DataCutRow | undefined = await (options.forUpdate ? query.forUpdate('d').first() : query.first());
   return row ? toDataCut(row) : undefined;
 }
 
@@ -170,14 +207,11 @@ export async function trialOfCut(db: Db, cutId: string): Promise<string | undefi
 export type DataCutListItem = DataCut & { recommendationCount: number; decisionCount: number; createdByName: string | null };
 
 export async function listDataCuts(conn: Conn, trialId: string): Promise<DataCutListItem[]> {
-  const rows: Array<DataCutRow & { recommendation_count: number; decision_count: number; created_by_name: string | null }> = await conn(
-    'data_cuts as d',
-  )
+  const rows: Array<DataCutRow & { recommendation_count: number; decision_count: number; created_by_name: string | null }> = await withCurrentVersion(conn)
     .leftJoin('users as u', 'u.id', 'd.created_by')
     .where({ 'd.trial_id': trialId })
     .orderBy('d.seq', 'desc')
     .select(
-      'd.*',
       'u.name as created_by_name',
       conn.raw('(select count(*) from recommendations r where r.data_cut_id = d.id)::int as recommendation_count'),
       conn.raw('(select count(*) from data_cut_decisions x where x.data_cut_id = d.id)::int as decision_count'),
@@ -188,23 +222,6 @@ export async function listDataCuts(conn: Conn, trialId: string): Promise<DataCut
     decisionCount: row.decision_count,
     createdByName: row.created_by_name,
   }));
-}
-
-export async function updatePrior(
-  trx: Knex.Transaction,
-  cutId: string,
-  expectedVersion: number,
-  prior: { a: number | null; b: number | null; thetaT: number },
-): Promise<DataCut | undefined> {
-  const [row] = await trx('data_cuts')
-    .where({ id: cutId, version: expectedVersion })
-    .update({ prior_a: prior.a, prior_b: prior.b, theta_t: prior.thetaT, version: trx.raw('version + 1') })
-    .returning('*');
-  return row ? toDataCut(row as DataCutRow) : undefined;
-}
-
-export async function setReportHash(conn: Conn, cutId: string, hash: string): Promise<void> {
-  await conn('data_cuts').where({ id: cutId }).whereRaw('report_hash is distinct from ?', [hash]).update({ report_hash: hash });
 }
 
 export async function releaseToSponsor(trx: Knex.Transaction, cutId: string): Promise<void> {

@@ -1,15 +1,15 @@
 /**
  * Data cuts, their analysis, the committee's signed recommendations, the applied decision, the
- * report and the exports. Statisticians freeze and analyse cuts and apply decisions (admins may
- * apply too); committee members (monitors) read cuts and sign recommendations. Who reads a cut is
- * the visibility rule's `FROZEN_CUT_READERS` (server/auth/visibility.ts): coordinators, investigators
+ * report and the exports. Statisticians freeze and analyse cuts and apply decisions (theirs
+ * alone); committee members (monitors) read cuts and sign recommendations. Who reads a cut is the
+ * visibility rule's `FROZEN_CUT_READERS` (server/auth/visibility.ts): coordinators, investigators
  * and sponsors are kept out of every route here, and see a released cut's figures only as the
  * evaluation and the Portfolio project them.
  */
 import { number, object } from 'yup';
 import type { Request } from 'express';
 import { sendCsv } from '../csv/upload.js';
-import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import type { Role } from '../auth/access.js';
 import { FROZEN_CUT_READERS } from '../auth/visibility.js';
 import { parseBody, parseQuery } from '../http/validate.js';
@@ -99,9 +99,9 @@ export const dataCutsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/data-cuts/:cutId/recommendations',
     access: cutAccess(['monitor']),
-    handler: async (req, res, { db, config, mail }) => {
+    handler: async (req, res, { db, mail }) => {
       const input = await parseBody(recommendationSchema, req.body);
-      const signed = await recommend(db, cutId(req), input, actorOf(req).user, signInOf(req, config));
+      const signed = await recommend(db, cutId(req), input, actorOf(req).user, signingSessionOf(req));
       mail.kick();
       res.status(201).json({ recommendation: signed, ...(await recommendations(db, cutId(req))) });
     },
@@ -109,11 +109,10 @@ export const dataCutsRoutes: RouteSpec[] = [
   {
     method: 'post',
     path: '/api/data-cuts/:cutId/decision',
-    access: cutAccess(['statistician', 'admin']),
+    access: cutAccess(['statistician']),
     handler: async (req, res, { db, mail }) => {
       const input = await parseBody(decisionSchema, req.body);
-      const { user, access } = actorOf(req);
-      const result = await applyDecision(db, cutId(req), input, user, access.roles);
+      const result = await applyDecision(db, cutId(req), input, actorOf(req));
       mail.kick();
       res.status(201).json(result);
     },
@@ -123,10 +122,10 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/report.pdf',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      const { pdf, hash, filename } = await cutReport(db, cutId(req));
+      const { pdf, hash, version, filename } = await cutReport(db, cutId(req), actorOf(req).user);
       res
         .status(200)
-        .set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="${filename}"`, 'X-Report-Sha256': hash })
+        .set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="${filename}"`, 'X-Report-Sha256': hash, 'X-Report-Version': String(version) })
         .send(pdf);
     },
   },

@@ -2,15 +2,18 @@
  * Data cuts as the business rules see them: freezing a cut (a consistent copy of every patient in
  * scope, hashed), analysing it from the copy only, the committee's signed recommendations, and the
  * decision the statistician applies to the cohort afterwards, with the people who must hear of it.
+ * A cut's analysis settings (the prior) are numbered analysis versions: a recommendation signs
+ * one, and a later change starts the next. Its report is issued once per report version and then
+ * served as stored.
  */
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { Actor, Role, SessionUser } from '../auth/access.js';
+import { hasRole, type Actor, type Role, type SessionUser } from '../auth/access.js';
 import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { contentHash, recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { contentHash, recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesigns } from '../designs/index.js';
 import { findCohort, listCohorts, lockTrialHeading, resumeAfterSafetyReview, safetyReviewOf, transitionCohort, type Cohort, type CohortStatus } from '../trials/index.js';
 import { currentSafetyState, listEventsOfCohorts, ruleToxicities } from '../safety/index.js';
@@ -21,22 +24,14 @@ import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
 import { insertReleasedFigures } from '../evaluation/index.js';
 import { countMonitors, decisionRecipients, findUserName, statisticianEmails } from '../people/index.js';
-import { findDataCut, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, setReportHash, trialOfCut, updatePrior, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
+import { findDataCut, insertAnalysisVersion, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, trialOfCut, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
+import { findReport, insertReport, type ReportCoverage } from './reports.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
 import { byPatientThenOnset, insertCutAdverseEvents, readCutAdverseEvents, type CutAdverseEvent } from './cut-adverse-events.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
-import {
-  DECISION_LABELS,
-  RECOMMENDATION_LABELS,
-  type CreateDataCutInput,
-  type DecisionAction,
-  type DecisionInput,
-  type PriorInput,
-  type RecommendationInput,
-  type StatusDecision,
-  type CutDataset,
-} from './data-cuts.schema.js';
+import { decisionChoices, recommendationChoices, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput, type StatusDecision, type CutDataset } from './data-cuts.schema.js';
+import { DECISION_POINT_CAUTIONS, DECISION_WORDS, RECOMMENDATION_WORDS, recommendationMeaning, stoppedFor } from '../words/index.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
 type Author = Pick<SessionUser, 'id' | 'email'>;
@@ -231,7 +226,7 @@ export async function cutDetail(db: Db, cutId: string) {
 export type CutAnalysis = Analysis & { integrity: { contentHash: string; recomputedHash: string; intact: boolean } };
 
 /** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
-export async function analyseDataCut(db: Db, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
+export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
   const cut = await requireCut(db, cutId);
   const [patients, adverseEvents] = await Promise.all([readCutPatients(db, cutId), readCutAdverseEvents(db, cutId)]);
   const recomputedHash = contentHash(cutContent(cut, patients, adverseEvents));
@@ -250,32 +245,42 @@ export async function analyseDataCut(db: Db, cutId: string, override?: Partial<P
   return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
 }
 
+/**
+ * A new prior starts the cut's next analysis version (append-only): a recommendation already
+ * signed keeps pointing at the version it signed, and the version it signed stays as it was.
+ */
 export async function savePrior(db: Db, cutId: string, input: PriorInput, actor: Author): Promise<DataCut> {
   return db.transaction(async (trx) => {
     const before = await requireCut(trx, cutId, true);
-    const updated = await updatePrior(trx, cutId, input.version, { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT });
-    if (!updated) throw new ConflictError('Someone changed this setting meanwhile; here is the current one.', { current: before });
+    if (before.version !== input.version) throw new ConflictError('Someone changed this setting meanwhile; here is the current one.', { current: before });
+    const prior = { a: input.a ?? null, b: input.b ?? null, thetaT: input.thetaT };
+    await insertAnalysisVersion(trx, { dataCutId: cutId, version: before.version + 1, prior, createdBy: actor.id });
+    const updated = (await findDataCut(trx, cutId)) as DataCut;
     await writeAudit(trx, {
       actorUserId: actor.id,
       trialId: before.trialId,
       entityType: 'data_cut',
       entityId: cutId,
       action: 'prior_changed',
-      before: before.prior,
-      after: updated.prior,
+      before: { analysisVersion: before.version, ...before.prior },
+      after: { analysisVersion: updated.version, analysisVersionId: updated.analysisVersionId, ...updated.prior },
     });
     return updated;
   });
 }
 
-export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, signIn: SignIn): Promise<{ id: string; signatureId: string }> {
+/** A committee member signs a recommendation on the cut's current analysis version; the password must have been entered for this cut. */
+export async function recommend(db: Db, cutId: string, input: RecommendationInput, signer: Author, session: SigningSession): Promise<{ id: string; signatureId: string }> {
   const cut = await requireCut(db, cutId);
+  if (!recommendationChoices(cut.snapshot.cohorts).includes(input.decision)) {
+    throw new InputError('No cohort of this data cut has a stage 2 still ahead.', { decision: 'Continue to stage 2 applies only where a stage 2 exists and has not begun.' });
+  }
   if (await findRecommendationBy(db, cutId, signer.id)) {
     throw new ConflictError('You have already signed a recommendation on this data cut.');
   }
-  const authTime = requireFreshAuthentication(signIn);
   try {
-    return await db.transaction((trx) => signWithin(trx, cut, input, signer, authTime));
+    // The cut's row lock keeps the analysis version still while the member signs it.
+    return await db.transaction(async (trx) => signWithin(trx, await requireCut(trx, cutId, true), input, signer, session));
   } catch (error) {
     // Two tabs signing at once: the unique key decides, the second is told plainly.
     if ((error as { code?: string }).code === '23505') throw new ConflictError('You have already signed a recommendation on this data cut.');
@@ -289,18 +294,33 @@ export async function signWithin(
   cut: DataCut,
   input: RecommendationInput,
   signer: Author,
-  authenticatedAt: Date,
+  session: SigningSession,
   options: { notify?: boolean } = {},
 ): Promise<{ id: string; signatureId: string }> {
-  const label = RECOMMENDATION_LABELS[input.decision];
+  const label = RECOMMENDATION_WORDS[input.decision].label;
+  if (input.analysisVersion !== cut.version) {
+    throw new ConflictError(`The analysis of data cut ${cut.seq} is now at version ${cut.version} (its prior changed since you opened it). Review it before signing.`, {
+      current: { analysisVersion: cut.version, prior: cut.prior },
+    });
+  }
+  const analysisVersion = { id: cut.analysisVersionId, version: cut.version, prior: cut.prior };
   const signature = await recordSignature(trx, {
     trialId: cut.trialId,
     signer,
-    meaning: `I recommend "${label}" for ${cut.snapshot.trial.code} cohort ${cohortLabel(cut)} on data cut ${cut.seq} (${cut.id}), having reviewed its analysis.`,
+    session,
+    intent: { action: 'recommendation', subjectId: cut.id },
+    meaning: recommendationMeaning({
+      decision: input.decision,
+      trialCode: cut.snapshot.trial.code,
+      cohortCodes: cut.snapshot.cohorts.map((c) => c.code),
+      cutSeq: cut.seq,
+      cutId: cut.id,
+      analysisVersion: cut.version,
+    }),
     subjectType: 'recommendation',
     subjectId: cut.id,
-    content: { dataCutId: cut.id, contentHash: cut.contentHash, decision: input.decision, rationale: input.rationale },
-    authenticatedAt,
+    // The prior is part of what the member saw: the signature covers the analysis version, not only the frozen data.
+    content: { dataCutId: cut.id, contentHash: cut.contentHash, analysisVersion, decision: input.decision, rationale: input.rationale },
   });
   const id = await insertRecommendation(trx, {
     dataCutId: cut.id,
@@ -308,6 +328,7 @@ export async function signWithin(
     decision: input.decision,
     rationale: input.rationale,
     signatureId: signature.id,
+    analysisVersionId: cut.analysisVersionId,
   });
   await writeAudit(trx, {
     actorUserId: signer.id,
@@ -315,7 +336,7 @@ export async function signWithin(
     entityType: 'recommendation',
     entityId: id,
     action: 'signed',
-    after: { dataCutId: cut.id, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
+    after: { dataCutId: cut.id, analysisVersion: cut.version, decision: input.decision, rationale: input.rationale, signatureId: signature.id },
   });
   if (options.notify !== false) {
     // A recommendation on a cut not yet released is live efficacy: it goes to the statisticians only.
@@ -326,7 +347,7 @@ export async function signWithin(
         kind: 'recommendation_signed',
         to: email,
         subject: `${cut.snapshot.trial.code}: a committee recommendation was signed on data cut ${cut.seq}`,
-        text: `A member of the data monitoring committee signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.`,
+        text: `A committee member signed the recommendation "${label}" on data cut ${cut.seq} of ${cut.snapshot.trial.code} (cohort ${cohortLabel(cut)}).\n\nOpen the committee review in Orrery to read the rationale and, when the committee is done, apply the decision.\n\n${DECISION_POINT_CAUTIONS.recommendationSigned}`,
         dedupeKey: `recommendation:${id}:${email}`,
       })),
     );
@@ -350,13 +371,13 @@ export const DECISION_TARGET: Record<StatusDecision, CohortStatus> = {
 function decisionMail(trialCode: string, cohortCode: string, action: DecisionAction, reason: string, cut: DataCut, stopCategory: string | null) {
   const what = {
     resume_stage_2: `accrual resumes for stage 2 in cohort ${cohortCode}. Sites may enrol again.`,
-    stop: `cohort ${cohortCode} is stopped (${stopCategory}). Do not enrol further patients; follow the protocol for patients on treatment.`,
+    stop: `cohort ${cohortCode} is stopped ${stoppedFor(stopCategory)}. Do not enrol further patients; follow the protocol for patients on treatment.`,
     final_analysis: `cohort ${cohortCode} moves to the final analysis. Enrolment is closed.`,
     complete: `cohort ${cohortCode} is completed.`,
     resume_accrual: `accrual resumes in cohort ${cohortCode} after the committee's safety review. Sites may enrol again.`,
   }[action];
   return {
-    subject: `${trialCode} ${cohortCode}: ${DECISION_LABELS[action].toLowerCase()}`,
+    subject: `${trialCode} ${cohortCode}: ${DECISION_WORDS[action].label.toLowerCase()}`,
     text: `After the review of data cut ${cut.seq} by the data monitoring committee, ${what}\n\nReason: ${reason}\n\nThis message was sent by Orrery; the decision itself rests with the trial statistician, the data monitoring committee and the ethics board.`,
   };
 }
@@ -381,11 +402,10 @@ async function requireSafetyReview(trx: Knex.Transaction, cut: DataCut, cohort: 
   }
 }
 
-export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Author, roles: readonly Role[]) {
-  if (input.action === 'resume_accrual' && !roles.includes('statistician')) {
-    throw new ForbiddenError('Resuming accrual after a safety pause is the trial statistician’s decision.');
-  }
-  return db.transaction((trx) => applyWithin(trx, cutId, input, actor));
+/** Applying the committee's decision is the trial statistician's alone. */
+export async function applyDecision(db: Db, cutId: string, input: DecisionInput, actor: Actor) {
+  if (!hasRole(actor.access, 'statistician')) throw new ForbiddenError('Applying the committee’s decision is the trial statistician’s alone.');
+  return db.transaction((trx) => applyWithin(trx, cutId, input, actor.user));
 }
 
 /** Moves the cohort as decided, records the decision, releases the figures and queues the mail, inside the caller's transaction. */
@@ -405,6 +425,10 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   }
   const current = await findCohort(trx, cut.trialId, cohortId);
   if (!current) throw new NotFoundError('The cohort');
+  const frozen = cut.snapshot.cohorts.find((c) => c.id === cohortId);
+  if (frozen && !decisionChoices(frozen).includes(input.action)) {
+    throw new InputError(`Cohort ${frozen.code} has no stage 2 still ahead.`, { action: 'Resume accrual for stage 2 applies only where a stage 2 exists and has not begun.' });
+  }
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
   let moved: { from: CohortStatus; to: CohortStatus };
@@ -495,14 +519,33 @@ export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortI
   });
 }
 
-/** The cut's PDF report; its hash is kept on the cut, so a printed copy can be checked against it. */
-export async function cutReport(db: Db, cutId: string): Promise<{ pdf: Buffer; hash: string; filename: string }> {
-  const detail = await cutDetail(db, cutId);
-  const analysis = await analyseDataCut(db, detail.dataCut.id);
-  const pdf = await renderCutReport({ cut: detail.dataCut, analysis, ...detail });
-  const hash = createHash('sha256').update(pdf).digest('hex');
-  await setReportHash(db, detail.dataCut.id, hash);
-  return { pdf, hash, filename: `${detail.dataCut.snapshot.trial.code}-data-cut-${detail.dataCut.seq}.pdf` };
+/**
+ * The cut's PDF report for what it covers now (analysis version, recommendations, decisions). The
+ * first request for a report version renders it and keeps its bytes and hash; every later request
+ * gets those stored bytes, so the hash of a report version never changes.
+ */
+export async function cutReport(db: Db, cutId: string, requester: Author): Promise<{ pdf: Buffer; hash: string; version: number; filename: string }> {
+  return db.transaction(async (trx) => {
+    // The cut's row lock numbers report versions one at a time.
+    const cut = await requireCut(trx, cutId, true);
+    const [recommendationList, decisions, committeeSize] = await Promise.all([listRecommendations(trx, cutId), listDecisions(trx, cutId), countMonitors(trx, cut.trialId)]);
+    const coverage: ReportCoverage = { dataCutId: cutId, analysisVersionId: cut.analysisVersionId, recommendationCount: recommendationList.length, decisionCount: decisions.length };
+    let report = await findReport(trx, coverage);
+    if (!report) {
+      const analysis = await analyseDataCut(trx, cutId);
+      const pdf = await renderCutReport({ cut, analysis, recommendations: recommendationList, decisions, committeeSize });
+      report = await insertReport(trx, { ...coverage, pdf, sha256: createHash('sha256').update(pdf).digest('hex'), createdBy: requester.id });
+      await writeAudit(trx, {
+        actorUserId: requester.id,
+        trialId: cut.trialId,
+        entityType: 'data_cut',
+        entityId: cutId,
+        action: 'report_issued',
+        after: { reportVersion: report.seq, sha256: report.sha256, analysisVersion: cut.version, recommendations: coverage.recommendationCount, decisions: coverage.decisionCount },
+      });
+    }
+    return { pdf: report.pdf, hash: report.sha256, version: report.seq, filename: `${cut.snapshot.trial.code}-data-cut-${cut.seq}-report-${report.seq}.pdf` };
+  });
 }
 
 function csvName(code: string, seq: number, what: string) {

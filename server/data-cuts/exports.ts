@@ -1,11 +1,15 @@
 /**
  * CSV exports of a data cut's frozen patients: the patients-and-outcomes listing, a response
  * dataset whose columns follow the CDISC ADaM basic data structure (one row per subject and
- * parameter), and the adverse events under the CDISC SDTM AE domain's variable names. Every text cell goes through the shared formula-injection guard.
+ * parameter), and the adverse events under the CDISC SDTM AE domain's variable names. Every text
+ * cell goes through the shared formula-injection guard. Stages follow the one definition (the first
+ * n1 counting patients are stage 1), and a stage-2 patient enrolled at risk, whom the cohort's
+ * verdict leaves out, is marked as such (`stagesAtCut`, the analysis' own verdict).
  */
 import { countsToward, effectiveOutcome } from '../evaluation/index.js';
 import { toCsv, type CsvCell } from '../csv/neutralise.js';
 import type { CutPatient, DataCut } from './data-cuts.repository.js';
+import { stagesAtCut } from './analysis.js';
 import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
 
 export function patientsCsv(cut: DataCut, patients: CutPatient[]): string {
@@ -15,6 +19,7 @@ export function patientsCsv(cut: DataCut, patients: CutPatient[]): string {
     'site',
     'cohort',
     'stage',
+    'enrolled_at_risk',
     'enrolment_seq',
     'enrolled_on',
     'outcome',
@@ -29,12 +34,14 @@ export function patientsCsv(cut: DataCut, patients: CutPatient[]): string {
     'patient_version',
     'assessments',
   ];
+  const marks = stagesAtCut(cut, patients);
   const rows: CsvCell[][] = patients.map((p) => [
     cut.seq,
     p.studyId,
     p.siteCode,
     p.cohortCode,
-    p.stage,
+    marks.get(p.patientId)?.stage ?? p.stage,
+    marks.get(p.patientId)?.atRisk ?? false,
     p.enrolmentSeq,
     p.enrolledOn,
     p.outcome,
@@ -76,17 +83,19 @@ export const ADRS_COLUMNS = [
 /**
  * ADRS-style response dataset: per subject a BOR record (best overall response) and a RESP record
  * (objective response, CR or PR, under the protocol's analysis population). ANL01FL marks the
- * records that enter the primary analysis: counted under the population and with a decided outcome.
+ * records that enter the primary analysis: counted under the population, with a decided outcome, and
+ * not a stage-2 patient enrolled at risk whom the verdict leaves out.
  */
 export function adrsCsv(cut: DataCut, patients: CutPatient[]): string {
   const trialCode = cut.snapshot.trial.code;
   const populations = new Map(cut.snapshot.cohorts.map((c) => [c.id, c.design?.analysisPopulation ?? 'all_enrolled']));
   const cutDate = cut.cutAt.slice(0, 10);
+  const marks = stagesAtCut(cut, patients);
   const rows: CsvCell[][] = [];
   for (const p of patients) {
     const population = populations.get(p.cohortId) ?? 'all_enrolled';
     const countable = { id: p.patientId, enrolmentSeq: p.enrolmentSeq, outcome: p.outcome, evaluable: p.evaluable };
-    const counts = countsToward(countable, population);
+    const analysed = countsToward(countable, population) && !marks.get(p.patientId)?.atRisk;
     const outcome = effectiveOutcome(countable, population);
     const subject = [trialCode, `${trialCode}-${p.studyId}`, p.studyId, p.siteCode, p.cohortCode, p.enrolledOn, p.evaluable ? 'Y' : 'N'];
     const bor = p.bestOverallResponse;
@@ -98,7 +107,7 @@ export function adrsCsv(cut: DataCut, patients: CutPatient[]): string {
       bor,
       bor ? BOR_CODE[bor] : null,
       p.responseAssessedOn,
-      counts && p.outcome !== 'pending' ? 'Y' : null,
+      analysed && p.outcome !== 'pending' ? 'Y' : null,
       cutDate,
     ]);
     rows.push([
@@ -109,7 +118,7 @@ export function adrsCsv(cut: DataCut, patients: CutPatient[]): string {
       outcome === 'pending' ? null : outcome === 'responder' ? 'Y' : 'N',
       outcome === 'pending' ? null : outcome === 'responder' ? 1 : 0,
       p.responseAssessedOn,
-      counts && outcome !== 'pending' ? 'Y' : null,
+      analysed && outcome !== 'pending' ? 'Y' : null,
       cutDate,
     ]);
   }

@@ -1,4 +1,4 @@
-/** The committee's signed recommendations on data cuts: one per member per cut, with the signature. */
+/** The committee's signed recommendations on data cuts: one per member per cut, with the signature and the analysis version it signed. */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
@@ -14,6 +14,8 @@ export type Recommendation = {
   memberEmail: string;
   decision: RecommendationDecision;
   rationale: string;
+  /** The analysis version (prior) the member saw and signed. */
+  analysisVersion: number;
   signature: Signature;
   createdAt: string;
 };
@@ -22,12 +24,14 @@ export async function listRecommendations(conn: Conn, cutId: string): Promise<Re
   const rows = await conn('recommendations as r')
     .join('signatures as s', 's.id', 'r.signature_id')
     .join('users as u', 'u.id', 'r.member_user_id')
+    .join('analysis_versions as av', 'av.id', 'r.analysis_version_id')
     .where({ 'r.data_cut_id': cutId })
     .orderBy('r.created_at')
     .select(
       'r.*',
       'u.name as member_name',
       'u.email as member_email',
+      'av.version as analysis_version',
       conn.raw(`to_jsonb(s.*) as signature`),
     );
   return rows.map((row) => ({
@@ -38,11 +42,8 @@ export async function listRecommendations(conn: Conn, cutId: string): Promise<Re
     memberEmail: row.member_email,
     decision: row.decision,
     rationale: row.rationale,
-    signature: toSignature({
-      ...row.signature,
-      authenticated_at: new Date(row.signature.authenticated_at),
-      signed_at: new Date(row.signature.signed_at),
-    }),
+    analysisVersion: row.analysis_version,
+    signature: toSignature(row.signature),
     createdAt: (row.created_at as Date).toISOString(),
   }));
 }
@@ -53,7 +54,7 @@ export async function findRecommendationBy(conn: Conn, cutId: string, userId: st
 
 export async function insertRecommendation(
   trx: Knex.Transaction,
-  input: { dataCutId: string; memberUserId: string; decision: RecommendationDecision; rationale: string; signatureId: string },
+  input: { dataCutId: string; memberUserId: string; decision: RecommendationDecision; rationale: string; signatureId: string; analysisVersionId: string },
 ): Promise<string> {
   const [row] = await trx('recommendations')
     .insert({
@@ -62,6 +63,7 @@ export async function insertRecommendation(
       decision: input.decision,
       rationale: input.rationale,
       signature_id: input.signatureId,
+      analysis_version_id: input.analysisVersionId,
     })
     .returning('id');
   return row.id;

@@ -170,7 +170,7 @@ export async function currentDesign(db: Conn, cohortId: string): Promise<LockedD
   return (await currentDesigns(db, [cohortId])).get(cohortId);
 }
 
-export type SignedBy = Signature & { signerName: string | null };
+export type SignedBy = Signature;
 export type DesignVersion = LockedDesign & { signature: SignedBy | null };
 
 /** Every design version of the cohorts, newest first within each cohort, with its signature and signer. */
@@ -181,9 +181,10 @@ export async function listDesignVersions(db: Conn, cohortIds: string[]): Promise
     .orderBy([{ column: 'cohort_id' }, { column: 'version', order: 'desc' }]);
   const signatureIds = rows.map((row) => row.signature_id).filter((id): id is string => !!id);
   const signatures = signatureIds.length
-    ? await db('signatures as s').leftJoin('users as u', 'u.id', 's.signer_user_id').whereIn('s.id', signatureIds).select('s.*', 'u.name as signer_name')
+    ? await db('signatures as s').leftJoin('users as u', 'u.id', 's.signer_user_id').whereIn('s.id', signatureIds).select('s.*', 'u.name as user_name')
     : [];
-  const byId = new Map<string, SignedBy>(signatures.map((row) => [row.id, { ...toSignature(row), signerName: row.signer_name ?? null }]));
+  // The printed name as it was at signing; signatures older than that column fall back to the person's name now.
+  const byId = new Map<string, SignedBy>(signatures.map((row) => [row.id, { ...toSignature(row), signerName: row.signer_name ?? row.user_name ?? null }]));
   return rows.map((row) => ({ ...toLockedDesign(row), signature: row.signature_id ? (byId.get(row.signature_id) ?? null) : null }));
 }
 

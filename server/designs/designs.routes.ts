@@ -2,7 +2,7 @@
  * Designs routes. The statistician compares and signs designs; the trial manager (admin)
  * and the committee (monitor) read them; site roles and sponsors never reach a design route.
  */
-import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import { type Role } from '../auth/access.js';
 import { parseBody } from '../http/validate.js';
 import { cohortTransitionSchema, designAmendmentSchema, designLockSchema, designSettingsSchema } from './designs.schema.js';
@@ -33,9 +33,9 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db, config, hooks }) => {
+    handler: async (req, res, { db, hooks }) => {
       const body = await parseBody(designLockSchema, req.body);
-      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, signIn: signInOf(req, config) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, session: signingSessionOf(req) });
       res.status(201).json({ design });
     },
   },
@@ -43,9 +43,9 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design/amendments',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db, config, hooks, mail }) => {
+    handler: async (req, res, { db, hooks, mail }) => {
       const body = await parseBody(designAmendmentSchema, req.body);
-      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, signIn: signInOf(req, config) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, session: signingSessionOf(req) });
       // An amendment's safety rule may already be crossed by the data: the pause's mail goes out now.
       mail.kick();
       res.status(201).json({ design });

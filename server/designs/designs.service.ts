@@ -11,7 +11,7 @@ import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { hasRole, isUuid, type Actor } from '../auth/access.js';
-import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { toxicityBoundary, toxicityBoundaryCharacteristics, type OperatingPoint, type ToxicityOperatingPoint } from '../stats/index.js';
 import { emit, type Hooks } from '../hooks.js';
 import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, transitionCohort, trialCode, type Cohort, type CohortStatus, type StopCategory } from '../trials/index.js';
@@ -119,8 +119,8 @@ export type SignDesignInput = {
   /** 'lock': version 1, or a new version before the first enrolment; 'amendment': after it. */
   route: 'lock' | 'amendment';
   body: DesignLockInput;
-  /** The sign-in behind the signature; too old, and nothing is written (checked once the request is otherwise acceptable). */
-  signIn: SignIn;
+  /** The session signing: its password entry for this cohort's design (or amendment) is consumed; without one, nothing is written. */
+  session: SigningSession;
 };
 
 /** Signs a new design version for a cohort: version 1, a revision before enrolment, or an amendment. */
@@ -168,7 +168,6 @@ export async function signDesign(db: Db, hooks: Hooks, actor: Actor, input: Sign
       }
       kind = 'amendment';
     }
-    const authenticatedAt = requireFreshAuthentication(input.signIn);
     const code = (await trialCode(trx, trialId)) ?? '';
     const version = (current?.version ?? 0) + 1;
     const designId = randomUUID();
@@ -189,14 +188,16 @@ export async function signDesign(db: Db, hooks: Hooks, actor: Actor, input: Sign
       amendmentReason: version === 1 ? null : reason,
       createdBy: signer.id,
     };
+    const action = kind === 'amendment' ? 'amendment' : 'design';
     const signature = await recordSignature(trx, {
       trialId,
       signer,
+      session: input.session,
+      intent: { action, subjectId: cohort.id },
       meaning,
-      subjectType: kind === 'amendment' ? 'amendment' : 'design',
+      subjectType: action,
       subjectId: designId,
       content: { trialId, trialCode: code, cohortCode: cohort.code, meaning, ...design },
-      authenticatedAt,
     });
     const saved = await insertDesignVersion(trx, { ...design, signatureId: signature.id });
     if (current && (current.n1 !== saved.n1 || current.analysisPopulation !== saved.analysisPopulation)) {

@@ -118,15 +118,74 @@ export function removeDataDir(dir: string) {
   rmSync(dir, { recursive: true, force: true });
 }
 
-export async function ensureDatabase(adminUrl: string, database: string, template?: string): Promise<void> {
+export async function ensureDatabase(adminUrl: string, database: string, options: { template?: string; owner?: string } = {}): Promise<void> {
   const client = new pg.Client({ connectionString: adminUrl });
   await client.connect();
   try {
     const found = await client.query('select 1 from pg_database where datname = $1', [database]);
     if (found.rowCount === 0) {
       const ident = client.escapeIdentifier(database);
-      await client.query(template ? `create database ${ident} template ${client.escapeIdentifier(template)}` : `create database ${ident}`);
+      const template = options.template ? ` template ${client.escapeIdentifier(options.template)}` : '';
+      const owner = options.owner ? ` owner ${client.escapeIdentifier(options.owner)}` : '';
+      await client.query(`create database ${ident}${template}${owner}`);
     }
+  } finally {
+    await client.end();
+  }
+}
+
+/** The role that owns the schema and runs migrations, and the role the server connects as. */
+export const OWNER_ROLE = 'orrery_owner';
+export const RUNTIME_ROLE = 'orrery_app';
+
+/** The same server and database as `url`, connecting as `role` (local clusters trust loopback: no password). */
+export function asRole(url: string, role: string, database?: string): string {
+  const next = new URL(url);
+  next.username = role;
+  next.password = '';
+  if (database) next.pathname = `/${database}`;
+  return next.href;
+}
+
+/** Creates the owner and runtime roles once per cluster; neither may create roles or databases. */
+export async function ensureRoles(adminUrl: string): Promise<void> {
+  const client = new pg.Client({ connectionString: adminUrl });
+  await client.connect();
+  try {
+    for (const role of [OWNER_ROLE, RUNTIME_ROLE]) {
+      // Two test runs on one server may race to create it: the loser finds it there.
+      await client.query(`do $$ begin create role ${role} login; exception when duplicate_object or unique_violation then null; end $$`);
+    }
+  } finally {
+    await client.end();
+  }
+}
+
+/**
+ * A database owned by the owner role. A database made before the two roles existed (an older
+ * `npm start` cluster) has its tables, functions and migration records handed to the owner.
+ */
+export async function ensureOwnedDatabase(adminUrl: string, database: string): Promise<void> {
+  await ensureRoles(adminUrl);
+  await ensureDatabase(adminUrl, database, { owner: OWNER_ROLE });
+  const client = new pg.Client({ connectionString: asRole(adminUrl, new URL(adminUrl).username || 'postgres', database) });
+  await client.connect();
+  try {
+    await client.query(`alter database ${client.escapeIdentifier(database)} owner to ${OWNER_ROLE}`);
+    await client.query(`
+      do $$
+      declare r record;
+      begin
+        for r in select c.oid::regclass as name from pg_class c
+                  where c.relnamespace = 'public'::regnamespace and c.relkind in ('r', 'p', 'v', 'm') and c.relowner <> '${OWNER_ROLE}'::regrole loop
+          execute format('alter table %s owner to ${OWNER_ROLE}', r.name);
+        end loop;
+        for r in select p.oid::regprocedure as name from pg_proc p
+                  where p.pronamespace = 'public'::regnamespace and p.proowner <> '${OWNER_ROLE}'::regrole
+                    and not exists (select 1 from pg_depend d where d.objid = p.oid and d.deptype = 'e') loop
+          execute format('alter function %s owner to ${OWNER_ROLE}', r.name);
+        end loop;
+      end $$`);
   } finally {
     await client.end();
   }

@@ -1,17 +1,20 @@
 /**
  * `npm start`: a complete local Orrery from a fresh clone. Starts (or reuses) this checkout's
- * PostgreSQL cluster on 127.0.0.1:54329, migrates and seeds the demo, builds the client, starts
- * the mail catcher and the identity provider, and serves the app on http://localhost:3000.
+ * PostgreSQL cluster on 127.0.0.1:54329 with its two roles (the owner migrates, the server runs as
+ * the runtime role, as in production), migrates and seeds the demo, builds the client, starts the
+ * mail catcher and the identity provider, and serves the app on http://localhost:3000.
  * Ctrl-C stops everything it started, the cluster included; the data stays for next time.
+ * Development only: it refuses to run with NODE_ENV=production (demo data, local identity provider).
  */
 import { execFileSync } from 'node:child_process';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { pino } from 'pino';
-import { ensureDatabase, persistentDataDir, startCluster, type Cluster } from './postgres.js';
+import { asRole, ensureOwnedDatabase, OWNER_ROLE, persistentDataDir, RUNTIME_ROLE, startCluster, type Cluster } from './postgres.js';
 import { startMailCatcher } from './mail-catcher.js';
 import { startIdp } from '../../fake-idp/provider.js';
-import { createDb, migrateLatest } from '../db/knex.js';
+import { createDb } from '../db/knex.js';
+import { migrateForRuntime } from '../db/migrate.js';
 import { seedDemo } from './seed/index.js';
 import { loadConfig } from '../config.js';
 import { startServer } from '../server.js';
@@ -43,18 +46,23 @@ process.on('SIGINT', () => void stopAll(0));
 process.on('SIGTERM', () => void stopAll(0));
 
 try {
+  if (process.env.NODE_ENV === 'production') {
+    throw new Error('npm start runs the local demo (invented data, local identity provider) and refuses NODE_ENV=production. In production run `npm run build` and `node --import tsx server/main.ts` (see README).');
+  }
   let databaseUrl = process.env.DATABASE_URL;
-  if (!databaseUrl) {
+  let migrationUrl = process.env.MIGRATION_DATABASE_URL ?? databaseUrl;
+  if (!databaseUrl || !migrationUrl) {
     const dataDir = persistentDataDir(root);
     console.log(`[postgres] cluster in ${dataDir}, port ${pgPort}`);
     const cluster: Cluster = startCluster({ dataDir, port: pgPort });
     cleanups.push(() => cluster.stop());
-    await ensureDatabase(cluster.url('postgres'), 'orrery');
-    databaseUrl = cluster.url('orrery');
+    await ensureOwnedDatabase(cluster.url('postgres'), 'orrery');
+    migrationUrl = asRole(cluster.url('orrery'), OWNER_ROLE);
+    databaseUrl = asRole(cluster.url('orrery'), RUNTIME_ROLE);
   }
 
+  await migrateForRuntime(migrationUrl, databaseUrl);
   const db = createDb(databaseUrl);
-  await migrateLatest(db);
   await seedDemo(db);
   await db.destroy();
   console.log('[db] migrated and demo data in place');

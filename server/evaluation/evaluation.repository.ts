@@ -10,13 +10,13 @@ import type { AnalysisPopulation, Outcome } from './counting.js';
 
 type Conn = Db | Knex.Transaction;
 
-/** How a cohort is counted: its population, n1 (null for one stage) and n (null without a locked design). */
-export type CountingRule = { cohortId: string; population: AnalysisPopulation; n1: number | null; n: number | null };
+/** How a cohort is counted: its population and n1 (null for one stage or without a locked design). */
+export type CountingRule = { cohortId: string; population: AnalysisPopulation; n1: number | null };
 
 /**
  * Patients grouped by what the counting rules look at: whether they count, their effective outcome,
- * evaluability, stage (first n1 counting patients in enrolment order) and whether they are among
- * the first n counting patients. A few rows per cohort instead of every patient.
+ * evaluability and stage (first n1 counting patients in enrolment order). A few rows per cohort
+ * instead of every patient.
  */
 export type CountingGroup = {
   cohortId: string;
@@ -24,20 +24,19 @@ export type CountingGroup = {
   counts: boolean;
   outcome: Outcome;
   evaluable: boolean;
-  withinN: boolean;
   patients: number;
 };
 
 /** A point of the responders path: the k-th decided counting patient and the responders so far. */
 export type PathPoint = { cohortId: string; evaluable: number; responders: number };
 
-const RULES_SQL = 'select * from unnest(?::uuid[], ?::boolean[], ?::int[], ?::int[]) as r(cohort_id, evaluable_only, n1, n)';
+const RULES_SQL = 'select * from unnest(?::uuid[], ?::boolean[], ?::int[]) as r(cohort_id, evaluable_only, n1)';
 // The pg driver sends JS arrays (nulls included) as PostgreSQL arrays.
 const rulesBindings = (rules: CountingRule[]) =>
-  [rules.map((r) => r.cohortId), rules.map((r) => r.population === 'evaluable'), rules.map((r) => r.n1), rules.map((r) => r.n)] as Knex.RawBinding[];
+  [rules.map((r) => r.cohortId), rules.map((r) => r.population === 'evaluable'), rules.map((r) => r.n1)] as Knex.RawBinding[];
 
 // The effective outcome: under "all enrolled" a patient who is not evaluable counts as a non-responder.
-const COUNTED_PATIENTS = `select p.cohort_id, p.site_id, p.enrolment_seq, p.evaluable, r.n1, r.n,
+const COUNTED_PATIENTS = `select p.cohort_id, p.site_id, p.enrolment_seq, p.evaluable, r.n1,
     (not r.evaluable_only or p.evaluable) as counts,
     case when not r.evaluable_only and not p.evaluable then 'non_responder' else p.outcome end as outcome
   from patients p join rules r on r.cohort_id = p.cohort_id`;
@@ -51,17 +50,16 @@ export async function countingGroups(db: Conn, rules: CountingRule[]): Promise<C
        select *, count(*) filter (where counts) over (partition by cohort_id order by enrolment_seq rows between unbounded preceding and 1 preceding) as before
        from counted
      )
-     select cohort_id, (n1 is null or before < n1) as stage1, counts, outcome, evaluable, (counts and n is not null and before < n) as within_n, count(*)::int as patients
-     from ranked group by 1, 2, 3, 4, 5, 6`,
+     select cohort_id, (n1 is null or before < n1) as stage1, counts, outcome, evaluable, count(*)::int as patients
+     from ranked group by 1, 2, 3, 4, 5`,
     rulesBindings(rules),
   );
-  return (rows as Array<{ cohort_id: string; stage1: boolean; counts: boolean; outcome: Outcome; evaluable: boolean; within_n: boolean; patients: number }>).map((r) => ({
+  return (rows as Array<{ cohort_id: string; stage1: boolean; counts: boolean; outcome: Outcome; evaluable: boolean; patients: number }>).map((r) => ({
     cohortId: r.cohort_id,
     stage: r.stage1 ? 1 : 2,
     counts: r.counts,
     outcome: r.outcome,
     evaluable: r.evaluable,
-    withinN: r.within_n,
     patients: r.patients,
   }));
 }

@@ -1,23 +1,24 @@
 /**
  * The live evaluation of every cohort of a trial: counts under the protocol's analysis population,
  * the response rate with its exact (Clopper–Pearson) interval, the exact one-sided binomial test
- * against p0, and where the cohort stands against its locked design's rules (including early
- * determination). Aggregate figures only. `evaluateTrial` computes everything; `evaluationFor`
- * projects it for the viewer by the visibility rule (server/auth/visibility.ts): live figures, the
- * released cut's figures, own sites' counts. Numbers come straight from the statistics engine, so
- * they match it by construction.
+ * against p0, and the cohort's verdict under its locked design (verdict.ts: the same computation a
+ * data cut uses, at the look the cohort's status puts it at, with early determination). Aggregate
+ * figures only. `evaluateTrial` computes everything; `evaluationFor` projects it for the viewer by
+ * the visibility rule (server/auth/visibility.ts): live figures, the released cut's figures, own
+ * sites' counts. Numbers come straight from the statistics engine, so they match it by construction.
  */
 import type { Db } from '../db/knex.js';
 import { NotFoundError } from '../http/errors.js';
 import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
-import { binomialTest, evaluateTwoStage, proportionInterval, type InterimStatus } from '../stats/index.js';
+import { binomialTest, proportionInterval } from '../stats/index.js';
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
-import { trialFacts } from '../trials/index.js';
+import { trialFacts, type CohortStatus } from '../trials/index.js';
 import { countingGroups, responderPaths, siteCounts, type CountingGroup, type CountingRule, type SiteCounts } from './evaluation.repository.js';
 import { latestReleased, type ReleasedFigures } from './released.repository.js';
-import { CAUTIONS } from '../words/index.js';
-import { countsToward, tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
+import { CAUTIONS, plural } from '../words/index.js';
+import { tally, type CountablePatient, type StageTally, type Tally } from './counting.js';
+import { describeVerdict, verdictFigures, verdictLook, type CohortVerdict } from './verdict.js';
 
 export const CONF_LEVEL = 0.95;
 
@@ -33,7 +34,7 @@ export type CohortEvaluation = {
   cohortId: string;
   cohortCode: string;
   cohortName: string;
-  status: string;
+  status: CohortStatus;
   design: DesignSummary | null;
   enrolled: number;
   counted: number;
@@ -45,7 +46,8 @@ export type CohortEvaluation = {
   stage2: StageTally;
   rate: { estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
   test: { x: number; n: number; p0: number; pValue: number; alternative: 'greater' } | null;
-  rule: (InterimStatus & { basis: { responders: number; evaluable: number; stage1Responders?: number } }) | null;
+  /** The verdict under the locked design at the look the cohort's status puts it at. */
+  rule: CohortVerdict | null;
   earlyDetermination: string | null;
   accrual: string | null;
   notes: string[];
@@ -78,32 +80,11 @@ function summary(d: LockedDesign): DesignSummary {
   };
 }
 
-/** Where the cohort stands against its rules: stage 1 until all n1 stage-1 outcomes are in, then the final rule. */
-export function ruleState(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation'>, patients: CountablePatient[]) {
-  const counting = [...patients].filter((p) => countsToward(p, design.analysisPopulation)).sort((a, b) => a.enrolmentSeq - b.enrolmentSeq);
-  return ruleFromTally(design, counting.length, tally(counting.slice(0, design.n), design.n1, design.analysisPopulation));
-}
+type RuleDesign = Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'p0' | 'alpha' | 'analysisPopulation'>;
 
-/**
- * The rule state from `used`, the tally of the first n counting patients in enrolment order (all of
- * them when no more than n count), and `counting`, how many patients count in all.
- */
-export function ruleFromTally(design: Pick<LockedDesign, 'r1' | 'n1' | 'r' | 'n' | 'analysisPopulation'>, counting: number, used: Tally) {
-  const notes: string[] = [];
-  if (counting > design.n) {
-    notes.push(`${counting} patients count, more than the design's n = ${design.n}: the rule is applied to the first ${design.n} in enrolment order.`);
-  }
-  const t = used;
-  const twoStage = design.r1 !== null && design.n1 !== null;
-  const rule = { r1: design.r1 ?? undefined, n1: design.n1 ?? undefined, r: design.r, n: design.n };
-  let basis: { responders: number; evaluable: number; stage1Responders?: number };
-  if (twoStage && t.stage1.decided < (design.n1 as number)) basis = { responders: t.stage1.responders, evaluable: t.stage1.decided };
-  else if (twoStage) basis = { responders: t.responders, evaluable: t.decided, stage1Responders: t.stage1.responders };
-  else basis = { responders: t.responders, evaluable: t.decided };
-  if (twoStage && t.stage1.decided < (design.n1 as number) && t.stage2.decided > 0) {
-    notes.push(`${t.stage2.decided} stage-2 outcomes are in while ${(design.n1 as number) - t.stage1.decided} stage-1 outcomes are still missing; the stage-1 rule is applied first.`);
-  }
-  return { rule: { ...evaluateTwoStage(rule, basis), basis }, notes };
+/** The verdict from the cohort's patients one by one: the reference the grouped counts of the live evaluation are checked against. */
+export function ruleState(design: RuleDesign, status: CohortStatus, patients: CountablePatient[]): CohortVerdict {
+  return describeVerdict(verdictFigures(design, tally(patients, design.n1, design.analysisPopulation), verdictLook(status)), design);
 }
 
 /** The tally of the patients in `groups` (one cohort's), from the grouped counts. */
@@ -127,9 +108,9 @@ function tallyOfGroups(groups: CountingGroup[]): Tally {
   return { ...total, enrolled, notEvaluable, stage1: byStage[1], stage2: byStage[2] };
 }
 
-function earlyDetermination(design: LockedDesign, rule: InterimStatus): { early: string | null; accrual: string | null } {
+function earlyDetermination(design: LockedDesign, rule: CohortVerdict): { early: string | null; accrual: string | null } {
   if (!rule.determinedEarly) return { early: null, accrual: null };
-  if (rule.stage === 'stage1' && rule.decision === 'continue' && design.n1 !== null && design.r1 !== null) {
+  if (rule.applied === 'stage1' && rule.decision === 'continue' && design.n1 !== null && design.r1 !== null) {
     return {
       early: `Stage 1 is settled early: r1 + 1 = ${design.r1 + 1} responders were reached before n1 = ${design.n1} patients were evaluated, so the futility rule can no longer be met.`,
       accrual:
@@ -151,7 +132,7 @@ export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?
   const designs = await currentDesigns(db, cohortIds);
   const rules: CountingRule[] = cohortIds.map((cohortId) => {
     const design = designs.get(cohortId);
-    return { cohortId, population: design?.analysisPopulation ?? 'all_enrolled', n1: design?.n1 ?? null, n: design?.n ?? null };
+    return { cohortId, population: design?.analysisPopulation ?? 'all_enrolled', n1: design?.n1 ?? null };
   });
   const [groups, points, sites] = await Promise.all([countingGroups(db, rules), responderPaths(db, rules, PATH_POINTS), siteCounts(db, rules, options.siteIds ?? [])]);
   const cohorts = facts.cohorts.map((cohort): CohortEvaluation => {
@@ -163,14 +144,12 @@ export async function evaluateTrial(db: Db, trialId: string, options: { siteIds?
     let early: string | null = null;
     let accrual: string | null = null;
     if (design) {
-      const state = ruleFromTally(design, t.counted, tallyOfGroups(mine.filter((g) => g.withinN)));
-      rule = state.rule;
-      notes.push(...state.notes);
-      ({ early, accrual } = earlyDetermination(design, state.rule));
+      rule = describeVerdict(verdictFigures(design, t, verdictLook(cohort.status)), design);
+      ({ early, accrual } = earlyDetermination(design, rule));
     } else {
       notes.push('No locked design yet: the rule state appears once the statistician locks the design.');
     }
-    if (t.pending > 0) notes.push(`${t.pending} outcomes are pending and not in the figures yet.`);
+    if (t.pending > 0) notes.push(`${plural(t.pending, 'outcome')} pending, not in the figures yet.`);
     const path = points.filter((p) => p.cohortId === cohort.id).map((p) => ({ evaluable: p.evaluable, responders: p.responders }));
     const decided = t.decided;
     return {

@@ -5,6 +5,8 @@
 export { assignStages, countsToward, effectiveOutcome, responderPath, tally } from './counting.js';
 export type { AnalysisPopulation, CountablePatient, Outcome, Tally } from './counting.js';
 export { countCounting } from './evaluation.repository.js';
+export { describeVerdict, verdictFigures, verdictLook } from './verdict.js';
+export type { CohortVerdict } from './verdict.js';
 export { evaluationRoutes } from './evaluation.routes.js';
 export { insertReleasedFigures, latestReleased } from './released.repository.js';
 export type { ReleasedAnalysis, ReleasedFigures } from './released.repository.js';

@@ -9,7 +9,8 @@
  * - public: anyone, signed in or not;
  * - signed-in: any signed-in user (the handler filters what it returns by the user's memberships);
  * - role-anywhere: the user must hold one of `roles` on at least one trial (global records such
- *   as sites, or creating a new trial), else 403;
+ *   as sites, or creating a new trial), else 403; for admin, a trial-manager grant made from the
+ *   command line on an empty installation counts too;
  * - trial: the user must hold one of `roles` on the trial named by `:trialId`, or by the trial
  *   that `trialOf` finds for the route's other parameters (a data cut, say). A user who is not a
  *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
@@ -20,7 +21,7 @@ import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
 import { isUuid, type Actor, type Role, type SessionUser, type TrialAccess } from '../auth/access.js';
-import type { SignIn } from '../signatures/signatures.js';
+import type { SigningSession } from '../signatures/signatures.js';
 
 export type TrialOf = (db: Db, params: Record<string, string>) => Promise<string | undefined>;
 
@@ -73,10 +74,9 @@ export function actorOf(req: Request): Actor {
   return { user: requireUser(req), access: requireTrialAccess(req) };
 }
 
-/** The session's last sign-in at the identity provider, for a service that records a signature. */
-export function signInOf(req: Request, config: Config): SignIn {
-  requireUser(req);
-  return { authTime: req.session.authTime, maxAgeSeconds: config.signatureFreshnessSeconds };
+/** The browser session asking to sign, for a service that records a signature (it consumes that session's password entry). */
+export function signingSessionOf(req: Request): SigningSession {
+  return { userId: requireUser(req).id, sessionId: req.sessionID };
 }
 
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {
@@ -91,6 +91,16 @@ async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise
   };
 }
 
+/** An active membership in one of `roles` on any trial; a trial-manager grant (the first manager of an installation) counts as admin. */
+async function holdsRoleAnywhere(db: Db, userId: string, roles: readonly Role[]): Promise<boolean> {
+  const membership = await db('memberships')
+    .where({ user_id: userId, status: 'active' })
+    .whereIn('role', roles as Role[])
+    .first('id');
+  if (membership) return true;
+  return roles.includes('admin') && Boolean(await db('trial_manager_grants').where({ user_id: userId }).first('id'));
+}
+
 function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
   return async (req: Request, _res: Response, next: NextFunction) => {
     try {
@@ -99,11 +109,7 @@ function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
       if (!req.user) throw new UnauthenticatedError();
       if (access.kind === 'signed-in') return next();
       if (access.kind === 'role-anywhere') {
-        const held = await deps.db('memberships')
-          .where({ user_id: req.user.id, status: 'active' })
-          .whereIn('role', access.roles as Role[])
-          .first('id');
-        if (!held) throw new ForbiddenError('Only a trial manager (admin) can do this.');
+        if (!(await holdsRoleAnywhere(deps.db, req.user.id, access.roles))) throw new ForbiddenError('Only a trial manager (admin) can do this.');
         return next();
       }
       const params = req.params as Record<string, string>;

@@ -5,16 +5,25 @@ import pg from 'pg';
 import type { RequestHandler } from 'express';
 import type { Logger } from 'pino';
 import type { Config } from '../config.js';
+import type { SigningIntent } from '../signatures/signatures.js';
 
 declare module 'express-session' {
   interface SessionData {
     userId: string;
     email: string;
     name: string | null;
-    /** Seconds since the epoch of the last sign-in at the identity provider. */
-    authTime: number;
     idToken: string;
-    login: { state: string; nonce: string; codeVerifier: string; returnTo: string; reauth: boolean };
+    /**
+     * A sign-in under way. With `signing`, it is a password entry for one signature: the intent
+     * and when it was asked for (ms since the epoch), so an older authentication is refused.
+     */
+    login: {
+      state: string;
+      nonce: string;
+      codeVerifier: string;
+      returnTo: string;
+      signing?: { intent: SigningIntent; requestedAt: number };
+    };
   }
 }
 

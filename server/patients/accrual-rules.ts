@@ -13,7 +13,7 @@ import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
 import { findCohort, transitionCohort, type Cohort } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';
-import { POPULATION_IN_A_SENTENCE, SAFETY_PAUSED, STATUS_IN_A_SENTENCE } from '../words/index.js';
+import { DECISION_SUPPORT_ONLY, INTERIM_DATA, POPULATION_IN_A_SENTENCE, SAFETY_PAUSED, STATUS_IN_A_SENTENCE, plural } from '../words/index.js';
 import { countablePatients, currentStages, setStage } from './patients.repository.js';
 
 /** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
@@ -96,11 +96,11 @@ export async function applyAccrualRules(
       subject: `${label}: stage 1 complete — interim review`,
       text: [
         `Stage 1 of ${label} is complete: ${n1} patients are counted (${POPULATION_IN_A_SENTENCE[population]} population).`,
-        `So far ${counts.stage1.responders} responders among ${counts.stage1.decided} patients with an outcome; ${counts.stage1.pending} outcomes are pending.`,
+        `So far ${plural(counts.stage1.responders, 'responder')} among ${plural(counts.stage1.decided, 'decided patient')}; ${plural(counts.stage1.pending, 'outcome')} pending.`,
         `The stage-1 rule of the locked design (version ${design.version}): stop for futility with ${design.r1} or fewer responders among ${n1}.`,
         accrualLine,
         '',
-        'Decision support only: the decision belongs to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations. Interim figures may not yet be cleaned or source-verified.',
+        `${DECISION_SUPPORT_ONLY} ${INTERIM_DATA}`,
       ].join('\n'),
       dedupeKey: `interim-review:${input.cohortId}:v${design.version}:${to}`,
     })),

@@ -6,3 +6,4 @@ export { restageCohort } from './accrual-rules.js';
 export { countEnrolledByCohort, countPatientsAtSite, countPatientsInTrial, findPatient, findPatientById, findPatientByStudyId, listAttentionCandidates, listPatientsOfTrial, listPatientsWithAssessments, storeDerivations, storeDerivedOutcomes, storeOutcomeFlags } from './patients.repository.js';
 export type { OutcomeColumns, Patient } from './patients.repository.js';
 export { patientsRoutes } from './patients.routes.js';
+export { attestationMeaning } from './patients.schema.js';

@@ -63,6 +63,7 @@ type PatientRow = {
   not_evaluable_reason: string | null;
   attestation_signature_id: string | null;
   signer_email: string | null;
+  printed_name: string | null;
   signer_name: string | null;
   signed_at: Date | null;
   version: number;
@@ -92,7 +93,8 @@ function toPatient(row: PatientRow): Patient {
     notEvaluableReason: row.not_evaluable_reason,
     attested:
       row.attestation_signature_id && row.signed_at
-        ? { signatureId: row.attestation_signature_id, signerEmail: row.signer_email ?? '', signerName: row.signer_name, signedAt: row.signed_at.toISOString() }
+        ? // The printed name as it was at signing; older signatures fall back to the person's name now.
+          { signatureId: row.attestation_signature_id, signerEmail: row.signer_email ?? '', signerName: row.printed_name ?? row.signer_name, signedAt: row.signed_at.toISOString() }
         : null,
     version: row.version,
     derivedBestOverallResponse: row.derived_best_overall_response,
@@ -129,6 +131,7 @@ const COLUMNS = [
   'p.not_evaluable_reason',
   'p.attestation_signature_id',
   'sig.signer_email',
+  'sig.signer_name as printed_name',
   'su.name as signer_name',
   'sig.signed_at',
   'p.version',
@@ -403,12 +406,13 @@ export async function storeDerivations(trx: Knex.Transaction, rows: DerivedColum
 
 export type OutcomeColumns = { outcome: Outcome; bestOverallResponse: BestOverallResponse | null; responseAssessedOn: string | null };
 
-/** Outcomes written by the derivation; each bumps the version like any other change to an outcome. */
+/** Outcomes written by the derivation; each bumps the version and, like any other change to an outcome, clears its attestation. */
 export async function storeDerivedOutcomes(trx: Knex.Transaction, rows: Array<OutcomeColumns & { patientId: string }>): Promise<void> {
   for (const part of chunks(rows)) {
     await trx.raw(
       `update patients as p
-          set outcome = v.outcome, best_overall_response = v.bor, response_assessed_on = v.assessed_on, version = p.version + 1, updated_at = now()
+          set outcome = v.outcome, best_overall_response = v.bor, response_assessed_on = v.assessed_on,
+              attestation_signature_id = null, version = p.version + 1, updated_at = now()
          from (values ${part.map(() => '(?::uuid, ?::text, ?::text, ?::date)').join(', ')}) as v(id, outcome, bor, assessed_on)
         where p.id = v.id`,
       part.flatMap((r) => [r.patientId, r.outcome, r.bestOverallResponse, r.responseAssessedOn]),

@@ -4,7 +4,7 @@
  * managers (admin) and sponsors never receive patient-level rows. Writing is for the site roles:
  * a statistician reads and analyses but does not enter site data.
  */
-import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import { parseBody, parseQuery } from '../http/validate.js';
 import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
@@ -86,8 +86,8 @@ export const patientsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/patients/:patientId/attestation',
     access: { kind: 'trial', roles: ['investigator'] },
-    handler: async (req, res, { db, config, hooks }) => {
-      res.status(201).json(await attest(db, hooks, actorOf(req), String(req.params.patientId), req.body, signInOf(req, config)));
+    handler: async (req, res, { db, hooks }) => {
+      res.status(201).json(await attest(db, hooks, actorOf(req), String(req.params.patientId), req.body, signingSessionOf(req)));
     },
   },
   {

@@ -118,6 +118,9 @@ export const attestationSchema = yup.object({
   version: yup.number().integer().min(1).required('The record version is required.'),
 });
 
+/** The one wording of an attestation's signature: shown before signing, recorded with the signature. */
+export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete.`;
+
 /** The fields of an outcome, compared to decide whether a change is a correction. */
 export const OUTCOME_FIELDS = ['outcome', 'bestOverallResponse', 'responseAssessedOn', 'evaluable', 'notEvaluableReason'] as const;
 
@@ -138,7 +141,7 @@ export const listQuerySchema = yup.object({
   q: yup.string().trim().max(40).optional(),
   sort: yup.string().oneOf(LIST_SORTS).default('studyId'),
   dir: yup.string().oneOf(['asc', 'desc']).default('asc'),
-  page: yup.number().integer().min(1).default(1),
+  page: yup.number().integer().min(1).max(10_000_000, 'Page must be at most 10,000,000.').default(1),
   pageSize: yup.number().integer().min(1).max(500).default(50),
 });
 export type ListQuery = yup.InferType<typeof listQuerySchema>;

@@ -11,13 +11,14 @@ import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
-import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesign } from '../designs/index.js';
 import { countCounting } from '../evaluation/index.js';
 import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/index.js';
 import { holdsRoleAtSite } from '../people/index.js';
 import { entityHistory } from '../audit/index.js';
 import {
+  attestationMeaning,
   attestationSchema,
   isRecorded,
   latestToday,
@@ -265,16 +266,13 @@ export async function changeOutcome(db: Db, hooks: Hooks, actor: Actor, patientI
   return db.transaction((trx) => recordOutcome(trx, hooks, actor, patientId, input));
 }
 
-export const attestationMeaning = (studyId: string) => `I attest that the outcome recorded for ${studyId} is accurate and complete`;
-
-/** The investigator of the patient's site signs the recorded outcome (fresh sign-in required). */
-export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown, signIn: SignIn) {
+/** The investigator of the patient's site signs the recorded outcome (a password entered for this patient's attestation). */
+export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown, session: SigningSession) {
   const trialId = actor.access.trialId;
   const patient = await requireVisiblePatient(db, actor, patientId);
   const isSiteInvestigator = await holdsRoleAtSite(db, { trialId, userId: actor.user.id, role: 'investigator', siteId: patient.siteId });
   if (!isSiteInvestigator) throw new ForbiddenError('Only the investigator of the patient’s site can attest the outcome.');
   const { version } = await parseBody(attestationSchema, body);
-  const authenticatedAt = requireFreshAuthentication(signIn);
   return db.transaction(async (trx) => {
     const current = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
     if (current.version !== version) {
@@ -286,11 +284,12 @@ export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: stri
     const signature = await recordSignature(trx, {
       trialId,
       signer: { id: actor.user.id, email: actor.user.email },
+      session,
+      intent: { action: 'attestation', subjectId: current.id },
       meaning: attestationMeaning(current.studyId),
       subjectType: 'attestation',
       subjectId: current.id,
       content,
-      authenticatedAt,
     });
     await setAttestation(trx, current.id, current.version, signature.id);
     const after = (await findPatient(trx, trialId, current.id, 'all')) as Patient;

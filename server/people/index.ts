@@ -5,4 +5,4 @@
 export { countMonitors, decisionRecipients, findUserName, holdsRoleAtSite, insertMembership, memberEmails, sponsorRecipients, statisticianEmails } from './people.repository.js';
 export type { SponsorRecipient } from './people.repository.js';
 export { peopleRoutes } from './people.routes.js';
-export { membershipsOf } from './people.service.js';
+export { isTrialManager, membershipsOf } from './people.service.js';

@@ -2,11 +2,14 @@
  * People & sites: global site records, and who holds which role on a trial. Inviting someone who
  * has never signed in creates a pending membership that activates at their first sign-in; every
  * invitation queues an e-mail in the same transaction. A trial always keeps one active admin.
+ * Separation of duties: nobody grants, changes or removes their own membership, and a grant of
+ * statistician or committee member is mailed to the trial's statisticians.
  */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
-import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
+import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { ROLE_WORDS } from '../words/index.js';
 import { findTrialHeading } from '../trials/index.js';
@@ -22,6 +25,7 @@ import {
   listOwnMemberships,
   listSites,
   lockActiveAdmins,
+  statisticianEmails,
   trialHasSite,
   updateMembershipRow,
   updateSiteRow,
@@ -29,6 +33,7 @@ import {
   type OwnMembership,
   type Site,
 } from './people.repository.js';
+import { anyTrialManager, hasTrialManagerGrant, insertTrialManagerGrant } from './trial-managers.repository.js';
 import { SITE_MEMBER_ROLES, type MembershipInviteInput, type MembershipUpdateInput, type SiteInput, type SiteUpdateInput } from './people.schema.js';
 
 const siteView = (site: Site) => ({ code: site.code, name: site.name, country: site.country });
@@ -44,6 +49,11 @@ export { listSites };
 /** The user's own active memberships (roles come from the database, never the identity provider). */
 export async function membershipsOf(db: Db, user: SessionUser): Promise<OwnMembership[]> {
   return listOwnMemberships(db, user.id);
+}
+
+/** Whether the user may create sites and trials without managing one yet (the installation's first trial manager). */
+export async function isTrialManager(db: Db, user: SessionUser): Promise<boolean> {
+  return hasTrialManagerGrant(db, user.id);
 }
 
 /** A trial's members, for its admin and statistician. */
@@ -117,8 +127,43 @@ function invitationMail(input: {
   return { subject: `Orrery: you are invited to ${input.trial.code} as ${ROLE_WORDS[input.role]}`, text: lines.join('\n') };
 }
 
+/** Roles whose grant the trial's statisticians hear of: they see unblinded efficacy. */
+const UNBLINDED_ROLES: readonly Role[] = ['statistician', 'monitor'];
+
+const isSelf = (actor: SessionUser, membership: { email: string; userId?: string | null }) =>
+  membership.userId === actor.id || membership.email.toLowerCase() === actor.email.toLowerCase();
+
+const ownMembership = (what: string) =>
+  new ForbiddenError(`Nobody ${what} their own membership or role: ask another trial manager of this trial.`);
+
+/** Tells the trial's statisticians that someone now sees unblinded efficacy, inside the grant's transaction. */
+async function mailUnblindedGrant(
+  trx: Knex.Transaction,
+  input: { trialId: string; membershipId: string; email: string; role: Role; grantedBy: string; event: string },
+): Promise<void> {
+  if (!UNBLINDED_ROLES.includes(input.role)) return;
+  const trial = (await findTrialHeading(trx, input.trialId)) as { code: string; title: string };
+  const statisticians = (await statisticianEmails(trx, input.trialId)).filter((email) => email.toLowerCase() !== input.email.toLowerCase());
+  await enqueueMail(
+    trx,
+    statisticians.map((to) => ({
+      kind: 'unblinded_role_granted',
+      to,
+      subject: `${trial.code}: ${input.email} now holds the role ${ROLE_WORDS[input.role]}`,
+      text: [
+        `${input.grantedBy} ${input.event} ${input.email} on ${trial.code} (${trial.title}) in the role ${ROLE_WORDS[input.role]}.`,
+        '',
+        "In this role the person sees the trial's efficacy figures across all sites, live and in data cuts.",
+        'If this was not agreed, tell the trial manager and review the memberships in Orrery (People & sites).',
+      ].join('\n'),
+      dedupeKey: `unblinded-grant:${input.membershipId}:${input.role}:${to}`,
+    })),
+  );
+}
+
 export async function inviteMember(db: Db, { user: actor, access }: Actor, input: MembershipInviteInput, appOrigin: string): Promise<Membership> {
   const { trialId } = access;
+  if (isSelf(actor, { email: input.email })) throw ownMembership('grants themselves a role or invites');
   return db.transaction(async (trx) => {
     const siteId = input.siteId ?? null;
     await checkSiteOnTrial(trx, trialId, siteId);
@@ -139,6 +184,7 @@ export async function inviteMember(db: Db, { user: actor, access }: Actor, input
     const trial = (await findTrialHeading(trx, trialId)) as { code: string; title: string };
     const mail = invitationMail({ appOrigin, trial, role: input.role, siteCode: membership.siteCode, email: input.email, inviter: actor.email, active: status === 'active' });
     await enqueueMail(trx, { kind: 'invitation', to: input.email, ...mail, dedupeKey: `invitation:${membershipId}` });
+    await mailUnblindedGrant(trx, { trialId, membershipId, email: input.email, role: input.role, grantedBy: actor.email, event: 'added' });
     return membership;
   });
 }
@@ -158,6 +204,7 @@ export async function updateMember(db: Db, { user: actor, access }: Actor, membe
     const admins = await lockActiveAdmins(trx, trialId);
     const before = await findMembership(trx, trialId, membershipId, { lock: true });
     if (!before) throw new NotFoundError('The membership');
+    if (isSelf(actor, before)) throw ownMembership('changes');
     conflictIfStale(before, input.version);
     const siteId = input.siteId ?? null;
     await checkSiteOnTrial(trx, trialId, siteId);
@@ -173,6 +220,9 @@ export async function updateMember(db: Db, { user: actor, access }: Actor, membe
       before: membershipView(before),
       after: membershipView(after),
     });
+    if (after.role !== before.role) {
+      await mailUnblindedGrant(trx, { trialId, membershipId, email: after.email, role: after.role, grantedBy: actor.email, event: 'made' });
+    }
     return after;
   });
 }
@@ -183,8 +233,30 @@ export async function removeMember(db: Db, { user: actor, access }: Actor, membe
     const admins = await lockActiveAdmins(trx, trialId);
     const before = await findMembership(trx, trialId, membershipId, { lock: true });
     if (!before) throw new NotFoundError('The membership');
+    if (isSelf(actor, before)) throw ownMembership('removes');
     if (admins.length === 1 && admins[0] === membershipId) throw lastAdmin();
     await deleteMembership(trx, membershipId);
     await writeAudit(trx, { actorUserId: actor.id, trialId, entityType: 'membership', entityId: membershipId, action: 'removed', before: membershipView(before) });
+  });
+}
+
+/**
+ * Makes someone the first trial manager of an empty installation (run from the command line by
+ * whoever operates it, audited): they may then create sites and trials and invite everyone else
+ * in the application. Refused once anyone manages trials, so the command cannot grant twice.
+ */
+export async function grantFirstManager(db: Db, email: string, grantedFrom: string): Promise<{ id: string; active: boolean }> {
+  const address = email.trim().toLowerCase();
+  if (!/^[^@\s]+@[^@\s]+\.[^@\s]+$/.test(address)) throw new InputError(`"${email}" is not an e-mail address.`, { email: 'Give an e-mail address.' });
+  return db.transaction(async (trx) => {
+    // One grant at a time, even from two consoles at once.
+    await trx.raw('lock table trial_manager_grants in share row exclusive mode');
+    if (await anyTrialManager(trx)) {
+      throw new ConflictError('Someone already manages trials on this installation: they invite further trial managers in Orrery (People & sites).');
+    }
+    const user = await findUserByEmail(trx, address);
+    const id = await insertTrialManagerGrant(trx, { email: address, userId: user?.id ?? null, grantedFrom });
+    await writeAudit(trx, { actorUserId: null, entityType: 'trial_manager_grant', entityId: id, action: 'granted', after: { email: address, grantedFrom }, reason: 'First trial manager of an empty installation' });
+    return { id, active: Boolean(user) };
   });
 }

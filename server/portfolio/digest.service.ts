@@ -24,7 +24,7 @@ const SPONSOR_VIEW = { roles: ['sponsor' as const], siteIds: [] };
 
 function responseWords(figures: ResponseFigures): string {
   const rate = figures.responseRate === null ? '—' : `${(figures.responseRate * 100).toFixed(1)}%`;
-  return `${plural(figures.responders, 'responder')} among ${plural(figures.outcomesKnown, 'known outcome')} (${rate}, naive estimate)`;
+  return `${plural(figures.responders, 'responder')} among ${plural(figures.outcomesKnown, 'decided patient')} (${rate}, naive estimate)`;
 }
 
 function cohortLines(row: PortfolioRow, accrual: TrialAccrual): string[] {

@@ -5,7 +5,7 @@
  */
 import type { CohortStatus } from '../trials/index.js';
 import { daysBetween } from '../accrual/index.js';
-import { STOPPED_FOR, plural } from '../words/index.js';
+import { plural, stoppedFor } from '../words/index.js';
 
 export type MilestoneKind =
   | 'design-lock'
@@ -51,7 +51,7 @@ const finalDue = (pending: number): Milestone => ({
 
 export function nextMilestone(input: MilestoneInput): Milestone {
   const { status, design, counted } = input;
-  if (status === 'stopped') return { kind: 'none', text: `stopped ${STOPPED_FOR[(input.stopCategory ?? 'other') as keyof typeof STOPPED_FOR] ?? ''}`.trim() };
+  if (status === 'stopped') return { kind: 'none', text: `stopped ${stoppedFor(input.stopCategory)}` };
   if (status === 'completed') return { kind: 'none', text: 'completed' };
   if (!design) return { kind: 'design-lock', text: 'awaiting design lock' };
   if (input.reviewPendingSince) {

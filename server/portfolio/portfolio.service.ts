@@ -4,7 +4,7 @@
  * from aggregate queries only.
  *
  * Every row is computed in full, then projected by the visibility rule (server/auth/visibility.ts)
- * for the user's roles on that trial: live response figures (responders, known outcomes, rate,
+ * for the user's roles on that trial: live response figures (responders, decided patients, rate,
  * stage-1 responders) and the committee's last recommendation only for the statistician and
  * committee members, or where the locked design lets sponsors see response; the figures of the
  * cut a committee decision released, labelled with the cut's date, for sponsors and site staff;
@@ -17,7 +17,7 @@ import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/ind
 import { currentDesigns, type LockedDesign } from '../designs/index.js';
 import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import type { RecommendationDecision } from '../data-cuts/index.js';
-import { RECOMMENDATION_LABELS, STATUS_LABELS } from '../words/index.js';
+import { RECOMMENDATION_WORDS, STATUS_WORDS } from '../words/index.js';
 import { cohortTallies, countsUnder, designTargets, emptyTally, enrolmentCounts, type DesignTargets, type EnrolmentCounts } from '../accrual/index.js';
 import { committeeStates } from './portfolio.repository.js';
 import { nextMilestone, type Milestone } from './milestone.js';
@@ -89,7 +89,7 @@ const progress = (counted: number, target: number | null | undefined): Progress 
   target ? { counted, target, fraction: Math.min(1, counted / target) } : null;
 
 function decisionWords(decision: string): string {
-  return RECOMMENDATION_LABELS[decision as RecommendationDecision] ?? decision.replace(/_/g, ' ');
+  return RECOMMENDATION_WORDS[decision as RecommendationDecision]?.label ?? 'a recommendation';
 }
 
 /**
@@ -130,7 +130,7 @@ export async function portfolioRows(
         cohortName: cohort.name,
         cohortCount: trial.cohorts.length,
         status: cohort.status,
-        statusWords: STATUS_LABELS[cohort.status],
+        statusWords: STATUS_WORDS[cohort.status].label,
         stage,
         stageWords: stage === null ? 'not started' : design?.n1 === null ? 'single stage' : `stage ${stage}`,
         design: designTargets(design),

@@ -13,7 +13,7 @@ import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
-import { recordSignature, requireFreshAuthentication, type SignIn } from '../signatures/signatures.js';
+import { recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesign, type ToxicityDefinition } from '../designs/index.js';
 import { findPatient, type Patient } from '../patients/index.js';
 import { holdsRoleAtSite } from '../people/index.js';
@@ -179,15 +179,14 @@ export async function removeEvent(db: Db, actor: Actor, patientId: string, event
 export const eventAttestationMeaning = (event: Pick<AdverseEvent, 'studyId' | 'term' | 'onsetOn'>) =>
   `I attest that the adverse event "${event.term}" with onset on ${event.onsetOn} recorded for ${event.studyId} is accurate and complete`;
 
-/** The investigator of the patient's site signs the recorded event (fresh sign-in required). */
-export async function attestEvent(db: Db, actor: Actor, patientId: string, eventId: string, body: unknown, signIn: SignIn) {
+/** The investigator of the patient's site signs the recorded event (a password entered for this event's attestation). */
+export async function attestEvent(db: Db, actor: Actor, patientId: string, eventId: string, body: unknown, session: SigningSession) {
   const { user, access } = actor;
   const patient = await visiblePatient(db, actor, patientId, siteScope(access));
   await requireEvent(db, patient.id, eventId);
   const isSiteInvestigator = await holdsRoleAtSite(db, { trialId: access.trialId, userId: user.id, role: 'investigator', siteId: patient.siteId });
   if (!isSiteInvestigator) throw new ForbiddenError('Only the investigator of the patient’s site can attest its adverse events.');
   const { version } = await parseBody(eventAttestationSchema, body);
-  const authenticatedAt = requireFreshAuthentication(signIn);
   return db.transaction(async (trx) => {
     const current = await requireEvent(trx, patient.id, eventId, true);
     if (current.version !== version) throw new ConflictError('The adverse event changed since you opened it. Reload and check it before attesting.', { current });
@@ -195,11 +194,13 @@ export async function attestEvent(db: Db, actor: Actor, patientId: string, event
     const signature = await recordSignature(trx, {
       trialId: access.trialId,
       signer: { id: user.id, email: user.email },
+      session,
+      // The password entered for this event's attestation, used once.
+      intent: { action: 'attestation', subjectId: current.id },
       meaning: eventAttestationMeaning(current),
       subjectType: 'attestation',
       subjectId: current.id,
       content: { adverseEventId: current.id, patientId: patient.id, version: current.version, ...fieldsOf(current) },
-      authenticatedAt,
     });
     await setEventAttestation(trx, current.id, current.version, signature.id);
     const after = (await findEvent(trx, patient.id, current.id)) as AdverseEvent;

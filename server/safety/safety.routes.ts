@@ -5,7 +5,7 @@
  * shows figures: every member may call it, and what each receives follows the visibility rule
  * (server/auth/visibility.ts), as for efficacy. The stateless safety calculations are the statistician's.
  */
-import { actorOf, signInOf, type RouteSpec } from '../http/routes.js';
+import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import { parseBody, parseQuery } from '../http/validate.js';
 import { ROLES, type Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
@@ -66,8 +66,8 @@ export const safetyRoutes: RouteSpec[] = [
     method: 'post',
     path: `${BASE}/:eventId/attestation`,
     access: { kind: 'trial', roles: ['investigator'] },
-    handler: async (req, res, { db, config }) => {
-      res.status(201).json(await attestEvent(db, actorOf(req), param(req, 'patientId'), param(req, 'eventId'), req.body, signInOf(req, config)));
+    handler: async (req, res, { db }) => {
+      res.status(201).json(await attestEvent(db, actorOf(req), param(req, 'patientId'), param(req, 'eventId'), req.body, signingSessionOf(req)));
     },
   },
   {

@@ -13,7 +13,7 @@ import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import { NotFoundError } from '../http/errors.js';
 import { proportionInterval } from '../stats/index.js';
 import { currentDesigns, type LockedDesign, type ToxicityDefinition } from '../designs/index.js';
-import { listCohorts, type SafetyPause } from '../trials/index.js';
+import { listCohorts, type CohortStatus, type SafetyPause } from '../trials/index.js';
 import { CAUTIONS, describeSafetyState, responseOnlySafety, toxicityDefinitionSentence } from '../words/index.js';
 import { safetyCounts } from './safety.repository.js';
 import { ruleOfDesign, todayIso } from './safety-rules.js';
@@ -34,7 +34,7 @@ export type CohortSafety = {
   cohortId: string;
   cohortCode: string;
   cohortName: string;
-  status: string;
+  status: CohortStatus;
   safetyPause: SafetyPause | null;
   /** The locked design lets sponsors see response (the visibility rule reads it). */
   sponsorSeesResponse: boolean;

@@ -92,7 +92,7 @@ function validateSettings(settings: DesignSettings): void {
 }
 
 /** Smallest r with P(X > r | p0) ≤ α for n patients, found from a normal start by stepping. */
-function singleStageCutoff(n: number, p0: number, alpha: number): number {
+export function singleStageCutoff(n: number, p0: number, alpha: number): number {
   const guess = Math.round(n * p0 + 1.6 * Math.sqrt(n * p0 * (1 - p0)));
   let r = Math.min(Math.max(guess, 0), n);
   while (r > 0 && binomialSf(r - 1, n, p0) <= alpha) r--;

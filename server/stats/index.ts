@@ -18,10 +18,12 @@ export type {
 } from './designs.js';
 export { evaluateTwoStage } from './interim.js';
 export type { InterimStage, InterimDecision, InterimCounts, InterimStatus } from './interim.js';
-export { twoStageInference } from './inference.js';
+export { twoStageInference, stageWisePValue, stageWiseThreshold } from './inference.js';
 export type { InferenceDesign, TwoStageObservation, TwoStageInference } from './inference.js';
 export { koyamaChenPValue } from './koyama-chen.js';
 export type { KoyamaChenObservation } from './koyama-chen.js';
+export { cohortVerdict } from './verdict.js';
+export type { Verdict, VerdictDesign, VerdictCounts, VerdictLook, StageCounts, FinalTest } from './verdict.js';
 export { posteriorProbability, predictiveProbability } from './bayes.js';
 export type { BetaPrior, PosteriorInput, PredictiveInput } from './bayes.js';
 export { adjustPValues } from './multiplicity.js';

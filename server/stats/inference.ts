@@ -99,30 +99,74 @@ export function validateDesign(design: InferenceDesign): void {
   if (r < r1 || r >= n) throw new StatsInputError('r', `r (${r}) must be at least r1 (${r1}) and less than n (${n}).`);
 }
 
-export function twoStageInference(design: InferenceDesign, observed: TwoStageObservation): TwoStageInference {
+/** The observation checked against the design: x1, and x2 with the stage-2 size when stage 2 was reached. */
+function validateObservation(design: InferenceDesign, observed: TwoStageObservation) {
   validateDesign(design);
   if (typeof observed !== 'object' || observed === null) throw new StatsInputError('x1', 'The observed stage-1 responders x1 are required.');
-  const { r1, n1, p0 } = design;
+  const { r1, n1 } = design;
   const x1 = requireCount('x1', observed.x1);
   requireAtMost('x1', x1, 'n1', n1);
-  const confLevel = requireOpenUnit('confLevel', observed.confLevel ?? 0.95);
-  const tail = (1 - confLevel) / 2;
   const n2 = observed.n2Actual === undefined ? design.n - n1 : requireCount('n2Actual', observed.n2Actual);
-
-  const stoppedEarly = x1 <= r1;
-  if (stoppedEarly) {
+  if (x1 <= r1) {
     if (observed.x2 !== undefined) {
       throw new StatsInputError('x2', `The trial stops after stage 1 when x1 (${x1}) ≤ r1 (${r1}); x2 must be absent.`);
     }
-    const ci = proportionInterval(x1, n1, { confLevel });
-    return { pValue: binomialSf(x1 - 1, n1, p0), ci, umvue: x1 / n1, naiveEstimate: x1 / n1, naiveCi: ci };
+    return { x1, stoppedEarly: true as const, x2: 0, n2 };
   }
   if (observed.x2 === undefined && n2 > 0) {
     throw new StatsInputError('x2', `x1 (${x1}) exceeds r1 (${r1}), so the trial went on to stage 2: x2 is required.`);
   }
   const x2 = requireCount('x2', observed.x2 ?? 0);
   requireAtMost('x2', x2, 'the stage-2 size', n2);
+  return { x1, stoppedEarly: false as const, x2, n2 };
+}
 
+type CheckedObservation = ReturnType<typeof validateObservation>;
+
+/** P(an outcome ranking at least as high as the observed one | p0) under the stage-wise ordering. */
+function pValueOf({ r1, n1, p0 }: InferenceDesign, { x1, stoppedEarly, x2, n2 }: CheckedObservation): number {
+  return stoppedEarly ? binomialSf(x1 - 1, n1, p0) : Math.min(1, upperTail(p0, r1, n1, n2, x1 + x2));
+}
+
+/** The stage-wise p-value alone, without the interval: what a verdict and a multiplicity adjustment need. */
+export function stageWisePValue(design: InferenceDesign, observed: Omit<TwoStageObservation, 'confLevel'>): number {
+  return pValueOf(design, validateObservation(design, observed));
+}
+
+/**
+ * The final threshold r′ a stage-wise p-value implies for a design that reached stage 2 with n2
+ * patients: more than r′ responders in all exactly when the p-value is at most α. For a stage-2
+ * outcome the p-value depends on the total only and falls as it rises, so r′ is one less than the
+ * smallest total at or below α (at least r1); n1 + n2 when no total is enough.
+ */
+export function stageWiseThreshold(design: Pick<InferenceDesign, 'r1' | 'n1' | 'p0'>, n2: number, alpha: number): number {
+  const n1 = requireCount('n1', design.n1, 1);
+  const r1 = requireCount('r1', design.r1);
+  if (r1 >= n1) throw new StatsInputError('r1', `r1 (${r1}) must be less than n1 (${n1}).`);
+  const p0 = requireOpenUnit('p0', design.p0);
+  requireCount('n2', n2);
+  requireOpenUnit('alpha', alpha);
+  let lo = r1 + 1;
+  let hi = n1 + n2 + 1;
+  while (lo < hi) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (Math.min(1, upperTail(p0, r1, n1, n2, mid)) <= alpha) hi = mid;
+    else lo = mid + 1;
+  }
+  return lo - 1;
+}
+
+export function twoStageInference(design: InferenceDesign, observed: TwoStageObservation): TwoStageInference {
+  const checked = validateObservation(design, observed);
+  const { x1, stoppedEarly, x2, n2 } = checked;
+  const { r1, n1 } = design;
+  const confLevel = requireOpenUnit('confLevel', observed.confLevel ?? 0.95);
+  const tail = (1 - confLevel) / 2;
+  const pValue = pValueOf(design, checked);
+  if (stoppedEarly) {
+    const ci = proportionInterval(x1, n1, { confLevel });
+    return { pValue, ci, umvue: x1 / n1, naiveEstimate: x1 / n1, naiveCi: ci };
+  }
   const s = x1 + x2;
   const total = n1 + n2;
   const upper = (p: number) => upperTail(p, r1, n1, n2, s);
@@ -131,7 +175,7 @@ export function twoStageInference(design: InferenceDesign, observed: TwoStageObs
   const ciLow = solveInP(upper, tail, true);
   const ciHigh = s === total ? 1 : solveInP(lower, tail, false);
   return {
-    pValue: Math.min(1, upper(p0)),
+    pValue,
     ci: [ciLow, ciHigh],
     umvue: umvueAfterStageTwo(r1, n1, n2, s),
     naiveEstimate: s / total,

@@ -60,8 +60,22 @@ function validateCounts(design: DesignRule, counts: InterimCounts, n1: number, t
   }
 }
 
+/**
+ * Where responders stand against "more than r among size" with `decided` outcomes in: above r
+ * already, at most r whatever the rest show, or open. `left` counts the places still undecided; when
+ * open, `toSettle` gives the further responders that lift the count above r and the further
+ * non-responders that keep it at or below r.
+ */
+export function settleRule(r: number, size: number, responders: number, decided: number) {
+  const left = size - decided;
+  if (responders > r) return { state: 'above' as const, early: left > 0, left, toSettle: null };
+  if (responders + left <= r) return { state: 'at-most' as const, early: left > 0, left, toSettle: null };
+  return { state: 'open' as const, early: false, left, toSettle: { responders: r + 1 - responders, nonResponders: size - r - (decided - responders) } };
+}
+
 function stageOne(r1: number, n1: number, r: number, responders: number, evaluable: number): InterimStatus {
-  const left = n1 - evaluable;
+  const rule = settleRule(r1, n1, responders, evaluable);
+  const left = rule.left;
   const leftText = left > 0 ? `${count(left, 'patient')} of stage 1 remain to be evaluated` : 'stage 1 is complete';
   if (responders > r) {
     return {
@@ -72,11 +86,11 @@ function stageOne(r1: number, n1: number, r: number, responders: number, evaluab
       message: `Already ${count(responders, 'responder')}, more than r = ${r}: stage 1 is passed and the final analysis will be promising whatever the remaining patients show; ${leftText}.`,
     };
   }
-  if (responders > r1) {
+  if (rule.state === 'above') {
     return {
       stage: 'stage1',
       decision: 'continue',
-      determinedEarly: left > 0,
+      determinedEarly: rule.early,
       remainingToDecide: 0,
       message:
         left > 0
@@ -84,11 +98,11 @@ function stageOne(r1: number, n1: number, r: number, responders: number, evaluab
           : `Stage 1 is passed: ${count(responders, 'responder')} among ${n1} exceed r1 = ${r1}; continue to stage 2.`,
     };
   }
-  if (responders + left <= r1) {
+  if (rule.state === 'at-most') {
     return {
       stage: 'stage1',
       decision: 'stop-futility',
-      determinedEarly: left > 0,
+      determinedEarly: rule.early,
       remainingToDecide: 0,
       message:
         left > 0
@@ -96,8 +110,7 @@ function stageOne(r1: number, n1: number, r: number, responders: number, evaluab
           : `Stage 1 ended with ${count(responders, 'responder')} among ${n1} (≤ r1 = ${r1}): the futility rule is met.`,
     };
   }
-  const needed = r1 + 1 - responders;
-  const failures = n1 - r1 - (evaluable - responders);
+  const { responders: needed, nonResponders: failures } = rule.toSettle;
   return {
     stage: 'stage1',
     decision: 'undetermined',
@@ -108,13 +121,14 @@ function stageOne(r1: number, n1: number, r: number, responders: number, evaluab
 }
 
 function finalRule(stage: InterimStage, r: number, n: number, responders: number, evaluable: number): InterimStatus {
-  const left = n - evaluable;
+  const rule = settleRule(r, n, responders, evaluable);
+  const left = rule.left;
   const name = stage === 'single' ? 'The trial' : 'The final analysis';
-  if (responders > r) {
+  if (rule.state === 'above') {
     return {
       stage,
       decision: 'promising',
-      determinedEarly: left > 0,
+      determinedEarly: rule.early,
       remainingToDecide: 0,
       message:
         left > 0
@@ -122,11 +136,11 @@ function finalRule(stage: InterimStage, r: number, n: number, responders: number
           : `${name} is promising: ${count(responders, 'responder')} among ${n} exceed r = ${r}.`,
     };
   }
-  if (responders + left <= r) {
+  if (rule.state === 'at-most') {
     return {
       stage,
       decision: 'not-promising',
-      determinedEarly: left > 0,
+      determinedEarly: rule.early,
       remainingToDecide: 0,
       message:
         left > 0
@@ -134,8 +148,7 @@ function finalRule(stage: InterimStage, r: number, n: number, responders: number
           : `${name} is not promising: ${count(responders, 'responder')} among ${n} (≤ r = ${r}).`,
     };
   }
-  const needed = r + 1 - responders;
-  const failures = n - r - (evaluable - responders);
+  const { responders: needed, nonResponders: failures } = rule.toSettle;
   return {
     stage,
     decision: 'undetermined',

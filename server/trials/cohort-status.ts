@@ -11,6 +11,7 @@ import { writeAudit } from '../audit/audit.js';
 import { ConflictError, NotFoundError } from '../http/errors.js';
 import { clearSafetyPause, findSafetyReview, lockCohort, setCohortStatus, setSafetyPause } from './trials.repository.js';
 import type { CohortStatus, StopCategory } from './trials.schema.js';
+import { STATUS_WORDS } from '../words/index.js';
 
 const NEXT: Record<CohortStatus, CohortStatus[]> = {
   draft: ['enrolling_stage_1', 'stopped'],
@@ -42,10 +43,10 @@ export async function transitionCohort(
   if (!cohort) throw new NotFoundError('The cohort');
   const from = cohort.status;
   if (input.from && input.from !== from) {
-    throw new ConflictError(`The cohort is now "${from}", no longer "${input.from}".`, { currentStatus: from });
+    throw new ConflictError(`The cohort is now “${STATUS_WORDS[from].label}”, no longer “${STATUS_WORDS[input.from].label}”.`, { currentStatus: STATUS_WORDS[from].label });
   }
   if (!canTransition(from, input.to)) {
-    throw new ConflictError(`A cohort in "${from}" cannot move to "${input.to}".`, { currentStatus: from });
+    throw new ConflictError(`A cohort in “${STATUS_WORDS[from].label}” cannot move to “${STATUS_WORDS[input.to].label}”.`, { currentStatus: STATUS_WORDS[from].label });
   }
   if (input.to === 'stopped' && (!input.stopCategory || !input.reason)) {
     throw new ConflictError('Stopping needs a category and a reason.');

@@ -5,6 +5,7 @@
  */
 import type { Attribution, EventOutcome, JointVerdict, SafetyRule, SafetyRuleState, ToxicityStatus } from '../safety/safety.schema.js';
 import { plural } from './counts.js';
+import { GLYPHS, type Worded } from './glyphs.js';
 
 /** NCI CTCAE v5.0, general grade descriptions (short form). */
 export const GRADE_WORDS: Record<number, string> = {
@@ -145,8 +146,8 @@ export function toxicityWindowClosing(lastDay: string, today: string): string {
   return `The toxicity window closes ${when}: record any adverse event with onset in the window before it is judged.`;
 }
 
-export const SAFETY_ATTENTION_WORDS: Record<'event-awaits-assessment' | 'serious-event-unattested' | 'toxicity-window-closing', { label: string; icon: string }> = {
-  'event-awaits-assessment': { label: 'Event without grade or attribution', icon: '?' },
-  'serious-event-unattested': { label: 'Serious event not attested', icon: '✎' },
-  'toxicity-window-closing': { label: 'Toxicity window closing', icon: '⧗' },
+export const SAFETY_ATTENTION_WORDS: Record<'event-awaits-assessment' | 'serious-event-unattested' | 'toxicity-window-closing', Worded> = {
+  'event-awaits-assessment': { label: 'Event without grade or attribution', glyph: GLYPHS.pending },
+  'serious-event-unattested': { label: 'Serious event not attested', glyph: GLYPHS.draft },
+  'toxicity-window-closing': { label: 'Toxicity window closing', glyph: GLYPHS.warning },
 };

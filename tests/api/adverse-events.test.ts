@@ -10,7 +10,6 @@ import { format, parseISO } from 'date-fns';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
 import { daysFromToday, enrolOne, shiftDate } from '../support/assessment-factories.js';
-import { ageSignIn } from '../support/design-factories.js';
 import { addEventsDirectly, lockSafetyDesignDirectly } from '../support/safety-factories.js';
 import type { Session } from '../support/sign-in.js';
 
@@ -151,6 +150,7 @@ describe('attestation by the site investigator', () => {
   it('when the investigator of the site attests an event, then it is signed; a correction clears the attestation', async () => {
     const patient = await enrolOne(stack.db, trial, { site: 'SB', enrolledOn: ENROLLED });
     const created = (await ivan.post(url(patient.id), EVENT)).body.event;
+    await ivan.confirmToSign('attestation', created.id);
     const attested = await ivan.post(`${url(patient.id, created.id)}/attestation`, { version: 1 });
     expect(attested.status).toBe(201);
     expect(attested.body.signature).toMatchObject({
@@ -166,18 +166,19 @@ describe('attestation by the site investigator', () => {
     expect((await auditRows(created.id)).map((a) => a.action)).toEqual(['created', 'attested', 'corrected']);
   });
 
-  it('when the sign-in is stale, then 401 asks for a fresh one and nothing is signed; a coordinator may not attest', async () => {
+  it('when no password was entered for this event, or it was entered for another, then 401 asks for it and nothing is signed; a coordinator may not attest', async () => {
     const patient = await enrolOne(stack.db, trial, { site: 'SB', enrolledOn: ENROLLED });
-    const [eventId] = await addEventsDirectly(stack.db, { trialId: trial.trialId, patientId: patient.id, events: [{ onsetOn: day(3) }] });
-    const fresh = await stack.signIn(DEMO.investigator);
-    await ageSignIn(stack.db, fresh, 3600);
-    const stale = await fresh.post(`${url(patient.id, eventId)}/attestation`, { version: 1 });
-    expect(stale.status).toBe(401);
-    expect(stale.body.error.code).toBe('reauthentication_required');
+    const [eventId, otherId] = await addEventsDirectly(stack.db, { trialId: trial.trialId, patientId: patient.id, events: [{ onsetOn: day(3) }, { onsetOn: day(4), term: 'Anaemia' }] });
+    const unconfirmed = await ivan.post(`${url(patient.id, eventId)}/attestation`, { version: 1 });
+    expect(unconfirmed.status).toBe(401);
+    expect(unconfirmed.body.error).toMatchObject({ code: 'reauthentication_required', reauthUrl: `/auth/login?intent=attestation&subject=${eventId}` });
+    // A password entered for the other event does not sign this one.
+    await ivan.confirmToSign('attestation', otherId);
+    expect((await ivan.post(`${url(patient.id, eventId)}/attestation`, { version: 1 })).status).toBe(401);
     const atSa = await enrolOne(stack.db, trial, { enrolledOn: ENROLLED });
     const [saEvent] = await addEventsDirectly(stack.db, { trialId: trial.trialId, patientId: atSa.id, events: [{ onsetOn: day(3) }] });
     expect((await cora.post(`${url(atSa.id, saEvent)}/attestation`, { version: 1 })).status).toBe(403);
-    const [{ n }] = await stack.db('adverse_events').whereIn('id', [eventId, saEvent]).whereNotNull('attestation_signature_id').count({ n: '*' });
+    const [{ n }] = await stack.db('adverse_events').whereIn('id', [eventId, otherId, saEvent]).whereNotNull('attestation_signature_id').count({ n: '*' });
     expect(Number(n)).toBe(0);
   });
 });

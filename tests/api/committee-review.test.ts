@@ -16,14 +16,6 @@ beforeAll(async () => {
 });
 afterAll(async () => stack?.close());
 
-/** Makes this session's sign-in look old, as if the member had signed in long before signing. */
-async function ageSignIn(session: Session) {
-  const signed = decodeURIComponent(session.cookie.slice('orrery.sid='.length));
-  const sid = signed.slice(2, signed.lastIndexOf('.'));
-  const updated = await stack.db.raw(`update session set sess = (sess::jsonb || '{"authTime": 1000}'::jsonb)::json where sid = ?`, [sid]);
-  expect(updated.rowCount).toBe(1);
-}
-
 /** Stage 1 of Simon's optimal 3/13, 12/43 complete, cohort paused for the interim review. */
 async function pausedAtInterim(stage1: { responders: number; nonResponders: number }): Promise<{ trial: TrialFixture; cohortId: string }> {
   const trial = await createTrial(stack.db);
@@ -51,41 +43,46 @@ async function enrolWithOutcomes(cora: Session, trial: TrialFixture, results: Ar
   }
 }
 
-const continueRecommendation = { decision: 'continue', rationale: 'Four responders among thirteen: stage 1 passed, no safety concern.' };
+const continueRecommendation = { decision: 'continue', rationale: 'Four responders among thirteen: stage 1 passed, no safety concern.', analysisVersion: 1 };
+
+/** Enters the password for a recommendation on this cut, then signs it, as the sign form does. */
+async function signRecommendation(member: Session, cutId: string, body: Record<string, unknown> = continueRecommendation) {
+  await member.confirmToSign('recommendation', cutId);
+  return member.post(`/api/data-cuts/${cutId}/recommendations`, body);
+}
 
 describe('signing a recommendation', () => {
-  it('when a monitor signs with a fresh sign-in, then the recommendation is stored with its signature; a second one is refused with 409', async () => {
+  it('when a monitor signs after entering the password for this cut, then the recommendation is stored with its signature on analysis version 1; a second one is refused with 409', async () => {
     const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
     const cut = await freezeCutDirectly(stack.db, trial);
     const monitor = await stack.signIn(DEMO.monitor);
-    const signed = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+    const signed = await signRecommendation(monitor, cut.id);
     expect(signed.status).toBe(201);
     expect(signed.body.signed).toBe(1);
     expect(signed.body.committeeSize).toBe(1);
     const [recommendation] = signed.body.recommendations;
-    expect(recommendation).toMatchObject({ decision: 'continue', memberEmail: DEMO.monitor });
-    expect(recommendation.signature.meaning).toContain(`I recommend "Continue to stage 2" for ${trial.code} cohort MAIN on data cut 1`);
+    expect(recommendation).toMatchObject({ decision: 'continue', memberEmail: DEMO.monitor, analysisVersion: 1 });
+    expect(recommendation.signature.meaning).toBe(`I recommend "Continue to stage 2" for ${trial.code} cohort MAIN on data cut 1 (${cut.id}), having reviewed its analysis version 1.`);
+    expect(recommendation.signature.signerName).toBe('Mona Monitor');
     expect(recommendation.signature.subjectType).toBe('recommendation');
     const audit = await stack.db('audit_log').where({ entity_type: 'recommendation', entity_id: recommendation.id, action: 'signed' }).first();
     expect(audit.after.decision).toBe('continue');
 
-    const again = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, { ...continueRecommendation, decision: 'stop_futility' });
+    const again = await signRecommendation(monitor, cut.id, { ...continueRecommendation, decision: 'stop_futility' });
     expect(again.status).toBe(409);
     expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 1 });
   });
 
-  it('when the monitor’s sign-in is not fresh, then 401 reauthentication_required and nothing is signed; after signing in again it works', async () => {
+  it('when the monitor has not entered the password for this cut, then 401 names the way to enter it and nothing is signed; after entering it the signature goes through', async () => {
     const { trial } = await pausedAtInterim({ responders: 4, nonResponders: 9 });
     const cut = await freezeCutDirectly(stack.db, trial);
     const monitor = await stack.signIn(DEMO.monitor);
-    await ageSignIn(monitor);
-    const stale = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
-    expect(stale.status).toBe(401);
-    expect(stale.body.error.code).toBe('reauthentication_required');
-    expect(stale.body.error.reauthUrl).toContain('reauth=1');
+    const unconfirmed = await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+    expect(unconfirmed.status).toBe(401);
+    expect(unconfirmed.body.error.code).toBe('reauthentication_required');
+    expect(unconfirmed.body.error.reauthUrl).toBe(`/auth/login?intent=recommendation&subject=${cut.id}`);
     expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).first()).toBeUndefined();
-    await monitor.reauthenticate();
-    expect((await monitor.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation)).status).toBe(201);
+    expect((await signRecommendation(monitor, cut.id)).status).toBe(201);
   });
 
   it('when the rationale is missing, then 400 with the field, before any signature', async () => {
@@ -94,7 +91,7 @@ describe('signing a recommendation', () => {
     const bad = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, { decision: 'continue' });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields.rationale).toBeTruthy();
-    const wrong = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, { decision: 'carry on', rationale: 'A long enough rationale.' });
+    const wrong = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, { decision: 'carry on', rationale: 'A long enough rationale.', analysisVersion: 1 });
     expect(wrong.body.error.fields.decision).toBeTruthy();
   });
 
@@ -109,6 +106,35 @@ describe('signing a recommendation', () => {
     expect(list.body).toMatchObject({ signed: 2, committeeSize: 3 });
     const cuts = await mona.get(`/api/trials/${trial.trialId}/data-cuts`);
     expect(cuts.body.dataCuts[0].recommendationCount).toBe(2);
+  });
+});
+
+describe('"Continue to stage 2" only where a stage 2 is ahead', () => {
+  it('when a cut of a cohort already in stage 2 or of a single-stage cohort is reviewed, then "continue" is refused with 400 on the decision field and nothing is signed', async () => {
+    const inStage2 = await createTrial(stack.db);
+    await arrangeCohort(stack.db, inStage2, { design: { cohortStatus: 'enrolling_stage_2' }, patients: { SA: outcomes(4, 10) } });
+    const singleStage = await createTrial(stack.db);
+    await arrangeCohort(stack.db, singleStage, { design: { r1: null, n1: null, r: 5, n: 20, cohortStatus: 'enrolling_stage_1' }, patients: { SA: outcomes(3, 5) } });
+    for (const trial of [inStage2, singleStage]) {
+      const cut = await freezeCutDirectly(stack.db, trial);
+      const refused = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, continueRecommendation);
+      expect(refused.status).toBe(400);
+      expect(refused.body.error.fields.decision).toMatch(/only where a stage 2 exists and has not begun/);
+      expect(await stack.db('recommendations').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
+      expect(await stack.db('signatures').where({ subject_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
+    }
+  });
+
+  it('when resuming stage 2 is applied to a single-stage cohort, then 400 on the action field and the cohort stays as it was', async () => {
+    const trial = await createTrial(stack.db);
+    const { cohortId } = await arrangeCohort(stack.db, trial, { design: { r1: null, n1: null, r: 5, n: 20, cohortStatus: 'enrolling_stage_1' }, patients: { SA: outcomes(3, 5) } });
+    const cut = await freezeCutDirectly(stack.db, trial);
+    await recommendDirectly(stack.db, cut, DEMO.monitor, 'modify_protocol');
+    const refused = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'resume_stage_2', reason: 'No stage 2 to resume.' });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.fields.action).toMatch(/only where a stage 2 exists and has not begun/);
+    expect((await stack.db('cohorts').where({ id: cohortId }).first()).status).toBe('enrolling_stage_1');
+    expect(await stack.db('data_cut_decisions').where({ data_cut_id: cut.id }).count({ n: '*' }).first()).toEqual({ n: 0 });
   });
 });
 
@@ -180,7 +206,7 @@ describe('applying the decision', () => {
     expect(frozen.body.dataCut.counts).toMatchObject({ patients: 13, pending: 0, unattested: 13 });
     const analysis = (await mona.get(`/api/data-cuts/${cutId}/analysis`)).body.analysis;
     expect(analysis.cohorts[0].rule.decision).toBe('continue');
-    expect((await mona.post(`/api/data-cuts/${cutId}/recommendations`, continueRecommendation)).status).toBe(201);
+    expect((await signRecommendation(mona, cutId)).status).toBe(201);
     const applied = await sam.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_stage_2', reason: 'Committee recommends continuing; stage 1 passed.' });
     expect(applied.status).toBe(201);
     expect(applied.body.decision).toMatchObject({ action: 'resume_stage_2', fromStatus: 'interim_review', toStatus: 'enrolling_stage_2' });
@@ -209,9 +235,10 @@ describe('applying the decision', () => {
     const cut = (await sam.post(`/api/trials/${trial.trialId}/data-cuts`, { cohortId, kind: 'interim' })).body.dataCut;
     const analysis = (await mona.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis;
     expect(analysis.cohorts[0].rule.decision).toBe('stop-futility');
-    const signed = await mona.post(`/api/data-cuts/${cut.id}/recommendations`, {
+    const signed = await signRecommendation(mona, cut.id, {
       decision: 'stop_futility',
       rationale: 'Two responders among thirteen: the futility rule is met.',
+      analysisVersion: 1,
     });
     expect(signed.status).toBe(201);
     const applied = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', stopCategory: 'futility', reason: 'Futility rule met at stage 1.' });
@@ -232,11 +259,15 @@ describe('applying the decision', () => {
       return got.length >= 1 && got;
     });
     expect(statisticianMail.length).toBe(1);
+    // The mail words the stop category and carries the caution that a recommendation is not yet a decision.
+    expect(statisticianMail[0].text).toContain('"Stop for futility"');
+    expect(statisticianMail[0].text).toContain('A signed recommendation is not yet a decision');
+    expect(mail[0].text).toContain('is stopped for futility');
     const audit = await stack.db('audit_log').where({ entity_type: 'cohort', entity_id: cohortId, action: 'status_changed' }).orderBy('id', 'desc').first();
     expect(audit.after.status).toBe('stopped');
   });
 
-  it('when a whole-trial cut covers several cohorts, then the decision names the cohort it moves; an admin may apply it', async () => {
+  it('when a whole-trial cut covers several cohorts, then the decision names the cohort it moves; the admin may not apply it, the statistician does', async () => {
     const trial = await createTrial(stack.db, { cohorts: ['A', 'B'] });
     await arrangeCohort(stack.db, trial, { cohortIndex: 0, design: { cohortStatus: 'interim_review' }, patients: { SA: outcomes(4, 9) } });
     const { cohortId: b } = await arrangeCohort(stack.db, trial, { cohortIndex: 1, design: { cohortStatus: 'interim_review' }, patients: { SA: outcomes(1, 12) } });
@@ -246,7 +277,10 @@ describe('applying the decision', () => {
     expect(vague.status).toBe(400);
     expect(vague.body.error.fields.cohortId).toBeTruthy();
     const ada = await stack.signIn(DEMO.admin);
-    const applied = await ada.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', cohortId: b, stopCategory: 'futility', reason: 'Cohort B failed.' });
+    const byAdmin = await ada.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', cohortId: b, stopCategory: 'futility', reason: 'Cohort B failed.' });
+    expect(byAdmin.status).toBe(403);
+    expect((await stack.db('cohorts').where({ id: b }).first()).status).toBe('interim_review');
+    const applied = await sam.post(`/api/data-cuts/${cut.id}/decision`, { action: 'stop', cohortId: b, stopCategory: 'futility', reason: 'Cohort B failed.' });
     expect(applied.status).toBe(201);
     expect((await stack.db('cohorts').where({ id: b }).first()).status).toBe('stopped');
     expect((await stack.db('cohorts').where({ id: trial.cohortIds[0] }).first()).status).toBe('interim_review');

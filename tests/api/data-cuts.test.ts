@@ -8,7 +8,7 @@ import { enrolPatientsDirectly } from '../support/patient-factories.js';
 import {
   adjustPValues,
   binomialTest,
-  evaluateTwoStage,
+  cohortVerdict,
   heterogeneity,
   operatingCharacteristics,
   posteriorProbability,
@@ -16,7 +16,7 @@ import {
   proportionInterval,
 } from '../../server/stats/index.js';
 import { fig } from '../../server/data-cuts/report/pdf.js';
-import { pdfText } from '../support/pdf-text.js';
+import { pdfPages } from '../support/pdf-text.js';
 
 let stack: Stack;
 let sam: Session;
@@ -28,6 +28,22 @@ beforeAll(async () => {
   mona = await stack.signIn(DEMO.monitor);
 });
 afterAll(async () => stack?.close());
+
+/** The report's bytes as a session downloads them. */
+function downloadReport(session: Session, cutId: string) {
+  return session.get(`/api/data-cuts/${cutId}/report.pdf`).buffer(true).parse((res, done) => {
+    const chunks: Buffer[] = [];
+    res.on('data', (c: Buffer) => chunks.push(c));
+    res.on('end', () => done(null, Buffer.concat(chunks)));
+  });
+}
+
+/** A cohort whose interim cut has 3 responders among the first 13 and patients 14–15 enrolled at risk (1 responder). */
+async function atRiskTrial(): Promise<{ trial: TrialFixture; cohortId: string }> {
+  const trial = await createTrial(stack.db);
+  const { cohortId } = await arrangeCohort(stack.db, trial, { design: { interimAccrual: 'continue_at_risk' }, patients: { SA: [...outcomes(3, 10), ...outcomes(1, 1)] } });
+  return { trial, cohortId };
+}
 
 async function stage1Trial(): Promise<{ trial: TrialFixture; cohortId: string }> {
   const trial = await createTrial(stack.db);
@@ -121,8 +137,8 @@ describe('the analysis of a cut', () => {
     expect(c.responseRate.wilson).toEqual(proportionInterval(4, 13, { method: 'wilson' }));
     expect(c.responseRate.jeffreys).toEqual(proportionInterval(4, 13, { method: 'jeffreys' }));
     expect(c.exactTest.pValue).toBe(binomialTest(4, 13, 0.2, { alternative: 'greater' }).pValue);
-    expect(c.rule).toMatchObject({ ...evaluateTwoStage({ r1: 3, n1: 13, r: 12, n: 43 }, { responders: 4, evaluable: 13 }), applied: 'stage1' });
-    expect(c.rule.decision).toBe('continue');
+    expect(c.rule).toMatchObject(cohortVerdict({ r1: 3, n1: 13, r: 12, n: 43, p0: 0.2, alpha: 0.05 }, { stage1: c.counts.stage1, stage2: c.counts.stage2 }, 'stage-1'));
+    expect(c.rule).toMatchObject({ applied: 'stage1', decision: 'continue', atRisk: 0 });
     const prior = { a: 0.2, b: 0.8 };
     expect(c.bayes.prior).toEqual({ ...prior, source: 'default' });
     expect(c.bayes.posteriorProbability).toBe(posteriorProbability({ x: 4, n: 13, p0: 0.2, prior }));
@@ -151,22 +167,18 @@ describe('the analysis of a cut', () => {
     expect(analysis.cohorts[0].responderSources).toEqual({ derived: 2, entered: 1 });
   });
 
-  it('when stage 1 over-ran, then the rule as applied and an adjusted threshold that keeps the type I error within α are shown', async () => {
+  it('when stage 1 over-ran at the interim, then stage 1 is still the first n1 patients, the later ones are counted as enrolled at risk and no threshold is adjusted', async () => {
     const trial = await createTrial(stack.db);
-    // 16 patients at the interim instead of n1 = 13.
+    // 16 patients at the interim instead of n1 = 13: 4 responders among the first 13.
     const { cohortId } = await arrangeCohort(stack.db, trial, { patients: { SA: outcomes(4, 12) } });
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
     const { analysis } = (await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body;
-    const dv = analysis.cohorts[0].deviation;
-    expect(dv).toMatchObject({ plannedN1: 13, actualN1: 16, plannedN: 43, actualN: 43 });
-    const asApplied = operatingCharacteristics({ r1: 3, n1: 16, r: 12, n: 43 }, [0.2, 0.4]);
-    expect(dv.asApplied.characteristics.typeIError).toBe(asApplied[0].probPromising);
-    const { r1, r } = dv.adjusted;
-    expect(dv.adjusted.characteristics.typeIError).toBeLessThanOrEqual(0.05);
-    const [atP0] = operatingCharacteristics({ r1, n1: 16, r, n: 43 }, [0.2]);
-    expect(atP0.probPromising).toBeLessThanOrEqual(0.05);
-    if (r > r1) expect(operatingCharacteristics({ r1, n1: 16, r: r - 1, n: 43 }, [0.2])[0].probPromising).toBeGreaterThan(0.05);
-    expect(dv.method).toMatch(/smallest final threshold/);
+    const c = analysis.cohorts[0];
+    expect(c.counts.stage1).toMatchObject({ counted: 13, responders: 4 });
+    expect(c.rule).toMatchObject({ applied: 'stage1', decision: 'continue', atRisk: 3, threshold: { r: 3, n: 13, source: 'planned' } });
+    expect(c.rule.atRiskNote).toMatch(/^3 patients counted beyond the first n1 = 13 are stage-2 patients enrolled at risk/);
+    expect(c.deviation).toBeNull();
+    expect(JSON.stringify(c)).not.toMatch(/r1′|adjusted/i);
   });
 
   it('when a final cut of a finished two-stage cohort is analysed, then the stage-wise inference sits beside the naive figures with its caution', async () => {
@@ -175,9 +187,11 @@ describe('the analysis of a cut', () => {
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId, kind: 'final' });
     const { analysis } = (await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body;
     const c = analysis.cohorts[0];
-    expect(c.inference).toMatchObject({ x1: 4, n1: 13, x2: 10, n2Actual: 30 });
+    expect(c.inference).toMatchObject({ x1: 4, n1: 13, x2: 10, n2Actual: 30, sensitivity: null });
     expect(c.inference.naiveEstimate).toBeCloseTo(14 / 43, 12);
-    expect(c.rule.decision).toBe('promising');
+    expect(c.rule).toMatchObject({ look: 'final', decision: 'promising', threshold: { r: 12, n: 43, source: 'planned' } });
+    expect(c.rule.finalTest.pValue).toBe(c.inference.pValue);
+    expect(c.deviation).toBeNull();
     expect(c.cautions.join(' ')).toMatch(/naive figures ignore the stopping rule/);
   });
 
@@ -191,6 +205,7 @@ describe('the analysis of a cut', () => {
     const ps = [binomialTest(4, 10, 0.1, { alternative: 'greater' }).pValue, binomialTest(2, 13, 0.2, { alternative: 'greater' }).pValue, binomialTest(1, 10, 0.1, { alternative: 'greater' }).pValue];
     expect(analysis.multiplicity.rows.map((r: { code: string }) => r.code)).toEqual(['A', 'B', 'C']);
     expect(analysis.multiplicity.rows.map((r: { pValue: number }) => r.pValue)).toEqual(ps);
+    expect(analysis.multiplicity.rows.map((r: { basis: string }) => r.basis)).toEqual(['exact-binomial', 'exact-binomial', 'exact-binomial']);
     expect(analysis.multiplicity.rows.map((r: { holm: number }) => r.holm)).toEqual(adjustPValues(ps, 'holm'));
     expect(analysis.multiplicity.rows.map((r: { bh: number }) => r.bh)).toEqual(adjustPValues(ps, 'bh'));
     expect(cut.snapshot.cohorts.map((c) => c.design?.p0)).toEqual([0.1, 0.2, 0.1]);
@@ -231,26 +246,18 @@ describe('the report', () => {
   it('when the report is downloaded twice, then the bytes are the same, the hash is stored and its figures are the engine’s', async () => {
     const { trial, cohortId } = await stage1Trial();
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
-    const first = await mona.get(`/api/data-cuts/${cut.id}/report.pdf`).buffer(true).parse((res, done) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => done(null, Buffer.concat(chunks)));
-    });
+    const first = await downloadReport(mona, cut.id);
     expect(first.status).toBe(200);
     expect(first.headers['content-type']).toBe('application/pdf');
     const bytes = first.body as Buffer;
     expect(bytes.subarray(0, 5).toString()).toBe('%PDF-');
     const hash = createHash('sha256').update(bytes).digest('hex');
     expect(first.headers['x-report-sha256']).toBe(hash);
-    const second = await sam.get(`/api/data-cuts/${cut.id}/report.pdf`).buffer(true).parse((res, done) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => done(null, Buffer.concat(chunks)));
-    });
+    const second = await downloadReport(sam, cut.id);
     expect(createHash('sha256').update(second.body as Buffer).digest('hex')).toBe(hash);
-    expect((await stack.db('data_cuts').where({ id: cut.id }).first()).report_hash).toBe(hash);
+    expect((await stack.db('data_cut_reports').where({ data_cut_id: cut.id })).map((r) => r.sha256)).toEqual([hash]);
 
-    const text = pdfText(bytes);
+    const text = (await pdfPages(bytes)).join('\n');
     const cp = proportionInterval(4, 13);
     expect(text).toContain(fig.ci(cp));
     expect(text).toContain(fig.ci(proportionInterval(4, 13, { method: 'wilson' })));
@@ -260,6 +267,17 @@ describe('the report', () => {
     expect(text).toContain(cut.contentHash);
     expect(text).toMatch(/Decision support only/);
     expect(text).toMatch(/Futility boundary/);
+  });
+
+  it('when a cut has patients enrolled at risk, then the report says how many and states how verdicts are reached', async () => {
+    const { trial, cohortId } = await atRiskTrial();
+    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+    const text = (await pdfPages((await downloadReport(sam, cut.id)).body as Buffer)).join(' ').replace(/\s+/g, ' ');
+    expect(text).toMatch(/The futility rule is met: stage 1 ended with 3 responders among its 13 patients/);
+    expect(text).toMatch(/2 patients counted beyond the first n1 = 13 are stage-2 patients enrolled at risk/);
+    expect(text).toMatch(/How verdicts are reached/);
+    expect(text).toMatch(/1\. Stage 1 is the first n1 counting patients in enrolment order/);
+    expect(text).not.toMatch(/Adjusted thresholds/);
   });
 });
 
@@ -290,17 +308,35 @@ describe('exports', () => {
     const same = await sam.get(`/api/data-cuts/${cut.id}/export.csv?dataset=adrs`);
     expect(same.text).toBe(adrs.text);
   });
+
+  it('when a cut has patients enrolled at risk, then the exports mark them in stage 2 and leave them out of the primary analysis flag', async () => {
+    const { trial, cohortId } = await atRiskTrial();
+    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+    const [header, ...rows] = (await sam.get(`/api/data-cuts/${cut.id}/export.csv`)).text.trim().split('\r\n');
+    const columns = header.split(',');
+    const cells = rows.map((r) => r.split(','));
+    expect(cells.map((r) => r[columns.indexOf('stage')])).toEqual([...Array(13).fill('1'), '2', '2']);
+    expect(cells.map((r) => r[columns.indexOf('enrolled_at_risk')])).toEqual([...Array(13).fill('false'), 'true', 'true']);
+    const adrs = (await sam.get(`/api/data-cuts/${cut.id}/adrs.csv`)).text.trim().split('\r\n');
+    const adrsColumns = adrs[0].split(',');
+    const resp = adrs.slice(1).map((r) => r.split(',')).filter((r) => r[adrsColumns.indexOf('PARAMCD')] === 'RESP');
+    expect(resp.map((r) => r[adrsColumns.indexOf('ANL01FL')])).toEqual([...Array(13).fill('Y'), '', '']);
+  });
 });
 
 describe('a single-stage design', () => {
-  it('when a final cut has fewer patients than n, then the rule and the deviation use the actual size', async () => {
+  it('when a final cut has fewer patients than n, then the rule and the deviation use the attained size and its exact threshold', async () => {
     const trial = await createTrial(stack.db);
     const { cohortId } = await arrangeCohort(stack.db, trial, { design: { r1: null, n1: null, r: 9, n: 35 }, patients: { SA: outcomes(8, 22) } });
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId, kind: 'final' });
     const c = (await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis.cohorts[0];
-    expect(c.deviation).toMatchObject({ plannedN: 35, actualN: 30, actualN1: null });
-    expect(c.deviation.adjusted.characteristics.typeIError).toBeLessThanOrEqual(0.05);
-    expect(c.rule.stage).toBe('single');
+    // The smallest r with P(X > r | 30, 0.2) ≤ 0.05, from the exact binomial tail.
+    const r = [...Array(30).keys()].find((k) => binomialTest(k + 1, 30, 0.2, { alternative: 'greater' }).pValue <= 0.05) as number;
+    expect(c.deviation).toMatchObject({ plannedN: 35, attainedN: 30, attainedN1: null, applied: { r1: null, r } });
+    expect(c.deviation.applied.characteristics.typeIError).toBe(operatingCharacteristics({ r, n: 30 }, [0.2])[0].probPromising);
+    expect(c.deviation.applied.characteristics.typeIError).toBeLessThanOrEqual(0.05);
+    expect(c.rule).toMatchObject({ applied: 'final', look: 'final', threshold: { r, n: 30, source: 'attained' } });
+    expect(c.rule.message).not.toMatch(/remain/);
     expect(c.inference).toBeNull();
   });
 });

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly } from '../support/patient-factories.js';
-import { TSY201_SETTINGS, ageSignIn, lockBody, signInTime, writeCounts } from '../support/design-factories.js';
+import { TSY201_SETTINGS, lockBody, writeCounts } from '../support/design-factories.js';
 import type { Session } from '../support/sign-in.js';
 
 let stack: Stack;
@@ -18,6 +18,16 @@ const candidatesPath = (t: TrialFixture) => `/api/trials/${t.trialId}/design-can
 const lockPath = (t: TrialFixture, cohort = 0) => `/api/trials/${t.trialId}/cohorts/${t.cohortIds[cohort]}/design`;
 const amendPath = (t: TrialFixture, cohort = 0) => `${lockPath(t, cohort)}/amendments`;
 const transitionPath = (t: TrialFixture, cohort = 0) => `/api/trials/${t.trialId}/cohorts/${t.cohortIds[cohort]}/transitions`;
+
+/** Enters the password for this cohort's design, then signs it, as the sign dialog does. */
+async function signLock(session: Session, t: TrialFixture, body: Record<string, unknown>, cohort = 0) {
+  await session.confirmToSign('design', t.cohortIds[cohort]);
+  return session.post(lockPath(t, cohort), body);
+}
+async function signAmendment(session: Session, t: TrialFixture, body: Record<string, unknown>, cohort = 0) {
+  await session.confirmToSign('amendment', t.cohortIds[cohort]);
+  return session.post(amendPath(t, cohort), body);
+}
 
 type Candidate = { r1: number | null; n1: number | null; r: number; n: number; en0: number; pet0: number; typeIError: number; power: number; curve: Array<{ p: number; probPromising: number }> };
 const rule = (d: Candidate) => `${d.r1}/${d.n1}, ${d.r}/${d.n}`;
@@ -109,19 +119,18 @@ describe('design candidates', () => {
 });
 
 describe('locking a design (electronic signature)', () => {
-  it('when the sign-in is stale, then 401 asks for re-authentication and nothing is written; after it the lock is signed', async () => {
+  it('when no password was entered for this design, then 401 names the way to enter it and nothing is written; after it the lock is signed with the printed name', async () => {
     const trial = await createTrial(stack.db);
     const stat = await stack.signIn(DEMO.statistician);
-    await ageSignIn(stack.db, stat, 3600);
     const before = await writeCounts(stack.db);
-    const stale = await stat.post(lockPath(trial), lockBody());
-    expect(stale.status).toBe(401);
-    expect(stale.body.error.code).toBe('reauthentication_required');
-    expect(stale.body.error.reauthUrl).toMatch(/^\/auth\/login\?reauth=1/);
+    const unconfirmed = await stat.post(lockPath(trial), lockBody());
+    expect(unconfirmed.status).toBe(401);
+    expect(unconfirmed.body.error.code).toBe('reauthentication_required');
+    expect(unconfirmed.body.error.reauthUrl).toBe(`/auth/login?intent=design&subject=${trial.cohortIds[0]}`);
     expect(await writeCounts(stack.db)).toEqual(before);
 
-    await stat.reauthenticate();
-    const authTime = await signInTime(stack.db, stat);
+    const confirmedAt = Date.now();
+    await stat.confirmToSign('design', trial.cohortIds[0]);
     const locked = await stat.post(lockPath(trial), lockBody({ r1: 0, n1: 1, r: 0, n: 2 }));
     expect(locked.status).toBe(201);
     const design = locked.body.design;
@@ -130,18 +139,20 @@ describe('locking a design (electronic signature)', () => {
     expect(design.version).toBe(1);
     expect(design.signature).toMatchObject({
       signerEmail: DEMO.statistician,
+      signerName: 'Sam Stat',
       subjectType: 'design',
       subjectId: design.id,
       meaning: `I approve this design for protocol PRT-TEST v1.0 of ${trial.code}, cohort MAIN.`,
     });
-    expect(new Date(design.signature.authenticatedAt).getTime()).toBe(authTime * 1000);
+    // auth_time has whole seconds: the password was entered at or after the request for it.
+    expect(new Date(design.signature.authenticatedAt).getTime()).toBeGreaterThanOrEqual(Math.floor(confirmedAt / 1000) * 1000);
     const audit = await stack.db('audit_log').where({ entity_type: 'design', entity_id: design.id });
     expect(audit).toEqual([expect.objectContaining({ action: 'design_locked', trial_id: trial.trialId })]);
   });
 
   it('when the design is read back, then statistician, admin and monitor see the version with its signature', async () => {
     const trial = await createTrial(stack.db, { cohorts: ['A', 'B'] });
-    await sam.post(lockPath(trial, 1), lockBody({ selection: 'minimax' })).expect(201);
+    expect((await signLock(sam, trial, lockBody({ selection: 'minimax' }), 1)).status).toBe(201);
     for (const email of [DEMO.statistician, DEMO.admin, DEMO.monitor]) {
       const reader = email === DEMO.statistician ? sam : await stack.signIn(email);
       const response = await reader.get(`/api/trials/${trial.trialId}/designs`);
@@ -157,13 +168,13 @@ describe('locking a design (electronic signature)', () => {
 
   it('when a second version is signed before any enrolment, then it needs a reason', async () => {
     const trial = await createTrial(stack.db);
-    await sam.post(lockPath(trial), lockBody()).expect(201);
+    expect((await signLock(sam, trial, lockBody())).status).toBe(201);
     const before = await writeCounts(stack.db);
     const noReason = await sam.post(lockPath(trial), lockBody({ selection: 'minimax' }));
     expect(noReason.status).toBe(400);
     expect(noReason.body.error.fields.reason).toMatch(/reason/);
     expect(await writeCounts(stack.db)).toEqual(before);
-    const revised = await sam.post(lockPath(trial), lockBody({ selection: 'minimax', reason: 'Smaller maximum size preferred by the steering committee', basedOnVersion: 1 }));
+    const revised = await signLock(sam, trial, lockBody({ selection: 'minimax', reason: 'Smaller maximum size preferred by the steering committee', basedOnVersion: 1 }));
     expect(revised.status).toBe(201);
     expect(revised.body.design).toMatchObject({ version: 2, amendmentReason: 'Smaller maximum size preferred by the steering committee' });
     expect(revised.body.design.signature.meaning).toMatch(/^I approve version 2 of this design/);
@@ -173,7 +184,7 @@ describe('locking a design (electronic signature)', () => {
 
   it('when the signer saw an older version, then 409 with the current design and nothing is written', async () => {
     const trial = await createTrial(stack.db);
-    await sam.post(lockPath(trial), lockBody()).expect(201);
+    expect((await signLock(sam, trial, lockBody())).status).toBe(201);
     const before = await writeCounts(stack.db);
     const stale = await sam.post(lockPath(trial), lockBody({ reason: 'Change', basedOnVersion: 0 }));
     expect(stale.status).toBe(409);
@@ -186,7 +197,7 @@ describe('locking a design (electronic signature)', () => {
     const response = await sam.post(lockPath(trial), lockBody({ selection: 'admissible', admissibleIndex: 40 }));
     expect(response.status).toBe(400);
     expect(response.body.error.fields.admissibleIndex).toMatch(/admissible designs/);
-    const chosen = await sam.post(lockPath(trial), lockBody({ selection: 'admissible', admissibleIndex: 1 }));
+    const chosen = await signLock(sam, trial, lockBody({ selection: 'admissible', admissibleIndex: 1 }));
     expect(chosen.status).toBe(201);
     expect(chosen.body.design.selection).toBe('admissible');
   });
@@ -204,7 +215,7 @@ describe('locking a design (electronic signature)', () => {
 describe('amendments after the first enrolment', () => {
   async function enrolledTrial() {
     const trial = await createTrial(stack.db);
-    await sam.post(lockPath(trial), lockBody()).expect(201);
+    expect((await signLock(sam, trial, lockBody())).status).toBe(201);
     await sam.post(transitionPath(trial), { to: 'enrolling_stage_1' }).expect(200);
     await enrolPatientsDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], siteId: trial.siteIds.SA, count: 3 });
     return trial;
@@ -230,7 +241,7 @@ describe('amendments after the first enrolment', () => {
 
   it('when an amendment is signed with a reason, then it is a new signed version and the old one stays readable', async () => {
     const trial = await enrolledTrial();
-    const response = await sam.post(amendPath(trial), lockBody({ selection: 'minimax', reason: 'Protocol amendment 2: smaller maximum size', basedOnVersion: 1 }));
+    const response = await signAmendment(sam, trial, lockBody({ selection: 'minimax', reason: 'Protocol amendment 2: smaller maximum size', basedOnVersion: 1 }));
     expect(response.status).toBe(201);
     expect(response.body.design).toMatchObject({ version: 2, selection: 'minimax', amendmentReason: 'Protocol amendment 2: smaller maximum size' });
     expect(response.body.design.signature).toMatchObject({ subjectType: 'amendment', meaning: expect.stringMatching(/^I approve this amendment \(design version 2\)/) });
@@ -244,7 +255,7 @@ describe('amendments after the first enrolment', () => {
 
   it('when no patient is enrolled yet, then the amendment route refuses (a new version goes through the lock form)', async () => {
     const trial = await createTrial(stack.db);
-    await sam.post(lockPath(trial), lockBody()).expect(201);
+    expect((await signLock(sam, trial, lockBody())).status).toBe(201);
     const response = await sam.post(amendPath(trial), lockBody({ reason: 'Early change' }));
     expect(response.status).toBe(409);
   });
@@ -263,7 +274,7 @@ describe('opening accrual and stopping a cohort', () => {
 
   it('when a design is locked, then the statistician opens accrual, audited; the admin may not', async () => {
     const trial = await createTrial(stack.db);
-    await sam.post(lockPath(trial), lockBody()).expect(201);
+    expect((await signLock(sam, trial, lockBody())).status).toBe(201);
     const ada = await stack.signIn(DEMO.admin);
     const refused = await ada.post(transitionPath(trial), { to: 'enrolling_stage_1' });
     expect(refused.status).toBe(403);

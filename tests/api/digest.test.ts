@@ -76,7 +76,7 @@ describe('weekly digest', () => {
     expect(section(hidden.code)).toContain('Enrolled 4');
     expect(section(hidden.code)).toContain('Response figures: not shown.');
     expect(section(hidden.code)).not.toMatch(/Response: |responders? among/);
-    expect(section(released.code)).toMatch(/Response as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}: 1 responder among 3 known outcomes \(33\.3%, naive estimate\)/);
+    expect(section(released.code)).toMatch(/Response as of the data cut of \d{1,2} [A-Z][a-z]+ \d{4}: 1 responder among 3 decided patients \(33\.3%, naive estimate\)/);
     expect(section(released.code)).not.toMatch(/Response \(live\)|Last committee recommendation/);
     expect(section(hidden.code)).toContain('Next: stage-1 cohort complete in ~9 patients');
     expect(section(released.code)).toMatch(/Next: full cohort \(n = 43\) enrolled/);

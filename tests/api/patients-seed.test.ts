@@ -12,7 +12,7 @@ let db: Db;
 const today = new Date('2026-12-01T12:00:00Z');
 
 beforeAll(async () => {
-  db = createDb(await createTestDatabase(), { poolMax: 2 });
+  db = createDb((await createTestDatabase()).runtimeUrl, { poolMax: 2 });
   await seedDemo(db, today);
 }, 120_000);
 afterAll(async () => db?.destroy());

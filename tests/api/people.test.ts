@@ -183,19 +183,21 @@ describe('memberships', () => {
     expect(row).toMatchObject({ action: 'removed', before: expect.objectContaining({ role: 'sponsor', email: pending.email }) });
   });
 
-  it('when the last active admin would be removed or demoted, then 409 and they stay admin', async () => {
+  it('when the admin removes or demotes their own membership, then 403 with the reason and nothing changes; another admin may', async () => {
     const fixture = await createTrial(stack.db);
     const own = await stack.db('memberships').where({ trial_id: fixture.trialId, role: 'admin' }).first();
     const auditBefore = await auditCount(stack.db);
     const removal = await admin.delete(`${memberships(fixture.trialId)}/${own.id}`);
-    expect(removal.status).toBe(409);
-    expect(removal.body.error.message).toMatch(/last active admin/);
-    expect((await admin.patch(`${memberships(fixture.trialId)}/${own.id}`, { role: 'sponsor', version: 1 })).status).toBe(409);
+    expect(removal.status).toBe(403);
+    expect(removal.body.error.message).toMatch(/own membership/);
+    const demotion = await admin.patch(`${memberships(fixture.trialId)}/${own.id}`, { role: 'sponsor', version: 1 });
+    expect(demotion.status).toBe(403);
     expect(await auditCount(stack.db)).toBe(auditBefore);
+    expect(await stack.db('memberships').where({ id: own.id }).first()).toMatchObject({ role: 'admin', version: 1 });
 
     const second = await admin.post(memberships(fixture.trialId), { email: DEMO.statistician, role: 'admin' });
     expect(second.body.membership.status).toBe('active');
-    expect((await admin.delete(`${memberships(fixture.trialId)}/${own.id}`)).status).toBe(204);
+    expect((await statistician.delete(`${memberships(fixture.trialId)}/${own.id}`)).status).toBe(204);
   });
 
   it('when an unknown or malformed membership id is used, then 404', async () => {

@@ -133,6 +133,7 @@ describe('a design locked with a safety rule', () => {
     const missing = await sam.post(`/api/trials/${trial.trialId}/cohorts/${cohortId}/design`, lockBody({ safetyRule: 'toxicity_boundary', toxMinGrade: 3, toxWindowDays: 28 }));
     expect(missing.status).toBe(400);
     expect(Object.keys(missing.body.error.fields).sort()).toEqual(['toxAlpha', 'toxTheta']);
+    await sam.confirmToSign('design', cohortId);
     const res = await sam.post(
       `/api/trials/${trial.trialId}/cohorts/${cohortId}/design`,
       lockBody({ safetyRule: 'toxicity_boundary', toxMinGrade: 3, toxWindowDays: 28, toxTheta: 0.25, toxAlpha: 0.1 }),
@@ -153,6 +154,7 @@ describe('a design locked with a safety rule', () => {
     const single = await sam.post(path, lockBody({ ...body, selection: 'single_stage' }));
     expect(single.body.error.fields.selection, single.text).toBe('A Bryant–Day design is the optimal or the minimax one.');
     expect((await sam.post(path, lockBody({ ...body, nmax: 160 }))).body.error.fields.nmax).toMatch(/at most 150/);
+    await sam.confirmToSign('design', trial.cohortIds[0]);
     const res = await sam.post(path, lockBody({ ...body, selection: 'optimal' }));
     expect(res.status).toBe(201);
     expect(res.body.design).toMatchObject({ selection: 'optimal', r1: 5, n1: 19, r: 12, n: 33, safetyRule: 'bryant_day', bryantDay: { t1: 7, t: 10, toxAcceptable: 0.2, toxUnacceptable: 0.4, alphaT: 0.15 } });
@@ -298,6 +300,7 @@ describe('crossing the rule pauses accrual', () => {
     await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId });
     const patients = await enrolPatientsDirectly(stack.db, { trialId: trial.trialId, cohortId, siteId: trial.siteIds.SA, count: 3, firstEnrolledOn: daysFromToday(-70) });
     for (const p of patients) await addEventsDirectly(stack.db, { trialId: trial.trialId, patientId: p.id, events: [{ onsetOn: daysFromToday(-65) }] });
+    await sam.confirmToSign('amendment', cohortId);
     const amended = await sam.post(
       `/api/trials/${trial.trialId}/cohorts/${cohortId}/design/amendments`,
       lockBody({ reason: 'Protocol amendment 2 adds toxicity monitoring', safetyRule: 'toxicity_boundary', toxMinGrade: 3, toxWindowDays: 28, toxTheta: 0.25, toxAlpha: 0.1 }),
@@ -313,6 +316,11 @@ describe('after a safety pause', () => {
     expect(res.status).toBe(201);
     return res.body.dataCut.id as string;
   };
+  /** A member's signed recommendation on the cut's first analysis version, with the password entered for it. */
+  const recommend = async (member: Session, cutId: string, decision: string, rationale: string) => {
+    await member.confirmToSign('recommendation', cutId);
+    return member.post(`/api/data-cuts/${cutId}/recommendations`, { decision, rationale, analysisVersion: 1 });
+  };
   const resume = (cutId: string, session = sam) => session.post(`/api/data-cuts/${cutId}/decision`, { action: 'resume_accrual', reason: 'The committee reviewed the events; the protocol’s dose modification applies.' });
 
   it('when the committee recommends resuming on a cut since the pause and the statistician applies it, then accrual resumes and sites are told; a later toxicity pauses again', async () => {
@@ -321,7 +329,7 @@ describe('after a safety pause', () => {
     await cora.post(`/api/trials/${trial.trialId}/patients/${patients[2].id}/adverse-events`, TOXIC_EVENT(daysFromToday(-60)));
     expect((await cohortRow(cohortId)).safety_paused_at).not.toBeNull();
 
-    await mona.post(`/api/data-cuts/${earlyCut}/recommendations`, { decision: 'resume_accrual', rationale: 'Signed on the cut before the pause.' });
+    await recommend(mona, earlyCut, 'resume_accrual', 'Signed on the cut before the pause.');
     const tooEarly = await resume(earlyCut);
     expect(tooEarly.status).toBe(409);
     expect(tooEarly.body.error.message).toMatch(/frozen before accrual paused/);
@@ -329,12 +337,12 @@ describe('after a safety pause', () => {
     const cutId = await freeze(trial, cohortId);
     await addMember(stack.db, trial.trialId, { email: 'mika.monitor@tessaly.test', role: 'monitor' });
     const mika = await stack.signIn('mika.monitor@tessaly.test');
-    expect((await mika.post(`/api/data-cuts/${cutId}/recommendations`, { decision: 'continue', rationale: 'A recommendation that is not to resume.' })).status).toBe(201);
+    expect((await recommend(mika, cutId, 'continue', 'A recommendation that is not to resume.')).status).toBe(201);
     const withoutResume = await resume(cutId);
     expect(withoutResume.status).toBe(409);
     expect(withoutResume.body.error.message).toMatch(/committee recommendation to resume/);
 
-    const signed = await mona.post(`/api/data-cuts/${cutId}/recommendations`, { decision: 'resume_accrual', rationale: 'Three reversible grade 3 events; continue with the dose modification.' });
+    const signed = await recommend(mona, cutId, 'resume_accrual', 'Three reversible grade 3 events; continue with the dose modification.');
     expect(signed.status).toBe(201);
     expect((await resume(cutId, ada)).status).toBe(403);
     const applied = await resume(cutId);
@@ -367,7 +375,7 @@ describe('after a safety pause', () => {
     const fourth = await cora.post(`/api/trials/${trial.trialId}/patients/${recent.id}/adverse-events`, TOXIC_EVENT(daysFromToday(-5)));
     expect(fourth.body.safety).toEqual({ paused: false });
     expect((await sam.get(`/api/trials/${trial.trialId}/safety`)).body.cohorts[0].state).toMatchObject({ toxicities: 4, assessable: 4, crossed: true });
-    await mona.post(`/api/data-cuts/${cutId}/recommendations`, { decision: 'resume_accrual', rationale: 'Reviewed before the fourth event.' });
+    await recommend(mona, cutId, 'resume_accrual', 'Reviewed before the fourth event.');
     const refused = await resume(cutId);
     expect(refused.status).toBe(409);
     expect(refused.body.error.message).toMatch(/More toxicities have been recorded since accrual paused/);
@@ -375,7 +383,7 @@ describe('after a safety pause', () => {
     const stopCut = await freeze(trial, cohortId);
     await addMember(stack.db, trial.trialId, { email: 'mika.monitor@tessaly.test', role: 'monitor' });
     const mika = await stack.signIn('mika.monitor@tessaly.test');
-    expect((await mika.post(`/api/data-cuts/${stopCut}/recommendations`, { decision: 'stop_safety', rationale: 'Four grade 3 hepatotoxicities among four patients.' })).status).toBe(201);
+    expect((await recommend(mika, stopCut, 'stop_safety', 'Four grade 3 hepatotoxicities among four patients.')).status).toBe(201);
     const stopped = await sam.post(`/api/data-cuts/${stopCut}/decision`, { action: 'stop', stopCategory: 'safety', reason: 'Unacceptable toxicity: the boundary was reached.' });
     expect(stopped.status).toBe(201);
     expect(await cohortRow(cohortId)).toMatchObject({ status: 'stopped', stop_category: 'safety', safety_paused_at: null });

@@ -81,7 +81,7 @@ describe('who sees efficacy, through a trial’s life', () => {
     await recordResponder('SA-013');
     const mails = await eventually(() => (mailsAbout(`${trial.code} MAIN: stage 1 complete`).length >= 2 ? mailsAbout(`${trial.code} MAIN: stage 1 complete`) : undefined));
     expect(mails.flatMap((m) => m.to).sort()).toEqual([DEMO.monitor, DEMO.statistician].sort());
-    expect(mails[0].text).toMatch(/\d+ responders among \d+ patients/);
+    expect(mails[0].text).toMatch(/\d+ responders? among \d+ decided patients?/);
     const queued = await stack.db('mail_outbox').where('subject', 'like', `${trial.code} MAIN: stage 1 complete%`).pluck('to_address');
     expect(queued.sort()).toEqual([DEMO.monitor, DEMO.statistician].sort());
   });
@@ -126,12 +126,12 @@ describe('who sees efficacy, through a trial’s life', () => {
     expect(row).not.toHaveProperty('responders');
 
     const preview = (await s.sponsor.get('/api/dev/digest-preview')).body.preview.text as string;
-    expect(preview).toMatch(/Response as of the data cut of .+: 6 responders among 13 known outcomes/);
-    expect(preview).not.toMatch(/7 responders|14 known outcomes|Response \(live\)/);
+    expect(preview).toMatch(/Response as of the data cut of .+: 6 responders among 13 decided patients/);
+    expect(preview).not.toMatch(/7 responders|14 decided patients|Response \(live\)/);
 
     await stack.server.jobs.runDue(new Date());
     const [digest] = await stack.db('mail_outbox').where({ kind: 'weekly-digest', to_address: DEMO.sponsor }).pluck('body_text');
-    expect(digest).toMatch(/6 responders among 13 known outcomes/);
+    expect(digest).toMatch(/6 responders among 13 decided patients/);
     expect(digest).not.toMatch(/7 responders/);
   });
 

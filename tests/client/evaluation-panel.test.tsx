@@ -49,7 +49,7 @@ describe('EvaluationPanel', () => {
     stubFetch({ status: 200, body: evaluation({ ...operational, efficacyHidden: 'Trial managers see operational figures only.' }) });
     renderWithApp(<EvaluationPanel trialId="t1" />);
     await screen.findByText('Trial managers see operational figures only.');
-    expect(screen.getByText('Outcomes known')).toBeInTheDocument();
+    expect(screen.getByText('Decided')).toBeInTheDocument();
     expect(screen.queryByText('Responders')).toBeNull();
     expect(screen.queryByText('Response rate')).toBeNull();
     expect(screen.queryByRole('region', { name: /Released figures/ })).toBeNull();

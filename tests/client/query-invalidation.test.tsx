@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import type { QueryClient, QueryKey } from '@tanstack/react-query';
 import { act } from '@testing-library/react';
 import { trialKeys } from '../../client/src/features/trials';
+import { authKeys } from '../../client/src/features/auth';
 import { patientKeys } from '../../client/src/features/patients';
 import { assessmentKeys } from '../../client/src/features/assessments';
 import { overviewKeys } from '../../client/src/features/trial-overview';
@@ -59,9 +60,12 @@ const CACHED: Record<string, QueryKey> = {
   'safety state': safetyKeys.state(TRIAL_ID),
   'other trial record': trialKeys.detail(OTHER_TRIAL),
   'other trial patient list': patientKeys.list(OTHER_TRIAL, filters),
+  'signed-in user': authKeys.me(),
 };
 
-const EVERYTHING_OF_THE_TRIAL = Object.keys(CACHED).filter((name) => !['data cut', 'data cut analysis', 'recommendations', 'design candidates', 'other trial record', 'other trial patient list'].includes(name));
+const EVERYTHING_OF_THE_TRIAL = Object.keys(CACHED).filter(
+  (name) => !['data cut', 'data cut analysis', 'recommendations', 'design candidates', 'other trial record', 'other trial patient list', 'signed-in user'].includes(name),
+);
 
 function fillCache(queryClient: QueryClient) {
   for (const key of Object.values(CACHED)) queryClient.setQueryData(key, { cached: true });
@@ -101,13 +105,13 @@ describe('what a write marks stale', () => {
     expect(staleNames(queryClient)).toEqual([...EVERYTHING_OF_THE_TRIAL].sort());
   });
 
-  it('when an outcome is attested, then only the patient and the lists are stale: no figure counts attestations', async () => {
+  it('when an outcome is attested, then only the patient, the lists and the session’s signing readiness are stale: no figure counts attestations', async () => {
     stubFetch({ status: 200, body: { patient: patientRecord({ id: PATIENT, version: 2 }) } });
     const { result, queryClient } = renderHookWithApp(() => useAttestOutcome(TRIAL_ID, PATIENT));
     fillCache(queryClient);
     await act(() => result.current.mutateAsync(1));
 
-    expect(staleNames(queryClient)).toEqual(['patient', 'patient history', 'patient list'].sort());
+    expect(staleNames(queryClient)).toEqual(['patient', 'patient history', 'patient list', 'signed-in user'].sort());
   });
 
   it.each([
@@ -124,23 +128,23 @@ describe('what a write marks stale', () => {
     expect(queryClient.getQueryData(assessmentKeys.patient(TRIAL_ID, PATIENT))).toEqual(view);
   });
 
-  it('when a design is signed, then everything about the trial and the Portfolio is stale, and the slow candidate search is kept', async () => {
+  it('when a design is signed, then everything about the trial, the Portfolio and the session’s signing readiness is stale, and the slow candidate search is kept', async () => {
     stubFetch({ status: 201, body: { design: { id: 'v-0001' } } });
     const { result, queryClient } = renderHookWithApp(() => useSignDesign(TRIAL_ID, 'c-a', 'lock'));
     fillCache(queryClient);
     await act(() => result.current.mutateAsync({}));
 
-    expect(staleNames(queryClient)).toEqual([...EVERYTHING_OF_THE_TRIAL].sort());
+    expect(staleNames(queryClient)).toEqual([...EVERYTHING_OF_THE_TRIAL, 'signed-in user'].sort());
     expect(staleNames(queryClient)).not.toContain('design candidates');
   });
 
-  it('when a committee member signs a recommendation, then the cut, its recommendations, the list of cuts and the Portfolio are stale, and the analysis is kept', async () => {
+  it('when a committee member signs a recommendation, then the cut, its recommendations, the list of cuts, the Portfolio and the session’s signing readiness are stale, and the analysis is kept', async () => {
     stubFetch({ status: 201, body: { recommendations: [], committeeSize: 3, signed: 1 } });
     const { result, queryClient } = renderHookWithApp(() => useSignRecommendation(CUT, TRIAL_ID));
     fillCache(queryClient);
-    await act(() => result.current.mutateAsync({ decision: 'continue', rationale: 'Stage 1 passed as planned.' }));
+    await act(() => result.current.mutateAsync({ decision: 'continue', rationale: 'Stage 1 passed as planned.', analysisVersion: 1 }));
 
-    expect(staleNames(queryClient)).toEqual(['data cut', 'recommendations', 'data cut list', 'portfolio'].sort());
+    expect(staleNames(queryClient)).toEqual(['data cut', 'recommendations', 'data cut list', 'portfolio', 'signed-in user'].sort());
   });
 
   it('when an adverse event is recorded, then the patient’s events, the event list and the live safety state are stale, and nothing else', async () => {

@@ -2,8 +2,10 @@
  * Browser tests: the built client served by the real server, driven in Debian's Chromium. Each
  * demo role signs in through the identity provider's page and sees the navigation its roles
  * open (computed from the client's own feature list); every main page passes axe-core with no
- * serious or critical finding and is saved as a screenshot in test-artifacts/screens; signing out
- * ends the session. Then the trial's journey through the pages, as far as the pages exist.
+ * serious or critical finding, shows no raw code and no glyph that the shipped Inter does not
+ * draw, and is saved as a screenshot in test-artifacts/screens; signing out ends the session.
+ * Then the trial's journey through the pages, as far as the pages exist, with the same checks on
+ * its pages, and on the mails the catcher received and the report's text at the end.
  */
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,13 +13,25 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { eventually, startStack, type Stack } from '../support/stack.js';
 import { DEMO, createTrial, type RoleName, type TrialFixture } from '../support/factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly } from '../support/patient-factories.js';
-import { buildClient, confirmIdentity, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
+import {
+  buildClient,
+  confirmIdentity,
+  launchChromium,
+  readableText,
+  screenshot,
+  seriousAccessibilityProblems,
+  signInThroughPages,
+  textNotDrawnByInter,
+  watchConsole,
+} from '../support/e2e-browser.js';
+import { rawCodesIn } from '../support/raw-codes.js';
+import { namedFonts, pdfPages } from '../support/pdf-text.js';
+import { GLYPHS } from '../../server/words/index.js';
 import { globalNav, trialNav } from '../../client/src/app/features.js';
 import type { NavItem } from '../../client/src/lib/feature.js';
 import { IMPORT_COLUMNS } from '../../server/patients/patients.schema.js';
 
 const ROLES = Object.keys(DEMO) as RoleName[];
-const FRESHNESS_SECONDS = 8;
 
 let stack: Stack;
 let browser: Browser;
@@ -26,8 +40,7 @@ let trial: TrialFixture;
 
 beforeAll(async () => {
   [clientDir, browser] = await Promise.all([buildClient(), launchChromium()]);
-  // Signatures need a sign-in younger than 8 s here, so the journey's design lock asks for a fresh one.
-  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000', SIGNATURE_FRESHNESS_SECONDS: String(FRESHNESS_SECONDS) });
+  stack = await startStack({ SERVE_CLIENT_FROM: clientDir, RATE_LIMIT_PER_MINUTE: '100000' });
   trial = await createTrial(stack.db, { code: 'E2E-101', sites: ['RVX', 'HCX'] });
   await lockDesignDirectly(stack.db, { trialId: trial.trialId, cohortId: trial.cohortIds[0] });
   await enrolPatientsDirectly(stack.db, {
@@ -60,12 +73,20 @@ async function settle(page: Page) {
   await page.getByRole('status').filter({ hasText: /^Loading/ }).first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => undefined);
 }
 
-/** Opens a page, checks it with axe-core and saves its picture; returns the serious findings, labelled. */
+/** Raw codes a person would read on the page, and text the shipped Inter does not draw, labelled. */
+async function wordingProblems(page: Page, name: string): Promise<string[]> {
+  const codes = rawCodesIn(await readableText(page)).map((found) => `${name}: raw code ${found}`);
+  const glyphs = (await textNotDrawnByInter(page)).map((problem) => `${name}: ${problem}`);
+  return [...codes, ...glyphs];
+}
+
+/** Opens a page, checks it with axe-core and for its words and glyphs, and saves its picture; returns the findings, labelled. */
 async function inspect(page: Page, url: string, name: string): Promise<string[]> {
   await page.goto(url);
   await settle(page);
   await screenshot(page, name);
-  return (await seriousAccessibilityProblems(page)).map((v) => `${name}: ${v.impact} ${v.id} (${v.help}) at ${v.nodes.join(' | ')}`);
+  const accessibility = (await seriousAccessibilityProblems(page)).map((v) => `${name}: ${v.impact} ${v.id} (${v.help}) at ${v.nodes.join(' | ')}`);
+  return [...accessibility, ...(await wordingProblems(page, name))];
 }
 
 describe('each demo role in the browser', () => {
@@ -109,8 +130,47 @@ describe('each demo role in the browser', () => {
         await context.close();
       }
     },
-    120_000,
+    240_000,
   );
+
+  it('when the glossary is opened, then it lists every glyph of the words module once and Chromium draws each with the shipped Inter', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    try {
+      await signInThroughPages(page, stack.url, DEMO.monitor);
+      await page.goto(`${stack.url}/glossary`);
+      await settle(page);
+      const listed = await page.locator('[data-glyph]').evaluateAll((items) => items.map((item) => [item.getAttribute('data-glyph'), item.querySelector('.glyph')?.textContent?.trim()]));
+      expect(Object.fromEntries(listed)).toEqual(GLYPHS);
+      expect(await textNotDrawnByInter(page, '.glyph')).toEqual([]);
+      // The glossary names the denominators the pages use.
+      for (const term of ['Counted', 'Decided', 'Evaluable', 'At risk']) await page.getByRole('term').filter({ hasText: new RegExp(`^${term}$`) }).waitFor();
+    } finally {
+      await context.close();
+    }
+  }, 60_000);
+
+  it('when a glyph Inter lacks is put on a page, then the glyph check reports it (the check can fail)', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    try {
+      await page.goto(`${stack.url}/glossary`);
+      await page.getByRole('link', { name: /sign in with your organisation account/i }).waitFor();
+      // ⏸ is in no Inter file; ✓ is. The page's own CSS (Inter first) still applies.
+      await page.evaluate(() => {
+        for (const [glyph, id] of [['⏸', 'lacking'], ['✓', 'drawn']]) {
+          const span = document.createElement('span');
+          span.id = id;
+          span.textContent = glyph;
+          document.body.append(span);
+        }
+      });
+      expect((await textNotDrawnByInter(page, '#lacking')).length).toBeGreaterThan(0);
+      expect(await textNotDrawnByInter(page, '#drawn')).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  }, 60_000);
 
   it('when sign-in is started with a return address on another site, then the browser still lands on Orrery', async () => {
     const context = await browser.newContext();
@@ -174,6 +234,7 @@ describe("the trial's journey through the pages", () => {
       await settle(page);
       await screenshot(page, 'journey-2-people');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(await wordingProblems(page, 'journey-people')).toEqual([]);
       expect(pageErrors).toEqual([]);
 
       const members: Array<{ role: string; email: string; site_id: string | null }> = await stack.db('memberships').where({ trial_id: trialId }).select('role', 'email', 'site_id');
@@ -185,14 +246,13 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the statistician compares designs and locks one, then the signature needs a fresh sign-in, the locked design is recorded with it and accrual opens', async () => {
+  it('when the statistician compares designs and locks one, then the signature needs the password entered for it at the identity provider, the locked design is recorded with it and accrual opens', async () => {
     expect(journeyTrialId).toBeDefined();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const pageErrors = watchConsole(page);
     try {
       await signInThroughPages(page, stack.url, DEMO.statistician);
-      const signedInAt = Date.now();
       await page.goto(`${stack.url}/trials/${journeyTrialId}`);
       await page.getByRole('navigation', { name: 'Trial pages' }).getByRole('link', { name: 'Designs' }).click();
       await page.getByLabel('p0', { exact: true }).fill('0.2');
@@ -208,19 +268,22 @@ describe("the trial's journey through the pages", () => {
       await settle(page);
       await screenshot(page, 'journey-3-designs');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(await wordingProblems(page, 'journey-designs')).toEqual([]);
 
-      // Let the sign-in age past the freshness a signature needs.
-      await page.waitForTimeout(Math.max(0, FRESHNESS_SECONDS * 1000 + 1000 - (Date.now() - signedInAt)));
+      // Being signed in is not enough: the signature sends the statistician to the provider to enter the password for it.
       await page.getByRole('button', { name: /^Lock…: Simon optimal/ }).click();
       const dialog = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      const meaning = await dialog.getByText(/^I approve this design for protocol E2E-PRT v1\.0/).innerText();
       await dialog.getByLabel('I sign with the meaning stated above.').check();
       await screenshot(page, 'journey-4-sign-dialog');
-      await dialog.getByRole('button', { name: 'Sign', exact: true }).click();
+      const askedAt = Date.now();
+      await dialog.getByRole('button', { name: 'Enter your password and sign' }).click();
 
       await page.waitForURL(/\/interaction\//);
       await page.getByText('Confirm it is you').waitFor();
       await confirmIdentity(page, stack.url, DEMO.statistician);
       const reopened = page.getByRole('dialog', { name: 'Lock and sign the design' });
+      await reopened.getByText('You entered your password for this signature').waitFor();
       await reopened.getByLabel('I sign with the meaning stated above.').check();
       await reopened.getByRole('button', { name: 'Sign', exact: true }).click();
       await reopened.waitFor({ state: 'detached' });
@@ -237,8 +300,9 @@ describe("the trial's journey through the pages", () => {
       const design = await stack.db('design_versions').where({ cohort_id: cohort.id }).first();
       expect(design).toMatchObject({ version: 1, selection: 'optimal', r1: 3, n1: 13, r: 12, n: 43 });
       const signature = await stack.db('signatures').where({ id: design.signature_id }).first();
-      expect(signature.signer_email).toBe(DEMO.statistician);
-      expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThan(signedInAt + FRESHNESS_SECONDS * 1000);
+      expect(signature).toMatchObject({ signer_email: DEMO.statistician, signer_name: 'Sam Stat', meaning });
+      // auth_time has whole seconds: the password was entered after the dialog asked for it.
+      expect(new Date(signature.authenticated_at).getTime()).toBeGreaterThanOrEqual(Math.floor(askedAt / 1000) * 1000);
       expect(await stack.db('cohorts').where({ id: cohort.id }).first('status')).toEqual({ status: 'enrolling_stage_1' });
     } finally {
       await context.close();
@@ -262,6 +326,7 @@ describe("the trial's journey through the pages", () => {
       const first = await eventually(async (): Promise<{ id: string } | undefined> => stack.db('patients').where({ trial_id: journeyTrialId, study_id: 'RVX-1' }).first('id'));
       await settle(page);
       problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `patients: ${v.id}`));
+      problems.push(...(await wordingProblems(page, 'patients')));
       await screenshot(page, 'journey-6-patients');
 
       await page.goto(`${stack.url}/trials/${journeyTrialId}/patients/${first.id}`);
@@ -272,6 +337,7 @@ describe("the trial's journey through the pages", () => {
       await outcome.getByRole('button', { name: 'Save the outcome' }).click();
       await outcome.getByRole('status').getByText('Outcome saved.').waitFor();
       problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `patient: ${v.id}`));
+      problems.push(...(await wordingProblems(page, 'patient')));
       await screenshot(page, 'journey-7-outcome-form');
 
       // The other twelve of stage 1 (n1 = 13), with their outcomes, from the site's spreadsheet.
@@ -286,6 +352,7 @@ describe("the trial's journey through the pages", () => {
       await page.getByText('3 · Imported').waitFor({ timeout: 30_000 });
       await settle(page);
       problems.push(...(await seriousAccessibilityProblems(page)).map((v) => `import: ${v.id}`));
+      problems.push(...(await wordingProblems(page, 'import')));
       await screenshot(page, 'journey-8-import');
       expect(problems).toEqual([]);
       expect(pageErrors).toEqual([]);
@@ -316,6 +383,7 @@ describe("the trial's journey through the pages", () => {
       await settle(page);
       await screenshot(page, 'journey-9-data-cut');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(await wordingProblems(page, 'journey-data-cut')).toEqual([]);
       expect(pageErrors).toEqual([]);
       expect(await stack.db('data_cuts').where({ id: cutId }).first('kind')).toEqual({ kind: 'interim' });
     } finally {
@@ -323,7 +391,7 @@ describe("the trial's journey through the pages", () => {
     }
   }, 120_000);
 
-  it('when the monitor reviews the cut and signs "continue", then the signed recommendation is recorded', async () => {
+  it('when the monitor reviews the cut and signs "continue", entering the password for it at the identity provider, then the signed recommendation is recorded with the statement shown', async () => {
     expect(cutId).toBeDefined();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
@@ -332,17 +400,31 @@ describe("the trial's journey through the pages", () => {
       await signInThroughPages(page, stack.url, DEMO.monitor);
       await page.goto(`${stack.url}/trials/${journeyTrialId}/data-cuts/${cutId}/review`);
       const form = page.getByRole('form', { name: 'Sign a recommendation' });
+      const meaning = form.getByRole('blockquote', { name: 'Meaning of the signature' });
+      expect(await meaning.innerText()).toContain('I recommend (your choice) for E2E-201');
       await form.getByLabel('Continue to stage 2').check();
       await form.getByLabel('Rationale').fill('Four responders among thirteen: the futility rule is not met. Continue to stage 2 as planned.');
+      const shown = (await meaning.innerText()).trim();
+      expect(shown).toContain('I recommend "Continue to stage 2" for E2E-201 cohort MAIN on data cut 1');
+      await form.getByRole('note').filter({ hasText: 'Your signature records the committee’s judgement' }).waitFor();
       await settle(page);
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
-      await form.getByRole('button', { name: 'Sign the recommendation' }).click();
-      await form.waitFor({ state: 'detached' });
+      expect(await wordingProblems(page, 'journey-committee-review')).toEqual([]);
+      await form.getByRole('button', { name: 'Enter your password and sign' }).click();
+      await page.waitForURL(/\/interaction\//);
+      await confirmIdentity(page, stack.url, DEMO.monitor);
+      const back = page.getByRole('form', { name: 'Sign a recommendation' });
+      await back.getByText('You entered your password for this signature').waitFor();
+      expect(await back.getByLabel('Rationale').inputValue()).toMatch(/^Four responders among thirteen/);
+      expect((await back.getByRole('blockquote', { name: 'Meaning of the signature' }).innerText()).trim()).toBe(shown);
+      await back.getByRole('button', { name: 'Sign the recommendation' }).click();
+      await back.waitFor({ state: 'detached' });
       await settle(page);
       await screenshot(page, 'journey-10-committee-review');
       expect(pageErrors).toEqual([]);
       const recommendation = await stack.db('recommendations').where({ data_cut_id: cutId }).first();
       expect(recommendation).toMatchObject({ decision: 'continue' });
+      expect(await stack.db('signatures').where({ id: recommendation.signature_id }).first()).toMatchObject({ meaning: shown, signer_name: 'Mona Monitor' });
     } finally {
       await context.close();
     }
@@ -356,6 +438,7 @@ describe("the trial's journey through the pages", () => {
       await signInThroughPages(page, stack.url, DEMO.statistician);
       await page.goto(`${stack.url}/trials/${journeyTrialId}/data-cuts/${cutId}/review`);
       const form = page.getByRole('form', { name: 'Apply the decision' });
+      await form.getByRole('note').filter({ hasText: 'Apply only what the data monitoring committee recommended' }).waitFor();
       await form.getByLabel('Decision').selectOption('resume_stage_2');
       await form.getByLabel('Reason').fill('The committee recommends continuing; stage 2 opens as the protocol plans.');
       await form.getByRole('button', { name: 'Apply the decision' }).click();
@@ -387,9 +470,33 @@ describe("the trial's journey through the pages", () => {
       await settle(page);
       await screenshot(page, 'journey-13-accrual');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      expect(await wordingProblems(page, 'journey-accrual')).toEqual([]);
       expect(pageErrors).toEqual([]);
     } finally {
       await context.close();
     }
   }, 120_000);
+
+  it('when the journey is over, then no mail the catcher received and no line of the cut’s report carries a raw code, and the report is set in Inter', async () => {
+    expect(cutId).toBeDefined();
+    const mails = await eventually(() => {
+      const caught = stack.catcher.messages.filter((m) => m.subject.includes('E2E-201'));
+      return caught.some((m) => /recommendation was signed/.test(m.subject)) && caught.some((m) => /resume accrual for stage 2/i.test(m.subject)) ? caught : undefined;
+    }, 20_000);
+    expect(mails.flatMap((m) => rawCodesIn(`${m.subject}\n${m.text}`).map((found) => `${m.subject}: ${found}`))).toEqual([]);
+    const signed = mails.find((m) => /recommendation was signed/.test(m.subject));
+    expect(signed?.text).toContain('A signed recommendation is not yet a decision');
+
+    const statistician = await stack.signIn(DEMO.statistician);
+    const report = await statistician.get(`/api/data-cuts/${cutId}/report.pdf`).buffer(true).parse((res, done) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => done(null, Buffer.concat(chunks)));
+    });
+    expect(report.status).toBe(200);
+    const pages = await pdfPages(report.body as Buffer);
+    expect(rawCodesIn(pages.join('\n'))).toEqual([]);
+    expect(namedFonts(report.body as Buffer).every((name) => /^[A-Z]{6}\+Inter-/.test(name))).toBe(true);
+    expect(pages[0].replace(/\s+/g, ' ')).toContain('Decision support only');
+  }, 60_000);
 });

@@ -42,7 +42,8 @@ describe('session cookie', () => {
   });
 
   it('when the app runs in production behind https (APP_ORIGIN https, TLS ended at the proxy), then the cookie is Secure and HSTS is sent', async () => {
-    const secure = await startStack({ NODE_ENV: 'production', APP_ORIGIN: 'https://orrery.test' });
+    // Production refuses the local identity provider: the organisation's is named, though not reached by this request's checks.
+    const secure = await startStack({ NODE_ENV: 'production', APP_ORIGIN: 'https://orrery.test', OIDC_ISSUER: 'https://sign-in.orrery.test' });
     try {
       const res = await request(secure.url).get('/auth/login').set('X-Forwarded-Proto', 'https').redirects(0);
       const cookie = sessionCookie(res.headers['set-cookie'] as unknown as string[]);

@@ -9,6 +9,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { analyseCut } from '../../server/data-cuts/analysis.js';
 import type { CutDesign, CutPatient, CutSnapshot } from '../../server/data-cuts/data-cuts.repository.js';
+import { frozenPatients, type FrozenSpec } from '../support/cut-patients.js';
 import { twoStageInference } from '../../server/stats/index.js';
 
 const OPTIMAL: CutDesign = {
@@ -34,31 +35,7 @@ const OPTIMAL: CutDesign = {
   protocolReference: null,
 };
 
-function patients(spec: Array<{ outcome: CutPatient['outcome']; evaluable?: boolean }>): CutPatient[] {
-  return spec.map((s, i) => ({
-    patientId: `p${i + 1}`,
-    studyId: `SA-${String(i + 1).padStart(3, '0')}`,
-    siteId: i % 2 ? 'site-b' : 'site-a',
-    siteCode: i % 2 ? 'SB' : 'SA',
-    cohortId: 'cohort',
-    cohortCode: 'MAIN',
-    stage: 1,
-    enrolmentSeq: i + 1,
-    enrolledOn: '2026-01-01',
-    outcome: s.outcome,
-    bestOverallResponse: s.outcome === 'responder' ? 'PR' : s.outcome === 'non_responder' ? 'SD' : null,
-    responseAssessedOn: null,
-    evaluable: s.evaluable ?? true,
-    notEvaluableReason: s.evaluable === false ? 'Withdrew' : null,
-    attested: true,
-    attestationSignatureId: null,
-    derivedBestOverallResponse: null,
-    derivedResponder: null,
-    outcomeFlag: null,
-    patientVersion: 1,
-    assessments: [],
-  }));
-}
+const patients = (specs: FrozenSpec[]) => frozenPatients(specs);
 
 const run = (k: number, outcome: CutPatient['outcome']) => Array.from({ length: k }, () => ({ outcome }));
 
@@ -123,8 +100,8 @@ describe('the final analysis of a cut after a two-stage design', () => {
     expect(c.inference?.pValue).toBe(engine.pValue);
     expect(c.inference?.n2Actual).toBe(24);
     expect(c.inference?.note).toMatch(/instead of the planned 30/);
-    expect(c.deviation).toMatchObject({ plannedN: 43, actualN: 37, actualN1: 13 });
-    expect(c.deviation?.adjusted.characteristics?.typeIError).toBeLessThanOrEqual(0.05);
+    expect(c.deviation).toMatchObject({ plannedN: 43, attainedN: 37, attainedN1: 13, applied: { r1: 3, r: c.rule?.threshold.r } });
+    expect(c.deviation?.applied.characteristics?.typeIError).toBeLessThanOrEqual(0.05);
   });
 
   it('when a patient is not evaluable and all enrolled count, then they count as a non-responder in stage 1', () => {

@@ -4,10 +4,11 @@
  * state a test starts from; the signing route itself is tested over HTTP).
  */
 import type { Db } from '../../server/db/knex.js';
-import { applyDecision, freezeDataCut } from '../../server/data-cuts/data-cuts.service.js';
+import { applyWithin, freezeDataCut } from '../../server/data-cuts/data-cuts.service.js';
 import type { DataCut } from '../../server/data-cuts/data-cuts.repository.js';
 import type { DecisionAction, RecommendationDecision } from '../../server/data-cuts/data-cuts.schema.js';
 import { DEMO, ensureUser, type TrialFixture } from './factories.js';
+import { signDirectly } from './signature-factories.js';
 import { enrolPatientsDirectly, lockDesignDirectly, type DirectDesign, type DirectPatient } from './patient-factories.js';
 
 const responders = (k: number): DirectPatient[] => Array.from({ length: k }, () => ({ outcome: 'responder' }));
@@ -47,7 +48,7 @@ export async function freezeCutDirectly(db: Db, trial: TrialFixture, options: { 
   );
 }
 
-/** A signed recommendation written straight to the database; `at` back-dates it (signature and row). */
+/** A signed recommendation written straight to the database, on the cut's current analysis version; `at` back-dates it (signature and row). */
 export async function recommendDirectly(
   db: Db,
   cut: Pick<DataCut, 'id' | 'trialId' | 'seq' | 'contentHash'>,
@@ -57,20 +58,20 @@ export async function recommendDirectly(
 ) {
   const { rationale = 'Reviewed at the committee meeting.', at = new Date() } = options;
   const userId = await ensureUser(db, email);
-  const [signature] = await db('signatures')
-    .insert({
-      trial_id: cut.trialId,
-      signer_user_id: userId,
-      signer_email: email,
-      meaning: `I recommend ${decision} on data cut ${cut.seq} (test fixture)`,
-      subject_type: 'recommendation',
-      subject_id: cut.id,
-      content_hash: cut.contentHash,
-      authenticated_at: at,
-    })
-    .returning('id');
+  const signatureId = await signDirectly(db, {
+    trialId: cut.trialId,
+    signerId: userId,
+    signerEmail: email,
+    intent: { action: 'recommendation', subjectId: cut.id },
+    meaning: `I recommend ${decision} on data cut ${cut.seq} (test fixture)`,
+    subjectType: 'recommendation',
+    subjectId: cut.id,
+    contentHash: cut.contentHash,
+    at,
+  });
+  const version = await db('analysis_versions').where({ data_cut_id: cut.id }).orderBy('version', 'desc').first('id');
   const [row] = await db('recommendations')
-    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signature.id, created_at: at })
+    .insert({ data_cut_id: cut.id, member_user_id: userId, decision, rationale, signature_id: signatureId, analysis_version_id: version.id, created_at: at })
     .returning('id');
   return row.id as string;
 }
@@ -105,6 +106,8 @@ export async function releaseCutDirectly(
   const cut = await freezeCutDirectly(db, trial, { cohortId });
   await recommendDirectly(db, cut, DEMO.monitor, options.recommendation ?? 'continue');
   const statistician = await ensureUser(db, DEMO.statistician);
-  await applyDecision(db, cut.id, { action: options.action ?? 'resume_stage_2', reason: 'The committee recommends continuing (test fixture).', cohortId }, { id: statistician, email: DEMO.statistician }, ['statistician']);
+  await db.transaction((trx) =>
+    applyWithin(trx, cut.id, { action: options.action ?? 'resume_stage_2', reason: 'The committee recommends continuing (test fixture).', cohortId }, { id: statistician, email: DEMO.statistician }),
+  );
   return cut;
 }

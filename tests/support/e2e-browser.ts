@@ -11,6 +11,7 @@ import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { promisify } from 'node:util';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import * as fontkit from 'fontkit';
 
 const run = promisify(execFile);
 const require = createRequire(import.meta.url);
@@ -113,4 +114,70 @@ export function watchConsole(page: Page): string[] {
   });
   page.on('pageerror', (error) => problems.push(error.message));
   return problems;
+}
+
+/** The whole Inter the client falls back to for the signs its Latin subsets leave out: a character it lacks would be an empty box. */
+const wholeInter = fontkit.create(readFileSync(require.resolve('inter-ui/variable/InterVariable.woff2'))) as fontkit.Font;
+
+type DomNode = { nodeId: number; nodeType: number; nodeName: string; nodeValue: string; children?: DomNode[] };
+type PlatformFont = { familyName: string; isCustomFont: boolean; glyphCount: number };
+
+/**
+ * Every text on the page that the shipped Inter does not draw: Chromium reports, for each element
+ * with text of its own, the fonts it used (a glyph Inter lacks falls back to a system font), and
+ * each character is looked up in Inter's character map (a character no font has would be drawn as
+ * Inter's empty box, which Chromium still reports as Inter). `selector` narrows the check.
+ */
+export async function textNotDrawnByInter(page: Page, selector = 'body'): Promise<string[]> {
+  const problems: string[] = [];
+  // A glyph outside the Latin subsets loads the whole Inter on first use: let the page lay out and
+  // finish loading the fonts it asked for, or the check would see the system font drawn meanwhile.
+  await page.evaluate(async () => {
+    await new Promise((resolve) => requestAnimationFrame(resolve));
+    await document.fonts.ready;
+  });
+  const cdp = await page.context().newCDPSession(page);
+  try {
+    await cdp.send('DOM.enable');
+    await cdp.send('CSS.enable');
+    const { root } = (await cdp.send('DOM.getDocument', { depth: -1 })) as { root: DomNode };
+    const { nodeIds } = await cdp.send('DOM.querySelectorAll', { nodeId: root.nodeId, selector });
+    const scopes = new Set(nodeIds);
+    // Collect first, then ask for every element's fonts at once: one round trip each, in parallel.
+    const texts: Array<{ nodeId: number; text: string }> = [];
+    const visit = (node: DomNode, inside: boolean) => {
+      const within = inside || scopes.has(node.nodeId);
+      if (['SCRIPT', 'STYLE', 'NOSCRIPT', 'TEMPLATE', 'HEAD'].includes(node.nodeName)) return;
+      const own = (node.children ?? []).filter((c) => c.nodeType === 3 && c.nodeValue.trim() !== '').map((c) => c.nodeValue.trim());
+      if (within && own.length > 0) texts.push({ nodeId: node.nodeId, text: own.join(' ') });
+      for (const child of node.children ?? []) if (child.nodeType === 1) visit(child, within);
+    };
+    visit(root, false);
+    const reports = await Promise.all(
+      texts.map(async ({ nodeId }) => ((await cdp.send('CSS.getPlatformFontsForNode', { nodeId })) as { fonts: PlatformFont[] }).fonts),
+    );
+    texts.forEach(({ text }, i) => {
+      const missing = [...new Set(Array.from(text))].filter((c) => !/\s/.test(c) && !wholeInter.hasGlyphForCodePoint(c.codePointAt(0) as number));
+      if (missing.length > 0) problems.push(`no Inter glyph for ${missing.join(' ')} in “${text.slice(0, 60)}”`);
+      const others = reports[i].filter((f) => f.glyphCount > 0 && !/^Inter/i.test(f.familyName));
+      if (others.length > 0) problems.push(`“${text.slice(0, 60)}” drawn with ${others.map((f) => f.familyName).join(', ')}`);
+    });
+  } finally {
+    await cdp.detach();
+  }
+  return problems;
+}
+
+/**
+ * What a person reads on the page: its text, the labels that stand for text (aria-label, title)
+ * and the options of its lists, less the literals of a file format it marks as code.
+ */
+export async function readableText(page: Page): Promise<string> {
+  return page.evaluate(() => {
+    const body = document.body.cloneNode(true) as HTMLElement;
+    for (const literal of body.querySelectorAll('code, kbd, samp')) literal.remove();
+    const labels = [...document.querySelectorAll('[aria-label], [title]')].flatMap((el) => [el.getAttribute('aria-label') ?? '', el.getAttribute('title') ?? '']);
+    const options = [...document.querySelectorAll('option')].map((o) => o.textContent ?? '');
+    return [body.innerText, ...labels, ...options].join('\n');
+  });
 }

@@ -87,6 +87,7 @@ export const EFFICACY_ROUTES: Record<string, RouteEfficacy> = {
   'get /api/trials': OPERATIONAL,
   'get /api/trials/:trialId': OPERATIONAL,
   'get /api/sites': OPERATIONAL,
+  'get /api/audit/sites': OPERATIONAL,
   'get /api/trials/:trialId/memberships': OPERATIONAL,
   'get /api/trials/:trialId/designs': OPERATIONAL,
   'get /api/trials/:trialId/accrual': OPERATIONAL,

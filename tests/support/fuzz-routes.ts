@@ -21,6 +21,11 @@ export function writeRoutes(routes: RouteSpec[], production = false): RouteSpec[
   return routes.filter((r) => WRITE_METHODS.has(r.method) && !r.path.startsWith('/auth/') && !(r.devOnly && production));
 }
 
+/** Reading API routes, every one of which takes a query string (the identity flow under /auth has its own tests). */
+export function readRoutes(routes: RouteSpec[], production = false): RouteSpec[] {
+  return routes.filter((r) => r.method === 'get' && r.path.startsWith('/api/') && !(r.devOnly && production));
+}
+
 /** The roles a route lets in (every role for signed-in routes). */
 export function allowedRoles(spec: RouteSpec): Role[] {
   const { access } = spec;

@@ -49,6 +49,6 @@ export const validBodies: Record<string, () => Record<string, unknown>> = {
   'DELETE /api/trials/:trialId/patients/:patientId/adverse-events/:eventId': () => ({ version: 1, reason: 'Cross-access attempt' }),
   'POST /api/trials/:trialId/patients/:patientId/adverse-events/:eventId/attestation': () => ({ version: 1 }),
   'PATCH /api/data-cuts/:cutId/prior': () => ({ a: 1, b: 1, thetaT: 0.9, version: 1 }),
-  'POST /api/data-cuts/:cutId/recommendations': () => ({ decision: 'continue', rationale: 'Cross-access attempt by a non-member.' }),
+  'POST /api/data-cuts/:cutId/recommendations': () => ({ decision: 'continue', rationale: 'Cross-access attempt by a non-member.', analysisVersion: 1 }),
   'POST /api/data-cuts/:cutId/decision': () => ({ action: 'resume_stage_2', reason: 'Cross-access attempt' }),
 };

@@ -1,12 +1,13 @@
 /**
  * Runs once per `vitest run`: a temporary PostgreSQL cluster on loopback (fast, throw-away
- * settings) with a migrated template database that every test file copies for itself.
- * With DATABASE_URL set, that server is used instead and no cluster is started.
+ * settings) with the owner and runtime roles, and a template database migrated by the owner, with
+ * the runtime role's rights granted, that every test file copies for itself.
+ * With DATABASE_URL set (a superuser's URL), that server is used instead and no cluster is started.
  */
 import type { TestProject } from 'vitest/node';
-import { ensureDatabase, removeDataDir, startCluster, temporaryDataDir } from '../../server/dev/postgres.js';
+import { asRole, ensureOwnedDatabase, OWNER_ROLE, removeDataDir, RUNTIME_ROLE, startCluster, temporaryDataDir } from '../../server/dev/postgres.js';
 import { freePort } from '../../server/dev/ports.js';
-import { createDb, migrateLatest } from '../../server/db/knex.js';
+import { migrateForRuntime } from '../../server/db/migrate.js';
 
 export const TEMPLATE_DATABASE = 'orrery_test_template';
 
@@ -24,12 +25,8 @@ export default async function setup(project: TestProject) {
   }
   const base = new URL(adminUrl);
   base.pathname = '/postgres';
-  await ensureDatabase(base.href, TEMPLATE_DATABASE);
-  base.pathname = `/${TEMPLATE_DATABASE}`;
-  const db = createDb(base.href);
-  await migrateLatest(db);
-  await db.destroy();
-  base.pathname = '/postgres';
+  await ensureOwnedDatabase(base.href, TEMPLATE_DATABASE);
+  await migrateForRuntime(asRole(base.href, OWNER_ROLE, TEMPLATE_DATABASE), asRole(base.href, RUNTIME_ROLE, TEMPLATE_DATABASE));
   project.provide('pgAdminUrl', base.href);
   return () => teardownCluster();
 }

@@ -6,6 +6,7 @@ import type { Db } from '../../server/db/knex.js';
 import { assignStages, type AnalysisPopulation, type Outcome } from '../../server/evaluation/counting.js';
 import { operatingCharacteristics } from '../../server/stats/index.js';
 import { DEMO, ensureUser } from './factories.js';
+import { signDirectly } from './signature-factories.js';
 
 export type DirectDesign = {
   cohortId: string;
@@ -24,6 +25,8 @@ export type DirectDesign = {
   sponsorSeesResponse?: boolean;
   /** The cohort's status after locking; a draft cohort starts enrolling by default. */
   cohortStatus?: string;
+  /** Further columns of the design version (a safety rule), written with it: the rows are append-only. */
+  columns?: Record<string, unknown>;
 };
 
 /**
@@ -43,18 +46,17 @@ export async function lockDesignDirectly(db: Db, input: DirectDesign): Promise<{
   const signerId = await ensureUser(db, DEMO.statistician);
   const previous = await db('design_versions').where({ cohort_id: input.cohortId }).max({ version: 'version' }).first();
   const version = Number(previous?.version ?? 0) + 1;
-  const [signature] = await db('signatures')
-    .insert({
-      trial_id: input.trialId,
-      signer_user_id: signerId,
-      signer_email: DEMO.statistician,
-      meaning: 'I approve this design for the protocol (test fixture)',
-      subject_type: version === 1 ? 'design' : 'amendment',
-      subject_id: input.cohortId,
-      content_hash: 'test-fixture',
-      authenticated_at: new Date(),
-    })
-    .returning('id');
+  const action = version === 1 ? 'design' : 'amendment';
+  const signatureId = await signDirectly(db, {
+    trialId: input.trialId,
+    signerId,
+    signerEmail: DEMO.statistician,
+    intent: { action, subjectId: input.cohortId },
+    meaning: 'I approve this design for the protocol (test fixture)',
+    subjectType: action,
+    subjectId: input.cohortId,
+    contentHash: 'test-fixture',
+  });
   const [design] = await db('design_versions')
     .insert({
       cohort_id: input.cohortId,
@@ -75,14 +77,15 @@ export async function lockDesignDirectly(db: Db, input: DirectDesign): Promise<{
       analysis_population: input.analysisPopulation ?? 'all_enrolled',
       interim_accrual: input.interimAccrual ?? 'pause',
       sponsor_sees_response: input.sponsorSeesResponse ?? false,
-      signature_id: signature.id,
+      signature_id: signatureId,
       created_by: signerId,
       amendment_reason: version === 1 ? null : 'Amended in a test',
+      ...input.columns,
     })
     .returning('id');
   if (input.cohortStatus) await db('cohorts').where({ id: input.cohortId }).update({ status: input.cohortStatus });
   else await db('cohorts').where({ id: input.cohortId, status: 'draft' }).update({ status: 'enrolling_stage_1' });
-  return { designId: design.id, signatureId: signature.id, version };
+  return { designId: design.id, signatureId, version };
 }
 
 export type DirectPatient = {

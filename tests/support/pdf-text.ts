@@ -1,22 +1,33 @@
-import { inflateSync } from 'node:zlib';
+/**
+ * What a PDF shows, page by page, read with PDF.js (the text a reader's viewer would copy), and the
+ * fonts it embeds. The report embeds subset TrueType fonts, so its text is glyph ids in the content
+ * streams; PDF.js maps them back through each font's ToUnicode table.
+ */
+import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 
-/** The text a PDF shows, from its Flate-compressed content streams (pdfkit writes text as hex strings). */
-export function pdfText(pdf: Buffer): string {
-  const raw = pdf.toString('latin1');
-  const pieces: string[] = [];
-  for (const match of raw.matchAll(/stream\r?\n/g)) {
-    const start = (match.index ?? 0) + match[0].length;
-    const end = raw.indexOf('endstream', start);
-    let content: string;
-    try {
-      content = inflateSync(pdf.subarray(start, end)).toString('latin1');
-    } catch {
-      continue;
+/** The text of each page, in reading order, one string per page. */
+export async function pdfPages(pdf: Buffer): Promise<string[]> {
+  const document = await getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
+  try {
+    const pages: string[] = [];
+    for (let number = 1; number <= document.numPages; number++) {
+      const content = await (await document.getPage(number)).getTextContent();
+      pages.push(content.items.map((item) => ('str' in item ? item.str + (item.hasEOL ? '\n' : '') : '')).join(''));
     }
-    for (const tj of content.matchAll(/\[(.*?)\]\s*TJ/g)) {
-      pieces.push([...tj[1].matchAll(/<([0-9a-fA-F]*)>/g)].map((h) => Buffer.from(h[1], 'hex').toString('latin1')).join(''));
-    }
-    pieces.push('\n');
+    return pages;
+  } finally {
+    await document.destroy();
   }
-  return pieces.join(' ');
+}
+
+/** The names of the fonts the PDF embeds (a subset tag, "+", the font's PostScript name). */
+export function embeddedFonts(pdf: Buffer): string[] {
+  const raw = pdf.toString('latin1');
+  if (!raw.includes('/FontFile2')) return [];
+  return [...new Set([...raw.matchAll(/\/BaseFont \/([A-Z]{6}\+[^\s/]+)/g)].map((m) => m[1]))];
+}
+
+/** Every font the PDF names, embedded or not. */
+export function namedFonts(pdf: Buffer): string[] {
+  return [...new Set([...pdf.toString('latin1').matchAll(/\/BaseFont \/([^\s/]+)/g)].map((m) => m[1]))];
 }

@@ -13,28 +13,28 @@ export type DirectSafetyRule =
   | { rule: 'toxicity_boundary'; theta: number; alpha: number; minGrade?: number; windowDays?: number }
   | { rule: 'bryant_day'; t1: number; t: number; toxAcceptable?: number; toxUnacceptable?: number; alphaT?: number; minGrade?: number; windowDays?: number };
 
-/** Locks a design (see `lockDesignDirectly`) and gives its version the safety rule; the boundary's n is the design's n. */
+/** Locks a design (see `lockDesignDirectly`) with the safety rule in its version; the boundary's n is the design's n. */
 export async function lockSafetyDesignDirectly(db: Db, design: DirectDesign, safety: DirectSafetyRule): Promise<{ designId: string; bounds: Array<number | null> | null }> {
-  const { designId } = await lockDesignDirectly(db, design);
-  const row = await db('design_versions').where({ id: designId }).first('n');
+  const n = design.n ?? 43;
   const definition = { safety_rule: safety.rule, tox_min_grade: safety.minGrade ?? 3, tox_window_days: safety.windowDays ?? 28 };
   if (safety.rule === 'toxicity_boundary') {
-    const boundary = toxicityBoundary({ n: row.n, theta: safety.theta, alpha: safety.alpha });
-    await db('design_versions')
-      .where({ id: designId })
-      .update({
+    const boundary = toxicityBoundary({ n, theta: safety.theta, alpha: safety.alpha });
+    const { designId } = await lockDesignDirectly(db, {
+      ...design,
+      columns: {
         ...definition,
         tox_theta: safety.theta,
         tox_alpha: safety.alpha,
         tox_bounds: JSON.stringify(boundary.bounds),
         tox_nominal_level: boundary.nominalLevel,
         tox_crossing_probability: boundary.crossingProbability,
-      });
+      },
+    });
     return { designId, bounds: boundary.bounds };
   }
-  await db('design_versions')
-    .where({ id: designId })
-    .update({
+  const { designId } = await lockDesignDirectly(db, {
+    ...design,
+    columns: {
       ...definition,
       t1: safety.t1,
       t: safety.t,
@@ -42,8 +42,9 @@ export async function lockSafetyDesignDirectly(db: Db, design: DirectDesign, saf
       tox_unacceptable: safety.toxUnacceptable ?? 0.4,
       alpha_t: safety.alphaT ?? 0.15,
       attained_alpha_t: 0.1,
-      en_high_toxicity: row.n,
-    });
+      en_high_toxicity: n,
+    },
+  });
   return { designId, bounds: null };
 }
 

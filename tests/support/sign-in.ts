@@ -4,6 +4,7 @@
  * Orrery session cookie plus a small HTTP client that sends it (and the Origin header on writes).
  */
 import request from 'supertest';
+import { signingUrl, type SigningAction } from '../../server/signatures/signatures.js';
 
 type Jar = Map<string, string>;
 
@@ -47,11 +48,15 @@ export type Session = {
   patch: (path: string, body?: unknown) => request.Test;
   put: (path: string, body?: unknown) => request.Test;
   delete: (path: string) => request.Test;
-  /** Signs in again with `prompt=login`, as before an electronic signature. */
-  reauthenticate: (password?: string) => Promise<void>;
+  /**
+   * Enters the password again at the identity provider for one signature (`prompt=login`), as the
+   * sign dialogs do: `action` and `subjectId` name what is about to be signed.
+   */
+  confirmToSign: (action: SigningAction, subjectId: string, password?: string) => Promise<string>;
 };
 
-async function completeSignIn(appUrl: string, jar: Jar, email: string, password: string, loginPath: string) {
+/** Walks the flow and answers the app URL it ends on (a refusal carries `signInError`). */
+async function completeSignIn(appUrl: string, jar: Jar, email: string, password: string, loginPath: string): Promise<string> {
   const { response, url } = await follow(jar, await go(jar, `${appUrl}${loginPath}`), `${appUrl}${loginPath}`);
   if (response.status !== 200 || !url.includes('/interaction/')) throw new Error(`expected the sign-in page, got ${response.status} at ${url}`);
   const html = await response.text();
@@ -66,6 +71,7 @@ async function completeSignIn(appUrl: string, jar: Jar, email: string, password:
   if (posted.status === 401) throw new Error(`sign-in refused for ${email}`);
   const done = await follow(jar, posted, formUrl);
   if (!done.url.startsWith(appUrl)) throw new Error(`sign-in did not return to the app (ended at ${done.url})`);
+  return done.url;
 }
 
 export async function signIn(appUrl: string, email: string, password = 'demo'): Promise<Session> {
@@ -85,7 +91,7 @@ export async function signIn(appUrl: string, email: string, password = 'demo'): 
     patch: (path, body) => withCookie(request(appUrl).patch(path)).set('Origin', origin).send(body as object),
     put: (path, body) => withCookie(request(appUrl).put(path)).set('Origin', origin).send(body as object),
     delete: (path) => withCookie(request(appUrl).delete(path)).set('Origin', origin),
-    reauthenticate: (pw = password) => completeSignIn(appUrl, jar, email, pw, '/auth/login?reauth=1'),
+    confirmToSign: (action, subjectId, pw = password) => completeSignIn(appUrl, jar, email, pw, signingUrl({ action, subjectId })),
   };
   return session;
 }

@@ -1,12 +1,15 @@
 /**
  * One test file's own Orrery: a fresh database copied from the migrated template, the local
- * identity provider, the mail catcher and a real server process on loopback ports.
+ * identity provider, the mail catcher and a real server process on loopback ports. The server
+ * connects as the runtime role (rows only); the test's own connection, for arranging rows and
+ * checking what was written, is the owner's.
  */
 import { randomBytes } from 'node:crypto';
 import { inject } from 'vitest';
 import pg from 'pg';
 import { pino, type Logger } from 'pino';
-import { startIdp, type RunningIdp } from '../../fake-idp/provider.js';
+import { startIdp, type IdpQuirks, type RunningIdp } from '../../fake-idp/provider.js';
+import { asRole, OWNER_ROLE, RUNTIME_ROLE } from '../../server/dev/postgres.js';
 import { startMailCatcher, type RunningCatcher } from '../../server/dev/mail-catcher.js';
 import { freePort } from '../../server/dev/ports.js';
 import { createDb, type Db } from '../../server/db/knex.js';
@@ -16,7 +19,10 @@ import { signIn, type Session } from './sign-in.js';
 
 const TEMPLATE = 'orrery_test_template';
 
-export async function createTestDatabase(): Promise<string> {
+/** A test database: the owner's URL (arranging rows) and the runtime role's (what the server uses). */
+export type TestDatabase = { ownerUrl: string; runtimeUrl: string };
+
+export async function createTestDatabase(): Promise<TestDatabase> {
   const adminUrl = inject('pgAdminUrl');
   const name = `orrery_test_${randomBytes(6).toString('hex')}`;
   const client = new pg.Client({ connectionString: adminUrl });
@@ -35,9 +41,7 @@ export async function createTestDatabase(): Promise<string> {
   } finally {
     await client.end();
   }
-  const url = new URL(adminUrl);
-  url.pathname = `/${name}`;
-  return url.href;
+  return { ownerUrl: asRole(adminUrl, OWNER_ROLE, name), runtimeUrl: asRole(adminUrl, RUNTIME_ROLE, name) };
 }
 
 export type Stack = {
@@ -57,20 +61,23 @@ export type Stack = {
 export type StackOptions = {
   /** Where the servers log (tests that read the logs pass their own); silent by default. */
   logger?: Logger;
+  /** How the local identity provider departs from the standard, to show what the server refuses. */
+  idp?: IdpQuirks;
 };
 
 export async function startStack(overrides: Record<string, string> = {}, options: StackOptions = {}): Promise<Stack> {
   return startStackOn(await createTestDatabase(), overrides, options);
 }
 
-/** The same stack on a database the caller provides (fault tests bring their own cluster). */
-export async function startStackOn(databaseUrl: string, overrides: Record<string, string> = {}, options: StackOptions = {}): Promise<Stack> {
+/** The same stack on a database the caller provides (fault tests bring their own cluster; one URL serves both roles). */
+export async function startStackOn(database: string | TestDatabase, overrides: Record<string, string> = {}, options: StackOptions = {}): Promise<Stack> {
+  const { ownerUrl, runtimeUrl } = typeof database === 'string' ? { ownerUrl: database, runtimeUrl: database } : database;
   const [appPort, idpPort, secondPort] = [await freePort(), await freePort(), await freePort()];
   const appOrigin = `http://localhost:${appPort}`;
   const catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0 });
-  const idp = await startIdp({ port: idpPort, appOrigins: [appOrigin, `http://localhost:${secondPort}`] });
+  const idp = await startIdp({ port: idpPort, appOrigins: [appOrigin, `http://localhost:${secondPort}`], quirks: options.idp });
   const env = (port: number, origin: string) => ({
-    DATABASE_URL: databaseUrl,
+    DATABASE_URL: runtimeUrl,
     SESSION_SECRET: 'test-session-secret-test-session-secret',
     APP_ORIGIN: origin,
     PORT: String(port),
@@ -86,7 +93,7 @@ export async function startStackOn(databaseUrl: string, overrides: Record<string
   const config = loadConfig(env(appPort, appOrigin));
   const logger = options.logger ?? pino({ level: 'silent' });
   const server = await startServer(config, logger);
-  const db = createDb(databaseUrl, { poolMax: 4 });
+  const db = createDb(ownerUrl, { poolMax: 4 });
   const extra: RunningServer[] = [];
   return {
     url: server.url,

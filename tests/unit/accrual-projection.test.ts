@@ -3,19 +3,20 @@
  * worked out by hand in the comments. Calendar facts (ISO 8601 weeks) are common practice.
  */
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { addDays, isoWeekOf } from '../../server/accrual/calendar.js';
-import { projectTarget, rangeMonths, rateWindow } from '../../server/accrual/projection.js';
+import { daysOpen, projectTarget, rangeMonths, rateWindow } from '../../server/accrual/projection.js';
 import { cumulativeSeries, plannedBy } from '../../server/accrual/timeline.js';
 
 const TODAY = '2026-12-07';
 // Complete months before December 2026: June to November, with these enrolments.
 const MONTHS = [
-  { month: '2026-06', enrolled: 3 },
-  { month: '2026-07', enrolled: 4 },
-  { month: '2026-08', enrolled: 2 },
-  { month: '2026-09', enrolled: 6 },
-  { month: '2026-10', enrolled: 5 },
-  { month: '2026-11', enrolled: 7 },
+  { month: '2026-06', enrolled: 3, daysOpen: 30 },
+  { month: '2026-07', enrolled: 4, daysOpen: 31 },
+  { month: '2026-08', enrolled: 2, daysOpen: 31 },
+  { month: '2026-09', enrolled: 6, daysOpen: 30 },
+  { month: '2026-10', enrolled: 5, daysOpen: 31 },
+  { month: '2026-11', enrolled: 7, daysOpen: 30 },
 ];
 
 describe('projecting when a cohort reaches n1 and n', () => {
@@ -46,19 +47,48 @@ describe('projecting when a cohort reaches n1 and n', () => {
     expect(projection.note).toMatch(/18 patients in the last 90 days/);
   });
 
-  it('when enrolment began 30 days ago, then the window starts at the first enrolment and only its month gives the range', () => {
+  it('when enrolment began 30 days ago, then the window starts at the first enrolment and its partial month counts for the days it was open', () => {
     // First enrolment 2026-11-08: 2026-11-08 … 2026-12-07 inclusive is 30 days.
     const window = rateWindow(TODAY, '2026-11-08');
     expect(window).toEqual({ from: '2026-11-08', to: TODAY, days: 30 });
     expect(rangeMonths(TODAY, '2026-11-08')).toEqual(['2026-11']);
+    // November was open from the 8th: 23 of its 30 days.
+    expect(daysOpen('2026-11', '2026-11-08')).toBe(23);
+    expect(daysOpen('2026-10', '2026-03-02')).toBe(31);
     // 6 in 30 days = 0.2 a day; 10 remaining → 50 days: +24 → 12-31, +26 → 2027-01-26.
-    // November's 6 patients: 10 × 30.4375 / 6 = 50.73 → 51 days → 2027-01-27 for both ends.
-    const projection = projectTarget({ today: TODAY, counted: 3, target: 13, window, enrolledInWindow: 6, months: [{ month: '2026-11', enrolled: 6 }] });
-    expect(projection).toMatchObject({ expected: '2027-01-26', earliest: '2027-01-27', latest: '2027-01-27' });
+    // November's 6 in 23 days is 6 × 30 / 23 = 7.826 a month (not 6): 10 × 30.4375 / 7.826 = 38.89 → 39 days: +24 → 12-31, +15 → 2027-01-15.
+    // Read as a full month, its 6 would have put both ends at 2027-01-27, after the expected date.
+    const projection = projectTarget({ today: TODAY, counted: 3, target: 13, window, enrolledInWindow: 6, months: [{ month: '2026-11', enrolled: 6, daysOpen: 23 }] });
+    expect(projection.fastestMonth?.perMonth).toBeCloseTo((6 * 30) / 23, 10);
+    // The one month is faster than the window, so the range runs from it to the expected date.
+    expect(projection).toMatchObject({ expected: '2027-01-26', earliest: '2027-01-15', latest: '2027-01-26' });
+    expect(projection.note).toMatch(/2026-11 counts for the 23 days enrolment was open: 6 enrolled, about 7\.8 a month/);
+    expect(projection.note).toMatch(/widened to the recent rate/);
+  });
+
+  it('when the recent window is faster than every month, then the earliest date is the expected one, not later', () => {
+    // Window: 45 in 90 days = 0.5 a day; 23 remaining → 46 days → 2027-01-22. The fastest month (7) gives 101 days → 2027-03-18.
+    const projection = projectTarget({ today: TODAY, counted: 20, target: 43, window: rateWindow(TODAY, '2026-03-02'), enrolledInWindow: 45, months: MONTHS });
+    expect(projection.expected).toBe('2027-01-22');
+    expect(projection.earliest).toBe('2027-01-22');
+    expect(projection.latest).toBe('2027-11-23');
+  });
+
+  it('when any accrual history is projected, then "Expected" always lies inside its range', () => {
+    const month = fc.record({ enrolled: fc.integer({ min: 0, max: 40 }), daysOpen: fc.integer({ min: 1, max: 30 }) });
+    fc.assert(
+      fc.property(fc.array(month, { minLength: 1, maxLength: 6 }), fc.integer({ min: 0, max: 120 }), fc.integer({ min: 1, max: 200 }), (history, inWindow, remaining) => {
+        const months = history.map((m, i) => ({ month: `2026-${String(i + 6).padStart(2, '0')}`, enrolled: m.enrolled, daysOpen: i === 0 ? m.daysOpen : i + 6 === 6 || i + 6 === 9 || i + 6 === 11 ? 30 : 31 }));
+        const p = projectTarget({ today: TODAY, counted: 0, target: remaining, window: rateWindow(TODAY, '2026-03-02'), enrolledInWindow: inWindow, months });
+        if (p.expected && p.earliest) expect(p.earliest <= p.expected).toBe(true);
+        if (p.expected && p.latest) expect(p.expected <= p.latest).toBe(true);
+      }),
+      { numRuns: 500 },
+    );
   });
 
   it('when nobody was enrolled in the window or in a recent month, then there is no date rather than a distant one', () => {
-    const quiet = projectTarget({ today: TODAY, counted: 20, target: 43, window: rateWindow(TODAY, '2026-03-02'), enrolledInWindow: 0, months: [...MONTHS.slice(0, 5), { month: '2026-11', enrolled: 0 }] });
+    const quiet = projectTarget({ today: TODAY, counted: 20, target: 43, window: rateWindow(TODAY, '2026-03-02'), enrolledInWindow: 0, months: [...MONTHS.slice(0, 5), { month: '2026-11', enrolled: 0, daysOpen: 30 }] });
     expect(quiet.expected).toBeNull();
     expect(quiet.latest).toBeNull();
     // The fastest month (September, 6) still bounds the earliest date: 23 × 30.4375 / 6 = 116.68 → 117 days.

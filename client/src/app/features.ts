@@ -13,6 +13,7 @@ import { committeeReviewFeature } from '../features/committee-review/routes';
 import { accrualFeature } from '../features/accrual/routes';
 import { auditFeature } from '../features/audit/routes';
 import { outboxFeature } from '../features/outbox/routes';
+import { glossaryFeature } from '../features/glossary/routes';
 
 export const features: Feature[] = [
   portfolioFeature,
@@ -27,6 +28,7 @@ export const features: Feature[] = [
   committeeReviewFeature,
   accrualFeature,
   auditFeature,
+  glossaryFeature,
   outboxFeature,
 ];
 

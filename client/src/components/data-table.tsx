@@ -14,6 +14,7 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import { Button, EmptyState } from './ui';
+import { GLYPHS } from '../../../server/words';
 
 type ServerPaging = { total: number; pageIndex: number; pageSize: number; onPageChange: (pageIndex: number) => void };
 
@@ -102,7 +103,7 @@ export function DataTable<T>({
                         <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase">
                           {title}
                           <span aria-hidden className="text-ink-300">
-                            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}
+                            {sorted === 'asc' ? GLYPHS.sortAscending : sorted === 'desc' ? GLYPHS.sortDescending : GLYPHS.sortable}
                           </span>
                         </button>
                       ) : (

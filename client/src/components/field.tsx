@@ -1,6 +1,7 @@
 /** A labelled Formik field with its validation message, for every form in the app. */
 import { useField } from 'formik';
 import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes, TextareaHTMLAttributes } from 'react';
+import { GLYPHS } from '../../../server/words';
 
 type Common = { name: string; label: ReactNode; hint?: ReactNode };
 
@@ -18,7 +19,7 @@ function Frame({ name, label, hint, error, children }: Common & { error?: string
       )}
       {error && (
         <p id={`${name}-error`} role="alert" className="text-xs font-medium text-alert-600">
-          <span aria-hidden>⚠ </span>
+          <span aria-hidden>{GLYPHS.warning} </span>
           {error}
         </p>
       )}

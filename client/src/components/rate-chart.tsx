@@ -7,7 +7,6 @@ import {
   BarController,
   BarElement,
   CategoryScale,
-  Chart,
   Legend,
   LineController,
   LineElement,
@@ -17,10 +16,11 @@ import {
   type ChartData,
   type ChartOptions,
 } from 'chart.js';
+import { registerChart } from './chart-setup';
 import { Chart as ChartView } from 'react-chartjs-2';
 import { CHART_COLOURS } from './chart-colours';
 
-Chart.register(BarController, BarElement, CategoryScale, LineController, LineElement, LinearScale, PointElement, Legend, Tooltip);
+registerChart(BarController, BarElement, CategoryScale, LineController, LineElement, LinearScale, PointElement, Legend, Tooltip);
 
 const { ink: INK, brass: BRASS, slate: SLATE } = CHART_COLOURS;
 

@@ -1,7 +1,7 @@
 /** Small shared building blocks in Orrery's look: ink navy, one brass accent, dense and print-like. */
 import type { ButtonHTMLAttributes, ReactNode } from 'react';
 import { ApiError } from '../lib/api';
-import { SAFETY_PAUSED } from '../../../server/words';
+import { CAUTIONS, GLYPHS, SAFETY_PAUSED, STATUS_WORDS, type TrialStatus, type Worded } from '../../../server/words';
 
 export function Button({
   variant = 'primary',
@@ -72,7 +72,7 @@ export function ErrorNotice({ error, title = 'Something went wrong' }: { error: 
   return (
     <div role="alert" className="border-l-4 border-alert-600 bg-alert-50 px-4 py-3 text-sm text-alert-600">
       <p className="font-semibold">
-        <span aria-hidden>⚠ </span>
+        <span aria-hidden>{GLYPHS.warning} </span>
         {title}
       </p>
       <p>{message}</p>
@@ -90,14 +90,7 @@ export function ErrorNotice({ error, title = 'Something went wrong' }: { error: 
 }
 
 /** The cautions shown wherever a result is shown: the tool supports decisions, it does not make them. */
-export const CAUTIONS = [
-  'Decision support only: stopping and continuation decisions belong to the trial statistician, the data monitoring committee and the ethics board, under the protocol and local regulations.',
-  'Interim figures use data that may not yet be cleaned or source-verified.',
-  'Naive estimates after a two-stage design are biased.',
-  'A deviation from the planned n1 or n changes the operating characteristics.',
-];
-
-export function Cautions({ items = CAUTIONS }: { items?: string[] }) {
+export function Cautions({ items = CAUTIONS }: { items?: readonly string[] }) {
   return (
     <aside aria-label="Cautions" className="border border-brass-200 bg-brass-50 px-4 py-3 text-xs leading-relaxed text-ink-700">
       <p className="mb-1 font-semibold tracking-wide text-brass-700 uppercase">Read with care</p>
@@ -121,29 +114,32 @@ export function Figure({ label, value, hint }: { label: string; value: ReactNode
   );
 }
 
-const STATUS_TEXT: Record<string, { label: string; icon: string }> = {
-  draft: { label: 'Draft', icon: '✎' },
-  enrolling_stage_1: { label: 'Enrolling stage 1', icon: '▸' },
-  interim_review: { label: 'Interim review', icon: '⏸' },
-  enrolling_stage_2: { label: 'Enrolling stage 2', icon: '▸▸' },
-  final_analysis: { label: 'Final analysis', icon: '∑' },
-  completed: { label: 'Completed', icon: '✓' },
-  stopped: { label: 'Stopped', icon: '■' },
-  mixed: { label: 'Cohorts differ', icon: '≡' },
-};
+/** A label with its glyph (from the words module): a word with an icon, never colour alone. */
+export function Glyphed({ word }: { word: Worded }) {
+  return (
+    <>
+      <span aria-hidden>{word.glyph} </span>
+      {word.label}
+    </>
+  );
+}
 
-export function statusLabel(status: string): string {
-  return STATUS_TEXT[status]?.label ?? status;
+/** The caution beside a decision point's button: the act is the person's, under the protocol. */
+export function DecisionCaution({ children }: { children: ReactNode }) {
+  return (
+    <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-xs text-ink-800">
+      <span aria-hidden>{GLYPHS.note} </span>
+      {children}
+    </p>
+  );
 }
 
 /** A status is a word with an icon, never colour alone. */
-export function StatusTag({ status }: { status: string }) {
-  const text = STATUS_TEXT[status] ?? { label: status, icon: '•' };
+export function StatusTag({ status }: { status: TrialStatus }) {
   const tone = status === 'stopped' ? 'border-alert-600 text-alert-600' : status === 'interim_review' ? 'border-brass-500 text-brass-700' : 'border-ink-300 text-ink-700';
   return (
     <span className={`inline-flex items-center gap-1 rounded-sm border px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap ${tone}`}>
-      <span aria-hidden>{text.icon}</span>
-      {text.label}
+      <Glyphed word={STATUS_WORDS[status]} />
     </span>
   );
 }
@@ -152,7 +148,7 @@ export function StatusTag({ status }: { status: string }) {
 export function SafetyPauseTag() {
   return (
     <span className="inline-flex items-center gap-1 rounded-sm border border-alert-600 px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap text-alert-600">
-      <span aria-hidden>⏸</span>
+      <span aria-hidden>{GLYPHS.paused}</span>
       {SAFETY_PAUSED}
     </span>
   );

@@ -39,9 +39,21 @@ export async function api<T>(path: string, options: Options = {}): Promise<T> {
   return payload as T;
 }
 
-/** Sends the browser to the identity provider for a fresh sign-in, then back here. */
-export function reauthenticate(returnTo = window.location.pathname + window.location.search): void {
-  window.location.assign(`/auth/login?reauth=1&returnTo=${encodeURIComponent(returnTo)}`);
+/**
+ * Sends the browser to the identity provider to enter the password for one signature — `signingUrl`
+ * is the server's, naming what is about to be signed — and back here to sign.
+ */
+export function confirmIdentityToSign(signingUrl: string, returnTo = window.location.pathname + window.location.search): void {
+  const back = new URL(returnTo, window.location.origin);
+  // A refusal from an earlier attempt is not this attempt's.
+  back.searchParams.delete('signInError');
+  window.location.assign(`${signingUrl}&returnTo=${encodeURIComponent(back.pathname + back.search)}`);
+}
+
+/** The server asks for the password for this signature: the URL to enter it, if that is what the error says. */
+export function signingUrlOf(error: unknown): string | undefined {
+  if (!(error instanceof ApiError) || error.code !== 'reauthentication_required') return undefined;
+  return typeof error.details.reauthUrl === 'string' ? error.details.reauthUrl : undefined;
 }
 
 export function signInUrl(returnTo = window.location.pathname + window.location.search): string {

@@ -10,6 +10,7 @@ import { currentDesign } from '../../designs/index.js';
 import { canTransition, type CohortStatus } from '../../trials/index.js';
 import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseCohort, signWithin, type RecommendationDecision, type StatusDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
+import { demoSigningSession } from './signing.js';
 
 type Plan = {
   code: string;
@@ -75,7 +76,8 @@ export async function seedDataCuts(trx: Knex.Transaction, trials: Map<string, st
     });
     if (!plan.recommendation || !plan.decision) continue;
 
-    await signWithin(trx, cut, plan.recommendation, monitor, new Date(cutAt.getTime() + 2 * 86_400_000), { notify: false });
+    const session = await demoSigningSession(trx, monitor.id, { action: 'recommendation', subjectId: cut.id }, new Date(cutAt.getTime() + 2 * 86_400_000));
+    await signWithin(trx, cut, { ...plan.recommendation, analysisVersion: cut.version }, monitor, session, { notify: false });
     const target = DECISION_TARGET[plan.decision.action];
     const input = { action: plan.decision.action, reason: plan.decision.reason, stopCategory: plan.decision.stopCategory ?? null, cohortId: cohort.id };
     if (cohort.status === target) {

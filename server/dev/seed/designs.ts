@@ -8,6 +8,7 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
+import { demoSigningSession } from './signing.js';
 import { transitionCohort, type CohortStatus, type StopCategory } from '../../trials/index.js';
 import { chosenDesign, signatureMeaning, type Selection } from '../../designs/index.js';
 import { toxicityBoundary } from '../../stats/index.js';
@@ -125,14 +126,16 @@ export async function seedDesigns(trx: Knex.Transaction, trials: Map<string, str
             tox_crossing_probability: boundary.crossingProbability,
           }
         : {};
+    const intent = { action: 'design' as const, subjectId: cohort.id };
     const signature = await recordSignature(trx, {
       trialId,
       signer: { id: signer.id, email: signer.email },
+      session: await demoSigningSession(trx, signer.id, intent, today),
+      intent,
       meaning,
       subjectType: 'design',
       subjectId: designId,
       content: { trialId, cohortCode: demo.cohort, version: 1, selection: demo.selection, ...settings, ...numbers, ...safety },
-      authenticatedAt: today,
     });
     await trx('design_versions').insert({
       id: designId,

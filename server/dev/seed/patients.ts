@@ -9,6 +9,8 @@
 import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
+import { attestationMeaning } from '../../patients/index.js';
+import { demoSigningSession } from './signing.js';
 import { currentDesign } from '../../designs/index.js';
 import { assignStages, type Outcome } from '../../evaluation/index.js';
 
@@ -133,14 +135,16 @@ export async function seedPatients(trx: Knex.Transaction, trials: Map<string, st
         notEvaluableReason: row.not_evaluable_reason,
       };
       const signedAt = new Date(Date.parse(`${row.response_assessed_on}T16:00:00Z`) + DAY);
+      const intent = { action: 'attestation' as const, subjectId: patientId };
       const signature = await recordSignature(trx, {
         trialId,
         signer: investigator,
-        meaning: `I attest that the outcome recorded for ${row.study_id} is accurate and complete`,
+        session: await demoSigningSession(trx, investigator.id, intent, signedAt > today ? today : signedAt),
+        intent,
+        meaning: attestationMeaning(row.study_id),
         subjectType: 'attestation',
         subjectId: patientId,
         content,
-        authenticatedAt: signedAt > today ? today : signedAt,
       });
       await trx('patients').where({ id: patientId }).update({ attestation_signature_id: signature.id, version: 2 });
       await writeAudit(trx, {

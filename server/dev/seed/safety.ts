@@ -10,6 +10,7 @@ import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { recordSignature } from '../../signatures/signatures.js';
 import { currentDesign } from '../../designs/index.js';
+import { demoSigningSession } from './signing.js';
 import { ruleOfDesign, safetyCounts, safetyRuleState } from '../../safety/index.js';
 
 const DAY = 86_400_000;
@@ -113,14 +114,16 @@ async function insertDemoEvent(
   await writeAudit(trx, { actorUserId: author?.id ?? null, trialId, entityType: 'adverse_event', entityId: row.id, action: 'created', after: snapshot, reason: 'Demo data' });
   if (!toxic || event.site !== 'HCC' || !investigator) return;
   const signedAt = new Date(Math.min(Date.parse(`${event.onsetOn}T16:00:00Z`) + 14 * DAY, today.getTime()));
+  const intent = { action: 'attestation' as const, subjectId: row.id };
   const signature = await recordSignature(trx, {
     trialId,
     signer: investigator,
+    session: await demoSigningSession(trx, investigator.id, intent, signedAt),
+    intent,
     meaning: `I attest that the adverse event "${event.term}" with onset on ${event.onsetOn} recorded for ${event.studyId} is accurate and complete`,
     subjectType: 'attestation',
     subjectId: row.id,
     content: { adverseEventId: row.id, patientId: event.patientId, version: 1, ...snapshot, notes: null },
-    authenticatedAt: signedAt,
   });
   await trx('adverse_events').where({ id: row.id }).update({ attestation_signature_id: signature.id, version: 2 });
   await writeAudit(trx, { actorUserId: investigator.id, trialId, entityType: 'adverse_event', entityId: row.id, action: 'attested', after: { ...snapshot, attestationSignatureId: signature.id } });

@@ -2,12 +2,13 @@
  * Cumulative enrolment charts (Chart.js, loaded on demand): overall against the plan, and by site.
  * Actual lines are solid with points, plans dashed without, so the two read apart without colour.
  */
-import { CategoryScale, Chart, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip, type ChartDataset } from 'chart.js';
+import { CategoryScale, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip, type ChartDataset } from 'chart.js';
+import { registerChart } from '../../components/chart-setup';
 import { Line } from 'react-chartjs-2';
 import { format, parseISO } from 'date-fns';
 import type { SeriesPoint, SiteRow } from './get-accrual';
 
-Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Legend, Tooltip);
+registerChart(LineController, LineElement, PointElement, LinearScale, CategoryScale, Legend, Tooltip);
 
 const INK = ['#14213d', '#b08d3c', '#4a5570', '#8f7130', '#6b7690', '#243050', '#d2b46a', '#9aa3b5'];
 const POINTS = ['circle', 'rect', 'triangle', 'rectRot', 'crossRot', 'star', 'rectRounded', 'cross'] as const;

@@ -1,6 +1,7 @@
 import { Suspense, lazy, useState } from 'react';
-import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, Panel } from '../../components/ui';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, Panel } from '../../components/ui';
 import { day } from '../../lib/format';
+import { CAUTIONS, GLYPHS } from '../../../../server/words';
 import { useTrialContext } from '../trials';
 import { useAccrual } from './get-accrual';
 import { ProjectionsPanel } from './projections-panel';
@@ -36,7 +37,7 @@ export function AccrualPage() {
       {accrual.warnings.length > 0 && (
         <section aria-label="Idle sites" className="border-l-4 border-alert-600 bg-alert-50 px-4 py-3 text-sm">
           <p className="font-semibold text-alert-600">
-            <span aria-hidden>⚠ </span>
+            <span aria-hidden>{GLYPHS.warning} </span>
             {accrual.warnings.length === 1 ? 'One site' : `${accrual.warnings.length} sites`} enrolled nobody for {accrual.inactivityWarningWeeks} weeks or more
           </p>
           <ul className="mt-1 list-disc pl-5">

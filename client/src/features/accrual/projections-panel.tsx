@@ -1,6 +1,8 @@
+import { getDaysInMonth, parseISO } from 'date-fns';
 import { Panel, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import type { CohortAccrual, TargetProjection } from './get-accrual';
+import { GLYPHS } from '../../../../server/words';
 
 function TargetRow({ target }: { target: TargetProjection }) {
   return (
@@ -11,7 +13,7 @@ function TargetRow({ target }: { target: TargetProjection }) {
       <td className="py-2 pr-4 tabular-nums">{target.counted}</td>
       {target.reached ? (
         <td colSpan={2} className="py-2 pr-4">
-          <span aria-hidden>✓ </span>Reached
+          <span aria-hidden>{GLYPHS.done} </span>Reached
         </td>
       ) : (
         <>
@@ -43,8 +45,8 @@ export function ProjectionsPanel({ cohorts }: { cohorts: CohortAccrual[] }) {
                 Rate window: {cohort.projections.window.enrolled} counting patients from {day(cohort.projections.window.from)} to {day(cohort.projections.window.to)} (
                 {cohort.projections.window.days} days). Range: slowest and fastest of{' '}
                 {cohort.projections.months.length > 0
-                  ? cohort.projections.months.map((m) => `${m.month}: ${m.enrolled}`).join(', ')
-                  : 'no complete month yet'}
+                  ? cohort.projections.months.map((m) => `${m.month}: ${m.enrolled}${m.daysOpen < getDaysInMonth(parseISO(`${m.month}-01`)) ? ` in ${m.daysOpen} days open` : ''}`).join(', ')
+                  : 'no month before this one yet'}
                 .
               </p>
             )}
@@ -68,7 +70,7 @@ export function ProjectionsPanel({ cohorts }: { cohorts: CohortAccrual[] }) {
             )}
             {cohort.projections.notes.map((note) => (
               <p key={note} className="mt-1 text-xs text-ink-600">
-                <span aria-hidden>ⓘ </span>
+                <span aria-hidden>{GLYPHS.note} </span>
                 {note}
               </p>
             ))}

@@ -3,6 +3,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import type { SiteRow } from './get-accrual';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<SiteRow>();
 const figure = (value: number | null) => <span className="tabular-nums">{value ?? '—'}</span>;
@@ -31,7 +32,7 @@ export function SiteTable({ sites, warningWeeks }: { sites: SiteRow[]; warningWe
         cell: ({ row: { original: s } }) =>
           s.inactive ? (
             <span className="font-semibold text-alert-600">
-              <span aria-hidden>⚠ </span>
+              <span aria-hidden>{GLYPHS.warning} </span>
               {s.daysSinceLastEnrolment ?? 'never'} <span className="font-normal">(idle ≥ {warningWeeks} weeks)</span>
             </span>
           ) : (

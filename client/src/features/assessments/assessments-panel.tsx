@@ -5,7 +5,8 @@
  */
 import { useMemo, useState } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
-import { Button, CAUTIONS, Cautions, ErrorNotice, Figure, Loading, Panel } from '../../components/ui';
+import { Button, Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel } from '../../components/ui';
+import { DECISION_SUPPORT_ONLY, GLYPHS, INTERIM_DATA, OUTCOME_WORDS } from '../../../../server/words';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
@@ -21,7 +22,6 @@ const DERIVATION_CAUTION =
 type Row = Assessment & { step?: DerivationStep };
 type Editing = { id: string; mode: 'correct' | 'remove' } | null;
 
-const OUTCOME_WORDS: Record<AssessmentsView['patient']['outcome'], string> = { pending: 'Pending', responder: 'Responder', non_responder: 'Non-responder' };
 
 function DerivationSummary({ view }: { view: AssessmentsView }) {
   const { derivation, patient, outcomeSource } = view;
@@ -35,14 +35,14 @@ function DerivationSummary({ view }: { view: AssessmentsView }) {
         <Figure label="Confirmation" value={<span className="text-base">{confirmation}</span>} />
         <Figure
           label={outcomeSource === 'derived' ? 'Outcome (derived)' : 'Outcome (entered)'}
-          value={<span className="text-base">{OUTCOME_WORDS[patient.outcome]}</span>}
+          value={<span className="text-base"><Glyphed word={OUTCOME_WORDS[patient.outcome]} /></span>}
           hint={patient.bestOverallResponse ?? undefined}
         />
       </div>
       {patient.outcomeFlag && (
         <div role="alert" className="border-l-4 border-brass-500 bg-brass-50 px-4 py-3 text-sm text-ink-900">
           <p className="font-semibold">
-            <span aria-hidden>⚑ </span>The entered outcome disagrees with the derivation
+            <span aria-hidden>{GLYPHS.disagrees} </span>The entered outcome disagrees with the derivation
           </p>
           <p>
             {derivation.attention.find((a) => a.kind === 'entered-disagrees')?.message ??
@@ -69,7 +69,7 @@ function DerivationSummary({ view }: { view: AssessmentsView }) {
           <ul className="space-y-1 text-sm">
             {derivation.needed.map((sentence) => (
               <li key={sentence}>
-                <span aria-hidden>→ </span>
+                <span aria-hidden>{GLYPHS.pending} </span>
                 {sentence}
               </li>
             ))}
@@ -177,7 +177,7 @@ export function AssessmentsPanel({ trialId, patientId }: { trialId: string; pati
         )}
         {selected && editing?.mode === 'remove' && <RemoveAssessmentForm trialId={trialId} patientId={patientId} assessment={selected} onDone={() => setEditing(null)} />}
         {canWrite && <AddAssessmentForm trialId={trialId} patientId={patientId} enrolledOn={view.patient.enrolledOn} />}
-        <Cautions items={[DERIVATION_CAUTION, CAUTIONS[0], CAUTIONS[1]]} />
+        <Cautions items={[DERIVATION_CAUTION, DECISION_SUPPORT_ONLY, INTERIM_DATA]} />
       </div>
     </Panel>
   );

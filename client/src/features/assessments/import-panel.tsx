@@ -10,13 +10,14 @@ import { Button, ErrorNotice, Figure, Panel, Spinner } from '../../components/ui
 import { CsvFileInput } from '../../components/csv-file-input';
 import { DataTable } from '../../components/data-table';
 import { useImportAssessments, type ImportReport, type ImportRow } from './use-import-assessments';
+import { GLYPHS, type Worded } from '../../../../server/words';
 import { Tag } from './words';
 
-const RESULT_WORDS: Record<ImportRow['result'], { label: string; icon: string }> = {
-  new: { label: 'New', icon: '+' },
-  update: { label: 'Correction', icon: '✎' },
-  unchanged: { label: 'Unchanged', icon: '=' },
-  error: { label: 'Error', icon: '⚠' },
+const RESULT_WORDS: Record<ImportRow['result'], Worded> = {
+  new: { label: 'New', glyph: GLYPHS.added },
+  update: { label: 'Correction', glyph: GLYPHS.change },
+  unchanged: { label: 'Unchanged', glyph: GLYPHS.unchanged },
+  error: { label: 'Error', glyph: GLYPHS.warning },
 };
 
 const column = createColumnHelper<ImportRow>();

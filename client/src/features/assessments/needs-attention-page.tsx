@@ -8,7 +8,7 @@
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { createColumnHelper } from '@tanstack/react-table';
-import { CAUTIONS, Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
@@ -17,6 +17,7 @@ import { SafetyAttention } from '../safety';
 import { ImportPanel } from './import-panel';
 import { useNeedsAttention, type NeedsAttentionItem } from './get-needs-attention';
 import { ATTENTION_WORDS, Tag } from './words';
+import { DECISION_SUPPORT_ONLY, INTERIM_DATA } from '../../../../server/words';
 import type { AttentionKind } from './types';
 
 const column = createColumnHelper<NeedsAttentionItem>();
@@ -85,7 +86,7 @@ export function NeedsAttentionPage() {
       })}
       <SafetyAttention trialId={trial.id} />
       {hasAnyRole(trial.myRoles, ['coordinator', 'investigator']) && <ImportPanel trialId={trial.id} />}
-      <Cautions items={[CAUTIONS[1], CAUTIONS[0]]} />
+      <Cautions items={[INTERIM_DATA, DECISION_SUPPORT_ONLY]} />
     </div>
   );
 }

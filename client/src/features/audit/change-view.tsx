@@ -1,18 +1,20 @@
-/** An audit entry's before and after, shown field by field as "old → new" rather than raw JSON. */
+/** An audit entry's before and after, shown field by field as "old → new" rather than raw JSON; stored codes read in words. */
+import { storedValueWords } from '../../../../server/words';
 
 const words = (key: string) => key.replace(/_/g, ' ').replace(/([a-z0-9])([A-Z])/g, '$1 $2').toLowerCase();
 
-function show(value: unknown): string {
+/** A value stored under `field`: a code of a known field in its words (a list of codes under a plural field name, each). */
+function show(value: unknown, field = ''): string {
   if (value === null || value === undefined || value === '') return '—';
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   // Lists of records (a trial's sites, say) read as "code RVG, planned accrual per month 2; …".
-  if (Array.isArray(value)) return value.length === 0 ? 'none' : value.map(show).join('; ');
+  if (Array.isArray(value)) return value.length === 0 ? 'none' : value.map((item) => show(item, field.replace(/s$/, ''))).join('; ');
   if (typeof value === 'object') {
     return Object.entries(value as Record<string, unknown>)
-      .map(([key, inner]) => `${words(key)} ${show(inner)}`)
+      .map(([key, inner]) => `${words(key)} ${show(inner, key)}`)
       .join(', ');
   }
-  return typeof value === 'string' ? value : JSON.stringify(value);
+  return typeof value === 'string' ? storedValueWords(field, value) : JSON.stringify(value);
 }
 
 const asRecord = (value: unknown): Record<string, unknown> | undefined =>
@@ -33,12 +35,12 @@ export function ChangeView({ before, after }: { before: unknown; after: unknown 
           <dd className="break-words">
             {b && a ? (
               <>
-                <del className="text-ink-500">{show(b[key])}</del>
+                <del className="text-ink-500">{show(b[key], key)}</del>
                 <span aria-label="changed to"> → </span>
-                <ins className="no-underline font-semibold">{show(a[key])}</ins>
+                <ins className="no-underline font-semibold">{show(a[key], key)}</ins>
               </>
             ) : (
-              show((a ?? b)?.[key])
+              show((a ?? b)?.[key], key)
             )}
           </dd>
         </div>

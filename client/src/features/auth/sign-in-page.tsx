@@ -1,16 +1,11 @@
 import { useSearchParams } from 'react-router-dom';
 import { signInUrl } from '../../lib/api';
+import { signInErrorText } from '../../lib/sign-in-errors';
 import { Cautions } from '../../components/ui';
-
-const ERRORS: Record<string, string> = {
-  expired: 'Your sign-in took too long or was started in another tab. Please sign in again.',
-  failed: 'The identity service did not confirm your sign-in. Please try again.',
-  'different-user': 'You confirmed your identity as a different person. Signatures must come from the person signed in.',
-};
 
 export function SignInPage() {
   const [params] = useSearchParams();
-  const error = params.get('signInError');
+  const error = signInErrorText(params.get('signInError'));
   const returnTo = window.location.pathname === '/sign-in' ? '/' : window.location.pathname + window.location.search;
   return (
     <main className="mx-auto flex min-h-screen max-w-xl flex-col justify-center gap-6 px-6">
@@ -23,7 +18,7 @@ export function SignInPage() {
         </p>
         {error && (
           <p role="alert" className="mt-4 border-l-4 border-alert-600 bg-alert-50 px-3 py-2 text-sm text-alert-600">
-            {ERRORS[error] ?? 'Sign-in did not complete.'}
+            {error}
           </p>
         )}
         <a

@@ -4,21 +4,13 @@
  * Sites and sponsors are e-mailed.
  */
 import { Form, Formik } from 'formik';
-import { Button, ErrorNotice } from '../../components/ui';
+import { Button, DecisionCaution, ErrorNotice } from '../../components/ui';
 import { SelectField, TextAreaField } from '../../components/field';
 import { ApiError } from '../../lib/api';
-import {
-  DECISION_ACTIONS,
-  DECISION_LABELS,
-  STOP_CATEGORIES,
-  STOP_CATEGORY_LABELS,
-  decisionSchema,
-  type DecisionAction,
-} from '../../../../server/data-cuts/data-cuts.schema';
+import { DECISION_ACTIONS, STOP_CATEGORIES, decisionChoices, decisionSchema, type DecisionAction } from '../../../../server/data-cuts/data-cuts.schema';
+import { DECISION_POINT_CAUTIONS, DECISION_WORDS, GLYPHS, STOP_CATEGORY_LABELS } from '../../../../server/words';
 import type { DataCutDetail } from '../data-cuts';
 import { useApplyDecision } from './use-apply-decision';
-
-export const DECISION_ICONS: Record<DecisionAction, string> = { resume_stage_2: '▸▸', stop: '■', final_analysis: '∑', complete: '✓', resume_accrual: '↻' };
 
 type Values = { action: DecisionAction | ''; cohortId: string; stopCategory: string; reason: string };
 
@@ -48,54 +40,60 @@ export function DecisionPanel({ detail, trialId }: { detail: DataCutDetail; tria
         }
       }}
     >
-      {({ values, isSubmitting }) => (
-        <Form className="grid gap-3" aria-label="Apply the decision">
-          {waitingForCommittee && (
-            <p role="status" className="text-sm text-ink-700">
-              <span aria-hidden>⧗ </span>No committee member has signed yet: an interim decision can be applied once at least one recommendation is signed.
-            </p>
-          )}
-          <div className="grid gap-3 sm:grid-cols-3">
-            {cohorts.length > 1 && (
-              <SelectField name="cohortId" label="Cohort">
-                <option value="">Choose a cohort</option>
-                {open.map((c) => (
-                  <option key={c.id} value={c.id}>
-                    {c.code} · {c.name}
+      {({ values, isSubmitting }) => {
+        const cohort = cohorts.find((c) => c.id === values.cohortId);
+        // Resuming for stage 2 is offered only where the chosen cohort (or, before one is chosen, some open cohort) has a stage 2 ahead.
+        const actions = cohort ? decisionChoices(cohort) : DECISION_ACTIONS.filter((action) => open.some((c) => decisionChoices(c).includes(action)));
+        return (
+          <Form className="grid gap-3" aria-label="Apply the decision">
+            {waitingForCommittee && (
+              <p role="status" className="text-sm text-ink-700">
+                <span aria-hidden>{GLYPHS.pending} </span>No committee member has signed yet: an interim decision can be applied once at least one recommendation is signed.
+              </p>
+            )}
+            <div className="grid gap-3 sm:grid-cols-3">
+              {cohorts.length > 1 && (
+                <SelectField name="cohortId" label="Cohort">
+                  <option value="">Choose a cohort</option>
+                  {open.map((c) => (
+                    <option key={c.id} value={c.id}>
+                      {c.code} · {c.name}
+                    </option>
+                  ))}
+                </SelectField>
+              )}
+              <SelectField name="action" label="Decision">
+                <option value="">Choose the decision</option>
+                {actions.map((action) => (
+                  <option key={action} value={action}>
+                    {DECISION_WORDS[action].glyph} {DECISION_WORDS[action].label}
                   </option>
                 ))}
               </SelectField>
+              {values.action === 'stop' && (
+                <SelectField name="stopCategory" label="Why it stops">
+                  <option value="">Choose the category</option>
+                  {STOP_CATEGORIES.map((category) => (
+                    <option key={category} value={category}>
+                      {STOP_CATEGORY_LABELS[category]}
+                    </option>
+                  ))}
+                </SelectField>
+              )}
+            </div>
+            <TextAreaField name="reason" label="Reason" hint="Recorded in the audit trail and sent to the sites and sponsors." />
+            <DecisionCaution>{values.action === 'stop' ? DECISION_POINT_CAUTIONS.stopCohort : DECISION_POINT_CAUTIONS.applyDecision}</DecisionCaution>
+            <div>
+              <Button type="submit" variant={values.action === 'stop' ? 'danger' : 'primary'} disabled={isSubmitting || waitingForCommittee}>
+                {isSubmitting ? 'Applying…' : 'Apply the decision'}
+              </Button>
+            </div>
+            {apply.error && !(apply.error instanceof ApiError && Object.keys(apply.error.fields).length > 0) && (
+              <ErrorNotice error={apply.error} title="The decision was not applied" />
             )}
-            <SelectField name="action" label="Decision">
-              <option value="">Choose the decision</option>
-              {DECISION_ACTIONS.map((action) => (
-                <option key={action} value={action}>
-                  {DECISION_ICONS[action]} {DECISION_LABELS[action]}
-                </option>
-              ))}
-            </SelectField>
-            {values.action === 'stop' && (
-              <SelectField name="stopCategory" label="Why it stops">
-                <option value="">Choose the category</option>
-                {STOP_CATEGORIES.map((category) => (
-                  <option key={category} value={category}>
-                    {STOP_CATEGORY_LABELS[category]}
-                  </option>
-                ))}
-              </SelectField>
-            )}
-          </div>
-          <TextAreaField name="reason" label="Reason" hint="Recorded in the audit trail and sent to the sites and sponsors." />
-          <div>
-            <Button type="submit" variant={values.action === 'stop' ? 'danger' : 'primary'} disabled={isSubmitting || waitingForCommittee}>
-              {isSubmitting ? 'Applying…' : 'Apply the decision'}
-            </Button>
-          </div>
-          {apply.error && !(apply.error instanceof ApiError && Object.keys(apply.error.fields).length > 0) && (
-            <ErrorNotice error={apply.error} title="The decision was not applied" />
-          )}
-        </Form>
-      )}
+          </Form>
+        );
+      }}
     </Formik>
   );
 }

@@ -4,16 +4,18 @@
  * its cautions and the open data issues at the cut.
  */
 import { Link, useParams } from 'react-router-dom';
-import { Cautions, ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
+import { Cautions, ErrorNotice, Glyphed, Loading, PageHeader, Panel } from '../../components/ui';
 import { dateTime } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
-import { RECOMMENDATION_LABELS, DECISION_LABELS } from '../../../../server/data-cuts/data-cuts.schema';
+import { CUT_KIND_LABELS, DECISION_WORDS, GLYPHS, RECOMMENDATION_WORDS, STOP_CATEGORY_LABELS } from '../../../../server/words';
 import { useMe } from '../auth';
 import { useTrialContext } from '../trials';
 import { AnalysisView, CutHeader, Downloads, useAnalysis, useDataCut } from '../data-cuts';
 import { useRecommendations } from './get-recommendations';
-import { RECOMMENDATION_ICONS, RecommendationForm } from './recommendation-form';
-import { DECISION_ICONS, DecisionPanel } from './decision-panel';
+import { RecommendationForm } from './recommendation-form';
+import { DecisionPanel } from './decision-panel';
+
+const stopCategoryLabel = (category: string) => STOP_CATEGORY_LABELS[category as keyof typeof STOP_CATEGORY_LABELS] ?? STOP_CATEGORY_LABELS.other;
 
 export function ReviewPage() {
   const trial = useTrialContext();
@@ -34,7 +36,7 @@ export function ReviewPage() {
     <div className="grid gap-4">
       <PageHeader
         title={`Committee review · data cut ${cut.seq}`}
-        subtitle={`${trial.code} cohort ${cohorts} · ${cut.kind === 'final' ? 'final' : 'interim'} analysis`}
+        subtitle={`${trial.code} cohort ${cohorts} · ${CUT_KIND_LABELS[cut.kind].toLowerCase()}`}
         actions={
           <Link to=".." relative="path" className="rounded-sm border border-ink-300 px-3 py-1.5 text-sm font-semibold text-ink-900 hover:border-ink-500">
             Analysis of the cut
@@ -46,7 +48,7 @@ export function ReviewPage() {
         title="Recommendations"
         actions={
           <span role="status" className="text-sm font-semibold text-ink-900 tabular-nums">
-            <span aria-hidden>✍ </span>
+            <span aria-hidden>{GLYPHS.done} </span>
             {recommendations.length} of {committeeSize} committee {committeeSize === 1 ? 'member has' : 'members have'} signed
           </span>
         }
@@ -58,12 +60,13 @@ export function ReviewPage() {
             {recommendations.map((r) => (
               <li key={r.id} className="py-2 text-sm">
                 <p className="font-semibold">
-                  <span aria-hidden>{RECOMMENDATION_ICONS[r.decision]} </span>
-                  {RECOMMENDATION_LABELS[r.decision]} — {r.memberName ?? r.memberEmail}
+                  <Glyphed word={RECOMMENDATION_WORDS[r.decision]} /> — {r.memberName ?? r.memberEmail}
                 </p>
                 <p className="text-ink-700">{r.rationale}</p>
                 <p className="text-xs text-ink-500">
-                  Signed {dateTime(r.signature.signedAt)} after a fresh sign-in at {dateTime(r.signature.authenticatedAt)} · “{r.signature.meaning}”
+                  Signed by {r.signature.signerName ?? r.signature.signerEmail} on {dateTime(r.signature.signedAt)}, password entered at {dateTime(r.signature.authenticatedAt)},
+                  on analysis version {r.analysisVersion}
+                  {r.analysisVersion !== cut.version ? ` (the analysis is now at version ${cut.version})` : ''} · “{r.signature.meaning}”
                 </p>
               </li>
             ))}
@@ -74,14 +77,10 @@ export function ReviewPage() {
         <Panel title="Your recommendation">
           {mine ? (
             <p className="text-sm">
-              <span aria-hidden>✓ </span>You signed “{RECOMMENDATION_LABELS[mine.decision]}” on {dateTime(mine.signature.signedAt)}. A member signs once per data cut.
+              <span aria-hidden>{GLYPHS.done} </span>You signed “{RECOMMENDATION_WORDS[mine.decision].label}” on {dateTime(mine.signature.signedAt)}. A member signs once per data cut.
             </p>
           ) : (
-            <RecommendationForm
-              cutId={cut.id}
-              trialId={trial.id}
-              meaning={`“I recommend <your choice> for ${trial.code} cohort ${cohorts} on data cut ${cut.seq}, having reviewed its analysis.”`}
-            />
+            <RecommendationForm cut={cut} trialId={trial.id} />
           )}
         </Panel>
       )}
@@ -91,11 +90,10 @@ export function ReviewPage() {
             <ul className="mb-3 space-y-1 text-sm">
               {detail.data.decisions.map((d) => (
                 <li key={d.id}>
-                  <span aria-hidden>{DECISION_ICONS[d.action]} </span>
                   <strong>
-                    Cohort {d.cohortCode}: {DECISION_LABELS[d.action]}
+                    Cohort {d.cohortCode}: <Glyphed word={DECISION_WORDS[d.action]} />
                   </strong>
-                  {d.stopCategory ? ` (${d.stopCategory})` : ''} — applied {dateTime(d.appliedAt)} by {d.appliedByName ?? 'the statistician'}. {d.reason}
+                  {d.stopCategory ? ` (${stopCategoryLabel(d.stopCategory)})` : ''} — applied {dateTime(d.appliedAt)} by {d.appliedByName ?? 'the statistician'}. {d.reason}
                 </li>
               ))}
             </ul>

@@ -1,14 +1,17 @@
 /**
  * A data cut's analysis as the statistician and the committee read it: per cohort the response
- * rate and its intervals, the exact test, the rule, the two-stage inference, the Bayesian figures,
- * sites, deviations and the boundary chart; then multiplicity, the safety section, open data issues
- * and the cautions.
+ * rate and its intervals, the exact test, the verdict (with patients enrolled at risk and what could
+ * still change it), the two-stage inference with its sensitivity figure, the Bayesian figures, sites,
+ * deviations and the boundary chart; then multiplicity, the safety section, open data issues, the
+ * cautions and how verdicts are reached.
  */
 import { Suspense, lazy } from 'react';
 import type { ColumnDef } from '@tanstack/react-table';
-import { Cautions, Loading, Panel } from '../../components/ui';
+import { Cautions, Glyphed, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { decimal, percent, pValue } from '../../lib/format';
+import { OPEN_ISSUE_WORDS, POPULATION_COUNTS, SELECTION_LABELS, SENSITIVITY_LABEL, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel, stillOpen } from '../../../../server/words';
+import type { InterimDecision } from '../../../../server/stats/index';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
 import { SafetySection } from './safety-section';
 
@@ -17,22 +20,12 @@ const RateChart = lazy(() => import('../../components/rate-chart').then((m) => (
 
 const interval = (ci: [number, number] | null | undefined) => (ci ? `${percent(ci[0])} – ${percent(ci[1])}` : '—');
 
-const RULE_WORDS: Record<string, { icon: string; text: string }> = {
-  continue: { icon: '▸', text: 'Stage 1 passed: continue' },
-  'stop-futility': { icon: '■', text: 'Futility rule met' },
-  promising: { icon: '✓', text: 'Promising' },
-  'not-promising': { icon: '✗', text: 'Not promising' },
-  undetermined: { icon: '…', text: 'Not yet decided' },
-};
-
-/** The rule's verdict: a word with an icon, never colour alone. */
-export function RuleVerdict({ decision, early }: { decision: string; early?: boolean }) {
-  const word = RULE_WORDS[decision] ?? { icon: '•', text: decision };
+/** The rule's verdict: a word with its glyph, never colour alone. */
+export function RuleVerdict({ decision, early }: { decision: InterimDecision; early?: boolean }) {
   return (
     <span className="inline-flex items-center gap-1 rounded-sm border border-ink-300 px-1.5 py-0.5 text-xs font-semibold text-ink-900">
-      <span aria-hidden>{word.icon}</span>
-      {word.text}
-      {early && <span className="font-normal text-ink-500">(determined early)</span>}
+      <Glyphed word={VERDICT_WORDS[decision]} />
+      {early && <span className="font-normal text-ink-500">({SETTLED_EARLY})</span>}
     </span>
   );
 }
@@ -68,8 +61,8 @@ export function Table({ head, rows, caption }: { head: string[]; rows: Array<Arr
 function designText(c: CohortAnalysis): string {
   const d = c.design;
   if (!d) return 'No locked design at the cut.';
-  const rule = d.r1 !== null ? `stop if ≤ ${d.r1} of ${d.n1}; promising if > ${d.r} of ${d.n}` : `promising if > ${d.r} of ${d.n}`;
-  return `${d.selection.replace('_', '-')} design v${d.version} · p0 ${d.p0} · p1 ${d.p1} · α ${d.alpha} · β ${d.beta} · ${rule} · ${d.analysisPopulation === 'all_enrolled' ? 'all enrolled count' : 'evaluable patients count'}`;
+  const rule = d.r1 !== null ? `stage 1 stops for futility if ≤ ${d.r1} of ${d.n1}; promising if > ${d.r} of ${d.n}` : `promising if > ${d.r} of ${d.n}`;
+  return `${SELECTION_LABELS[d.selection]} design, version ${d.version} · p0 ${d.p0} · p1 ${d.p1} · α ${d.alpha} · β ${d.beta} · ${rule} · ${POPULATION_COUNTS[d.analysisPopulation]}`;
 }
 
 function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
@@ -96,10 +89,17 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
           {c.rule && (
             <div className="text-sm">
               <p className="mb-1 flex flex-wrap items-center gap-2">
-                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{c.rule.applied === 'stage1' ? 'Stage-1 rule' : 'Final rule'}</span>
+                <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleLabel(c.rule, c.design?.r1 === null)}</span>
                 <RuleVerdict decision={c.rule.decision} early={c.rule.determinedEarly} />
               </p>
               <p className="text-ink-700">{c.rule.message}</p>
+              {stillOpen(c.rule) && <p className="text-ink-700 tabular-nums">Could still change it: {stillOpen(c.rule)}.</p>}
+              {c.rule.atRiskNote && (
+                <p className="text-ink-700">
+                  <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{VERDICT_FIGURE_LABELS.atRisk}: </span>
+                  <strong className="tabular-nums">{c.rule.atRisk}</strong>. {c.rule.atRiskNote}
+                </p>
+              )}
             </div>
           )}
           {c.inference && (
@@ -108,11 +108,17 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
                 caption="Inference after the two-stage design"
                 head={['', 'Estimate', '95% interval', 'p-value']}
                 rows={[
-                  ['Stage-wise ordering with UMVUE', percent(c.inference.umvue), interval(c.inference.ci), pValue(c.inference.pValue)],
+                  ['Stage-wise ordering over the attained design, with UMVUE (primary)', percent(c.inference.umvue), interval(c.inference.ci), pValue(c.inference.pValue)],
+                  ...(c.inference.sensitivity ? [[SENSITIVITY_LABEL, '—', '—', pValue(c.inference.sensitivity.pValue)]] : []),
                   ['Naive (ignores the stopping rule — biased)', percent(c.inference.naiveEstimate), interval(c.inference.naiveCi), pValue(c.exactTest?.pValue)],
                 ]}
               />
               {c.inference.note && <p className="mt-1 text-xs text-ink-500">{c.inference.note}</p>}
+              {c.rule?.sensitivityNote && (
+                <p role="note" className="mt-1 border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
+                  {c.rule.sensitivityNote}
+                </p>
+              )}
             </div>
           )}
           {c.inferenceNote && <p className="text-xs text-ink-500">{c.inferenceNote}</p>}
@@ -129,20 +135,20 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
           {c.deviation && d && (
             <div>
               <Table
-                caption="Actual size differs from the design"
+                caption="Attained size differs from the design"
                 head={['Rule', 'r1/n1', 'r/n', 'Type I error', 'Power', 'PET0', 'EN0']}
                 rows={[
                   ['Planned', d.n1 !== null ? `${d.r1}/${d.n1}` : '—', `${d.r}/${d.n}`, decimal(d.typeIError, 4), decimal(d.power, 4), decimal(d.pet0, 4), decimal(d.en0, 1)],
-                  ['As applied (planned thresholds, actual sizes)', c.deviation.actualN1 !== null ? `${d.r1}/${c.deviation.actualN1}` : '—', `${d.r}/${c.deviation.actualN}`, ...ocCells(c.deviation.asApplied.characteristics)],
-                  ['Adjusted thresholds', c.deviation.actualN1 !== null ? `${c.deviation.adjusted.r1 ?? '—'}/${c.deviation.actualN1}` : '—', `${c.deviation.adjusted.r ?? '—'}/${c.deviation.actualN}`, ...ocCells(c.deviation.adjusted.characteristics)],
+                  [
+                    'As applied (thresholds for the attained sizes)',
+                    c.deviation.attainedN1 !== null ? `${c.deviation.applied.r1}/${c.deviation.attainedN1}` : '—',
+                    `${c.deviation.applied.r}/${c.deviation.attainedN}`,
+                    ...ocCells(c.deviation.applied.characteristics),
+                  ],
                 ]}
               />
               <p className="mt-1 text-xs text-ink-500">{c.deviation.method}</p>
-              {[c.deviation.asApplied.note, c.deviation.adjusted.note].filter(Boolean).map((note) => (
-                <p key={note} className="text-xs text-ink-500">
-                  {note}
-                </p>
-              ))}
+              {c.deviation.applied.note && <p className="text-xs text-ink-500">{c.deviation.applied.note}</p>}
             </div>
           )}
           <p className="text-xs text-ink-600">
@@ -197,18 +203,12 @@ function SitesTable({ sites }: { sites: SiteRow[] }) {
   );
 }
 
-const ISSUE_WORDS: Record<OpenIssue['issue'], string> = {
-  pending_outcome: '⧗ Outcome pending',
-  unattested_outcome: '✎ Not attested',
-  outcome_flag: '⚑ Outcome flagged',
-  not_evaluable: '⊘ Not evaluable',
-};
 
 const issueColumns: ColumnDef<OpenIssue, string>[] = [
   { accessorKey: 'studyId', header: 'Study ID' },
   { accessorKey: 'siteCode', header: 'Site' },
   { accessorKey: 'cohortCode', header: 'Cohort' },
-  { id: 'issue', accessorFn: (row) => ISSUE_WORDS[row.issue], header: 'Issue' },
+  { id: 'issue', accessorFn: (row) => OPEN_ISSUE_WORDS[row.issue].label, header: 'Issue', cell: ({ row }) => <Glyphed word={OPEN_ISSUE_WORDS[row.original.issue]} /> },
   { accessorKey: 'detail', header: 'Detail' },
 ];
 
@@ -234,8 +234,8 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
       {multi && (
         <Panel title="Across cohorts">
           <Table
-            head={['Cohort', 'p0', 'Exact one-sided p', 'Holm', 'Benjamini–Hochberg']}
-            rows={multi.rows.map((r) => [r.code, r.p0, pValue(r.pValue), pValue(r.holm), pValue(r.bh)])}
+            head={['Cohort', 'p0', 'p-value', 'Holm', 'Benjamini–Hochberg']}
+            rows={multi.rows.map((r) => [r.code, r.p0, `${pValue(r.pValue)} (${r.basis === 'stage-wise' ? 'stage-wise' : 'exact binomial'})`, pValue(r.holm), pValue(r.bh)])}
           />
           <p className="mt-1 mb-3 text-xs text-ink-500">{multi.method}</p>
           <Suspense fallback={<Loading label="Loading the chart" />}>
@@ -245,6 +245,13 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
       )}
       <SafetySection analysis={analysis} />
       <OpenIssues issues={analysis.openIssues} />
+      <Panel title={VERDICT_FIGURE_LABELS.rules}>
+        <ol className="list-decimal space-y-1 pl-5 text-sm text-ink-700">
+          {analysis.rulesStatement.map((rule) => (
+            <li key={rule}>{rule}</li>
+          ))}
+        </ol>
+      </Panel>
     </div>
   );
 }

@@ -13,6 +13,7 @@ import { AnalysisView } from './analysis-view';
 import { CutHeader, Downloads } from './cut-summary';
 import { PriorEditor } from './prior-editor';
 import type { PriorQuery } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 export function CutPage() {
   const trial = useTrialContext();
@@ -31,7 +32,7 @@ export function CutPage() {
         subtitle="Every figure below is computed from the frozen copy, never from live data."
         actions={
           <Link to="review" className="rounded-sm border border-ink-300 px-3 py-1.5 text-sm font-semibold text-ink-900 hover:border-ink-500">
-            <span aria-hidden>✍ </span>Committee review ({detail.data.recommendations.length} of {detail.data.committeeSize} signed)
+            <span aria-hidden>{GLYPHS.done} </span>Committee review ({detail.data.recommendations.length} of {detail.data.committeeSize} signed)
           </Link>
         }
       />
@@ -43,7 +44,7 @@ export function CutPage() {
         <p className="mb-3 text-sm text-ink-700">{analysis.data?.prior.statement}</p>
         {Object.keys(tried).length > 0 && (
           <p className="mb-3 text-xs font-semibold text-brass-700">
-            <span aria-hidden>⚗ </span>Showing a prior tried on this page only; it is not saved.
+            <span aria-hidden>{GLYPHS.note} </span>Showing a prior tried on this page only; it is not saved.
           </p>
         )}
         {isStatistician ? <PriorEditor cut={cut} onTry={setTried} /> : <p className="text-xs text-ink-500">The trial statistician sets the prior.</p>}

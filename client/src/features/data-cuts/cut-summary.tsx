@@ -3,6 +3,7 @@ import { Figure, Panel } from '../../components/ui';
 import { dateTime } from '../../lib/format';
 import { DownloadButton } from './download-button';
 import type { Analysis, DataCut } from './types';
+import { GLYPHS, STATUS_WORDS } from '../../../../server/words';
 
 /** The cut's identity and counts. */
 export function CutHeader({ cut, analysis }: { cut: DataCut; analysis?: Analysis }) {
@@ -20,7 +21,7 @@ export function CutHeader({ cut, analysis }: { cut: DataCut; analysis?: Analysis
         <dt>Cut at</dt>
         <dd>{dateTime(cut.cutAt)}</dd>
         <dt>Cohorts</dt>
-        <dd>{cut.snapshot.cohorts.map((c) => `${c.code} (${c.status.replace(/_/g, ' ')} at the cut)`).join(', ')}</dd>
+        <dd>{cut.snapshot.cohorts.map((c) => `${c.code} (${STATUS_WORDS[c.status].label.toLowerCase()} at the cut)`).join(', ')}</dd>
         <dt>Content hash</dt>
         <dd className="font-mono break-all">{cut.contentHash}</dd>
         {analysis && (
@@ -29,11 +30,11 @@ export function CutHeader({ cut, analysis }: { cut: DataCut; analysis?: Analysis
             <dd>
               {intact ? (
                 <span>
-                  <span aria-hidden>✓ </span>Intact: the copy still matches its hash
+                  <span aria-hidden>{GLYPHS.done} </span>Intact: the copy still matches its hash
                 </span>
               ) : (
                 <strong className="text-alert-600">
-                  <span aria-hidden>⚠ </span>Does not match its hash
+                  <span aria-hidden>{GLYPHS.warning} </span>Does not match its hash
                 </strong>
               )}
             </dd>

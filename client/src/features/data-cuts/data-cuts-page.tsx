@@ -16,6 +16,7 @@ import { useTrialContext } from '../trials';
 import { useDataCuts } from './get-data-cuts';
 import { useFreezeDataCut } from './use-freeze-data-cut';
 import type { DataCutListItem } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 function FreezeForm({ trialId }: { trialId: string }) {
   const trial = useTrialContext();
@@ -57,7 +58,7 @@ function FreezeForm({ trialId }: { trialId: string }) {
           </p>
           <div className="flex items-center gap-3">
             <Button type="submit" disabled={isSubmitting}>
-              <span aria-hidden>❄</span> Freeze a data cut
+              Freeze a data cut
             </Button>
             {isSubmitting && (
               <>
@@ -102,7 +103,7 @@ export function DataCutsPage() {
       header: 'Committee',
       cell: ({ row }) => (
         <span className="tabular-nums">
-          <span aria-hidden>{row.original.recommendationCount > 0 ? '✍ ' : '⧗ '}</span>
+          <span aria-hidden>{row.original.recommendationCount > 0 ? GLYPHS.done : GLYPHS.pending} </span>
           {row.original.recommendationCount} of {data?.committeeSize ?? 0} signed
         </span>
       ),
@@ -111,7 +112,7 @@ export function DataCutsPage() {
       id: 'decision',
       accessorKey: 'decisionCount',
       header: 'Decision',
-      cell: ({ row }) => (row.original.decisionCount > 0 ? <span><span aria-hidden>✓ </span>Applied</span> : <span><span aria-hidden>… </span>Not yet</span>),
+      cell: ({ row }) => (row.original.decisionCount > 0 ? <span><span aria-hidden>{GLYPHS.done} </span>Applied</span> : <span><span aria-hidden>{GLYPHS.pending} </span>Not yet</span>),
     },
     {
       id: 'open',

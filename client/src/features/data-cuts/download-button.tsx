@@ -1,6 +1,7 @@
 /** Downloads a file the server builds on request (the report, the exports), with progress while it is made. */
 import { useState } from 'react';
 import { Button, Spinner } from '../../components/ui';
+import { GLYPHS } from '../../../../server/words';
 
 export function DownloadButton({ href, filename, label, busyLabel }: { href: string; filename: string; label: string; busyLabel: string }) {
   const [busy, setBusy] = useState(false);
@@ -26,12 +27,12 @@ export function DownloadButton({ href, filename, label, busyLabel }: { href: str
   return (
     <span className="inline-flex items-center gap-2">
       <Button variant="secondary" onClick={download} disabled={busy}>
-        <span aria-hidden>⤓</span> {label}
+        <span aria-hidden>{GLYPHS.download}</span> {label}
       </Button>
       {busy && <Spinner label={busyLabel} />}
       {failed && (
         <span role="alert" className="text-xs text-alert-600">
-          <span aria-hidden>⚠ </span>
+          <span aria-hidden>{GLYPHS.warning} </span>
           {failed}
         </span>
       )}

@@ -4,4 +4,4 @@ export { CutHeader, Downloads } from './cut-summary';
 export { useDataCut } from './get-data-cut';
 export { useAnalysis } from './get-analysis';
 export { dataCutKeys } from './query-keys';
-export type { AppliedDecision, DataCutDetail, Recommendation } from './types';
+export type { AppliedDecision, DataCut, DataCutDetail, Recommendation } from './types';

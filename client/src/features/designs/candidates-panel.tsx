@@ -4,7 +4,8 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { Button, Loading } from '../../components/ui';
 import { decimal } from '../../lib/format';
 import { DataTable } from '../../components/data-table';
-import { candidateList, ruleText, type CandidateDesign, type DesignCandidates } from './types';
+import { candidateList, ruleText, SELECTION_LABELS, type CandidateDesign, type DesignCandidates } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 const DesignCharts = lazy(() => import('./design-charts'));
 
@@ -15,10 +16,7 @@ function qRange(c: CandidateDesign) {
 }
 
 function labelOf(c: CandidateDesign) {
-  if (c.selection === 'optimal') return 'Simon optimal';
-  if (c.selection === 'minimax') return 'Simon minimax';
-  if (c.selection === 'single_stage') return 'Single-stage';
-  return `Admissible ${c.admissibleIndex}`;
+  return c.selection === 'admissible' ? `${SELECTION_LABELS.admissible} ${c.admissibleIndex}` : SELECTION_LABELS[c.selection];
 }
 
 type Props = {
@@ -78,7 +76,7 @@ export function CandidatesPanel({ candidates, compare, onToggleCompare, onChoose
     <div className="grid gap-5">
       {candidates.singleStageNote && (
         <p className="text-sm text-ink-600">
-          <span aria-hidden>ⓘ </span>
+          <span aria-hidden>{GLYPHS.note} </span>
           No single-stage design: {candidates.singleStageNote}
         </p>
       )}

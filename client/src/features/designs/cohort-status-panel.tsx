@@ -5,20 +5,17 @@
  */
 import { useState } from 'react';
 import { Form, Formik } from 'formik';
-import { Button, ErrorNotice, SafetyPauseTag, StatusTag } from '../../components/ui';
+import { Button, DecisionCaution, ErrorNotice, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { SelectField, TextAreaField } from '../../components/field';
 import { dateTime } from '../../lib/format';
 import { cohortTransitionSchema } from '../../../../server/designs/designs.schema';
+import { STOP_CATEGORIES, type StopCategory } from '../../../../server/trials/trials.schema';
+import { DECISION_POINT_CAUTIONS, STOP_CATEGORY_LABELS, stoppedFor } from '../../../../server/words';
 import { useTransitionCohort } from './use-transition-cohort';
 import type { CohortDesigns } from './types';
 
-const CATEGORY_LABELS: Record<string, string> = {
-  futility: 'Futility',
-  efficacy: 'Efficacy (early decision)',
-  safety: 'Safety',
-  sponsor: 'Sponsor decision',
-  other: 'Other',
-};
+/** Categories only the statistician records: they follow the analysis. */
+const STATISTICAL: readonly StopCategory[] = ['futility', 'efficacy'];
 
 export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: { trialId: string; cohort: CohortDesigns; isStatistician: boolean; isAdmin: boolean }) {
   const transition = useTransitionCohort(trialId, cohort.id);
@@ -26,7 +23,7 @@ export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: 
   const [stopOpen, setStopOpen] = useState(false);
   const locked = cohort.versions.length > 0;
   const finished = cohort.status === 'stopped' || cohort.status === 'completed';
-  const categories = isStatistician ? Object.keys(CATEGORY_LABELS) : ['safety', 'sponsor', 'other'];
+  const categories = isStatistician ? STOP_CATEGORIES : STOP_CATEGORIES.filter((c) => !STATISTICAL.includes(c));
   return (
     <div className="grid gap-3 text-sm">
       <p className="flex flex-wrap items-center gap-2">
@@ -41,7 +38,7 @@ export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: 
       )}
       {cohort.status === 'stopped' && (
         <p>
-          Stopped for {CATEGORY_LABELS[cohort.stopCategory ?? 'other']?.toLowerCase()}: {cohort.stopReason}
+          Stopped {stoppedFor(cohort.stopCategory)}: {cohort.stopReason}
         </p>
       )}
       {transition.error && <ErrorNotice error={transition.error} title="The cohort did not move" />}
@@ -93,12 +90,13 @@ export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: 
                   <SelectField name="stopCategory" label="Why the cohort stops">
                     {categories.map((c) => (
                       <option key={c} value={c}>
-                        {CATEGORY_LABELS[c]}
+                        {STOP_CATEGORY_LABELS[c]}
                       </option>
                     ))}
                   </SelectField>
                   <TextAreaField name="reason" label="Reason" hint="Recorded in the audit trail." />
                   {!isStatistician && <p className="text-xs text-ink-500">Stopping for futility or efficacy follows the statistician’s analysis and is recorded by the statistician.</p>}
+                  <DecisionCaution>{DECISION_POINT_CAUTIONS.stopCohort}</DecisionCaution>
                   <div className="flex gap-2">
                     <Button type="submit" variant="danger" disabled={isSubmitting}>
                       {isSubmitting ? 'Stopping…' : 'Stop the cohort'}

@@ -5,11 +5,12 @@
  * sample size against the true response rate, with p0 and p1 marked.
  */
 import { useMemo } from 'react';
-import { Chart as ChartJS, Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartOptions, type Plugin } from 'chart.js';
+import { Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartOptions, type Plugin } from 'chart.js';
+import { registerChart } from '../../components/chart-setup';
 import { Line } from 'react-chartjs-2';
 import type { OperatingPoint } from './types';
 
-ChartJS.register(LineController, LineElement, PointElement, LinearScale, Tooltip, Legend);
+registerChart(LineController, LineElement, PointElement, LinearScale, Tooltip, Legend);
 
 export type Series = { label: string; curve: OperatingPoint[] };
 

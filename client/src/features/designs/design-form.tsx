@@ -6,9 +6,9 @@
 import { useFormikContext } from 'formik';
 import { Button } from '../../components/ui';
 import { CheckboxField, SelectField, TextField } from '../../components/field';
-import { NMAX_LIMIT } from '../../../../server/designs/designs.schema';
+import { ANALYSIS_POPULATIONS, INTERIM_ACCRUAL, NMAX_LIMIT } from '../../../../server/designs/designs.schema';
 import { BRYANT_DAY_NMAX_LIMIT, CTCAE_GRADES, SAFETY_RULES, WINDOW_DAYS_MAX } from '../../../../server/safety/safety.schema';
-import { GRADE_WORDS, SAFETY_RULE_WORDS } from '../../../../server/words';
+import { GRADE_WORDS, INTERIM_ACCRUAL_LABELS, POPULATION_LABELS, SAFETY_RULE_WORDS } from '../../../../server/words';
 import type { StudioValues } from './url-state';
 
 const SETTINGS = ['p0', 'p1', 'alpha', 'beta', 'nmax'] as const;
@@ -98,12 +98,18 @@ export function DesignForm({ onCompare, computing }: { onCompare: (values: Studi
       <fieldset className="grid gap-3 sm:grid-cols-2">
         <legend className="mb-2 text-xs font-semibold tracking-wide text-ink-500 uppercase">Protocol settings</legend>
         <SelectField name="analysisPopulation" label="Analysis population" hint="Who n1 and n count.">
-          <option value="all_enrolled">All enrolled (not evaluable counts as non-responder)</option>
-          <option value="evaluable">Evaluable (non-evaluable patients are replaced)</option>
+          {ANALYSIS_POPULATIONS.map((population) => (
+            <option key={population} value={population}>
+              {POPULATION_LABELS[population]}
+            </option>
+          ))}
         </SelectField>
         <SelectField name="interimAccrual" label="Accrual at the interim" hint="When n1 patients are enrolled.">
-          <option value="pause">Pauses until the interim review</option>
-          <option value="continue_at_risk">Continues at risk</option>
+          {INTERIM_ACCRUAL.map((choice) => (
+            <option key={choice} value={choice}>
+              {INTERIM_ACCRUAL_LABELS[choice]}
+            </option>
+          ))}
         </SelectField>
         <TextField name="protocolReference" label="Protocol reference" placeholder="e.g. PRT-001 v1.0" hint="Named in the signature." />
         <div className="self-end">

@@ -24,6 +24,7 @@ import { VersionHistory } from './version-history';
 import { CohortStatusPanel } from './cohort-status-panel';
 import { bryantDayCandidates, candidateList, type CandidateDesign, type CohortDesigns } from './types';
 import { comparedBoundary, comparedSafetySettings, comparedSettings, initialValues, responseSettingsOf, sameAsCompared, withValues, type StudioValues } from './url-state';
+import { GLYPHS } from '../../../../server/words';
 
 export function DesignsPage() {
   const trial = useTrialContext();
@@ -126,16 +127,9 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
   };
 
   const chooseLabel = kind === 'lock' ? 'Lock…' : kind === 'amendment' ? 'Amend to this…' : 'Sign as new version…';
-  const differentUser = params.get('signInError') === 'different-user';
 
   return (
     <div className="grid gap-4">
-      {differentUser && (
-        <ErrorNotice
-          title="Signature not made"
-          error={new Error('The fresh sign-in was made by a different account. A signature must come from the person signed in to Orrery.')}
-        />
-      )}
       <div className="grid gap-4 lg:grid-cols-5">
         {isStatistician && !finished && (
           <Panel title={current ? 'New version of the design' : 'Design settings'} className="lg:col-span-3">
@@ -196,7 +190,7 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
               {chooseProblem && <ErrorNotice error={new Error(chooseProblem)} title="Not ready to sign" />}
               {kind === 'amendment' && canSign && (
                 <p className="mb-3 text-sm text-ink-600">
-                  <span aria-hidden>ⓘ </span>
+                  <span aria-hidden>{GLYPHS.note} </span>
                   {cohort.enrolled} patient{cohort.enrolled === 1 ? ' is' : 's are'} enrolled: a change now is an amendment, with a reason and
                   a new signature. The earlier versions stay on record.
                 </p>

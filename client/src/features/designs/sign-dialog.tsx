@@ -1,21 +1,24 @@
 /**
- * Signing a design: what is signed, the meaning of the signature in words, the reason for a new
- * version, and an explicit confirmation. A sign-in that is too old sends the user to the identity
- * provider (fresh sign-in) and back to this same dialog.
+ * Signing a design: what is signed, the meaning of the signature in words (the text recorded), the
+ * reason for a new version, and an explicit confirmation. Each signature needs the statistician's
+ * password, entered at the identity provider for this cohort's design: the dialog sends them there
+ * and they come back to this same dialog to sign.
  */
 import { useEffect, useRef } from 'react';
 import { Form, Formik } from 'formik';
 import { Button, ErrorNotice } from '../../components/ui';
 import { CheckboxField, TextAreaField } from '../../components/field';
 import { decimal } from '../../lib/format';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { confirmIdentityToSign, signingUrlOf } from '../../lib/api';
+import { useSigningReady } from '../auth';
 import {
   designAmendmentSchema,
   designLockSchema,
   signatureMeaning,
   type SignatureKind,
 } from '../../../../server/designs/designs.schema';
-import { SAFETY_RULE_WORDS, toxicityDefinitionSentence } from '../../../../server/words';
+import { INTERIM_ACCRUAL_LABELS, POPULATION_LABELS, SAFETY_RULE_WORDS, toxicityDefinitionSentence } from '../../../../server/words';
 import { useSignDesign } from './use-sign-design';
 import { pendingReason, type StudioValues } from './url-state';
 import { ruleText, SELECTION_LABELS, type BryantDayDesign, type CandidateDesign, type DesignSettings } from './types';
@@ -35,8 +38,8 @@ type Props = {
   onSigned: () => void;
 };
 
-const POPULATION = { all_enrolled: 'All enrolled', evaluable: 'Evaluable, non-evaluable replaced' };
-const INTERIM = { pause: 'Pauses for the interim review', continue_at_risk: 'Continues at risk' };
+const POPULATION = POPULATION_LABELS;
+const INTERIM = INTERIM_ACCRUAL_LABELS;
 
 /** The safety rule's part of the body: only the fields its rule uses. */
 function safetyFields(values: StudioValues) {
@@ -86,6 +89,7 @@ function SafetySummary({ values, candidate }: { values: StudioValues; candidate:
 export function SignDialog({ trialId, trialCode, cohort, candidate, settings, values, kind, currentVersion, returnTo, onClose, onSigned }: Props) {
   const dialog = useRef<HTMLDialogElement>(null);
   const sign = useSignDesign(trialId, cohort.id, kind === 'amendment' ? 'amendment' : 'lock');
+  const ready = useSigningReady(kind === 'amendment' ? 'amendment' : 'design', cohort.id);
   const version = currentVersion + 1;
   const needsReason = kind !== 'lock';
   const meaning = signatureMeaning({ kind, version, protocolReference: values.protocolReference, trialCode, cohortCode: cohort.code });
@@ -129,9 +133,10 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
             pendingReason.clear(cohort.id);
             onSigned();
           } catch (error) {
-            if (error instanceof ApiError && error.code === 'reauthentication_required') {
+            const signingUrl = signingUrlOf(error);
+            if (signingUrl) {
               pendingReason.save(cohort.id, form.reason);
-              reauthenticate(returnTo);
+              confirmIdentityToSign(signingUrl, returnTo);
             }
           }
         }}
@@ -143,10 +148,11 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 {kind === 'amendment' ? `Sign an amendment: design version ${version}` : kind === 'revision' ? `Sign design version ${version}` : 'Lock and sign the design'}
               </h2>
               <p className="text-sm text-ink-500">
-                {trialCode}, cohort {cohort.code}. This is an electronic signature: you may be asked to confirm your identity first.
+                {trialCode}, cohort {cohort.code}. This is an electronic signature: you enter your password at the identity service for it.
               </p>
             </header>
             <div className="grid gap-4 px-5 py-4">
+              <SigningNotice ready={ready} />
               <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm tabular-nums">
                 <dt className="text-ink-500">Design</dt>
                 <dd className="font-semibold">
@@ -190,7 +196,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 />
               )}
               <CheckboxField name="confirmMeaning" label="I sign with the meaning stated above." />
-              {sign.error && !(sign.error instanceof ApiError && sign.error.code === 'reauthentication_required') && (
+              {sign.error && !signingUrlOf(sign.error) && (
                 <ErrorNotice error={sign.error} title="The design was not signed" />
               )}
             </div>
@@ -199,7 +205,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 Cancel
               </Button>
               <Button type="submit" disabled={isSubmitting}>
-                {isSubmitting ? 'Signing…' : 'Sign'}
+                {isSubmitting ? 'Signing…' : ready ? 'Sign' : 'Enter your password and sign'}
               </Button>
             </footer>
           </Form>

@@ -4,6 +4,7 @@ import type { BoundaryWithCurve, BryantDayGrid } from '../../../../server/design
 import type { CandidateDesign, DesignCandidates, DesignNumbers } from '../../../../server/designs/candidates';
 import type { DesignSettingsInput, Selection } from '../../../../server/designs/designs.schema';
 import type { DesignVersion, SignedBy } from '../../../../server/designs/designs.repository';
+import { SELECTION_LABELS } from '../../../../server/words';
 import type { CohortDesigns } from '../../../../server/designs/designs.service';
 
 export type { BoundaryWithCurve, BryantDayDesign, BryantDayGrid, CandidateDesign, CohortDesigns, DesignCandidates, DesignNumbers, DesignVersion, OperatingPoint, Selection, SignedBy, ToxicityOperatingPoint };
@@ -50,9 +51,4 @@ export function bryantDayCandidates(found: BryantDayDesigns): Array<CandidateDes
 export const designLabel = (d: { selection: Selection; safetyRule?: string }) =>
   d.safetyRule === 'bryant_day' ? (d.selection === 'minimax' ? 'Bryant–Day minimax' : 'Bryant–Day optimal') : SELECTION_LABELS[d.selection];
 
-export const SELECTION_LABELS: Record<Selection, string> = {
-  single_stage: 'Single-stage',
-  optimal: 'Simon optimal',
-  minimax: 'Simon minimax',
-  admissible: 'Admissible',
-};
+export { SELECTION_LABELS } from '../../../../server/words';

@@ -3,7 +3,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { dateTime, decimal } from '../../lib/format';
 import { DataTable } from '../../components/data-table';
 import { designLabel, ruleText, type DesignVersion } from './types';
-import { SAFETY_RULE_WORDS } from '../../../../server/words';
+import { GLYPHS, SAFETY_RULE_WORDS } from '../../../../server/words';
 
 const column = createColumnHelper<DesignVersion>();
 
@@ -21,14 +21,14 @@ const columns = [
     header: 'Signed by',
     cell: (info) => (
       <span title={info.row.original.signature?.signerEmail}>
-        <span aria-hidden>✍ </span>
+        <span aria-hidden>{GLYPHS.done} </span>
         {info.getValue()}
       </span>
     ),
   }),
   column.accessor((v) => v.signature?.meaning ?? '', { id: 'meaning', header: 'Meaning', cell: (info) => <span className="text-xs">{info.getValue()}</span> }),
   column.accessor((v) => v.signature?.signedAt ?? v.createdAt, { id: 'signedAt', header: 'Signed', cell: (info) => dateTime(info.getValue()) }),
-  column.accessor((v) => v.signature?.authenticatedAt ?? '', { id: 'authAt', header: 'Identity confirmed', cell: (info) => dateTime(info.getValue() || null) }),
+  column.accessor((v) => v.signature?.authenticatedAt ?? '', { id: 'authAt', header: 'Password entered', cell: (info) => dateTime(info.getValue() || null) }),
 ];
 
 export function VersionHistory({ versions }: { versions: DesignVersion[] }) {

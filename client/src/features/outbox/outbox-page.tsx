@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { EmptyState, ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
 import { dateTime } from '../../lib/format';
 import { useOutbox } from './get-outbox';
+import { GLYPHS } from '../../../../server/words';
 
 /** Development only: what the local mail catcher received, and what is still waiting to be sent. */
 export function OutboxPage() {
@@ -21,7 +22,7 @@ export function OutboxPage() {
               <ul className="space-y-1 text-sm">
                 {data.queued.map((m) => (
                   <li key={m.id}>
-                    <span aria-hidden>○ </span>
+                    <span aria-hidden>{GLYPHS.pending} </span>
                     {m.subject} → {m.to} · attempts {m.attempts}
                     {m.lastError && <span className="text-alert-600"> · last error: {m.lastError}</span>}
                   </li>

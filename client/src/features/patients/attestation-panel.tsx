@@ -1,21 +1,27 @@
 /**
- * The site investigator's attestation: an electronic signature over the recorded outcome. When the
- * server asks for a fresh sign-in, the intent is kept in this tab, the investigator signs in again
- * at the identity provider and comes back here to sign.
+ * The site investigator's attestation: an electronic signature over the recorded outcome. Each
+ * attestation needs the investigator's password, entered at the identity provider for this
+ * patient: when the server asks for it, the intent is kept in this tab, the investigator enters
+ * the password and comes back here to sign. The statement shown is the one recorded.
  */
 import { useState } from 'react';
 import { Button, ErrorNotice } from '../../components/ui';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { confirmIdentityToSign, signingUrlOf } from '../../lib/api';
 import { dateTime } from '../../lib/format';
+import { attestationMeaning } from '../../../../server/patients/patients.schema';
+import { useSigningReady } from '../auth';
 import { useAttestOutcome } from './use-attest-outcome';
 import type { Patient } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 const resumeKey = (patientId: string) => `orrery.attest-resume.${patientId}`;
 
 export function AttestationPanel({ trialId, patient, canAttest }: { trialId: string; patient: Patient; canAttest: boolean }) {
   const attest = useAttestOutcome(trialId, patient.id);
+  const ready = useSigningReady('attestation', patient.id);
   const [resuming, setResuming] = useState(() => sessionStorage.getItem(resumeKey(patient.id)) !== null);
-  const meaning = `I attest that the outcome recorded for ${patient.studyId} is accurate and complete.`;
+  const meaning = attestationMeaning(patient.studyId);
   const nothingToAttest = patient.outcome === 'pending' && patient.evaluable;
 
   async function sign() {
@@ -24,9 +30,10 @@ export function AttestationPanel({ trialId, patient, canAttest }: { trialId: str
       sessionStorage.removeItem(resumeKey(patient.id));
       setResuming(false);
     } catch (error) {
-      if (error instanceof ApiError && error.code === 'reauthentication_required') {
+      const signingUrl = signingUrlOf(error);
+      if (signingUrl) {
         sessionStorage.setItem(resumeKey(patient.id), '1');
-        reauthenticate();
+        confirmIdentityToSign(signingUrl);
       }
     }
   }
@@ -34,7 +41,7 @@ export function AttestationPanel({ trialId, patient, canAttest }: { trialId: str
   if (patient.attested) {
     return (
       <p className="text-sm text-ink-800">
-        <span aria-hidden>✍ </span>Attested by {patient.attested.signerName ?? patient.attested.signerEmail} on {dateTime(patient.attested.signedAt)}.
+        <span aria-hidden>{GLYPHS.done} </span>Attested by {patient.attested.signerName ?? patient.attested.signerEmail} on {dateTime(patient.attested.signedAt)}.
       </p>
     );
   }
@@ -43,20 +50,16 @@ export function AttestationPanel({ trialId, patient, canAttest }: { trialId: str
       <p className="text-ink-600">{nothingToAttest ? 'No outcome to attest yet.' : 'Not attested yet.'}</p>
       {canAttest && !nothingToAttest && (
         <>
-          {resuming && (
-            <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-ink-800">
-              <span aria-hidden>↺ </span>You signed in again. Check the outcome above and sign.
-            </p>
-          )}
-          <p className="text-xs text-ink-600">Signing is an electronic signature: “{meaning}” You will be asked to confirm your identity if your sign-in is not recent.</p>
+          {(resuming || ready) && <SigningNotice ready={ready} />}
+          <p className="text-xs text-ink-600">
+            Signing is an electronic signature, with your password entered at the identity service for it. You sign: “{meaning}”
+          </p>
           <div>
-            <Button onClick={sign} disabled={attest.isPending} autoFocus={resuming}>
-              <span aria-hidden>✍</span> {attest.isPending ? 'Signing…' : 'Attest this outcome'}
+            <Button onClick={sign} disabled={attest.isPending} autoFocus={resuming && ready}>
+              {attest.isPending ? 'Signing…' : ready ? 'Attest this outcome' : 'Enter your password and attest'}
             </Button>
           </div>
-          {attest.error && !(attest.error instanceof ApiError && attest.error.code === 'reauthentication_required') && (
-            <ErrorNotice error={attest.error} title="The outcome was not attested" />
-          )}
+          {attest.error && !signingUrlOf(attest.error) && <ErrorNotice error={attest.error} title="The outcome was not attested" />}
         </>
       )}
     </div>

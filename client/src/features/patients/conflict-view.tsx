@@ -3,6 +3,7 @@ import { Button } from '../../components/ui';
 import { OUTCOME_FIELDS } from '../../../../server/patients/patients.schema';
 import type { Patient } from './types';
 import { FIELD_LABELS, OUTCOME_WORDS } from './words';
+import { GLYPHS } from '../../../../server/words';
 
 type Entry = Record<(typeof OUTCOME_FIELDS)[number], unknown>;
 
@@ -17,7 +18,7 @@ export function ConflictView({ mine, loaded, current, onReload, onKeepMine }: { 
   return (
     <div role="alert" className="grid gap-3 border-l-4 border-brass-500 bg-brass-50 px-4 py-3 text-sm text-ink-800">
       <p className="font-semibold">
-        <span aria-hidden>⇄ </span>Someone saved this patient while you were editing (now version {current.version}). Nothing of yours was saved.
+        <span aria-hidden>{GLYPHS.warning} </span>Someone saved this patient while you were editing (now version {current.version}). Nothing of yours was saved.
       </p>
       <table className="w-full text-left">
         <caption className="sr-only">Your entry beside the current record</caption>
@@ -39,7 +40,7 @@ export function ConflictView({ mine, loaded, current, onReload, onKeepMine }: { 
                 </th>
                 <td className="py-1 pr-4 tabular-nums">{show(loaded[field])}</td>
                 <td className={`py-1 pr-4 tabular-nums ${changedByOther ? 'font-semibold' : ''}`}>
-                  {changedByOther && <span aria-hidden>● </span>}
+                  {changedByOther && <span aria-hidden>{GLYPHS.disagrees} </span>}
                   {show(current[field])}
                   {changedByOther && <span className="sr-only"> (changed by someone else)</span>}
                 </td>

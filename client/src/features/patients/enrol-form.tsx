@@ -12,6 +12,7 @@ import { showServerError } from '../../lib/form-errors';
 import { enrolSchema, type EnrolInput } from '../../../../server/patients/patients.schema';
 import { useEnrolPatient, type EnrolResult } from './use-enrol-patient';
 import type { TrialCohort, TrialSite } from './types';
+import { GLYPHS } from '../../../../server/words';
 
 const ENROLLING = ['enrolling_stage_1', 'enrolling_stage_2', 'interim_review'];
 
@@ -83,19 +84,19 @@ export function EnrolForm({ trialId, sites, cohorts, onClose }: { trialId: strin
             </Button>
             {last && (
               <p role="status" className="text-sm text-ink-700">
-                <span aria-hidden>✓ </span>
+                <span aria-hidden>{GLYPHS.done} </span>
                 {last.patient.studyId} enrolled in stage {last.patient.stage}.
               </p>
             )}
           </div>
           {last?.accrual.paused && (
             <p role="alert" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-              <span aria-hidden>⏸ </span>Stage 1 is now complete: accrual is paused for the interim review. The statistician and the committee have been told by e-mail.
+              <span aria-hidden>{GLYPHS.paused} </span>Stage 1 is now complete: accrual is paused for the interim review. The statistician and the committee have been told by e-mail.
             </p>
           )}
           {last?.accrual.continuesAtRisk && (
             <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-              <span aria-hidden>▸ </span>Stage 1 is now complete and goes to interim review; the protocol lets accrual continue at risk.
+              <span aria-hidden>{GLYPHS.enrollingStage1} </span>Stage 1 is now complete and goes to interim review; the protocol lets accrual continue at risk.
             </p>
           )}
           {status instanceof ApiError && Object.keys(status.fields).length === 0 && <ErrorNotice error={status} title="The patient was not enrolled" />}

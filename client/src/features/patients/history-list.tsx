@@ -2,6 +2,7 @@
 import { EmptyState, ErrorNotice, Loading } from '../../components/ui';
 import { dateTime } from '../../lib/format';
 import { usePatientHistory } from './get-patient-history';
+import { storedValueWords } from '../../../../server/words';
 import { FIELD_LABELS } from './words';
 
 const ACTION_WORDS: Record<string, string> = {
@@ -11,7 +12,8 @@ const ACTION_WORDS: Record<string, string> = {
   outcome_attested: 'Outcome attested',
 };
 
-const show = (value: unknown) => (value === null || value === undefined ? '—' : value === true ? 'Yes' : value === false ? 'No' : typeof value === 'string' ? value : JSON.stringify(value));
+const show = (value: unknown, field: string) =>
+  value === null || value === undefined ? '—' : value === true ? 'Yes' : value === false ? 'No' : typeof value === 'string' ? storedValueWords(field, value) : JSON.stringify(value);
 
 function changes(before: unknown, after: unknown): Array<[string, unknown, unknown]> {
   const b = (before ?? {}) as Record<string, unknown>;
@@ -41,8 +43,8 @@ export function HistoryList({ trialId, patientId }: { trialId: string; patientId
             <ul className="mt-1 text-xs text-ink-700">
               {changes(entry.before, entry.after).map(([key, from, to]) => (
                 <li key={key} className="tabular-nums">
-                  {FIELD_LABELS[key]}: {entry.before ? <>{show(from)} → </> : null}
-                  <strong>{show(to)}</strong>
+                  {FIELD_LABELS[key]}: {entry.before ? <>{show(from, key)} → </> : null}
+                  <strong>{show(to, key)}</strong>
                 </li>
               ))}
             </ul>

@@ -15,6 +15,7 @@ import { useTrialContext } from '../trials';
 import { useImportPatients } from './use-import-patients';
 import type { ImportCounts, ImportReport, RowResult } from './types';
 import { ROW_RESULT_WORDS } from './words';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<RowResult>();
 const columns = [
@@ -24,7 +25,7 @@ const columns = [
     header: 'Result',
     cell: (c) => (
       <span className={`whitespace-nowrap ${c.getValue() === 'error' ? 'font-semibold text-alert-600' : ''}`}>
-        <span aria-hidden>{ROW_RESULT_WORDS[c.getValue()].icon} </span>
+        <span aria-hidden>{ROW_RESULT_WORDS[c.getValue()].glyph} </span>
         {ROW_RESULT_WORDS[c.getValue()].label}
         {c.row.original.correction ? ' (correction)' : ''}
       </span>
@@ -93,7 +94,7 @@ export function ImportPage() {
         subtitle={`Up to ${IMPORT_MAX_ROWS} rows and 1 MB per file, your own sites only. Nothing is written until you import, and then all rows or none.`}
         actions={
           <Link to=".." relative="path" className="text-sm text-ink-700 underline-offset-2 hover:underline">
-            ← All patients
+            {GLYPHS.back} All patients
           </Link>
         }
       />
@@ -104,8 +105,9 @@ export function ImportPage() {
             <a href={`/api/trials/${trial.id}/patients/import-template.csv`} download className="font-semibold underline underline-offset-2">
               template (CSV)
             </a>{' '}
-            or from the Patients page's export. One row per patient; dates as YYYY-MM-DD; outcome pending, responder or non_responder; evaluable yes or no. A change to
-            a recorded outcome needs a correction_reason. Cells that start like a spreadsheet formula (=, +, -, @) are kept as text.
+            or from the Patients page's export. One row per patient; dates as YYYY-MM-DD; outcome <code>pending</code>, <code>responder</code> or <code>non_responder</code>;
+            evaluable <code>yes</code> or <code>no</code>. A change to a recorded outcome needs a <code>correction_reason</code>. Cells that start like a spreadsheet formula
+            (=, +, -, @) are kept as text.
           </p>
           <div className="flex flex-wrap items-end gap-3">
             <CsvFileInput
@@ -146,19 +148,19 @@ export function ImportPage() {
           <div className="grid gap-3">
             {done && (
               <p role="status" className="text-sm">
-                <span aria-hidden>✓ </span>Imported: every row was applied and audited.
+                <span aria-hidden>{GLYPHS.done} </span>Imported: every row was applied and audited.
                 {done.pausedCohorts.length > 0 && ` Stage 1 is now complete in ${done.pausedCohorts.join(', ')}: accrual is paused for the interim review.`}
               </p>
             )}
             {rejected && <ErrorNotice error={importer.error} title="Nothing was imported" />}
             {!done && !rejected && report && report.counts.error > 0 && (
               <p role="alert" className="text-sm text-alert-600">
-                <span aria-hidden>⚠ </span>Fix the rows with errors in your spreadsheet, save it as CSV and check it again. Nothing has been written.
+                <span aria-hidden>{GLYPHS.warning} </span>Fix the rows with errors in your spreadsheet, save it as CSV and check it again. Nothing has been written.
               </p>
             )}
             {!done && !rejected && report && report.pausedCohorts.length > 0 && (
               <p className="text-sm text-ink-700">
-                <span aria-hidden>⏸ </span>Importing completes stage 1 of {report.pausedCohorts.join(', ')}: accrual will pause for the interim review.
+                <span aria-hidden>{GLYPHS.paused} </span>Importing completes stage 1 of {report.pausedCohorts.join(', ')}: accrual will pause for the interim review.
               </p>
             )}
             <Counts counts={rejected?.counts ?? (report as ImportReport).counts} />

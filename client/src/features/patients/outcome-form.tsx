@@ -15,6 +15,7 @@ import { useRecordOutcome, type OutcomeResult } from './use-record-outcome';
 import { ConflictView } from './conflict-view';
 import type { Patient } from './types';
 import { OUTCOME_WORDS, RESPONSE_WORDS } from './words';
+import { GLYPHS } from '../../../../server/words';
 
 type Values = {
   version: number;
@@ -108,7 +109,7 @@ export function OutcomeForm({ trialId, patient, canWrite, derived = false }: { t
             <fieldset disabled={!canWrite} className="grid gap-3 sm:grid-cols-3">
               {derived && (
                 <p className="text-xs text-ink-600 sm:col-span-3">
-                  <span aria-hidden>↻ </span>This protocol derives the outcome from the timepoint assessments below: record or correct an assessment to change it.
+                  <span aria-hidden>{GLYPHS.note} </span>This protocol derives the outcome from the timepoint assessments below: record or correct an assessment to change it.
                 </p>
               )}
               <SelectField
@@ -175,14 +176,14 @@ export function OutcomeForm({ trialId, patient, canWrite, derived = false }: { t
                 </Button>
                 {patient.attested && correcting && (
                   <span className="text-xs text-ink-600">
-                    <span aria-hidden>✍ </span>This outcome is attested; saving a change clears the attestation.
+                    <span aria-hidden>{GLYPHS.done} </span>This outcome is attested; saving a change clears the attestation.
                   </span>
                 )}
               </div>
             )}
             {saved && (
               <p role="status" className="text-sm text-ink-700">
-                <span aria-hidden>✓ </span>
+                <span aria-hidden>{GLYPHS.done} </span>
                 {saved.changed ? (saved.correction ? 'Correction saved.' : 'Outcome saved.') : 'Nothing changed.'}
                 {saved.attestationCleared && ' The attestation was cleared: the site investigator needs to attest the outcome again.'}
                 {saved.accrual.paused && ' Stage 1 is now complete: accrual is paused for the interim review.'}

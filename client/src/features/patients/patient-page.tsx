@@ -10,6 +10,7 @@ import { usePatient } from './get-patient';
 import { OutcomeForm } from './outcome-form';
 import { AttestationPanel } from './attestation-panel';
 import { HistoryList } from './history-list';
+import { GLYPHS } from '../../../../server/words';
 
 export function PatientPage() {
   const trial = useTrialContext();
@@ -27,7 +28,7 @@ export function PatientPage() {
         subtitle={`Site ${patient.siteCode} · cohort ${patient.cohortCode} · stage ${patient.stage} · enrolled ${day(patient.enrolledOn)} · version ${patient.version}`}
         actions={
           <Link to=".." relative="path" className="text-sm text-ink-700 underline-offset-2 hover:underline">
-            ← All patients
+            {GLYPHS.back} All patients
           </Link>
         }
       />

@@ -9,6 +9,7 @@ import { PatientsTable } from './patients-table';
 import { EnrolForm } from './enrol-form';
 import type { PatientFilters } from './types';
 import { OUTCOME_WORDS } from './words';
+import { GLYPHS } from '../../../../server/words';
 
 const STATUS_LABELS: Record<(typeof LIST_STATUSES)[number], string> = {
   evaluable: 'Evaluable',
@@ -79,7 +80,7 @@ export function PatientsPage() {
             )}
             {canWrite && (
               <Link to="import" className="inline-flex items-center gap-2 rounded-sm border border-ink-300 bg-white px-3 py-1.5 text-sm font-semibold text-ink-900 hover:border-ink-500">
-                <span aria-hidden>⤒</span> Import a CSV
+                Import a CSV
               </Link>
             )}
             <a
@@ -87,7 +88,7 @@ export function PatientsPage() {
               download
               className="inline-flex items-center gap-2 rounded-sm border border-ink-300 bg-white px-3 py-1.5 text-sm font-semibold text-ink-900 hover:border-ink-500"
             >
-              <span aria-hidden>⤓</span> Export CSV
+              <span aria-hidden>{GLYPHS.download}</span> Export CSV
             </a>
           </>
         }
@@ -109,7 +110,7 @@ export function PatientsPage() {
               <CountButton
                 key={o}
                 label={OUTCOME_WORDS[o].label}
-                icon={OUTCOME_WORDS[o].icon}
+                icon={OUTCOME_WORDS[o].glyph}
                 value={o === 'pending' ? data.counts.pending : o === 'responder' ? data.counts.responder : data.counts.nonResponder}
                 active={filters.outcome === o}
                 onClick={() => change({ outcome: o })}

@@ -9,6 +9,7 @@ import { Button, EmptyState } from '../../components/ui';
 import { day } from '../../lib/format';
 import type { Patient, PatientFilters } from './types';
 import { OutcomeTag } from './words';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<Patient>();
 
@@ -37,12 +38,12 @@ const columns = [
     id: 'attested',
     header: 'Attested',
     enableSorting: false,
-    cell: (c) => (c.getValue() ? <span><span aria-hidden>✍ </span>Signed</span> : <span className="text-ink-400">Not yet</span>),
+    cell: (c) => (c.getValue() ? <span><span aria-hidden>{GLYPHS.done} </span>Signed</span> : <span className="text-ink-400">Not yet</span>),
   }),
   column.accessor('outcomeFlag', {
     header: 'Flag',
     enableSorting: false,
-    cell: (c) => (c.getValue() ? <span title={c.getValue() ?? undefined}><span aria-hidden>⚑ </span>Check</span> : ''),
+    cell: (c) => (c.getValue() ? <span title={c.getValue() ?? undefined}><span aria-hidden>{GLYPHS.disagrees} </span>Check</span> : ''),
   }),
 ];
 
@@ -129,7 +130,7 @@ export function PatientsTable({
                         <button type="button" onClick={() => sortBy(header.column.id)} className="inline-flex items-center gap-1 uppercase">
                           {title}
                           <span aria-hidden className="text-ink-300">
-                            {active ? (filters.dir === 'asc' ? '▲' : '▼') : '↕'}
+                            {active ? (filters.dir === 'asc' ? GLYPHS.sortAscending : GLYPHS.sortDescending) : GLYPHS.sortable}
                           </span>
                         </button>
                       ) : (

@@ -1,37 +1,23 @@
-/** Outcomes and row results as words with an icon, never colour alone. */
+/** Outcomes and row results as words with a glyph (from the words module), never colour alone. */
 import type { Outcome } from '../../../../server/patients/patients.schema';
+import { GLYPHS, OUTCOME_WORDS, type Worded } from '../../../../server/words';
+import { Glyphed } from '../../components/ui';
 
-export const OUTCOME_WORDS: Record<Outcome, { label: string; icon: string }> = {
-  pending: { label: 'Pending', icon: '…' },
-  responder: { label: 'Responder', icon: '▲' },
-  non_responder: { label: 'Non-responder', icon: '▽' },
-};
-
-export const RESPONSE_WORDS: Record<string, string> = {
-  CR: 'CR — complete response',
-  PR: 'PR — partial response',
-  SD: 'SD — stable disease',
-  PD: 'PD — progressive disease',
-  NE: 'NE — not evaluable',
-};
+export { OUTCOME_WORDS, RESPONSE_LABELS as RESPONSE_WORDS } from '../../../../server/words';
 
 export function OutcomeTag({ outcome }: { outcome: Outcome }) {
-  const word = OUTCOME_WORDS[outcome];
   return (
     <span className="inline-flex items-center gap-1 whitespace-nowrap">
-      <span aria-hidden className="text-ink-400">
-        {word.icon}
-      </span>
-      {word.label}
+      <Glyphed word={OUTCOME_WORDS[outcome]} />
     </span>
   );
 }
 
-export const ROW_RESULT_WORDS: Record<string, { label: string; icon: string }> = {
-  new: { label: 'New patient', icon: '+' },
-  update: { label: 'Update', icon: '✎' },
-  unchanged: { label: 'Unchanged', icon: '=' },
-  error: { label: 'Error', icon: '⚠' },
+export const ROW_RESULT_WORDS: Record<string, Worded> = {
+  new: { label: 'New patient', glyph: GLYPHS.added },
+  update: { label: 'Update', glyph: GLYPHS.change },
+  unchanged: { label: 'Unchanged', glyph: GLYPHS.unchanged },
+  error: { label: 'Error', glyph: GLYPHS.warning },
 };
 
 export const FIELD_LABELS: Record<string, string> = {

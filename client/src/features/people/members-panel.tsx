@@ -10,6 +10,7 @@ import { MembershipEditor } from './membership-editor';
 import { MembershipStatus } from './membership-status';
 import type { Trial } from '../trials';
 import { useRemoveMembership } from './use-remove-membership';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<Membership>();
 
@@ -78,7 +79,7 @@ export function MembersPanel({ trial, canEdit }: { trial: Trial; canEdit: boolea
         <Panel title={side.kind === 'invite' ? 'Invite someone' : side.kind === 'edit' ? 'Change role or site' : 'Remove a member'}>
           {notice && (
             <p role="status" className="mb-3 text-sm text-good-700">
-              <span aria-hidden>✓ </span>
+              <span aria-hidden>{GLYPHS.done} </span>
               {notice}
             </p>
           )}

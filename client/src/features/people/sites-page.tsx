@@ -4,12 +4,14 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { Button, ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { dateTime } from '../../lib/format';
+import { SiteChangesPanel } from '../audit';
 import { useSites, type Site } from './get-sites';
 import { SiteForm } from './site-form';
+import { GLYPHS } from '../../../../server/words';
 
 const column = createColumnHelper<Site>();
 
-/** People & sites: the global list of sites every trial draws on, and where new trials start. */
+/** People & sites: the global list of sites every trial draws on, its changes, and where new trials start. */
 export function SitesPage() {
   const { data: sites, isPending, error } = useSites();
   const [editing, setEditing] = useState<Site | null>(null);
@@ -56,7 +58,7 @@ export function SitesPage() {
         >
           {saved && (
             <p role="status" className="mb-3 text-sm text-good-700">
-              <span aria-hidden>✓ </span>
+              <span aria-hidden>{GLYPHS.done} </span>
               {saved}
             </p>
           )}
@@ -68,6 +70,9 @@ export function SitesPage() {
             }}
           />
         </Panel>
+      </div>
+      <div className="mt-4">
+        <SiteChangesPanel />
       </div>
     </div>
   );

@@ -3,6 +3,7 @@ import { api } from '../../lib/api';
 import { useInvalidate } from '../../lib/invalidate';
 import type { SiteUpdateInput } from '../../../../server/people/people.schema';
 import { trialKeys } from '../trials';
+import { auditKeys } from '../audit';
 import type { Site } from './get-sites';
 import { peopleKeys } from './query-keys';
 
@@ -11,7 +12,7 @@ export function useUpdateSite() {
   return useMutation({
     mutationFn: async ({ siteId, ...input }: SiteUpdateInput & { siteId: string }) =>
       (await api<{ site: Site }>(`/api/sites/${siteId}`, { method: 'PATCH', body: input })).site,
-    // Every trial's pages show site codes and names too.
-    onSuccess: () => invalidate(peopleKeys.sites(), trialKeys.all()),
+    // Every trial's pages show site codes and names too; the change joins the sites' audit trail.
+    onSuccess: () => invalidate(peopleKeys.sites(), trialKeys.all(), auditKeys.sites()),
   });
 }

@@ -1,5 +1,6 @@
 import { useState } from 'react';
-import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel, statusLabel } from '../../components/ui';
+import { Cautions, EmptyState, ErrorNotice, Figure, Loading, PageHeader, Panel } from '../../components/ui';
+import { GLYPHS, STATUS_WORDS } from '../../../../server/words';
 import { day } from '../../lib/format';
 import { allRoles, useMe } from '../auth';
 import { COHORT_STATUSES } from '../../../../server/designs/designs.schema';
@@ -48,7 +49,7 @@ export function PortfolioPage() {
                     <option value="">Any</option>
                     {COHORT_STATUSES.map((s) => (
                       <option key={s} value={s}>
-                        {statusLabel(s)}
+                        {STATUS_WORDS[s].label}
                       </option>
                     ))}
                   </select>
@@ -71,13 +72,13 @@ export function PortfolioPage() {
             <PortfolioTable rows={rows} />
             {anyReleased && (
               <p className="mt-3 text-xs text-ink-500">
-                <span aria-hidden>❄ </span>
+                <span aria-hidden>{GLYPHS.released} </span>
                 Released figures are those of the data cut a committee decision released, frozen at the date shown: later outcomes do not move them.
               </p>
             )}
             {hiddenReasons.map((reason) => (
               <p key={reason} className="mt-3 text-xs text-ink-500">
-                <span aria-hidden>⊘ </span>
+                <span aria-hidden>{GLYPHS.withheld} </span>
                 Not released: {reason}
               </p>
             ))}

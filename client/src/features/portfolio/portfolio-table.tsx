@@ -4,19 +4,22 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable } from '../../components/data-table';
 import { StatusTag } from '../../components/ui';
 import { day, percent } from '../../lib/format';
+import { GLYPHS } from '../../../../server/words';
+import type { MilestoneKind } from '../../../../server/portfolio/milestone';
 import { ProgressBar } from './progress-bar';
 import type { PortfolioRow } from './get-portfolio';
 
 const column = createColumnHelper<PortfolioRow>();
 
-const MILESTONE_ICONS: Record<string, string> = {
-  'design-lock': '✎',
-  'first-enrolment': '○',
-  'stage-1-complete': '◔',
-  'interim-analysis': '⏸',
-  'committee-review': '⚖',
-  'enrolment-complete': '◕',
-  'final-analysis': '∑',
+/** The next milestone's glyph: the status it leads to. */
+const MILESTONE_GLYPHS: Record<MilestoneKind, string> = {
+  'design-lock': GLYPHS.draft,
+  'first-enrolment': GLYPHS.enrollingStage1,
+  'stage-1-complete': GLYPHS.paused,
+  'interim-analysis': GLYPHS.paused,
+  'committee-review': GLYPHS.paused,
+  'enrolment-complete': GLYPHS.finalAnalysis,
+  'final-analysis': GLYPHS.finalAnalysis,
   none: '—',
 };
 
@@ -33,7 +36,7 @@ function ResponseCell({ row }: { row: PortfolioRow }) {
   if (row.released) {
     return (
       <span className="tabular-nums">
-        <span aria-hidden>❄ </span>
+        <span aria-hidden>{GLYPHS.released} </span>
         {row.released.responders} / {row.released.outcomesKnown}
         <span className="block text-xs text-ink-500">
           {percent(row.released.responseRate)} naive, {row.released.label}
@@ -43,7 +46,7 @@ function ResponseCell({ row }: { row: PortfolioRow }) {
   }
   return (
     <span className="text-xs text-ink-500" title={row.efficacyHidden}>
-      <span aria-hidden>⊘ </span>
+      <span aria-hidden>{GLYPHS.withheld} </span>
       Not released
       <span className="sr-only">: {row.efficacyHidden}</span>
     </span>
@@ -96,13 +99,13 @@ export function PortfolioTable({ rows }: { rows: PortfolioRow[] }) {
         cell: ({ row: { original: r } }) => (
           <span>
             <span aria-hidden className="text-brass-600">
-              {MILESTONE_ICONS[r.nextMilestone.kind] ?? '•'}{' '}
+              {MILESTONE_GLYPHS[r.nextMilestone.kind]}{' '}
             </span>
             {r.nextMilestone.text}
           </span>
         ),
       }),
-      column.accessor((r) => r.responseRate ?? r.released?.responseRate ?? -1, { id: 'response', header: 'Responders / known', cell: ({ row }) => <ResponseCell row={row.original} /> }),
+      column.accessor((r) => r.responseRate ?? r.released?.responseRate ?? -1, { id: 'response', header: 'Responders / decided', cell: ({ row }) => <ResponseCell row={row.original} /> }),
       column.accessor((r) => r.lastRecommendation?.on ?? '', {
         id: 'recommendation',
         header: 'Last recommendation',

@@ -1,4 +1,5 @@
 import type { Progress } from './get-portfolio';
+import { GLYPHS } from '../../../../server/words';
 
 /** Enrolment against a target: the figures as text (what screen readers read) beside a bar drawn for the eye. */
 export function ProgressBar({ label, progress }: { label: string; progress: Progress | null }) {
@@ -12,7 +13,7 @@ export function ProgressBar({ label, progress }: { label: string; progress: Prog
       </span>
       <span className="w-14 text-right tabular-nums">
         {progress.counted} / {progress.target}
-        {done && <span aria-hidden> ✓</span>}
+        {done && <span aria-hidden> {GLYPHS.done}</span>}
         <span className="sr-only">{done ? ' reached' : ` enrolled toward ${label}`}</span>
       </span>
     </div>

@@ -9,7 +9,10 @@ import { useState } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
 import { Button, ErrorNotice, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
-import { ApiError, reauthenticate } from '../../lib/api';
+import { confirmIdentityToSign, signingUrlOf } from '../../lib/api';
+import { SigningNotice } from '../../components/signing-notice';
+import { GLYPHS } from '../../../../server/words';
+import { useSigningReady } from '../auth';
 import { dateTime, day } from '../../lib/format';
 import { usePatientEvents } from './get-patient-events';
 import { useAddEvent } from './use-add-event';
@@ -84,6 +87,8 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
   const [editing, setEditing] = useState<Editing>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const [resuming] = useState(() => sessionStorage.getItem(resumeKey(patientId)));
+  // The password entered at the identity provider for the event being attested, if it is waiting.
+  const ready = useSigningReady('attestation', resuming ?? '');
 
   async function sign(event: AdverseEvent) {
     try {
@@ -91,9 +96,10 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
       sessionStorage.removeItem(resumeKey(patientId));
       setNotice(`The event “${event.term}” is attested.`);
     } catch (failure) {
-      if (failure instanceof ApiError && failure.code === 'reauthentication_required') {
+      const signingUrl = signingUrlOf(failure);
+      if (signingUrl) {
         sessionStorage.setItem(resumeKey(patientId), event.id);
-        reauthenticate();
+        confirmIdentityToSign(signingUrl);
       }
     }
   }
@@ -110,11 +116,18 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
       header: 'Attestation',
       cell: (c) => {
         const e = c.row.original;
-        if (e.attested) return <span className="text-xs">✍ {e.attested.signerName ?? e.attested.signerEmail}, {dateTime(e.attested.signedAt)}</span>;
+        if (e.attested) {
+          return (
+            <span className="text-xs">
+              <span aria-hidden>{GLYPHS.done} </span>
+              {e.attested.signerName ?? e.attested.signerEmail}, {dateTime(e.attested.signedAt)}
+            </span>
+          );
+        }
         if (!canAttest) return <span className="text-xs text-ink-500">Not attested</span>;
         return (
           <Button variant="secondary" onClick={() => void sign(e)} disabled={attest.isPending} autoFocus={resuming === e.id} aria-label={`Attest the event ${e.term} of ${day(e.onsetOn)}`}>
-            <span aria-hidden>✍</span> Attest
+            {resuming === e.id && ready ? 'Attest' : 'Enter your password and attest'}
           </Button>
         );
       },
@@ -157,11 +170,7 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
       ) : (
         <div className="grid gap-3">
           <ToxicityBlock view={view} />
-          {resuming && canAttest && (
-            <p role="status" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-              <span aria-hidden>↺ </span>You signed in again. Check the event below and attest it.
-            </p>
-          )}
+          {resuming && canAttest && <SigningNotice ready={ready} />}
           {editing?.kind === 'new' && (
             <EventForm
               enrolledOn={view.patient.enrolledOn}
@@ -207,7 +216,7 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
               {notice}
             </p>
           )}
-          {attest.error && !(attest.error instanceof ApiError && attest.error.code === 'reauthentication_required') && (
+          {attest.error && !signingUrlOf(attest.error) && (
             <ErrorNotice error={attest.error} title="The event was not attested" />
           )}
           <DataTable data={view.events} columns={columns} label={`Adverse events of ${view.patient.studyId}`} empty="No adverse event recorded." initialSorting={[{ id: 'onsetOn', desc: false }]} />

@@ -8,16 +8,17 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { ApiError } from '../../lib/api';
 import { day } from '../../lib/format';
 import { Button, ErrorNotice, Figure, Panel, Spinner } from '../../components/ui';
+import { GLYPHS } from '../../../../server/words';
 import { CsvFileInput } from '../../components/csv-file-input';
 import { DataTable } from '../../components/data-table';
 import { useImportEvents } from './use-import-events';
 import type { EventImportReport, EventRowResult } from './types';
 
-const RESULT_WORDS: Record<EventRowResult['result'], { label: string; icon: string }> = {
-  new: { label: 'New', icon: '+' },
-  update: { label: 'Correction', icon: '✎' },
-  unchanged: { label: 'Unchanged', icon: '=' },
-  error: { label: 'Error', icon: '⚠' },
+const RESULT_WORDS: Record<EventRowResult['result'], { label: string; glyph: string }> = {
+  new: { label: 'New', glyph: GLYPHS.added },
+  update: { label: 'Correction', glyph: GLYPHS.change },
+  unchanged: { label: 'Unchanged', glyph: GLYPHS.unchanged },
+  error: { label: 'Error', glyph: GLYPHS.warning },
 };
 
 const column = createColumnHelper<EventRowResult>();
@@ -31,7 +32,7 @@ const columns = [
     header: 'Result',
     cell: (c) => (
       <span className="whitespace-nowrap">
-        <span aria-hidden>{RESULT_WORDS[c.row.original.result].icon} </span>
+        <span aria-hidden>{RESULT_WORDS[c.row.original.result].glyph} </span>
         {RESULT_WORDS[c.row.original.result].label}
       </span>
     ),

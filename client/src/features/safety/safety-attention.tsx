@@ -23,10 +23,10 @@ const column = createColumnHelper<SafetyAttentionItem>();
 const KINDS = Object.keys(SAFETY_ATTENTION_WORDS) as SafetyAttentionKind[];
 
 function KindTag({ kind }: { kind: SafetyAttentionKind }) {
-  const { icon, label } = SAFETY_ATTENTION_WORDS[kind];
+  const { glyph, label } = SAFETY_ATTENTION_WORDS[kind];
   return (
     <span className="inline-flex items-center gap-1 rounded-sm border border-ink-300 px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap text-ink-900">
-      <span aria-hidden>{icon}</span>
+      <span aria-hidden>{glyph}</span>
       {label}
     </span>
   );

@@ -7,7 +7,7 @@
  */
 import { Cautions, ErrorNotice, Figure, Loading, Panel, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { percent } from '../../lib/format';
-import { SAFETY_RULE_WORDS } from '../../../../server/words';
+import { GLYPHS, SAFETY_RULE_WORDS } from '../../../../server/words';
 import { useSafety } from './get-safety';
 import type { CohortSafety, VisibleCohortSafety } from './types';
 
@@ -54,7 +54,7 @@ function ReleasedSafety({ released }: { released: NonNullable<VisibleCohortSafet
   return (
     <section aria-label={`Released safety figures, ${released.label}`} className="grid gap-2 border-l-4 border-ink-300 pl-3">
       <h4 className="text-xs font-semibold tracking-wide text-ink-600 uppercase">
-        <span aria-hidden>❄ </span>Released safety figures, {released.label}
+        <span aria-hidden>{GLYPHS.released} </span>Released safety figures, {released.label}
       </h4>
       <Figures counts={released.counts} rate={released.toxicityRate} state={released.state} />
       <ul className="list-disc pl-5 text-sm text-ink-700">
@@ -80,13 +80,13 @@ export function CohortSafetyBlock({ cohort }: { cohort: VisibleCohortSafety }) {
       <Figures counts={cohort.counts ?? null} rate={cohort.rate ?? null} state={cohort.state ?? null} />
       {cohort.efficacyHidden && (
         <p role="note" className="text-sm text-ink-600">
-          <span aria-hidden>⊘ </span>
+          <span aria-hidden>{GLYPHS.withheld} </span>
           {cohort.efficacyHidden}
         </p>
       )}
       {cohort.safetyPause && (
         <p role="note" className="border-l-4 border-alert-600 bg-alert-50 px-3 py-2 text-sm text-ink-800">
-          <span aria-hidden>⏸ </span>
+          <span aria-hidden>{GLYPHS.paused} </span>
           {cohort.safetyPause.reason} Enrolment resumes only when the statistician applies the committee’s decision on a data cut.
         </p>
       )}

@@ -1,11 +1,11 @@
 /** How grades, attributions, outcomes and toxicity statuses read on screen: words with an icon, never colour alone. */
 import type { ReactNode } from 'react';
-import { ATTRIBUTION_WORDS, EVENT_OUTCOME_WORDS, GRADE_WORDS, TOXICITY_STATUS_WORDS } from '../../../../server/words';
+import { ATTRIBUTION_WORDS, EVENT_OUTCOME_WORDS, GLYPHS, GRADE_WORDS, TOXICITY_STATUS_WORDS } from '../../../../server/words';
 import type { Attribution, EventOutcome, ToxicityStatus } from '../../../../server/safety/safety.schema';
 
 export { ATTRIBUTION_WORDS, EVENT_OUTCOME_WORDS, GRADE_WORDS };
 
-const STATUS_ICONS: Record<ToxicityStatus, string> = { toxic: '▲', not_toxic: '○', not_assessable: '…' };
+const STATUS_ICONS: Record<ToxicityStatus, string> = { toxic: GLYPHS.toxicity, not_toxic: GLYPHS.noToxicity, not_assessable: GLYPHS.pending };
 
 function Tag({ icon, children, strong = false }: { icon: string; children: ReactNode; strong?: boolean }) {
   return (

@@ -1,65 +1,66 @@
 /**
  * The evaluation of each cohort on the Trial overview, as the server's visibility rule lets this
  * user see it: the live figures (counts, the response rate with its exact interval, the one-sided
- * exact test against p0, where the cohort stands against its locked design, with early
- * determination), or the reason they are absent; the figures of the data cut a committee decision
- * released, labelled with the cut's date; and site staff's own sites' counts. Charts load on demand.
+ * exact test against p0, the cohort's verdict under its locked design with early determination,
+ * patients enrolled at risk, what could still change it, and at a final analysis the p-value it
+ * follows with its sensitivity figure), or the reason they are absent; the figures of the data cut
+ * a committee decision released, labelled with the cut's date; and site staff's own sites' counts.
+ * Charts load on demand.
  */
 import { Suspense, lazy } from 'react';
-import { Cautions, ErrorNotice, Figure, Loading, Panel, StatusTag } from '../../components/ui';
+import { Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
-import { plural } from '../../../../server/words';
-import type { InterimStatus } from '../../../../server/stats';
+import { COUNT_LABELS, GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, plural, ruleLabel, stillOpen } from '../../../../server/words';
+import type { CohortVerdict } from '../../../../server/evaluation/verdict';
 import { liveOf, useEvaluation, type CohortView, type LiveCohort } from './get-evaluation';
 
 const EvaluationChart = lazy(() => import('./evaluation-chart').then((m) => ({ default: m.EvaluationChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
 
-const DECISION_WORDS: Record<string, { label: string; icon: string }> = {
-  continue: { label: 'Stage 1 passed — continue', icon: '▸' },
-  'stop-futility': { label: 'Futility rule met', icon: '■' },
-  promising: { label: 'Promising', icon: '▲' },
-  'not-promising': { label: 'Not promising', icon: '▽' },
-  undetermined: { label: 'Not yet decided', icon: '…' },
-};
-
-const STAGE_WORDS: Record<string, string> = { stage1: 'Stage-1 rule', stage2: 'Final rule (stage 2)', single: 'Single-stage rule' };
-
-function RuleLine({ rule }: { rule: Pick<InterimStatus, 'stage' | 'decision' | 'determinedEarly' | 'remainingToDecide' | 'message'> }) {
-  const decision = DECISION_WORDS[rule.decision];
-  if (!decision) return null;
+function RuleLine({ rule, singleStage }: { rule: CohortVerdict; singleStage: boolean }) {
   return (
     <div className="grid gap-1 text-sm">
       <p>
-        <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{STAGE_WORDS[rule.stage]}: </span>
+        <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{ruleLabel(rule, singleStage)}: </span>
         <span className="font-semibold">
-          <span aria-hidden>{decision.icon} </span>
-          {decision.label}
+          <Glyphed word={VERDICT_WORDS[rule.decision]} />
         </span>
-        {rule.determinedEarly && <span className="text-ink-600"> (settled early)</span>}
-        {rule.remainingToDecide > 0 && <span className="text-ink-600 tabular-nums"> · at most {rule.remainingToDecide} more patients decide it</span>}
+        {rule.determinedEarly && <span className="text-ink-600"> ({SETTLED_EARLY})</span>}
+        {stillOpen(rule) && <span className="text-ink-600 tabular-nums"> · could still change it: {stillOpen(rule)}</span>}
       </p>
       <p className="text-ink-700">{rule.message}</p>
+      {rule.atRiskNote && <p className="text-ink-700">{rule.atRiskNote}</p>}
+      {rule.sensitivityNote && (
+        <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-ink-800">
+          {rule.sensitivityNote}
+        </p>
+      )}
     </div>
   );
 }
 
 function LiveFigures({ cohort, confLevel }: { cohort: LiveCohort; confLevel: number }) {
+  const rule = cohort.rule;
   return (
     <>
       <div className="flex flex-wrap gap-6">
-        <Figure label="Responders" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
+        <Figure label="Responders / decided" value={`${cohort.responders} / ${cohort.decided}`} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />
         <Figure
           label="Response rate"
           value={cohort.rate ? percent(cohort.rate.estimate) : '—'}
           hint={cohort.rate ? `${Math.round(confLevel * 100)}% exact CI ${percent(cohort.rate.ci[0])} – ${percent(cohort.rate.ci[1])}` : 'No outcome yet'}
         />
         <Figure label="One-sided p vs p0" value={cohort.test ? pValue(cohort.test.pValue) : '—'} hint={cohort.test ? `exact binomial, H0: p ≤ ${decimal(cohort.test.p0, 2)}` : undefined} />
+        {rule && rule.atRisk > 0 && <Figure label={VERDICT_FIGURE_LABELS.atRisk} value={rule.atRisk} hint={VERDICT_FIGURE_LABELS.atRiskHint} />}
+        {rule?.finalTest && rule.applied === 'final' && (
+          <Figure label={VERDICT_FIGURE_LABELS.primaryPValue[rule.finalTest.method]} value={pValue(rule.finalTest.pValue)} hint={`α = ${rule.finalTest.alpha}; ${VERDICT_FIGURE_LABELS.primaryHint}`} />
+        )}
+        {rule?.finalTest?.sensitivity && <Figure label={VERDICT_FIGURE_LABELS.sensitivity} value={pValue(rule.finalTest.sensitivity.pValue)} hint={VERDICT_FIGURE_LABELS.sensitivityHint} />}
       </div>
-      {cohort.rule && <RuleLine rule={cohort.rule} />}
+      {rule && <RuleLine rule={rule} singleStage={cohort.design?.r1 === null} />}
       {cohort.earlyDetermination && (
         <p role="note" className="border-l-4 border-brass-500 bg-brass-50 px-3 py-2 text-sm text-ink-800">
-          <span aria-hidden>◆ </span>
+          <span aria-hidden>{GLYPHS.settledEarly} </span>
           {cohort.earlyDetermination} {cohort.accrual}
         </p>
       )}
@@ -78,14 +79,13 @@ function LiveFigures({ cohort, confLevel }: { cohort: LiveCohort; confLevel: num
     </>
   );
 }
-
 /** The frozen figures of the released cut, under the cut's date: they do not move with later outcomes. */
-function ReleasedFigures({ released }: { released: NonNullable<CohortView['released']> }) {
+function ReleasedFigures({ released, singleStage }: { released: NonNullable<CohortView['released']>; singleStage: boolean }) {
   const rate = released.responseRate;
   return (
     <section aria-label={`Released figures, ${released.label}`} className="grid gap-2 border-l-4 border-ink-300 pl-3">
       <h4 className="text-xs font-semibold tracking-wide text-ink-600 uppercase">
-        <span aria-hidden>❄ </span>Released figures, {released.label}
+        <span aria-hidden>{GLYPHS.released} </span>Released figures, {released.label}
       </h4>
       <div className="flex flex-wrap gap-6">
         <Figure label="Responders" value={`${released.counts.responders} / ${released.counts.decided}`} hint={`${released.counts.pending} pending at the cut`} />
@@ -96,7 +96,7 @@ function ReleasedFigures({ released }: { released: NonNullable<CohortView['relea
         />
         <Figure label="One-sided p vs p0" value={released.exactTest ? pValue(released.exactTest.pValue) : '—'} hint={released.exactTest ? `exact binomial, H0: p ≤ ${decimal(released.exactTest.p0, 2)}` : undefined} />
       </div>
-      {released.rule && <RuleLine rule={released.rule} />}
+      {released.rule && <RuleLine rule={released.rule} singleStage={singleStage} />}
     </section>
   );
 }
@@ -135,24 +135,24 @@ function CohortBlock({ cohort, confLevel }: { cohort: CohortView; confLevel: num
         {design && (
           <span className="text-xs text-ink-500 tabular-nums">
             Design v{design.version}: p0 {decimal(design.p0, 2)}, p1 {decimal(design.p1, 2)}
-            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {design.analysisPopulation === 'all_enrolled' ? 'all enrolled count' : 'evaluable patients count'}
+            {design.r1 !== null ? `, r1/n1 ${design.r1}/${design.n1}` : ''}, r/n {design.r}/{design.n} · {POPULATION_COUNTS[design.analysisPopulation]}
           </span>
         )}
       </div>
       <div className="flex flex-wrap gap-6">
         <Figure label="Enrolled" value={cohort.enrolled} hint={`${cohort.counted} counted`} />
-        {!live && <Figure label="Outcomes known" value={cohort.decided} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />}
+        {!live && <Figure label={COUNT_LABELS.decided} value={cohort.decided} hint={`${cohort.pending} pending · ${cohort.notEvaluable} not evaluable`} />}
       </div>
       {live ? (
         <LiveFigures cohort={live} confLevel={confLevel} />
       ) : (
         <p role="note" className="text-sm text-ink-600">
-          <span aria-hidden>⊘ </span>
+          <span aria-hidden>{GLYPHS.withheld} </span>
           {cohort.efficacyHidden}
         </p>
       )}
       {cohort.ownSites && <OwnSites sites={cohort.ownSites} />}
-      {cohort.released && <ReleasedFigures released={cohort.released} />}
+      {cohort.released && <ReleasedFigures released={cohort.released} singleStage={design?.r1 === null} />}
     </section>
   );
 }

@@ -5,15 +5,10 @@ import { protocolSettingsSchema } from '../../../../server/trials/trials.schema'
 import { showServerError } from '../../lib/form-errors';
 import type { ProtocolSettings, Trial } from './get-trial';
 import { useUpdateProtocolSettings } from './use-update-protocol-settings';
+import { GLYPHS, NE_BETWEEN_RESPONSES_LABELS, OUTCOME_SOURCE_LABELS } from '../../../../server/words';
 
-const SOURCE_WORDS: Record<ProtocolSettings['outcomeSource'], string> = {
-  entered: 'Entered by the site (best overall response recorded directly)',
-  derived: 'Derived from timepoint assessments (RECIST 1.1)',
-};
-const NE_WORDS: Record<ProtocolSettings['neBetweenResponses'], string> = {
-  ignore: 'Does not break a confirmation',
-  breaks_confirmation: 'Breaks the confirmation',
-};
+const SOURCE_WORDS = OUTCOME_SOURCE_LABELS;
+const NE_WORDS = NE_BETWEEN_RESPONSES_LABELS;
 
 function SettingsList({ settings }: { settings: ProtocolSettings }) {
   return (
@@ -83,7 +78,7 @@ export function ProtocolSettingsPanel({ trial, canEdit }: { trial: Trial; canEdi
               <TextAreaField name="reason" label="Reason for the change" hint="Required once patients are enrolled; kept in the audit trail." />
               {status?.saved && (
                 <p role="status" className="text-sm text-good-700">
-                  <span aria-hidden>✓ </span>Protocol settings saved.
+                  <span aria-hidden>{GLYPHS.done} </span>Protocol settings saved.
                 </p>
               )}
               {status && !status.saved && <ErrorNotice error={status} title="The settings were not saved" />}

@@ -4,6 +4,7 @@ import { SelectField, TextAreaField, TextField } from '../../components/field';
 import { DEFAULT_COHORT, trialCreateSchema, trialUpdateSchema } from '../../../../server/trials/trials.schema';
 import { useSites } from '../people';
 import type { Trial } from './get-trial';
+import { GLYPHS } from '../../../../server/words';
 
 export type TrialFormValues = {
   code: string;
@@ -36,7 +37,7 @@ function ListError({ errors, name }: { errors: unknown; name: string }) {
   const error = getIn(errors, name);
   return typeof error === 'string' ? (
     <p role="alert" className="text-xs font-medium text-alert-600">
-      <span aria-hidden>⚠ </span>
+      <span aria-hidden>{GLYPHS.warning} </span>
       {error}
     </p>
   ) : null;

@@ -1,0 +1,80 @@
+/**
+ * The query string of every route: a parameter given twice, or as a list or object, is refused
+ * with 400 naming it, once for all routes (the security suite fuzzes every GET route's query
+ * string beside this).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { startStack, type Stack } from '../support/stack.js';
+import { DEMO, createTrial, type TrialFixture } from '../support/factories.js';
+import { arrangeCohort, freezeCutDirectly, outcomes } from '../support/data-cut-factories.js';
+import type { Session } from '../support/sign-in.js';
+
+let stack: Stack;
+let trial: TrialFixture;
+let cutId: string;
+let sam: Session;
+let cora: Session;
+
+beforeAll(async () => {
+  stack = await startStack();
+  trial = await createTrial(stack.db);
+  await arrangeCohort(stack.db, trial, { patients: { SA: outcomes(2, 3) } });
+  cutId = (await freezeCutDirectly(stack.db, trial)).id;
+  [sam, cora] = await Promise.all([stack.signIn(DEMO.statistician), stack.signIn(DEMO.coordinator)]);
+}, 120_000);
+afterAll(async () => stack?.close());
+
+describe('repeated, list and object query parameters', () => {
+  it('when the patient list gets ?q=a&q=b, then 400 names q (it used to answer 500)', async () => {
+    const response = await cora.get(`/api/trials/${trial.trialId}/patients?q=a&q=b`);
+    expect(response.status).toBe(400);
+    expect(response.body.error).toMatchObject({ code: 'invalid_input', fields: { q: expect.stringMatching(/"q" appears 2 times/) } });
+    expect((await cora.get(`/api/trials/${trial.trialId}/patients?q=a`)).status).toBe(200);
+  });
+
+  it('when other routes get a key twice, then each answers 400 naming it', async () => {
+    const cases: Array<[Session, string, string]> = [
+      [sam, `/api/trials/${trial.trialId}/audit?entityType=patient&entityType=site`, 'entityType'],
+      [sam, `/api/portfolio?status=draft&status=completed`, 'status'],
+      [sam, `/api/data-cuts/${cutId}/analysis?a=1&b=1&a=2`, 'a'],
+      [sam, `/api/data-cuts/${cutId}/export.csv?dataset=adrs&dataset=patients`, 'dataset'],
+      [sam, `/api/trials/${trial.trialId}/evaluation?x=1&x=2`, 'x'],
+    ];
+    for (const [session, path, key] of cases) {
+      const response = await session.get(path);
+      expect(response.status, path).toBe(400);
+      expect(Object.keys(response.body.error.fields), path).toEqual([key]);
+    }
+    const login = await request(stack.url).get('/auth/login?returnTo=/a&returnTo=/b');
+    expect(login.status).toBe(400);
+    expect(login.body.error.fields.returnTo).toBeTruthy();
+  });
+
+  it('when a parameter is written as a list or an object, then 400 names it', async () => {
+    for (const query of ['q[]=a', 'q[]=a&q[]=b', 'q[x]=a', 'q[x][y]=a']) {
+      const response = await cora.get(`/api/trials/${trial.trialId}/patients?${query}`);
+      expect(response.status, query).toBe(400);
+      expect(Object.keys(response.body.error.fields), query).toEqual(['q']);
+    }
+  });
+
+  it('when a write route gets a repeated key, then 400 and nothing is written', async () => {
+    const before = await stack.db('audit_log').count({ n: '*' }).first();
+    const response = await cora
+      .post(`/api/trials/${trial.trialId}/patients/import?dryRun=true&dryRun=false`)
+      .attach('file', Buffer.from('study_id\n'), { filename: 'x.csv', contentType: 'text/csv' });
+    expect(response.status).toBe(400);
+    expect(response.body.error.fields.dryRun).toBeTruthy();
+    expect(await stack.db('audit_log').count({ n: '*' }).first()).toEqual(before);
+  });
+
+  it('when a page or offset is too large for the database to skip to, then 400 names it (it used to answer 500)', async () => {
+    const audit = await sam.get(`/api/trials/${trial.trialId}/audit?offset=9223372036854776000`);
+    expect(audit.status).toBe(400);
+    expect(Object.keys(audit.body.error.fields)).toEqual(['offset']);
+    const patients = await cora.get(`/api/trials/${trial.trialId}/patients?page=9223372036854776000`);
+    expect(patients.status).toBe(400);
+    expect(Object.keys(patients.body.error.fields)).toEqual(['page']);
+  });
+});
