@@ -90,6 +90,9 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
   // The password entered at the identity provider for the event being attested, if it is waiting.
   const ready = useSigningReady('attestation', resuming ?? '');
 
+  // The visible words start the button's name, so speech and sight agree.
+  const attestLabel = (e: AdverseEvent) => (resuming === e.id && ready ? 'Attest' : 'Enter your password and attest');
+
   async function sign(event: AdverseEvent) {
     try {
       await attest.mutateAsync({ eventId: event.id, version: event.version });
@@ -126,8 +129,8 @@ export function AdverseEventsPanel({ trialId, patientId, canWrite, canAttest }: 
         }
         if (!canAttest) return <span className="text-xs text-ink-500">Not attested</span>;
         return (
-          <Button variant="secondary" onClick={() => void sign(e)} disabled={attest.isPending} autoFocus={resuming === e.id} aria-label={`Attest the event ${e.term} of ${day(e.onsetOn)}`}>
-            {resuming === e.id && ready ? 'Attest' : 'Enter your password and attest'}
+          <Button variant="secondary" onClick={() => void sign(e)} disabled={attest.isPending} autoFocus={resuming === e.id} aria-label={`${attestLabel(e)}: ${e.term}, ${day(e.onsetOn)}`}>
+            {attestLabel(e)}
           </Button>
         );
       },
