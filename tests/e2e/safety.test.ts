@@ -3,8 +3,8 @@
  * continuous boundary and stands one toxicity short of it. The investigator at HCC records a
  * grade 3, probably related event on a patient's page; the boundary is reached, accrual pauses in
  * that write and the statistician and the committee are mailed; the statistician freezes a cut and
- * the committee member sees the safety section in it. Pages pass axe-core and are saved as
- * screenshots.
+ * the committee member sees the safety section in it. Pages pass axe-core, show no raw code and
+ * no glyph the shipped Inter lacks, and are saved as screenshots.
  */
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -13,7 +13,8 @@ import { addDays, format, parseISO } from 'date-fns';
 import { startStack, eventually, type Stack } from '../support/stack.js';
 import { DEMO } from '../support/factories.js';
 import { freezeCutDirectly } from '../support/data-cut-factories.js';
-import { buildClient, launchChromium, screenshot, seriousAccessibilityProblems, signInThroughPages, watchConsole } from '../support/e2e-browser.js';
+import { buildClient, launchChromium, readableText, screenshot, seriousAccessibilityProblems, signInThroughPages, textNotDrawnByInter, watchConsole } from '../support/e2e-browser.js';
+import { rawCodesIn } from '../support/raw-codes.js';
 import { seedDemo } from '../../server/dev/seed/index.js';
 
 let stack: Stack;
@@ -70,6 +71,8 @@ describe('the safety journey in the browser', () => {
     await page.getByText('It crossed the cohort’s safety rule: accrual is now paused for a safety review', { exact: false }).waitFor();
     await screenshot(page, 'investigator-event-reaches-boundary');
     expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    expect(rawCodesIn(await readableText(page))).toEqual([]);
+    expect(await textNotDrawnByInter(page)).toEqual([]);
 
     expect((await stack.db('cohorts').where({ id: cohortId }).first('safety_paused_at')).safety_paused_at).not.toBeNull();
     const pauseMail = () => stack.catcher.messages.filter((message) => message.subject.startsWith('TSY-201') && message.subject.endsWith('safety rule crossed — accrual paused'));
@@ -93,6 +96,8 @@ describe('the safety journey in the browser', () => {
     await section.getByRole('table').waitFor();
     await screenshot(page, 'monitor-cut-safety-section');
     expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    expect(rawCodesIn(await readableText(page))).toEqual([]);
+    expect(await textNotDrawnByInter(page)).toEqual([]);
     await context.close();
   }, 120_000);
 });
