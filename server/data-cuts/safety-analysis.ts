@@ -7,14 +7,11 @@
  * stood against its safety rule, and for a Bryant–Day design the joint response-and-toxicity verdict.
  * Numbers and states here; sentences from server/words. Pure: no database, no I/O.
  */
-import { proportionInterval } from '../stats/index.js';
-import { countToxicities, deriveToxicity, ruleOfDesign, safetyRuleState, type Attribution, type SafetyCounts, type SafetyRuleState } from '../safety/index.js';
+import { countToxicities, deriveToxicity, ruleOfDesign, safetyRuleState, toxicityRate, type ToxicityRate, type Attribution, type SafetyCounts, type SafetyRuleState } from '../safety/index.js';
 import { describeJointVerdict, describeSafetyState, frozenEventsMissing, responseOnlySafety, toxicityDefinitionSentence, type JointVerdict } from '../words/index.js';
 import type { Tally } from '../evaluation/index.js';
 import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
 import type { CutCohort, CutDesign, CutPatient } from './data-cuts.repository.js';
-
-export const SAFETY_CONF_LEVEL = 0.95;
 
 const ATTRIBUTION_ORDER: Array<Attribution | 'not_assessed'> = ['unrelated', 'unlikely', 'possible', 'probable', 'definite', 'not_assessed'];
 
@@ -30,7 +27,7 @@ export type CohortSafetyAnalysis = {
   definition: { minGrade: number; windowDays: number } | null;
   events: { total: number; serious: number; patients: number; byGrade: GradeRow[] };
   counts: SafetyCounts | null;
-  toxicityRate: { toxicities: number; assessable: number; estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
+  toxicityRate: ToxicityRate | null;
   state: SafetyRuleState | null;
   joint: JointVerdict | null;
   /** Study IDs of the patients counted as toxic at the cut. */
@@ -91,23 +88,12 @@ export function cohortSafety(input: { cohort: CutCohort; patients: CutPatient[];
   }));
   const counts = countToxicities(derived);
   const state = safetyRuleState(rule, counts);
-  const assessable = counts.toxic + counts.notToxic;
-  const toxicityRate =
-    assessable > 0
-      ? {
-          toxicities: counts.toxic,
-          assessable,
-          estimate: counts.toxic / assessable,
-          ci: proportionInterval(counts.toxic, assessable, { method: 'clopper-pearson', confLevel: SAFETY_CONF_LEVEL }),
-          confLevel: SAFETY_CONF_LEVEL,
-          method: 'clopper-pearson' as const,
-        }
-      : null;
+  const rate = toxicityRate(counts);
   const joint = state.rule === 'bryant_day' && rule.rule === 'bryant_day' && input.response ? jointVerdict(design, rule, input.response, state) : null;
   return {
     ...empty,
     counts,
-    toxicityRate,
+    toxicityRate: rate,
     state,
     joint,
     toxicPatients: derived.filter((d) => d.derivation.status === 'toxic').map((d) => d.studyId),

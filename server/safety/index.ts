@@ -6,7 +6,7 @@
 export { safetyRoutes } from './safety.routes.js';
 export { applySafetyAfterDesignSigned, applySafetyRules, currentSafetyState, ruleOfDesign, ruleToxicities } from './safety-rules.js';
 export { safetyCounts } from './safety.repository.js';
-export { countToxicities, deriveToxicity, safetyRuleState, type SafetyRuleOfDesign } from './toxicity.js';
+export { countToxicities, deriveToxicity, safetyRuleState, toxicityRate, type SafetyRuleOfDesign, type ToxicityRate } from './toxicity.js';
 export { listEventsOfCohorts } from './adverse-events.repository.js';
 export { RELATED_ATTRIBUTIONS } from './safety.schema.js';
 export type { Attribution, EventOutcome, JointVerdict, SafetyCounts, SafetyRuleState, BryantDayCharacteristicsInput, SafetyDesignSettings, SafetyRule, ToxicityBoundarySettings } from './safety.schema.js';

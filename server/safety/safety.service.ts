@@ -11,16 +11,13 @@ import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
 import { latestReleased, type ReleasedFigures } from '../evaluation/index.js';
 import { NotFoundError } from '../http/errors.js';
-import { proportionInterval } from '../stats/index.js';
 import { currentDesigns, type LockedDesign, type ToxicityDefinition } from '../designs/index.js';
 import { listCohorts, type CohortStatus, type SafetyPause } from '../trials/index.js';
 import { CAUTIONS, describeSafetyState, responseOnlySafety, toxicityDefinitionSentence } from '../words/index.js';
 import { safetyCounts } from './safety.repository.js';
 import { ruleOfDesign, todayIso } from './safety-rules.js';
-import { safetyRuleState } from './toxicity.js';
+import { SAFETY_CONF_LEVEL, safetyRuleState, toxicityRate, type ToxicityRate } from './toxicity.js';
 import type { SafetyCounts, SafetyRule, SafetyRuleState } from './safety.schema.js';
-
-export const SAFETY_CONF_LEVEL = 0.95;
 
 export type SafetyRuleSummary = {
   version: number;
@@ -43,7 +40,7 @@ export type CohortSafety = {
   /** The protocol's toxicity definition in a sentence. */
   definition: string | null;
   counts: SafetyCounts | null;
-  rate: { toxicities: number; assessable: number; estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' } | null;
+  rate: ToxicityRate | null;
   state: SafetyRuleState | null;
   /** Where the cohort stands against its rule, in sentences. */
   sentences: string[];
@@ -107,23 +104,12 @@ export async function safetyOfTrial(db: Db, trialId: string, today = todayIso())
         return { ...base, lockedRule: null, definition: null, counts: null, rate: null, state: null, sentences };
       }
       const state = safetyRuleState(rule, counts);
-      const assessable = counts.toxic + counts.notToxic;
       return {
         ...base,
         lockedRule: summary(design, design.toxicity),
         definition: toxicityDefinitionSentence(design.toxicity),
         counts,
-        rate:
-          assessable > 0
-            ? {
-                toxicities: counts.toxic,
-                assessable,
-                estimate: counts.toxic / assessable,
-                ci: proportionInterval(counts.toxic, assessable, { method: 'clopper-pearson', confLevel: SAFETY_CONF_LEVEL }),
-                confLevel: SAFETY_CONF_LEVEL,
-                method: 'clopper-pearson',
-              }
-            : null,
+        rate: toxicityRate(counts),
         state,
         sentences: describeSafetyState(state),
       };

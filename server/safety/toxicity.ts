@@ -15,6 +15,7 @@
  * The live counts come from SQL (safety.repository.ts) and must agree with `deriveToxicity`.
  */
 import { addDays, format, parseISO } from 'date-fns';
+import { proportionInterval } from '../stats/index.js';
 import { attributionText, gradeText, GRADE_WORDS, toxicityDefinitionSentence } from '../words/index.js';
 import { RELATED_ATTRIBUTIONS, type Attribution, type SafetyCounts, type SafetyRuleState, type ToxicityStatus } from './safety.schema.js';
 
@@ -178,5 +179,23 @@ export function safetyRuleState(rule: SafetyRuleOfDesign, counts: SafetyCounts):
     crossed,
     toNextStop: crossed ? 0 : beyondN ? null : toxicitiesToBoundary(rule.bounds, k, toxicities),
     beyondN,
+  };
+}
+
+export const SAFETY_CONF_LEVEL = 0.95;
+
+export type ToxicityRate = { toxicities: number; assessable: number; estimate: number; ci: [number, number]; confLevel: number; method: 'clopper-pearson' };
+
+/** Toxicities among assessable patients with the exact (Clopper–Pearson) interval; null before any patient is assessable. */
+export function toxicityRate(counts: Pick<SafetyCounts, 'toxic' | 'notToxic'>): ToxicityRate | null {
+  const assessable = counts.toxic + counts.notToxic;
+  if (assessable === 0) return null;
+  return {
+    toxicities: counts.toxic,
+    assessable,
+    estimate: counts.toxic / assessable,
+    ci: proportionInterval(counts.toxic, assessable, { method: 'clopper-pearson', confLevel: SAFETY_CONF_LEVEL }),
+    confLevel: SAFETY_CONF_LEVEL,
+    method: 'clopper-pearson',
   };
 }
