@@ -34,6 +34,7 @@ import { portfolioRoutes } from './portfolio/index.js';
 import { accrualRoutes } from './accrual/index.js';
 import { outboxRoutes } from './outbox/index.js';
 import { auditRoutes } from './audit/index.js';
+import { applySafetyAfterDesignSigned, safetyRoutes } from './safety/index.js';
 
 /** Every route of the server, feature by feature: the one list the app mounts and the permission matrix walks. */
 function routeList(oidc: OidcClient): RouteSpec[] {
@@ -47,6 +48,7 @@ function routeList(oidc: OidcClient): RouteSpec[] {
     ...patientsRoutes,
     ...evaluationRoutes,
     ...assessmentsRoutes,
+    ...safetyRoutes,
     ...dataCutsRoutes,
     ...portfolioRoutes,
     ...accrualRoutes,
@@ -60,6 +62,8 @@ const hooks: Hooks = {
   // An enrolment or an entered outcome re-derives too, so a disagreement is flagged the moment it appears.
   patientWritten: [rederiveAfterPatientWrite],
   protocolSettingsChanged: [rederiveTrialAfterSettingsChange],
+  // A design version signed with a safety rule is held against the events already recorded.
+  designSigned: [applySafetyAfterDesignSigned],
 };
 
 /** The scheduled jobs every server process offers to run (each runs once per period across all processes). */

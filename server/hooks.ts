@@ -1,7 +1,8 @@
 /**
  * What a write in one feature sets off in another, inside the same transaction: a patient write
  * re-derives the patient's best overall response from their assessments; a change to the
- * protocol's outcome rules re-derives every patient of the trial. The features that emit an event
+ * protocol's outcome rules re-derives every patient of the trial; a newly signed design version
+ * applies its safety rule to the data already there. The features that emit an event
  * do not know who listens: the composition root (server/app.ts) names every listener and hands the
  * hooks to the routes, which pass them to the services. Nothing registers itself on import.
  */
@@ -17,6 +18,8 @@ export type PatientWrite = {
 
 export type ProtocolSettingsChange = { trialId: string; actorUserId: string };
 
+export type DesignSigned = { trialId: string; cohortId: string; version: number; actorUserId: string };
+
 export type Listener<E> = (trx: Knex.Transaction, event: E) => Promise<void>;
 
 export type Hooks = {
@@ -24,6 +27,8 @@ export type Hooks = {
   patientWritten: readonly Listener<PatientWrite>[];
   /** After the statistician changes the protocol's outcome settings, before commit. */
   protocolSettingsChanged: readonly Listener<ProtocolSettingsChange>[];
+  /** After a design version is signed (lock, revision, amendment), before commit. */
+  designSigned: readonly Listener<DesignSigned>[];
 };
 
 /** Runs the listeners one after another inside the caller's transaction. */

@@ -1,7 +1,8 @@
 /**
  * The Audit trail of a trial, for the statistician and the admin. The admin holds no
- * patient-level outcome data, so entries about patients, their assessments and outcomes, data
- * cuts, analyses and committee recommendations are left out of the admin's view entirely — not
+ * patient-level outcome data, so entries about patients, their assessments, outcomes and adverse
+ * events, data cuts, analyses, committee recommendations and the figures of a safety rule's
+ * crossing are left out of the admin's view entirely — not
  * merely stripped of before/after, since a reason or an entity id can say as much.
  */
 import type { Db } from '../db/knex.js';
@@ -19,6 +20,8 @@ export const PATIENT_LEVEL_ENTITY_TYPES = [
   'data_cut',
   'analysis',
   'recommendation',
+  'adverse_event',
+  'safety_rule',
 ] as const;
 
 export async function auditTrail(db: Db, actor: Actor, query: AuditQuery) {

@@ -2,8 +2,13 @@
  * Who may see efficacy figures — the one rule, applied by every route, job, mail, export and page.
  *
  * Efficacy figures are responders, response rates, intervals, p-values, rule verdicts that reveal
- * counts, responder paths, Bayesian probabilities, and any mail or export carrying them. Operational
- * figures (enrolment, pending outcomes, data issues) are every member's.
+ * counts, responder paths, Bayesian probabilities, and any mail or export carrying them. Safety
+ * figures — toxicities, toxicity rates and their intervals, where a cohort stands against its
+ * toxicity boundary or Bryant–Day limit, joint response-and-toxicity verdicts — are efficacy
+ * figures under this rule: the same table, the same functions (`efficacyView`, `projectEfficacy`,
+ * `recipientRoles('live-efficacy', …)`). Adverse-event records are patient records. Operational
+ * figures (enrolment, pending outcomes, data issues, a cohort's status and whether its accrual is
+ * paused for a safety review) are every member's.
  *
  * | role on the trial                       | live, trial-wide         | frozen data cuts | released cut (frozen, dated) | own sites' live counts | patient records |
  * |-----------------------------------------|--------------------------|------------------|------------------------------|------------------------|-----------------|

@@ -44,6 +44,8 @@ import {
 import { CAUTIONS, VERDICT_METHODS, VERDICT_RULES, plural } from '../words/index.js';
 import type { CutCohort, CutDesign, CutPatient, CutSnapshot, DataCut } from './data-cuts.repository.js';
 import type { CutKind } from './data-cuts.schema.js';
+import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
+import { cohortSafety, type CohortSafetyAnalysis } from './safety-analysis.js';
 
 export const CONF_LEVEL = 0.95;
 
@@ -53,6 +55,8 @@ export type AnalysisInput = {
   cut: { id: string; seq: number; kind: CutKind; cutAt: string; contentHash: string; cohortId: string | null };
   snapshot: CutSnapshot;
   patients: CutPatient[];
+  /** The cut's frozen adverse events (none for cuts frozen before safety monitoring). */
+  adverseEvents?: CutAdverseEvent[];
   prior: PriorSetting;
   /** Where the prior came from: the cut's saved setting or this request's query. */
   priorSource: 'saved' | 'request';
@@ -159,6 +163,8 @@ export type Analysis = {
   methods: Record<string, string>;
   /** How verdicts are reached, for the reader (the report prints it). */
   rulesStatement: string[];
+  /** Per cohort: adverse events, toxicities against the locked definition, the safety rule and the joint verdict. */
+  safety: CohortSafetyAnalysis[];
 };
 
 /** A final-size deviation in numbers. */
@@ -580,5 +586,15 @@ export function analyseCut(input: AnalysisInput): Analysis {
     cautions,
     methods: METHODS,
     rulesStatement: [...VERDICT_RULES],
+    safety: input.snapshot.cohorts.map((cohort) =>
+      cohortSafety({
+        cohort,
+        patients: input.patients.filter((p) => p.cohortId === cohort.id),
+        events: input.adverseEvents ?? [],
+        eventsFrozen: input.snapshot.adverseEventsFrozen === true,
+        cutOn: input.cut.cutAt.slice(0, 10),
+        response: cohorts.find((c) => c.cohortId === cohort.id)?.counts ?? null,
+      }),
+    ),
   };
 }

@@ -41,7 +41,9 @@ export type CutDesign = Pick<
   | 'interimAccrual'
   | 'sponsorSeesResponse'
   | 'protocolReference'
->;
+> &
+  /** The safety rule the design locked; absent in cuts frozen before safety monitoring existed. */
+  Partial<Pick<LockedDesign, 'safetyRule' | 'toxicity' | 'boundary' | 'bryantDay'>>;
 
 export type CutCohort = { id: string; code: string; name: string; status: CohortStatus; design: CutDesign | null };
 
@@ -49,6 +51,8 @@ export type CutCohort = { id: string; code: string; name: string; status: Cohort
 export type CutSnapshot = {
   trial: { id: string; code: string; title: string; indication: string; sponsorName: string | null };
   cohorts: CutCohort[];
+  /** The cut froze the adverse events of its patients (cuts frozen before safety monitoring did not). */
+  adverseEventsFrozen?: boolean;
 };
 
 export type CutCounts = { patients: number; pending: number; unattested: number; flagged: number; notEvaluable: number };

@@ -13,7 +13,7 @@ import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import type { Role } from '../auth/access.js';
 import { FROZEN_CUT_READERS } from '../auth/visibility.js';
 import { parseBody, parseQuery } from '../http/validate.js';
-import { createDataCutSchema, decisionSchema, priorSchema, recommendationSchema } from './data-cuts.schema.js';
+import { createDataCutSchema, cutExportQuerySchema, decisionSchema, priorSchema, recommendationSchema } from './data-cuts.schema.js';
 import {
   analyseDataCut,
   applyDecision,
@@ -134,7 +134,8 @@ export const dataCutsRoutes: RouteSpec[] = [
     path: '/api/data-cuts/:cutId/export.csv',
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
-      const { filename, csv } = await cutExport(db, cutId(req), req.query.dataset === 'adrs' ? 'adrs' : 'patients');
+      const { dataset } = await parseQuery(cutExportQuerySchema, req.query);
+      const { filename, csv } = await cutExport(db, cutId(req), dataset);
       sendCsv(res, filename, csv);
     },
   },
@@ -144,6 +145,15 @@ export const dataCutsRoutes: RouteSpec[] = [
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
       const { filename, csv } = await cutExport(db, cutId(req), 'adrs');
+      sendCsv(res, filename, csv);
+    },
+  },
+  {
+    method: 'get',
+    path: '/api/data-cuts/:cutId/ae.csv',
+    access: cutAccess(READERS),
+    handler: async (req, res, { db }) => {
+      const { filename, csv } = await cutExport(db, cutId(req), 'ae');
       sendCsv(res, filename, csv);
     },
   },

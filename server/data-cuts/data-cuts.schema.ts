@@ -9,13 +9,23 @@ import { STOP_CATEGORIES } from '../trials/trials.schema.js';
 export { STOP_CATEGORIES };
 
 export const CUT_KINDS = ['interim', 'final'] as const;
+
 export type CutKind = (typeof CUT_KINDS)[number];
 
-export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol'] as const;
+/** A cut's CSV datasets: the patients listing, the response dataset (ADRS-style) and the adverse events (SDTM AE names). */
+export const CUT_DATASETS = ['patients', 'adrs', 'ae'] as const;
+export type CutDataset = (typeof CUT_DATASETS)[number];
+export const cutExportQuerySchema = object({
+  dataset: string().oneOf(CUT_DATASETS, `dataset is one of ${CUT_DATASETS.join(', ')}.`).default('patients'),
+});
+
+export const RECOMMENDATION_DECISIONS = ['continue', 'stop_futility', 'stop_other', 'modify_protocol', 'resume_accrual', 'stop_safety'] as const;
 export type RecommendationDecision = (typeof RECOMMENDATION_DECISIONS)[number];
 
-export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete'] as const;
+export const DECISION_ACTIONS = ['resume_stage_2', 'stop', 'final_analysis', 'complete', 'resume_accrual'] as const;
 export type DecisionAction = (typeof DECISION_ACTIONS)[number];
+/** Decisions that move the cohort to another status (resuming accrual after a safety review leaves it where it is). */
+export type StatusDecision = Exclude<DecisionAction, 'resume_accrual'>;
 
 /** A cohort as the cut froze it: its status then, and whether its design has a stage 2. */
 type FrozenCohort = { status: string; design: { n1: number | null } | null };

@@ -15,10 +15,11 @@ import { writeAudit } from '../audit/audit.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { contentHash, recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesigns } from '../designs/index.js';
-import { findCohort, listCohorts, lockTrialHeading, transitionCohort, type CohortStatus } from '../trials/index.js';
+import { findCohort, listCohorts, lockTrialHeading, resumeAfterSafetyReview, safetyReviewOf, transitionCohort, type Cohort, type CohortStatus } from '../trials/index.js';
+import { currentSafetyState, listEventsOfCohorts, ruleToxicities } from '../safety/index.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { analyseCut, type Analysis, type PriorSetting } from './analysis.js';
-import { adrsCsv, patientsCsv } from './exports.js';
+import { adrsCsv, adverseEventsCsv, patientsCsv } from './exports.js';
 import { renderCutReport } from './report/pdf.js';
 import { listPatientsWithAssessments } from '../patients/index.js';
 import { insertReleasedFigures } from '../evaluation/index.js';
@@ -26,9 +27,10 @@ import { countMonitors, decisionRecipients, findUserName, statisticianEmails } f
 import { findDataCut, insertAnalysisVersion, insertDataCut, listDataCuts, nextSeq, releaseToSponsor, trialOfCut, type CutSnapshot, type DataCut } from './data-cuts.repository.js';
 import { findReport, insertReport, type ReportCoverage } from './reports.repository.js';
 import { byCohortThenSeq, insertCutPatients, readCutPatients, type CutPatient } from './cut-patients.repository.js';
+import { byPatientThenOnset, insertCutAdverseEvents, readCutAdverseEvents, type CutAdverseEvent } from './cut-adverse-events.repository.js';
 import { findRecommendationBy, insertRecommendation, listRecommendations } from './recommendations.repository.js';
 import { insertDecision, listDecisions } from './decisions.repository.js';
-import { decisionChoices, recommendationChoices, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput } from './data-cuts.schema.js';
+import { decisionChoices, recommendationChoices, type CreateDataCutInput, type DecisionAction, type DecisionInput, type PriorInput, type RecommendationInput, type StatusDecision, type CutDataset } from './data-cuts.schema.js';
 import { DECISION_POINT_CAUTIONS, DECISION_WORDS, RECOMMENDATION_WORDS, recommendationMeaning, stoppedFor } from '../words/index.js';
 
 /** Who freezes, signs or decides: the signed-in user (the route has checked their role on the cut's trial). */
@@ -36,9 +38,33 @@ type Author = Pick<SessionUser, 'id' | 'email'>;
 
 export { trialOfCut };
 
-/** The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every patient. */
-export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[]) {
-  return { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+/**
+ * The canonical content a cut's hash covers: scope, time, the frozen trial and designs, every
+ * patient, and every adverse event where the cut froze them (older cuts keep the hash they had).
+ */
+export function cutContent(cut: Pick<DataCut, 'trialId' | 'cohortId' | 'kind' | 'cutAt' | 'snapshot'>, patients: CutPatient[], adverseEvents: CutAdverseEvent[]) {
+  const content = { trialId: cut.trialId, cohortId: cut.cohortId, kind: cut.kind, cutAt: cut.cutAt, snapshot: cut.snapshot, patients };
+  return cut.snapshot.adverseEventsFrozen ? { ...content, adverseEvents } : content;
+}
+
+/** A live adverse event in the shape the cut keeps (the hash covers exactly these fields). */
+function asCutAdverseEvent(e: Awaited<ReturnType<typeof listEventsOfCohorts>>[number]): CutAdverseEvent {
+  return {
+    eventId: e.id,
+    patientId: e.patientId,
+    studyId: e.studyId,
+    siteCode: e.siteCode,
+    cohortId: e.cohortId,
+    onsetOn: e.onsetOn,
+    term: e.term,
+    grade: e.grade,
+    attribution: e.attribution,
+    serious: e.serious,
+    outcome: e.outcome,
+    attested: e.attested !== null,
+    attestationSignatureId: e.attested?.signatureId ?? null,
+    eventVersion: e.version,
+  };
 }
 
 /** A live patient in the shape the cut keeps (the hash covers exactly these fields). */
@@ -127,13 +153,23 @@ export async function freezeWithin(
               interimAccrual: d.interimAccrual,
               sponsorSeesResponse: d.sponsorSeesResponse,
               protocolReference: d.protocolReference,
+              safetyRule: d.safetyRule,
+              toxicity: d.toxicity,
+              boundary: d.boundary,
+              bryantDay: d.bryantDay,
             }
           : null,
       };
     }),
+    adverseEventsFrozen: true,
   };
   const live = (await listPatientsWithAssessments(trx, scope.map((c) => c.id))).map(asCutPatient).sort(byCohortThenSeq);
   const patients = history ? live.filter((p) => p.enrolledOn <= history.enrolledOnOrBefore) : live;
+  const frozenPatients = new Set(patients.map((p) => p.patientId));
+  const adverseEvents = (await listEventsOfCohorts(trx, scope.map((c) => c.id)))
+    .filter((e) => frozenPatients.has(e.patientId) && (!history || e.onsetOn <= history.enrolledOnOrBefore))
+    .map(asCutAdverseEvent)
+    .sort(byPatientThenOnset);
   const base = {
     trialId: input.trialId,
     cohortId: input.cohortId ?? null,
@@ -153,10 +189,11 @@ export async function freezeWithin(
     seq: await nextSeq(trx, input.trialId),
     designVersionId: scope.length === 1 ? (designs.get(scope[0].id)?.id ?? null) : null,
     createdBy: actor.id,
-    contentHash: contentHash(cutContent(base, patients)),
+    contentHash: contentHash(cutContent(base, patients, adverseEvents)),
     counts,
   });
   await insertCutPatients(trx, cut.id, patients);
+  await insertCutAdverseEvents(trx, cut.id, adverseEvents);
   await writeAudit(trx, {
     actorUserId: actor.id,
     trialId: input.trialId,
@@ -191,8 +228,8 @@ export type CutAnalysis = Analysis & { integrity: { contentHash: string; recompu
 /** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
 export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
   const cut = await requireCut(db, cutId);
-  const patients = await readCutPatients(db, cutId);
-  const recomputedHash = contentHash(cutContent(cut, patients));
+  const [patients, adverseEvents] = await Promise.all([readCutPatients(db, cutId), readCutAdverseEvents(db, cutId)]);
+  const recomputedHash = contentHash(cutContent(cut, patients, adverseEvents));
   const overridden = override && (override.a !== undefined || override.thetaT !== undefined);
   const prior: PriorSetting = overridden
     ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
@@ -201,6 +238,7 @@ export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, o
     cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
     snapshot: cut.snapshot,
     patients,
+    adverseEvents,
     prior,
     priorSource: overridden ? 'request' : 'saved',
   });
@@ -323,7 +361,7 @@ export async function recommendations(db: Db, cutId: string) {
   return { recommendations: list, committeeSize, signed: list.length };
 }
 
-export const DECISION_TARGET: Record<DecisionAction, CohortStatus> = {
+export const DECISION_TARGET: Record<StatusDecision, CohortStatus> = {
   resume_stage_2: 'enrolling_stage_2',
   stop: 'stopped',
   final_analysis: 'final_analysis',
@@ -336,11 +374,32 @@ function decisionMail(trialCode: string, cohortCode: string, action: DecisionAct
     stop: `cohort ${cohortCode} is stopped ${stoppedFor(stopCategory)}. Do not enrol further patients; follow the protocol for patients on treatment.`,
     final_analysis: `cohort ${cohortCode} moves to the final analysis. Enrolment is closed.`,
     complete: `cohort ${cohortCode} is completed.`,
+    resume_accrual: `accrual resumes in cohort ${cohortCode} after the committee's safety review. Sites may enrol again.`,
   }[action];
   return {
     subject: `${trialCode} ${cohortCode}: ${DECISION_WORDS[action].label.toLowerCase()}`,
     text: `After the review of data cut ${cut.seq} by the data monitoring committee, ${what}\n\nReason: ${reason}\n\nThis message was sent by Orrery; the decision itself rests with the trial statistician, the data monitoring committee and the ethics board.`,
   };
+}
+
+/**
+ * Accrual resumes after a safety pause only on a cut frozen since the pause began (so the committee
+ * saw the data that paused it), with a member's signed recommendation to resume, and only when no
+ * toxicity has been added since the pause (the committee has not reviewed it).
+ */
+async function requireSafetyReview(trx: Knex.Transaction, cut: DataCut, cohort: Cohort, recommended: string[]): Promise<void> {
+  if (!cohort.safetyPause) throw new ConflictError(`Cohort ${cohort.code} is not paused for safety: there is no accrual to resume after a safety review.`);
+  if (Date.parse(cut.cutAt) < Date.parse(cohort.safetyPause.since)) {
+    throw new ConflictError(`Data cut ${cut.seq} was frozen before accrual paused for safety: freeze a new cut so the committee reviews the data that paused it.`);
+  }
+  if (!recommended.includes('resume_accrual')) {
+    throw new ConflictError('Accrual resumes after a safety pause only on a committee recommendation to resume it, and no member has signed one on this data cut.');
+  }
+  const state = await currentSafetyState(trx, cohort.id);
+  const { pauseToxicities } = await safetyReviewOf(trx, cohort.id);
+  if (state?.crossed && pauseToxicities !== null && ruleToxicities(state) > pauseToxicities) {
+    throw new ConflictError('More toxicities have been recorded since accrual paused: freeze a new data cut so the committee reviews them before accrual resumes.');
+  }
 }
 
 /** Applying the committee's decision is the trial statistician's alone. */
@@ -370,14 +429,20 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
   if (frozen && !decisionChoices(frozen).includes(input.action)) {
     throw new InputError(`Cohort ${frozen.code} has no stage 2 still ahead.`, { action: 'Resume accrual for stage 2 applies only where a stage 2 exists and has not begun.' });
   }
-  const to = DECISION_TARGET[input.action];
   const reason = input.reason;
   const stopCategory = input.action === 'stop' ? (input.stopCategory ?? null) : null;
-  // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
-  if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
-    await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+  let moved: { from: CohortStatus; to: CohortStatus };
+  if (input.action === 'resume_accrual') {
+    await requireSafetyReview(trx, cut, current, signed.map((r) => r.decision));
+    await resumeAfterSafetyReview(trx, { cohortId, reason, actorUserId: actor.id });
+    moved = { from: current.status, to: current.status };
+  } else {
+    // A design that let accrual continue at risk reaches the decision still in stage 1: the review is the interim review.
+    if (input.action === 'resume_stage_2' && current.status === 'enrolling_stage_1') {
+      await transitionCohort(trx, { cohortId, to: 'interim_review', actorUserId: actor.id, reason, from: 'enrolling_stage_1' });
+    }
+    moved = await transitionCohort(trx, { cohortId, to: DECISION_TARGET[input.action], actorUserId: actor.id, reason, stopCategory });
   }
-  const moved = await transitionCohort(trx, { cohortId, to, actorUserId: actor.id, reason, stopCategory });
   const decisionId = await insertDecision(trx, {
     dataCutId: cutId,
     cohortId,
@@ -431,6 +496,10 @@ export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortI
   // A cohort without a locked design at the cut has no figures to release.
   if (!cohort?.counts) return;
   const { counts, responseRate, exactTest, rule, inference, bayes } = cohort;
+  const cohortSafety = analysis.safety.find((s) => s.cohortId === cohortId);
+  const safety = cohortSafety?.eventsFrozen
+    ? { safetyRule: cohortSafety.safetyRule, counts: cohortSafety.counts, toxicityRate: cohortSafety.toxicityRate, state: cohortSafety.state, joint: cohortSafety.joint, sentences: cohortSafety.sentences }
+    : undefined;
   await insertReleasedFigures(trx, {
     cutId: cut.id,
     cohortId,
@@ -438,7 +507,7 @@ export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortI
     cutSeq: cut.seq,
     cutKind: cut.kind,
     cutAt: cut.cutAt,
-    figures: { counts, responseRate, exactTest, rule, inference, bayes },
+    figures: { counts, responseRate, exactTest, rule, inference, bayes, safety },
   });
   await writeAudit(trx, {
     actorUserId: actor.id,
@@ -483,10 +552,16 @@ function csvName(code: string, seq: number, what: string) {
   return `${code}-data-cut-${seq}-${what}.csv`.replace(/[^A-Za-z0-9._-]/g, '_');
 }
 
-/** One of the cut's CSV datasets, from its frozen patients. */
-export async function cutExport(db: Db, cutId: string, dataset: 'patients' | 'adrs'): Promise<{ csv: string; filename: string }> {
+/** One of the cut's CSV datasets, from its frozen patients and adverse events. */
+export async function cutExport(db: Db, cutId: string, dataset: CutDataset): Promise<{ csv: string; filename: string }> {
   const { dataCut } = await cutDetail(db, cutId);
   const patients = await readCutPatients(db, cutId);
+  if (dataset === 'ae') {
+    const analysis = await analyseDataCut(db, cutId);
+    const toxic = new Set(analysis.safety.flatMap((c) => c.qualifyingEventIds));
+    const csv = adverseEventsCsv(dataCut, patients, await readCutAdverseEvents(db, cutId), toxic);
+    return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
+  }
   const csv = dataset === 'adrs' ? adrsCsv(dataCut, patients) : patientsCsv(dataCut, patients);
   return { csv, filename: csvName(dataCut.snapshot.trial.code, dataCut.seq, dataset) };
 }

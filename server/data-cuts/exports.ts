@@ -1,14 +1,16 @@
 /**
- * CSV exports of a data cut's frozen patients: the patients-and-outcomes listing, and a response
+ * CSV exports of a data cut's frozen patients: the patients-and-outcomes listing, a response
  * dataset whose columns follow the CDISC ADaM basic data structure (one row per subject and
- * parameter). Every text cell goes through the shared formula-injection guard. Stages follow the one
- * definition (the first n1 counting patients are stage 1), and a stage-2 patient enrolled at risk,
- * whom the cohort's verdict leaves out, is marked as such (`stagesAtCut`, the analysis' own verdict).
+ * parameter), and the adverse events under the CDISC SDTM AE domain's variable names. Every text
+ * cell goes through the shared formula-injection guard. Stages follow the one definition (the first
+ * n1 counting patients are stage 1), and a stage-2 patient enrolled at risk, whom the cohort's
+ * verdict leaves out, is marked as such (`stagesAtCut`, the analysis' own verdict).
  */
 import { countsToward, effectiveOutcome } from '../evaluation/index.js';
 import { toCsv, type CsvCell } from '../csv/neutralise.js';
 import type { CutPatient, DataCut } from './data-cuts.repository.js';
 import { stagesAtCut } from './analysis.js';
+import type { CutAdverseEvent } from './cut-adverse-events.repository.js';
 
 export function patientsCsv(cut: DataCut, patients: CutPatient[]): string {
   const header = [
@@ -121,4 +123,59 @@ export function adrsCsv(cut: DataCut, patients: CutPatient[]): string {
     ]);
   }
   return toCsv([...ADRS_COLUMNS], rows);
+}
+
+/**
+ * Adverse-events dataset with the variable names of the CDISC SDTM AE domain (one row per event).
+ * AETOXGR is the CTCAE v5.0 grade; AESER is Y/N; AEOUT uses the CDISC controlled terms for the
+ * outcome; AEREL's terms are sponsor-defined in SDTM, so ours are the attribution in capitals.
+ * AETOXFL (Y on the event by which the patient counts as a toxicity in the cut's safety analysis:
+ * the first, by onset, that meets the protocol's definition) and DCUTDT are our own additions
+ * beside the standard variables.
+ */
+export const AE_COLUMNS = ['STUDYID', 'DOMAIN', 'USUBJID', 'AESEQ', 'AETERM', 'AESTDTC', 'AETOXGR', 'AEREL', 'AESER', 'AEOUT', 'SITEID', 'COHORT', 'AETOXFL', 'DCUTDT'] as const;
+
+const AEOUT: Record<CutAdverseEvent['outcome'], string> = {
+  recovered: 'RECOVERED/RESOLVED',
+  recovering: 'RECOVERING/RESOLVING',
+  not_recovered: 'NOT RECOVERED/NOT RESOLVED',
+  recovered_with_sequelae: 'RECOVERED/RESOLVED WITH SEQUELAE',
+  fatal: 'FATAL',
+  unknown: 'UNKNOWN',
+};
+
+const AEREL: Record<NonNullable<CutAdverseEvent['attribution']>, string> = {
+  unrelated: 'NOT RELATED',
+  unlikely: 'UNLIKELY RELATED',
+  possible: 'POSSIBLY RELATED',
+  probable: 'PROBABLY RELATED',
+  definite: 'DEFINITELY RELATED',
+};
+
+export function adverseEventsCsv(cut: DataCut, patients: CutPatient[], events: CutAdverseEvent[], toxicEventIds: ReadonlySet<string>): string {
+  const trialCode = cut.snapshot.trial.code;
+  const cohortOf = new Map(patients.map((p) => [p.patientId, p.cohortCode]));
+  const cutDate = cut.cutAt.slice(0, 10);
+  const seqOf = new Map<string, number>();
+  const rows: CsvCell[][] = events.map((e) => {
+    const seq = (seqOf.get(e.patientId) ?? 0) + 1;
+    seqOf.set(e.patientId, seq);
+    return [
+      trialCode,
+      'AE',
+      `${trialCode}-${e.studyId}`,
+      seq,
+      e.term,
+      e.onsetOn,
+      e.grade,
+      e.attribution ? AEREL[e.attribution] : null,
+      e.serious ? 'Y' : 'N',
+      AEOUT[e.outcome],
+      e.siteCode,
+      cohortOf.get(e.patientId) ?? null,
+      toxicEventIds.has(e.eventId) ? 'Y' : 'N',
+      cutDate,
+    ];
+  });
+  return toCsv([...AE_COLUMNS], rows);
 }

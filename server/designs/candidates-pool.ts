@@ -7,6 +7,9 @@ import { AppError, InputError } from '../http/errors.js';
 import { StatsInputError } from '../stats/index.js';
 import type { DesignSettingsInput, Selection } from './designs.schema.js';
 import type { DesignCandidates, DesignNumbers } from './candidates.js';
+import type { BryantDayCharacteristicsInput, SafetyDesignSettings } from '../safety/index.js';
+import type { BryantDayDesign } from '../stats/index.js';
+import type { BryantDayChoice, BryantDayGrid } from './safety-candidates.js';
 
 /** Far above the slowest search the input bounds allow (about 2 s), so only a fault reaches it. */
 const JOB_LIMIT_MS = 30_000;
@@ -61,7 +64,9 @@ function getWorker(): Worker {
   return started;
 }
 
-function run<T>(job: 'candidates' | 'chosen', args: unknown): Promise<T> {
+type Job = 'candidates' | 'chosen' | 'safetyDesigns' | 'bryantDayChoice' | 'bryantDayGrid';
+
+function run<T>(job: Job, args: unknown): Promise<T> {
   const id = nextId++;
   const target = getWorker();
   return new Promise<T>((resolve, reject) => {
@@ -83,4 +88,17 @@ export function runDesignCandidates(settings: DesignSettingsInput): Promise<Desi
 
 export function runChosenDesign(settings: DesignSettingsInput, selection: Selection, admissibleIndex: number | null): Promise<DesignNumbers> {
   return run('chosen', { settings, selection, admissibleIndex });
+}
+
+/** The Bryant–Day optimal and minimax designs (400 naming nmax when there are none). */
+export function runSafetyDesigns(settings: SafetyDesignSettings): Promise<{ optimal: BryantDayDesign; minimax: BryantDayDesign }> {
+  return run('safetyDesigns', { settings });
+}
+
+export function runBryantDayChoice(settings: SafetyDesignSettings, selection: 'optimal' | 'minimax'): Promise<BryantDayChoice> {
+  return run('bryantDayChoice', { settings, selection });
+}
+
+export function runBryantDayGrid(input: BryantDayCharacteristicsInput): Promise<BryantDayGrid> {
+  return run('bryantDayGrid', { input });
 }

@@ -5,10 +5,27 @@
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { toSignature, type Signature } from '../signatures/signatures.js';
+import type { SafetyRule } from '../safety/index.js';
 
 type Conn = Db | Knex.Transaction;
 
-export type LockedDesign = {
+/** The protocol's toxicity definition: grade at or above minGrade, attribution possible or stronger, onset within windowDays of enrolment. */
+export type ToxicityDefinition = { minGrade: number; windowDays: number };
+/** The continuous toxicity boundary over the design's n patients. */
+export type LockedBoundary = { theta: number; alpha: number; bounds: Array<number | null>; nominalLevel: number; crossingProbability: number };
+/** A Bryant–Day design's toxicity part (its response part is r1/n1, r/n; α is αR). */
+export type LockedBryantDay = {
+  toxAcceptable: number;
+  toxUnacceptable: number;
+  alphaT: number;
+  t1: number;
+  t: number;
+  attainedAlphaT: number;
+  expectedNHighToxicity: number;
+};
+export type DesignSafety = { safetyRule: SafetyRule; toxicity: ToxicityDefinition | null; boundary: LockedBoundary | null; bryantDay: LockedBryantDay | null };
+
+export type LockedDesign = DesignSafety & {
   id: string;
   cohortId: string;
   version: number;
@@ -63,10 +80,55 @@ export type DesignRow = {
   signature_id: string | null;
   created_by: string | null;
   created_at: Date;
+  safety_rule: SafetyRule;
+  tox_min_grade: number | null;
+  tox_window_days: number | null;
+  tox_theta: number | null;
+  tox_alpha: number | null;
+  tox_bounds: Array<number | null> | null;
+  tox_nominal_level: number | null;
+  tox_crossing_probability: number | null;
+  tox_acceptable: number | null;
+  tox_unacceptable: number | null;
+  alpha_t: number | null;
+  t1: number | null;
+  t: number | null;
+  attained_alpha_t: number | null;
+  en_high_toxicity: number | null;
 };
+
+function safetyOf(row: DesignRow): DesignSafety {
+  return {
+    safetyRule: row.safety_rule,
+    toxicity: row.tox_min_grade !== null && row.tox_window_days !== null ? { minGrade: row.tox_min_grade, windowDays: row.tox_window_days } : null,
+    boundary:
+      row.safety_rule === 'toxicity_boundary' && row.tox_bounds && row.tox_theta !== null && row.tox_alpha !== null
+        ? {
+            theta: row.tox_theta,
+            alpha: row.tox_alpha,
+            bounds: row.tox_bounds,
+            nominalLevel: row.tox_nominal_level ?? 0,
+            crossingProbability: row.tox_crossing_probability ?? 0,
+          }
+        : null,
+    bryantDay:
+      row.safety_rule === 'bryant_day' && row.t1 !== null && row.t !== null
+        ? {
+            toxAcceptable: row.tox_acceptable ?? 0,
+            toxUnacceptable: row.tox_unacceptable ?? 0,
+            alphaT: row.alpha_t ?? 0,
+            t1: row.t1,
+            t: row.t,
+            attainedAlphaT: row.attained_alpha_t ?? 0,
+            expectedNHighToxicity: row.en_high_toxicity ?? 0,
+          }
+        : null,
+  };
+}
 
 export function toLockedDesign(row: DesignRow): LockedDesign {
   return {
+    ...safetyOf(row),
     id: row.id,
     cohortId: row.cohort_id,
     version: row.version,
@@ -155,6 +217,21 @@ export async function insertDesignVersion(trx: Knex.Transaction, design: NewDesi
       amendment_reason: design.amendmentReason,
       signature_id: design.signatureId,
       created_by: design.createdBy,
+      safety_rule: design.safetyRule,
+      tox_min_grade: design.toxicity?.minGrade ?? null,
+      tox_window_days: design.toxicity?.windowDays ?? null,
+      tox_theta: design.boundary?.theta ?? null,
+      tox_alpha: design.boundary?.alpha ?? null,
+      tox_bounds: design.boundary ? JSON.stringify(design.boundary.bounds) : null,
+      tox_nominal_level: design.boundary?.nominalLevel ?? null,
+      tox_crossing_probability: design.boundary?.crossingProbability ?? null,
+      tox_acceptable: design.bryantDay?.toxAcceptable ?? null,
+      tox_unacceptable: design.bryantDay?.toxUnacceptable ?? null,
+      alpha_t: design.bryantDay?.alphaT ?? null,
+      t1: design.bryantDay?.t1 ?? null,
+      t: design.bryantDay?.t ?? null,
+      attained_alpha_t: design.bryantDay?.attainedAlphaT ?? null,
+      en_high_toxicity: design.bryantDay?.expectedNHighToxicity ?? null,
     })
     .returning('*');
   return toLockedDesign(row);

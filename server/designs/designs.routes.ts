@@ -33,9 +33,9 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks }) => {
       const body = await parseBody(designLockSchema, req.body);
-      const design = await signDesign(db, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, session: signingSessionOf(req) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'lock', body, session: signingSessionOf(req) });
       res.status(201).json({ design });
     },
   },
@@ -43,9 +43,11 @@ export const designsRoutes: RouteSpec[] = [
     method: 'post',
     path: '/api/trials/:trialId/cohorts/:cohortId/design/amendments',
     access: { kind: 'trial', roles: ['statistician'] },
-    handler: async (req, res, { db }) => {
+    handler: async (req, res, { db, hooks, mail }) => {
       const body = await parseBody(designAmendmentSchema, req.body);
-      const design = await signDesign(db, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, session: signingSessionOf(req) });
+      const design = await signDesign(db, hooks, actorOf(req), { cohortId: String(req.params.cohortId), route: 'amendment', body, session: signingSessionOf(req) });
+      // An amendment's safety rule may already be crossed by the data: the pause's mail goes out now.
+      mail.kick();
       res.status(201).json({ design });
     },
   },

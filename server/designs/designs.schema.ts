@@ -4,6 +4,7 @@
  */
 import { boolean, number, object, string, type InferType } from 'yup';
 import { COHORT_STATUSES, STOP_CATEGORIES } from '../trials/trials.schema.js';
+import { BRYANT_DAY_NMAX_LIMIT, SAFETY_RULES, toxicityDefinitionFields } from '../safety/safety.schema.js';
 
 // Kept for the client, which imports it from here.
 export { COHORT_STATUSES };
@@ -43,8 +44,45 @@ export const designSettingsSchema = object({
 });
 export type DesignSettingsInput = InferType<typeof designSettingsSchema>;
 
+const emptyToNull = (value: unknown, original: unknown) => (original === '' || original === undefined || original === null ? null : value);
+const hasSafetyRule = (rule: unknown) => rule === 'toxicity_boundary' || rule === 'bryant_day';
+const optionalRate = (label: string) =>
+  number().transform(emptyToNull).nullable().typeError(`${label} must be a number.`).moreThan(0, `${label} must be above 0.`).lessThan(1, `${label} must be below 1.`);
+const requiredFor = (rule: string, message: string) => (schema: ReturnType<typeof optionalRate>) =>
+  schema.when('safetyRule', { is: rule, then: (s) => s.required(message), otherwise: (s) => s.optional() });
+
+/**
+ * A cohort's safety rule, locked with its design: the protocol's toxicity definition, and either the
+ * continuous toxicity boundary (θ, α; its n is the design's n) or the Bryant–Day design (the
+ * toxicity rates and αT; p0, p1, α and β are its response rates, αR and β).
+ */
+export const safetyRuleFields = {
+  safetyRule: string().oneOf(SAFETY_RULES, 'Choose response only, a continuous toxicity boundary or a Bryant–Day design.').default('none'),
+  toxMinGrade: toxicityDefinitionFields.toxMinGrade
+    .transform(emptyToNull)
+    .nullable()
+    .when('safetyRule', { is: hasSafetyRule, then: (s) => s.required('Choose the lowest CTCAE grade that counts as a toxicity.'), otherwise: (s) => s.optional() }),
+  toxWindowDays: toxicityDefinitionFields.toxWindowDays
+    .transform(emptyToNull)
+    .nullable()
+    .when('safetyRule', { is: hasSafetyRule, then: (s) => s.required('Give the window of days from enrolment in which a toxicity counts.'), otherwise: (s) => s.optional() }),
+  toxTheta: requiredFor('toxicity_boundary', 'θ, the acceptable toxicity rate, is required.')(optionalRate('θ')),
+  toxAlpha: requiredFor('toxicity_boundary', 'The boundary’s α is required.')(optionalRate('The boundary’s α')),
+  toxAcceptable: requiredFor('bryant_day', 'The acceptable toxicity rate is required.')(optionalRate('The acceptable toxicity rate')),
+  toxUnacceptable: requiredFor('bryant_day', 'The unacceptable toxicity rate is required.')(optionalRate('The unacceptable toxicity rate')).test(
+    'above-acceptable',
+    'The unacceptable toxicity rate must be above the acceptable one.',
+    function (value) {
+      const acceptable = this.parent.toxAcceptable;
+      return this.parent.safetyRule !== 'bryant_day' || typeof value !== 'number' || typeof acceptable !== 'number' || value > acceptable;
+    },
+  ),
+  alphaT: requiredFor('bryant_day', 'αT, the toxicity error level, is required.')(optionalRate('αT')),
+};
+
 /** The design settings plus what the protocol says about them: the Designs page's form. */
 export const designFormSchema = designSettingsSchema.shape({
+  ...safetyRuleFields,
   analysisPopulation: string()
     .required('Choose the analysis population.')
     .oneOf(ANALYSIS_POPULATIONS, 'Choose all enrolled or evaluable patients.'),
@@ -54,10 +92,20 @@ export const designFormSchema = designSettingsSchema.shape({
     .trim()
     .required('The protocol reference is required: the signature names it.')
     .max(100, 'The protocol reference can be at most 100 characters.'),
-});
+}).test('bryant-day-nmax', `A Bryant–Day search covers nmax up to ${BRYANT_DAY_NMAX_LIMIT}.`, (value, ctx) =>
+  value.safetyRule === 'bryant_day' && typeof value.nmax === 'number' && value.nmax > BRYANT_DAY_NMAX_LIMIT
+    ? ctx.createError({ path: 'nmax', message: `nmax can be at most ${BRYANT_DAY_NMAX_LIMIT} for a Bryant–Day design: that search is exhaustive, and larger sizes take too long.` })
+    : true,
+);
+export type DesignFormInput = InferType<typeof designFormSchema>;
 
 const lockFields = {
-  selection: string().required('Choose a design.').oneOf(SELECTIONS, 'Choose single-stage, optimal, minimax or an admissible design.'),
+  selection: string()
+    .required('Choose a design.')
+    .oneOf(SELECTIONS, 'Choose single-stage, optimal, minimax or an admissible design.')
+    .test('bryant-day-selection', 'A Bryant–Day design is the optimal or the minimax one.', function (value) {
+      return this.parent.safetyRule !== 'bryant_day' || value === 'optimal' || value === 'minimax';
+    }),
   admissibleIndex: number()
     .typeError('Choose which admissible design.')
     .integer('Choose which admissible design.')

@@ -12,13 +12,15 @@ import { writeAudit } from '../audit/audit.js';
 import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { hasRole, isUuid, type Actor } from '../auth/access.js';
 import { recordSignature, type SigningSession } from '../signatures/signatures.js';
-import type { OperatingPoint } from '../stats/index.js';
+import { toxicityBoundary, toxicityBoundaryCharacteristics, type OperatingPoint, type ToxicityOperatingPoint } from '../stats/index.js';
+import { emit, type Hooks } from '../hooks.js';
 import { findCohort as findTrialCohort, listCohorts as listTrialCohorts, transitionCohort, trialCode, type Cohort, type CohortStatus, type StopCategory } from '../trials/index.js';
 import { countEnrolledByCohort, restageCohort } from '../patients/index.js';
 import { signatureMeaning, type CohortTransitionInput, type DesignLockInput, type SignatureKind } from './designs.schema.js';
-import { curveFor, responseGrid } from './candidates.js';
-import { runChosenDesign } from './candidates-pool.js';
-import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignVersion, type LockedDesign } from './designs.repository.js';
+import { curveFor, responseGrid, type DesignNumbers } from './candidates.js';
+import { runBryantDayChoice, runChosenDesign } from './candidates-pool.js';
+import { currentDesign, currentDesigns, insertDesignVersion, listDesignVersions, type DesignSafety, type DesignVersion, type LockedDesign } from './designs.repository.js';
+import { toxicityGrid } from './safety-candidates.js';
 
 /** A cohort as the Designs page shows it: the trial's cohort record and the trial it belongs to. */
 export type DesignCohort = Cohort & { trialId: string };
@@ -39,6 +41,8 @@ export type CohortDesigns = DesignCohort & {
   versions: DesignVersion[];
   /** Operating characteristics of the design in force, for the charts. */
   currentCurve: OperatingPoint[] | null;
+  /** The operating characteristics of its continuous toxicity boundary, when it has one. */
+  currentBoundaryCurve: ToxicityOperatingPoint[] | null;
 };
 
 export async function listTrialDesigns(db: Db, actor: Actor): Promise<CohortDesigns[]> {
@@ -53,12 +57,62 @@ export async function listTrialDesigns(db: Db, actor: Actor): Promise<CohortDesi
       enrolled: enrolled.get(cohort.id) ?? 0,
       versions: mine,
       currentCurve: current ? curveFor({ ...current, en0: current.en0 ?? current.n, pet0: current.pet0 ?? 0 }, responseGrid(current.p0, current.p1)) : null,
+      currentBoundaryCurve: current?.boundary ? toxicityBoundaryCharacteristics(current.boundary.bounds, toxicityGrid(current.boundary.theta)) : null,
     };
   });
 }
 
 const summary = (d: LockedDesign | undefined) =>
-  d && { version: d.version, selection: d.selection, p0: d.p0, p1: d.p1, alpha: d.alpha, beta: d.beta, r1: d.r1, n1: d.n1, r: d.r, n: d.n };
+  d && {
+    version: d.version,
+    selection: d.selection,
+    p0: d.p0,
+    p1: d.p1,
+    alpha: d.alpha,
+    beta: d.beta,
+    r1: d.r1,
+    n1: d.n1,
+    r: d.r,
+    n: d.n,
+    safetyRule: d.safetyRule,
+    toxicity: d.toxicity,
+    ...(d.boundary ? { boundary: { theta: d.boundary.theta, alpha: d.boundary.alpha } } : {}),
+    ...(d.bryantDay ? { bryantDay: { t1: d.bryantDay.t1, t: d.bryantDay.t, toxAcceptable: d.bryantDay.toxAcceptable, toxUnacceptable: d.bryantDay.toxUnacceptable, alphaT: d.bryantDay.alphaT } } : {}),
+  };
+
+/**
+ * The numbers a signature covers, recomputed here: the response design (or the Bryant–Day design,
+ * whose response part is r1/n1, r/n with α as αR) and the safety rule with its toxicity definition.
+ */
+async function computeSignedNumbers(body: DesignLockInput): Promise<{ numbers: DesignNumbers; safety: DesignSafety }> {
+  const settings = { p0: body.p0, p1: body.p1, alpha: body.alpha, beta: body.beta, nmax: body.nmax };
+  const rule = body.safetyRule ?? 'none';
+  const toxicity = rule === 'none' ? null : { minGrade: body.toxMinGrade as number, windowDays: body.toxWindowDays as number };
+  if (rule === 'bryant_day') {
+    const toxAcceptable = body.toxAcceptable as number;
+    const toxUnacceptable = body.toxUnacceptable as number;
+    const alphaT = body.alphaT as number;
+    const chosen = await runBryantDayChoice(
+      { pR0: body.p0, pR1: body.p1, toxAcceptable, toxUnacceptable, alphaR: body.alpha, alphaT, beta: body.beta, nmax: body.nmax },
+      body.selection as 'optimal' | 'minimax',
+    );
+    return {
+      numbers: { r1: chosen.r1, n1: chosen.n1, r: chosen.r, n: chosen.n, en0: chosen.expectedN.poorResponse, pet0: chosen.pet0, typeIError: chosen.alphaR, power: chosen.power },
+      safety: {
+        safetyRule: rule,
+        toxicity,
+        boundary: null,
+        bryantDay: { toxAcceptable, toxUnacceptable, alphaT, t1: chosen.t1, t: chosen.t, attainedAlphaT: chosen.alphaT, expectedNHighToxicity: chosen.expectedN.highToxicity },
+      },
+    };
+  }
+  const numbers = await runChosenDesign(settings, body.selection, body.admissibleIndex ?? null);
+  if (rule === 'none') return { numbers, safety: { safetyRule: rule, toxicity: null, boundary: null, bryantDay: null } };
+  const theta = body.toxTheta as number;
+  const alpha = body.toxAlpha as number;
+  // The boundary watches the design's n patients.
+  return { numbers, safety: { safetyRule: rule, toxicity, boundary: { theta, alpha, ...toxicityBoundary({ n: numbers.n, theta, alpha }) }, bryantDay: null } };
+}
 
 export type SignDesignInput = {
   cohortId: string;
@@ -70,12 +124,12 @@ export type SignDesignInput = {
 };
 
 /** Signs a new design version for a cohort: version 1, a revision before enrolment, or an amendment. */
-export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): Promise<DesignVersion> {
+export async function signDesign(db: Db, hooks: Hooks, actor: Actor, input: SignDesignInput): Promise<DesignVersion> {
   const { body } = input;
   const trialId = actor.access.trialId;
   const signer = { id: actor.user.id, email: actor.user.email };
   const settings = { p0: body.p0, p1: body.p1, alpha: body.alpha, beta: body.beta, nmax: body.nmax };
-  const numbers = await runChosenDesign(settings, body.selection, body.admissibleIndex ?? null);
+  const { numbers, safety } = await computeSignedNumbers(body);
   const reason = body.reason?.trim() || null;
   return db.transaction(async (trx) => {
     const cohort = await findCohort(trx, trialId, input.cohortId, { lock: true });
@@ -126,6 +180,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       selection: body.selection,
       ...settings,
       ...numbers,
+      ...safety,
       analysisPopulation: body.analysisPopulation,
       interimAccrual: body.interimAccrual,
       sponsorSeesResponse: body.sponsorSeesResponse,
@@ -158,6 +213,7 @@ export async function signDesign(db: Db, actor: Actor, input: SignDesignInput): 
       after: { ...summary(saved), cohortId: cohort.id, signatureId: signature.id, meaning },
       reason: saved.amendmentReason,
     });
+    await emit(trx, hooks.designSigned, { trialId, cohortId: cohort.id, version, actorUserId: signer.id });
     const [withSignature] = (await listDesignVersions(trx, [cohort.id])).filter((v) => v.id === designId);
     return withSignature;
   });

@@ -6,14 +6,19 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import type { CohortAnalysis, CutKind } from '../data-cuts/index.js';
+import type { CohortAnalysis, CohortSafetyAnalysis, CutKind } from '../data-cuts/index.js';
 
 type Conn = Db | Knex.Transaction;
 
 /** The cohort-level part of a cut's analysis that a release makes visible (no sites, no patients, no path). */
 export type ReleasedAnalysis = Pick<CohortAnalysis, 'responseRate' | 'exactTest' | 'rule' | 'inference' | 'bayes'> & {
   counts: NonNullable<CohortAnalysis['counts']>;
+  /** The cohort's safety at the cut (releases made before safety monitoring have none). */
+  safety?: ReleasedSafety;
 };
+
+/** The cohort-level part of a cut's safety section that a release makes visible (no study IDs, no event ids). */
+export type ReleasedSafety = Pick<CohortSafetyAnalysis, 'safetyRule' | 'counts' | 'toxicityRate' | 'state' | 'joint' | 'sentences'>;
 
 export type ReleasedFigures = ReleasedAnalysis & {
   cohortId: string;

@@ -13,12 +13,18 @@ import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
 import { findCohort, transitionCohort, type Cohort } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';
-import { DECISION_SUPPORT_ONLY, INTERIM_DATA, POPULATION_IN_A_SENTENCE, STATUS_IN_A_SENTENCE, plural } from '../words/index.js';
+import { DECISION_SUPPORT_ONLY, INTERIM_DATA, POPULATION_IN_A_SENTENCE, SAFETY_PAUSED, STATUS_IN_A_SENTENCE, plural } from '../words/index.js';
 import { countablePatients, currentStages, setStage } from './patients.repository.js';
 
 /** Refuses an enrolment the cohort's state or design does not allow (409, with the reason in words). */
-export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status'>, design: LockedDesign | undefined): LockedDesign {
+export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status' | 'safetyPause'>, design: LockedDesign | undefined): LockedDesign {
   if (!design) throw new ConflictError(`Cohort ${cohort.code} has no locked design yet, so it cannot enrol patients.`, { cohortStatus: cohort.status });
+  if (cohort.safetyPause) {
+    throw new ConflictError(
+      `${SAFETY_PAUSED} of cohort ${cohort.code}: ${cohort.safetyPause.reason} Enrolment resumes only when the statistician applies the committee's decision to resume accrual.`,
+      { cohortStatus: cohort.status, safetyPause: cohort.safetyPause },
+    );
+  }
   if (cohort.status === 'enrolling_stage_1' || cohort.status === 'enrolling_stage_2') return design;
   if (cohort.status === 'interim_review') {
     if (design.interimAccrual === 'continue_at_risk') return design;

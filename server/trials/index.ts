@@ -2,8 +2,8 @@
  * Trial set-up: the routes, the trials store (trials, cohorts, trial sites, protocol settings) and
  * the cohort's life. Other features import this feature only through this file.
  */
-export { canTransition, transitionCohort } from './cohort-status.js';
+export { canTransition, pauseForSafety, resumeAfterSafetyReview, safetyReviewOf, transitionCohort } from './cohort-status.js';
 export { findCohort, findProtocolSettings, findTrial, findTrialHeading, listCohorts, listTrialSites, listTrialsForUser, lockCohort, lockTrialHeading, trialCode, trialFacts } from './trials.repository.js';
-export type { Cohort, CohortRef, CohortStatus, ProtocolSettings, SiteRef, Trial, TrialFacts, TrialForUser } from './trials.repository.js';
+export type { Cohort, CohortRef, SafetyPause, CohortStatus, ProtocolSettings, SiteRef, Trial, TrialFacts, TrialForUser } from './trials.repository.js';
 export { trialsRoutes } from './trials.routes.js';
 export type { StopCategory } from './trials.schema.js';

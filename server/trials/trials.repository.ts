@@ -20,7 +20,11 @@ export type Cohort = {
   stopReason: string | null;
   statusChangedAt: string;
   version: number;
+  /** Set while accrual is paused because the cohort's safety rule was crossed (the reason carries no figures). */
+  safetyPause: SafetyPause | null;
 };
+
+export type SafetyPause = { since: string; reason: string };
 
 export type Trial = {
   id: string;
@@ -60,6 +64,10 @@ export type CohortRow = {
   stop_reason: string | null;
   status_changed_at: Date;
   version: number;
+  safety_paused_at: Date | null;
+  safety_pause_reason: string | null;
+  safety_pause_toxicities: number | null;
+  safety_reviewed_toxicities: number | null;
 };
 
 export function toCohort(row: CohortRow): Cohort {
@@ -73,6 +81,7 @@ export function toCohort(row: CohortRow): Cohort {
     stopReason: row.stop_reason,
     statusChangedAt: row.status_changed_at.toISOString(),
     version: row.version,
+    safetyPause: row.safety_paused_at ? { since: row.safety_paused_at.toISOString(), reason: row.safety_pause_reason ?? '' } : null,
   };
 }
 
@@ -363,7 +372,7 @@ export async function lockCohort(trx: Knex.Transaction, cohortId: string): Promi
 export async function setCohortStatus(
   trx: Knex.Transaction,
   cohortId: string,
-  change: { status: CohortStatus; stopCategory: string | null; stopReason: string | null },
+  change: { status: CohortStatus; stopCategory: string | null; stopReason: string | null; endSafetyPause?: boolean },
 ): Promise<void> {
   await trx('cohorts')
     .where({ id: cohortId })
@@ -373,5 +382,30 @@ export async function setCohortStatus(
       stop_reason: change.stopReason,
       status_changed_at: trx.fn.now(),
       version: trx.raw('version + 1'),
+      ...(change.endSafetyPause ? { safety_paused_at: null, safety_pause_reason: null, safety_pause_toxicities: null } : {}),
     });
+}
+
+/** Starts a safety pause of the cohort's accrual (the status stays: the pause sits beside it). */
+export async function setSafetyPause(trx: Knex.Transaction, cohortId: string, pause: { reason: string; toxicities: number }): Promise<void> {
+  await trx('cohorts')
+    .where({ id: cohortId })
+    .update({ safety_paused_at: trx.fn.now(), safety_pause_reason: pause.reason, safety_pause_toxicities: pause.toxicities, version: trx.raw('version + 1') });
+}
+
+/**
+ * The toxicity counts behind a cohort's safety pauses — safety figures, so they stay out of the
+ * cohort record everyone reads: the count that started the current pause, and the count the
+ * committee reviewed when accrual last resumed.
+ */
+export async function findSafetyReview(db: Db, cohortId: string): Promise<{ pauseToxicities: number | null; reviewedToxicities: number | null } | undefined> {
+  const row = await db('cohorts').where({ id: cohortId }).first('safety_pause_toxicities', 'safety_reviewed_toxicities');
+  return row && { pauseToxicities: row.safety_pause_toxicities, reviewedToxicities: row.safety_reviewed_toxicities };
+}
+
+/** Ends a safety pause, remembering how many toxicities the committee reviewed. */
+export async function clearSafetyPause(trx: Knex.Transaction, cohortId: string, reviewedToxicities: number): Promise<void> {
+  await trx('cohorts')
+    .where({ id: cohortId })
+    .update({ safety_paused_at: null, safety_pause_reason: null, safety_pause_toxicities: null, safety_reviewed_toxicities: reviewedToxicities, version: trx.raw('version + 1') });
 }

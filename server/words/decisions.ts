@@ -12,6 +12,8 @@ export const RECOMMENDATION_WORDS: Record<RecommendationDecision, Worded> = {
   stop_futility: { label: 'Stop for futility', glyph: GLYPHS.futility },
   stop_other: { label: 'Stop for another reason', glyph: GLYPHS.stopped },
   modify_protocol: { label: 'Modify the protocol', glyph: GLYPHS.change },
+  resume_accrual: { label: 'Resume accrual after the safety review', glyph: GLYPHS.resumed },
+  stop_safety: { label: 'Stop for safety', glyph: GLYPHS.stopped },
 };
 
 /** A decision the statistician applies to a cohort from a data cut. */
@@ -20,6 +22,7 @@ export const DECISION_WORDS: Record<DecisionAction, Worded> = {
   stop: { label: 'Stop the cohort', glyph: GLYPHS.stopped },
   final_analysis: { label: 'Go to the final analysis', glyph: GLYPHS.finalAnalysis },
   complete: { label: 'Complete the cohort', glyph: GLYPHS.done },
+  resume_accrual: { label: 'Resume accrual after the safety review', glyph: GLYPHS.resumed },
 };
 
 /** Stands for the recommendation in the signature's wording until the member has chosen one. */

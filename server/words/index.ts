@@ -16,7 +16,9 @@
  * - outcomes.ts — outcomes, evaluability, timepoint responses;
  * - people.ts — roles as people say them;
  * - counts.ts — counts, the names of the denominators and the glossary;
- * - cautions.ts — the standing cautions and those beside each decision point.
+ * - cautions.ts — the standing cautions and those beside each decision point;
+ * - safety.ts — adverse events (CTCAE grades, attribution, outcome), the toxicity definition, the
+ *   safety rules' states, the joint verdict and safety's Needs attention items.
  */
 export { GLYPHS, GLYPH_MEANINGS, type GlyphMeaning, type Worded } from './glyphs.js';
 export {
@@ -47,4 +49,27 @@ export {
   REPORT_FOOTER_CAUTION,
   SIZE_DEVIATION,
 } from './cautions.js';
+export {
+  ATTRIBUTION_WORDS,
+  attributionText,
+  CTCAE_SOURCE,
+  crossingSentence,
+  describeJointVerdict,
+  describeSafetyState,
+  eventAwaitsAssessment,
+  EVENT_OUTCOME_WORDS,
+  frozenEventsMissing,
+  GRADE_WORDS,
+  gradeText,
+  responseOnlySafety,
+  SAFETY_ATTENTION_WORDS,
+  SAFETY_PAUSED,
+  safetyPauseReason,
+  SAFETY_RULE_WORDS,
+  seriousEventUnattested,
+  TOXICITY_STATUS_WORDS,
+  toxicityDefinitionSentence,
+  toxicityWindowClosing,
+  type JointVerdict,
+} from './safety.js';
 export { liveFiguresHidden, releasedAsOf, type HiddenAudience } from './visibility.js';

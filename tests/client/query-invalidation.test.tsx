@@ -16,6 +16,9 @@ import { dataCutKeys } from '../../client/src/features/data-cuts';
 import { designKeys } from '../../client/src/features/designs/query-keys';
 import { peopleKeys } from '../../client/src/features/people/query-keys';
 import { reviewKeys } from '../../client/src/features/committee-review/query-keys';
+import { safetyKeys } from '../../client/src/features/safety';
+import { useAddEvent } from '../../client/src/features/safety/use-add-event';
+import { useAttestEvent } from '../../client/src/features/safety/use-attest-event';
 import { useRecordOutcome } from '../../client/src/features/patients/use-record-outcome';
 import { useAttestOutcome } from '../../client/src/features/patients/use-attest-outcome';
 import { useAddAssessment } from '../../client/src/features/assessments/use-add-assessment';
@@ -52,6 +55,9 @@ const CACHED: Record<string, QueryKey> = {
   'data cut': dataCutKeys.detail(CUT),
   'data cut analysis': dataCutKeys.analysis(CUT, {}),
   recommendations: reviewKeys.recommendations(CUT),
+  'patient adverse events': safetyKeys.patientEvents(TRIAL_ID, PATIENT),
+  'adverse event list': safetyKeys.list(TRIAL_ID, { page: 1, pageSize: 50 }),
+  'safety state': safetyKeys.state(TRIAL_ID),
   'other trial record': trialKeys.detail(OTHER_TRIAL),
   'other trial patient list': patientKeys.list(OTHER_TRIAL, filters),
   'signed-in user': authKeys.me(),
@@ -86,7 +92,7 @@ describe('what a write marks stale', () => {
     await act(() => result.current.mutateAsync(outcomeInput));
 
     expect(staleNames(queryClient)).toEqual(
-      ['patient', 'patient history', 'patient list', 'patient assessments', 'needs attention', 'evaluation', 'accrual', 'portfolio'].sort(),
+      ['patient', 'patient history', 'patient list', 'patient assessments', 'needs attention', 'evaluation', 'accrual', 'portfolio', 'safety state'].sort(),
     );
   });
 
@@ -110,7 +116,7 @@ describe('what a write marks stale', () => {
 
   it.each([
     ['entered', ['patient', 'patient history', 'patient list', 'needs attention']],
-    ['derived', ['patient', 'patient history', 'patient list', 'needs attention', 'evaluation', 'accrual', 'portfolio']],
+    ['derived', ['patient', 'patient history', 'patient list', 'needs attention', 'evaluation', 'accrual', 'portfolio', 'safety state']],
   ])('when an assessment is added and the protocol’s outcomes are %s, then the panel takes the answer and only what the derivation can change is stale', async (outcomeSource, expected) => {
     const view = { outcomeSource, assessments: [], assessment: { id: 'a-0001' } };
     stubFetch({ status: 201, body: view });
@@ -139,5 +145,32 @@ describe('what a write marks stale', () => {
     await act(() => result.current.mutateAsync({ decision: 'continue', rationale: 'Stage 1 passed as planned.', analysisVersion: 1 }));
 
     expect(staleNames(queryClient)).toEqual(['data cut', 'recommendations', 'data cut list', 'portfolio', 'signed-in user'].sort());
+  });
+
+  it('when an adverse event is recorded, then the patient’s events, the event list and the live safety state are stale, and nothing else', async () => {
+    stubFetch({ status: 201, body: { events: [], safety: { paused: false, state: null } } });
+    const { result, queryClient } = renderHookWithApp(() => useAddEvent(TRIAL_ID, PATIENT));
+    fillCache(queryClient);
+    await act(() => result.current.mutateAsync({ onsetOn: '2026-04-01', term: 'Rash', grade: 1, attribution: 'possible', serious: false, outcome: 'recovered' }));
+
+    expect(staleNames(queryClient)).toEqual(['patient adverse events', 'adverse event list', 'safety state'].sort());
+  });
+
+  it('when an adverse event crosses the safety rule and pauses accrual, then everything about the trial and the Portfolio is stale, but not another trial', async () => {
+    stubFetch({ status: 201, body: { events: [], safety: { paused: true, state: null } } });
+    const { result, queryClient } = renderHookWithApp(() => useAddEvent(TRIAL_ID, PATIENT));
+    fillCache(queryClient);
+    await act(() => result.current.mutateAsync({}));
+
+    expect(staleNames(queryClient)).toEqual([...EVERYTHING_OF_THE_TRIAL].sort());
+  });
+
+  it('when an adverse event is attested, then only the events are stale: no figure counts attestations', async () => {
+    stubFetch({ status: 201, body: { event: { id: 'e-0001' } } });
+    const { result, queryClient } = renderHookWithApp(() => useAttestEvent(TRIAL_ID, PATIENT));
+    fillCache(queryClient);
+    await act(() => result.current.mutateAsync({ eventId: 'e-0001', version: 1 }));
+
+    expect(staleNames(queryClient)).toEqual(['patient adverse events', 'adverse event list'].sort());
   });
 });

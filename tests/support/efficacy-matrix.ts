@@ -9,7 +9,8 @@ import type { RoleName } from './factories.js';
 /**
  * Keys that carry an efficacy figure anywhere in an answer: responders, rates and intervals,
  * tests and p-values, verdicts, responder paths, Bayesian probabilities, the committee's verdict,
- * and the projections' released and own-site parts.
+ * the projections' released and own-site parts, and safety figures (toxicities, the toxicity rate,
+ * the joint response-and-toxicity verdict), which the rule treats as efficacy figures.
  */
 export const EFFICACY_KEYS = [
   'responders',
@@ -30,6 +31,9 @@ export const EFFICACY_KEYS = [
   'lastRecommendation',
   'released',
   'ownSites',
+  'toxicities',
+  'toxicityRate',
+  'joint',
 ];
 
 /** The three fixture trials: nothing released, a cut released by a committee decision, a design that lets sponsors see response. */
@@ -56,6 +60,7 @@ export const OWN_SITE: Partial<Record<RoleName, string>> = { coordinator: 'SA', 
 
 /** Keys of a projected cohort that carry live efficacy. */
 const EVALUATION_LIVE = ['responders', 'stage1', 'stage2', 'rate', 'test', 'rule', 'earlyDetermination', 'accrual', 'notes', 'path'];
+const SAFETY_LIVE = ['counts', 'rate', 'state', 'sentences'];
 const PORTFOLIO_LIVE = ['responders', 'outcomesKnown', 'responseRate', 'stage1Responders', 'lastRecommendation'];
 
 // Response bodies as supertest hands them over: untyped JSON.
@@ -95,6 +100,7 @@ export const EFFICACY_ROUTES: Record<string, RouteEfficacy> = {
   'get /api/trials/:trialId/patients/:patientId/history': { kind: 'patient-records' },
   'get /api/trials/:trialId/patients/:patientId/assessments': { kind: 'patient-records' },
   'get /api/trials/:trialId/needs-attention': { kind: 'patient-records' },
+  'get /api/trials/:trialId/safety/needs-attention': { kind: 'patient-records' },
   'get /api/trials/:trialId/data-cuts': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/analysis': { kind: 'frozen-cut' },
@@ -102,6 +108,11 @@ export const EFFICACY_ROUTES: Record<string, RouteEfficacy> = {
   'get /api/data-cuts/:cutId/report.pdf': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/export.csv': { kind: 'frozen-cut' },
   'get /api/data-cuts/:cutId/adrs.csv': { kind: 'frozen-cut' },
+  'get /api/data-cuts/:cutId/ae.csv': { kind: 'frozen-cut' },
+  'get /api/trials/:trialId/adverse-events': { kind: 'patient-records' },
+  'get /api/trials/:trialId/adverse-events/import-template.csv': OPERATIONAL,
+  'get /api/trials/:trialId/patients/:patientId/adverse-events': { kind: 'patient-records' },
+  'get /api/trials/:trialId/safety': { kind: 'projected', cohorts: (body) => body.cohorts ?? [], live: SAFETY_LIVE, ownSites: false },
   'get /api/trials/:trialId/evaluation': { kind: 'projected', cohorts: (body) => body.cohorts ?? [], live: EVALUATION_LIVE, ownSites: true },
   'get /api/portfolio': { kind: 'projected', cohorts: (body, trialId) => (body.portfolio?.rows ?? []).filter((r) => r.trialId === trialId), live: PORTFOLIO_LIVE, ownSites: false },
   'get /api/dev/digest-preview': { kind: 'digest' },

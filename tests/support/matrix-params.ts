@@ -8,6 +8,7 @@ import type { TrialFixture } from './factories.js';
 import { createPendingMembership } from './people-factories.js';
 import { matrixCut } from './data-cut-factories.js';
 import { matrixAssessment, matrixPatient } from './assessment-factories.js';
+import { matrixEvent } from './safety-factories.js';
 
 export type ParamContext = { stack: Stack; trial: TrialFixture };
 
@@ -21,4 +22,6 @@ export const paramFixtures: Record<string, (context: ParamContext) => Promise<st
   // One patient at the coordinator's site, and one assessment of that patient.
   patientId: async ({ stack, trial }) => matrixPatient(stack.db, trial),
   assessmentId: async ({ stack, trial }) => matrixAssessment(stack.db, trial, await matrixPatient(stack.db, trial)),
+  // One adverse event of that patient.
+  eventId: async ({ stack, trial }) => matrixEvent(stack.db, trial, await matrixPatient(stack.db, trial)),
 };

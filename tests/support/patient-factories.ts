@@ -25,6 +25,8 @@ export type DirectDesign = {
   sponsorSeesResponse?: boolean;
   /** The cohort's status after locking; a draft cohort starts enrolling by default. */
   cohortStatus?: string;
+  /** Further columns of the design version (a safety rule), written with it: the rows are append-only. */
+  columns?: Record<string, unknown>;
 };
 
 /**
@@ -78,6 +80,7 @@ export async function lockDesignDirectly(db: Db, input: DirectDesign): Promise<{
       signature_id: signatureId,
       created_by: signerId,
       amendment_reason: version === 1 ? null : 'Amended in a test',
+      ...input.columns,
     })
     .returning('id');
   if (input.cohortStatus) await db('cohorts').where({ id: input.cohortId }).update({ status: input.cohortStatus });

@@ -7,6 +7,7 @@ import { peopleFeature } from '../features/people/routes';
 import { designsFeature } from '../features/designs/routes';
 import { patientsFeature } from '../features/patients/routes';
 import { assessmentsFeature } from '../features/assessments/routes';
+import { safetyFeature } from '../features/safety/routes';
 import { dataCutsFeature } from '../features/data-cuts/routes';
 import { committeeReviewFeature } from '../features/committee-review/routes';
 import { accrualFeature } from '../features/accrual/routes';
@@ -22,6 +23,7 @@ export const features: Feature[] = [
   designsFeature,
   patientsFeature,
   assessmentsFeature,
+  safetyFeature,
   dataCutsFeature,
   committeeReviewFeature,
   accrualFeature,

@@ -1,7 +1,7 @@
 /** Small shared building blocks in Orrery's look: ink navy, one brass accent, dense and print-like. */
 import type { ButtonHTMLAttributes, ReactNode } from 'react';
 import { ApiError } from '../lib/api';
-import { CAUTIONS, GLYPHS, STATUS_WORDS, type TrialStatus, type Worded } from '../../../server/words';
+import { CAUTIONS, GLYPHS, SAFETY_PAUSED, STATUS_WORDS, type TrialStatus, type Worded } from '../../../server/words';
 
 export function Button({
   variant = 'primary',
@@ -140,6 +140,16 @@ export function StatusTag({ status }: { status: TrialStatus }) {
   return (
     <span className={`inline-flex items-center gap-1 rounded-sm border px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap ${tone}`}>
       <Glyphed word={STATUS_WORDS[status]} />
+    </span>
+  );
+}
+
+/** Beside a cohort's status: its accrual is paused because its safety rule was crossed. */
+export function SafetyPauseTag() {
+  return (
+    <span className="inline-flex items-center gap-1 rounded-sm border border-alert-600 px-1.5 py-0.5 text-xs font-semibold whitespace-nowrap text-alert-600">
+      <span aria-hidden>{GLYPHS.paused}</span>
+      {SAFETY_PAUSED}
     </span>
   );
 }

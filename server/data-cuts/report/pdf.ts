@@ -1,6 +1,7 @@
 /**
  * The PDF report of a data cut: trial and design, the cut's counts and hash, every analysis as a
- * table, the boundary chart drawn with vector lines, the cautions, and the committee's signed
+ * table, the boundary chart drawn with vector lines, the safety section (adverse events by grade
+ * and attribution, toxicities against the locked rule), the cautions, and the committee's signed
  * recommendations and applied decisions. Built from the same analysis object the API returns, so
  * its figures are the engine's, and worded by the words module, so it reads as the pages do. Set in
  * the shipped Inter, embedded (fonts.ts), so α, β, ≤ and θ print as themselves. Every page carries
@@ -13,14 +14,18 @@ import type { AppliedDecision, DataCut, Recommendation } from '../data-cuts.repo
 import type { CohortAnalysis } from '../analysis.js';
 import type { CutAnalysis } from '../data-cuts.service.js';
 import {
+  ATTRIBUTION_WORDS,
+  CTCAE_SOURCE,
   CUT_KIND_LABELS,
   DECISION_SUPPORT_ONLY,
   DECISION_WORDS,
+  GRADE_WORDS,
   METHOD_NAMES,
   OPEN_ISSUE_WORDS,
   POPULATION_COUNTS,
   RECOMMENDATION_WORDS,
   REPORT_FOOTER_CAUTION,
+  SAFETY_RULE_WORDS,
   SELECTION_LABELS,
   SENSITIVITY_LABEL,
   SETTLED_EARLY,
@@ -31,6 +36,7 @@ import {
   type Worded,
 } from '../../words/index.js';
 import { reportFonts } from './fonts.js';
+import type { CohortSafetyAnalysis } from '../safety-analysis.js';
 
 export type ReportInput = {
   cut: DataCut;
@@ -347,6 +353,34 @@ function cohortSection(doc: Doc, c: CohortAnalysis) {
   for (const caution of c.cautions) paragraph(doc, `Caution: ${caution}`, { color: BRASS });
 }
 
+/** A cohort's safety at the cut: events by grade and attribution, the toxicity rate, the rule's state and the joint verdict. */
+function safetySection(doc: Doc, s: CohortSafetyAnalysis) {
+  heading(doc, `Safety — cohort ${s.code} (${SAFETY_RULE_WORDS[s.safetyRule]})`);
+  for (const sentence of s.sentences) paragraph(doc, sentence);
+  if (!s.eventsFrozen) return;
+  paragraph(doc, `${s.events.total} adverse events in ${s.events.patients} patients, ${s.events.serious} serious. Grades: ${CTCAE_SOURCE}.`, { color: MUTED });
+  if (s.events.total > 0) {
+    const attributions = Object.keys(ATTRIBUTION_WORDS) as Array<keyof typeof ATTRIBUTION_WORDS>;
+    table(doc, [
+      ['Grade', ...attributions.map((a) => ATTRIBUTION_WORDS[a]), 'Not assessed', 'All', 'Serious'],
+      ...s.events.byGrade.map((row) => [
+        row.grade === null ? 'Not graded' : `${row.grade} ${GRADE_WORDS[row.grade]}`,
+        ...attributions.map((a) => String(row.byAttribution[a])),
+        String(row.byAttribution.not_assessed),
+        String(row.total),
+        String(row.serious),
+      ]),
+    ], [1.4, 1, 1, 1, 1, 1, 1, 0.7, 0.7]);
+  }
+  if (s.counts) {
+    table(doc, [
+      ['Enrolled', 'Toxicities', 'No toxicity', 'Not yet assessable', 'Toxicity rate', `${Math.round((s.toxicityRate?.confLevel ?? 0.95) * 100)}% exact interval`],
+      [String(s.counts.enrolled), String(s.counts.toxic), String(s.counts.notToxic), String(s.counts.notAssessable), fig.pct(s.toxicityRate?.estimate), fig.ci(s.toxicityRate?.ci)],
+    ]);
+  }
+  if (s.toxicPatients.length > 0) paragraph(doc, `Patients counted as toxicities: ${s.toxicPatients.join(', ')}.`, { color: MUTED });
+}
+
 export async function renderCutReport(input: ReportInput): Promise<Buffer> {
   const { cut, analysis } = input;
   const cutAt = new Date(cut.cutAt);
@@ -397,6 +431,8 @@ export async function renderCutReport(input: ReportInput): Promise<Buffer> {
       ...analysis.multiplicity.rows.map((r) => [r.code, String(r.p0), `${fig.p(r.pValue)} (${r.basis === 'stage-wise' ? 'stage-wise' : 'exact binomial'})`, fig.p(r.holm), fig.p(r.bh)]),
     ]);
   }
+
+  for (const safety of analysis.safety) safetySection(doc, safety);
 
   heading(doc, `Open data issues at the cut (${analysis.openIssues.length})`);
   if (analysis.openIssues.length === 0) paragraph(doc, 'None.');

@@ -8,14 +8,14 @@ import type { Knex } from 'knex';
 import { writeAudit } from '../../audit/audit.js';
 import { currentDesign } from '../../designs/index.js';
 import { canTransition, type CohortStatus } from '../../trials/index.js';
-import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseCohort, signWithin, type DecisionAction, type RecommendationDecision } from '../../data-cuts/index.js';
+import { applyWithin, DECISION_TARGET, freezeWithin, insertDecision, releaseCohort, signWithin, type RecommendationDecision, type StatusDecision } from '../../data-cuts/index.js';
 import type { SessionUser } from '../../auth/access.js';
 import { demoSigningSession } from './signing.js';
 
 type Plan = {
   code: string;
   recommendation?: { decision: RecommendationDecision; rationale: string };
-  decision?: { action: DecisionAction; reason: string; stopCategory?: 'futility' };
+  decision?: { action: StatusDecision; reason: string; stopCategory?: 'futility' };
 };
 
 const PLANS: Plan[] = [

@@ -1,7 +1,8 @@
 /**
  * Demo designs: a signed design for every cohort of TSY-201 to TSY-204, locked by the demo
  * statistician, and each cohort walked through the status machine to where the demo scenario has it.
- * TSY-205 stays a draft with no design. Idempotent: a cohort that has a design is left alone.
+ * TSY-201 also monitors toxicity with a continuous boundary (invented settings). TSY-205 stays a
+ * draft with no design. Idempotent: a cohort that has a design is left alone.
  */
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
@@ -10,6 +11,7 @@ import { recordSignature } from '../../signatures/signatures.js';
 import { demoSigningSession } from './signing.js';
 import { transitionCohort, type CohortStatus, type StopCategory } from '../../trials/index.js';
 import { chosenDesign, signatureMeaning, type Selection } from '../../designs/index.js';
+import { toxicityBoundary } from '../../stats/index.js';
 
 type DemoDesign = {
   trial: string;
@@ -24,6 +26,8 @@ type DemoDesign = {
   /** The statuses the cohort passes through after draft, in order. */
   path: CohortStatus[];
   stop?: { category: StopCategory; reason: string };
+  /** A continuous toxicity boundary over the design's n, with the protocol's toxicity definition. */
+  boundary?: { theta: number; alpha: number; minGrade: number; windowDays: number };
 };
 
 const STAGE_2: CohortStatus[] = ['enrolling_stage_1', 'interim_review', 'enrolling_stage_2'];
@@ -40,6 +44,7 @@ const DEMO_DESIGNS: DemoDesign[] = [
     sponsorSeesResponse: false,
     protocolReference: 'TSY-201-PRT v2.0',
     path: STAGE_2,
+    boundary: { theta: 0.25, alpha: 0.1, minGrade: 3, windowDays: 28 },
   },
   {
     trial: 'TSY-202',
@@ -107,6 +112,20 @@ export async function seedDesigns(trx: Knex.Transaction, trials: Map<string, str
       cohortCode: demo.cohort,
     });
     const designId = randomUUID();
+    const boundary = demo.boundary && toxicityBoundary({ n: numbers.n, theta: demo.boundary.theta, alpha: demo.boundary.alpha });
+    const safety =
+      demo.boundary && boundary
+        ? {
+            safety_rule: 'toxicity_boundary',
+            tox_min_grade: demo.boundary.minGrade,
+            tox_window_days: demo.boundary.windowDays,
+            tox_theta: demo.boundary.theta,
+            tox_alpha: demo.boundary.alpha,
+            tox_bounds: JSON.stringify(boundary.bounds),
+            tox_nominal_level: boundary.nominalLevel,
+            tox_crossing_probability: boundary.crossingProbability,
+          }
+        : {};
     const intent = { action: 'design' as const, subjectId: cohort.id };
     const signature = await recordSignature(trx, {
       trialId,
@@ -116,7 +135,7 @@ export async function seedDesigns(trx: Knex.Transaction, trials: Map<string, str
       meaning,
       subjectType: 'design',
       subjectId: designId,
-      content: { trialId, cohortCode: demo.cohort, version: 1, selection: demo.selection, ...settings, ...numbers },
+      content: { trialId, cohortCode: demo.cohort, version: 1, selection: demo.selection, ...settings, ...numbers, ...safety },
     });
     await trx('design_versions').insert({
       id: designId,
@@ -138,6 +157,7 @@ export async function seedDesigns(trx: Knex.Transaction, trials: Map<string, str
       protocol_reference: demo.protocolReference,
       signature_id: signature.id,
       created_by: signer.id,
+      ...safety,
     });
     await writeAudit(trx, {
       actorUserId: signer.id,
@@ -145,7 +165,17 @@ export async function seedDesigns(trx: Knex.Transaction, trials: Map<string, str
       entityType: 'design',
       entityId: designId,
       action: 'design_locked',
-      after: { version: 1, selection: demo.selection, ...settings, r1: numbers.r1, n1: numbers.n1, r: numbers.r, n: numbers.n, meaning },
+      after: {
+        version: 1,
+        selection: demo.selection,
+        ...settings,
+        r1: numbers.r1,
+        n1: numbers.n1,
+        r: numbers.r,
+        n: numbers.n,
+        ...(demo.boundary ? { safetyRule: 'toxicity_boundary', boundary: { theta: demo.boundary.theta, alpha: demo.boundary.alpha } } : {}),
+        meaning,
+      },
     });
     if (cohort.status !== 'draft') continue;
     for (const to of demo.path) {

@@ -4,6 +4,7 @@ import { seedPeopleAndTrials } from './people-and-trials.js';
 import { seedDesigns } from './designs.js';
 import { seedPatients } from './patients.js';
 import { seedDataCuts } from './data-cuts.js';
+import { seedSafety } from './safety.js';
 
 export async function seedDemo(db: Db, today = new Date()): Promise<void> {
   // The demo's invented people and trials (every password "demo") must never reach a real installation.
@@ -12,6 +13,7 @@ export async function seedDemo(db: Db, today = new Date()): Promise<void> {
     const trials = await seedPeopleAndTrials(trx, today);
     await seedDesigns(trx, trials, today);
     await seedPatients(trx, trials, today);
+    await seedSafety(trx, trials, today);
     await seedDataCuts(trx, trials, today);
   });
 }

@@ -1,8 +1,9 @@
 /**
  * Needs attention: per site, what in the assessments wants a look — responses waiting past their
  * confirmation window, SD before the minimum, assessments dated before enrolment, gaps longer
- * than the schedule, entered outcomes that disagree with the derivation. Site roles see their sites,
- * and import assessments from a CSV file here.
+ * than the schedule, entered outcomes that disagree with the derivation — and safety's part (adverse
+ * events without grade or attribution, serious events not attested, toxicity windows closing). Site
+ * roles see their sites, and import assessments from a CSV file here.
  */
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
@@ -12,6 +13,7 @@ import { DataTable } from '../../components/data-table';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
 import { useTrialContext } from '../trials';
+import { SafetyAttention } from '../safety';
 import { ImportPanel } from './import-panel';
 import { useNeedsAttention, type NeedsAttentionItem } from './get-needs-attention';
 import { ATTENTION_WORDS, Tag } from './words';
@@ -82,6 +84,7 @@ export function NeedsAttentionPage() {
           </Panel>
         );
       })}
+      <SafetyAttention trialId={trial.id} />
       {hasAnyRole(trial.myRoles, ['coordinator', 'investigator']) && <ImportPanel trialId={trial.id} />}
       <Cautions items={[INTERIM_DATA, DECISION_SUPPORT_ONLY]} />
     </div>

@@ -1,6 +1,7 @@
 /**
  * The statistician applies the committee's decision: resume accrual for stage 2, stop with a
- * category and reason, go to the final analysis, or complete. Sites and sponsors are e-mailed.
+ * category and reason, go to the final analysis, complete, or resume accrual after a safety pause.
+ * Sites and sponsors are e-mailed.
  */
 import { Form, Formik } from 'formik';
 import { Button, DecisionCaution, ErrorNotice } from '../../components/ui';

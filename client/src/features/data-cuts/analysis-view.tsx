@@ -2,8 +2,8 @@
  * A data cut's analysis as the statistician and the committee read it: per cohort the response
  * rate and its intervals, the exact test, the verdict (with patients enrolled at risk and what could
  * still change it), the two-stage inference with its sensitivity figure, the Bayesian figures, sites,
- * deviations and the boundary chart; then multiplicity, open data issues, the cautions and how
- * verdicts are reached.
+ * deviations and the boundary chart; then multiplicity, the safety section, open data issues, the
+ * cautions and how verdicts are reached.
  */
 import { Suspense, lazy } from 'react';
 import type { ColumnDef } from '@tanstack/react-table';
@@ -13,6 +13,7 @@ import { decimal, percent, pValue } from '../../lib/format';
 import { OPEN_ISSUE_WORDS, POPULATION_COUNTS, SELECTION_LABELS, SENSITIVITY_LABEL, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel, stillOpen } from '../../../../server/words';
 import type { InterimDecision } from '../../../../server/stats/index';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
+import { SafetySection } from './safety-section';
 
 const BoundaryChart = lazy(() => import('./cut-charts').then((m) => ({ default: m.BoundaryChart })));
 const RateChart = lazy(() => import('../../components/rate-chart').then((m) => ({ default: m.RateChart })));
@@ -29,7 +30,7 @@ export function RuleVerdict({ decision, early }: { decision: InterimDecision; ea
   );
 }
 
-function Table({ head, rows, caption }: { head: string[]; rows: Array<Array<string | number>>; caption?: string }) {
+export function Table({ head, rows, caption }: { head: string[]; rows: Array<Array<string | number>>; caption?: string }) {
   return (
     <table className="w-full text-sm tabular-nums">
       {caption && <caption className="pb-1 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase">{caption}</caption>}
@@ -242,6 +243,7 @@ export function AnalysisView({ analysis }: { analysis: Analysis }) {
           </Suspense>
         </Panel>
       )}
+      <SafetySection analysis={analysis} />
       <OpenIssues issues={analysis.openIssues} />
       <Panel title={VERDICT_FIGURE_LABELS.rules}>
         <ol className="list-decimal space-y-1 pl-5 text-sm text-ink-700">

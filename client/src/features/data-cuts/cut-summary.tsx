@@ -58,6 +58,7 @@ export function Downloads({ cut }: { cut: DataCut }) {
       <DownloadButton href={`/api/data-cuts/${cut.id}/report.pdf`} filename={`${base}.pdf`} label="Report (PDF)" busyLabel="Preparing the report" />
       <DownloadButton href={`/api/data-cuts/${cut.id}/export.csv`} filename={`${base}-patients.csv`} label="Patients and outcomes (CSV)" busyLabel="Preparing the export" />
       <DownloadButton href={`/api/data-cuts/${cut.id}/adrs.csv`} filename={`${base}-adrs.csv`} label="Response dataset, ADaM names (CSV)" busyLabel="Preparing the dataset" />
+      <DownloadButton href={`/api/data-cuts/${cut.id}/ae.csv`} filename={`${base}-ae.csv`} label="Adverse events, SDTM AE names (CSV)" busyLabel="Preparing the dataset" />
     </div>
   );
 }

@@ -5,7 +5,7 @@
  */
 import { useState } from 'react';
 import { Form, Formik } from 'formik';
-import { Button, DecisionCaution, ErrorNotice, StatusTag } from '../../components/ui';
+import { Button, DecisionCaution, ErrorNotice, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { SelectField, TextAreaField } from '../../components/field';
 import { dateTime } from '../../lib/format';
 import { cohortTransitionSchema } from '../../../../server/designs/designs.schema';
@@ -28,7 +28,14 @@ export function CohortStatusPanel({ trialId, cohort, isStatistician, isAdmin }: 
     <div className="grid gap-3 text-sm">
       <p className="flex flex-wrap items-center gap-2">
         <StatusTag status={cohort.status} /> since {dateTime(cohort.statusChangedAt)}
+        {cohort.safetyPause && <SafetyPauseTag />}
       </p>
+      {cohort.safetyPause && (
+        <p>
+          Since {dateTime(cohort.safetyPause.since)}: {cohort.safetyPause.reason} Accrual resumes when the statistician applies the committee’s decision on a data cut of
+          this cohort.
+        </p>
+      )}
       {cohort.status === 'stopped' && (
         <p>
           Stopped {stoppedFor(cohort.stopCategory)}: {cohort.stopReason}

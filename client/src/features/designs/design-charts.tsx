@@ -1,7 +1,8 @@
 /**
- * The two charts of a design comparison, loaded on demand (Chart.js stays out of the initial
- * bundle): the probability of declaring the treatment promising, and the expected sample size,
- * against the true response rate, with p0 and p1 marked by vertical lines.
+ * The charts of the Designs page, loaded on demand (Chart.js stays out of the initial bundle): a
+ * line figure over a true rate with its reference rates marked, and the two charts of a design
+ * comparison built on it — the probability of declaring the treatment promising and the expected
+ * sample size against the true response rate, with p0 and p1 marked.
  */
 import { useMemo } from 'react';
 import { Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartOptions, type Plugin } from 'chart.js';
@@ -50,28 +51,42 @@ function rateMarkers(marks: Array<{ value: number; label: string }>): Plugin<'li
   };
 }
 
-type Measure = 'probPromising' | 'expectedN';
+/** One line of a chart: its points, and its label in the legend. */
+export type ChartLine = { label: string; points: Array<{ x: number; y: number }> };
 
-function OneChart({ series, measure, p0, p1, title, description }: { series: Series[]; measure: Measure; p0: number; p1: number; title: string; description: string }) {
-  const plugins = useMemo(() => [rateMarkers([{ value: p0, label: `p0 ${p0}` }, { value: p1, label: `p1 ${p1}` }])], [p0, p1]);
+type FigureProps = {
+  lines: ChartLine[];
+  title: string;
+  description: string;
+  xLabel: string;
+  /** 'probability' fixes the axis to 0–1 and reads three decimals; 'count' starts at 0 and reads one. */
+  y: { label: string; kind: 'probability' | 'count' };
+  marks: Array<{ value: number; label: string }>;
+  /** Every point at a multiple of this x is drawn as a mark (the line's shape tells lines apart besides colour). */
+  markEvery?: number;
+};
+
+/** A titled line chart over a rate, with reference lines at the marked rates. */
+export function LineFigure({ lines, title, description, xLabel, y, marks, markEvery = 0.1 }: FigureProps) {
+  const plugins = useMemo(() => [rateMarkers(marks)], [marks]);
   const data = useMemo(
     () => ({
-      datasets: series.map((s, i) => {
+      datasets: lines.map((line, i) => {
         const style = STYLES[i % STYLES.length];
         return {
-          label: s.label,
-          data: s.curve.map((point) => ({ x: point.p, y: point[measure] })),
+          label: line.label,
+          data: line.points,
           borderColor: style.color,
           backgroundColor: style.color,
           borderDash: [...style.dash],
           borderWidth: 1.75,
           pointStyle: style.point,
-          pointRadius: s.curve.map((point) => (Math.round(point.p * 100) % 10 === 0 ? 3 : 0)),
+          pointRadius: line.points.map((point) => (Math.abs(point.x / markEvery - Math.round(point.x / markEvery)) < 1e-9 ? 3 : 0)),
           tension: 0,
         };
       }),
     }),
-    [series, measure],
+    [lines, markEvery],
   );
   const options = useMemo<ChartOptions<'line'>>(
     () => ({
@@ -81,20 +96,20 @@ function OneChart({ series, measure, p0, p1, title, description }: { series: Ser
       parsing: false,
       interaction: { mode: 'nearest', axis: 'x', intersect: false },
       scales: {
-        x: { type: 'linear', min: 0, max: Math.max(...series.flatMap((s) => s.curve.map((point) => point.p))), title: { display: true, text: 'True response rate' } },
-        y: measure === 'probPromising' ? { min: 0, max: 1, title: { display: true, text: 'Probability' } } : { min: 0, title: { display: true, text: 'Patients' } },
+        x: { type: 'linear', min: 0, max: Math.max(...lines.flatMap((line) => line.points.map((point) => point.x))), title: { display: true, text: xLabel } },
+        y: y.kind === 'probability' ? { min: 0, max: 1, title: { display: true, text: y.label } } : { min: 0, title: { display: true, text: y.label } },
       },
       plugins: {
         legend: { position: 'bottom', labels: { usePointStyle: true, boxWidth: 10, font: { size: 11 } } },
         tooltip: {
           callbacks: {
-            title: (items) => `True rate ${Number(items[0]?.parsed.x).toFixed(2)}`,
-            label: (item) => `${item.dataset.label}: ${measure === 'probPromising' ? Number(item.parsed.y).toFixed(3) : Number(item.parsed.y).toFixed(1)}`,
+            title: (items) => `${xLabel} ${Number(items[0]?.parsed.x).toFixed(2)}`,
+            label: (item) => `${item.dataset.label}: ${y.kind === 'probability' ? Number(item.parsed.y).toFixed(3) : Number(item.parsed.y).toFixed(1)}`,
           },
         },
       },
     }),
-    [series, measure],
+    [lines, xLabel, y],
   );
   return (
     <figure className="flex flex-col gap-1">
@@ -106,23 +121,27 @@ function OneChart({ series, measure, p0, p1, title, description }: { series: Ser
   );
 }
 
+const curveLines = (series: Series[], measure: 'probPromising' | 'expectedN'): ChartLine[] =>
+  series.map((s) => ({ label: s.label, points: s.curve.map((point) => ({ x: point.p, y: point[measure] })) }));
+
 export default function DesignCharts({ series, p0, p1 }: { series: Series[]; p0: number; p1: number }) {
   const names = series.map((s) => s.label).join(', ');
+  const marks = useMemo(() => [{ value: p0, label: `p0 ${p0}` }, { value: p1, label: `p1 ${p1}` }], [p0, p1]);
   return (
     <div className="grid gap-4 md:grid-cols-2">
-      <OneChart
-        series={series}
-        measure="probPromising"
-        p0={p0}
-        p1={p1}
+      <LineFigure
+        lines={curveLines(series, 'probPromising')}
+        marks={marks}
+        xLabel="True response rate"
+        y={{ label: 'Probability', kind: 'probability' }}
         title="Probability of declaring the treatment promising"
         description={`Probability of a promising result against the true response rate for ${names}; p0 ${p0} and p1 ${p1} marked.`}
       />
-      <OneChart
-        series={series}
-        measure="expectedN"
-        p0={p0}
-        p1={p1}
+      <LineFigure
+        lines={curveLines(series, 'expectedN')}
+        marks={marks}
+        xLabel="True response rate"
+        y={{ label: 'Patients', kind: 'count' }}
         title="Expected sample size"
         description={`Expected number of patients against the true response rate for ${names}; p0 ${p0} and p1 ${p1} marked.`}
       />

@@ -1,7 +1,9 @@
 /**
  * Designs: one tab per cohort. The statistician compares candidate designs for p0, p1, α, β
- * and nmax, signs one (version 1), signs new versions with a reason, and opens accrual; the trial
- * manager and the committee read the design in force and its signed history.
+ * and nmax — response designs, with a continuous toxicity boundary when the cohort's safety rule
+ * has one, or Bryant–Day designs of response and toxicity — signs one (version 1), signs new
+ * versions with a reason, and opens accrual; the trial manager and the committee read the design
+ * in force and its signed history.
  */
 import { useState, type KeyboardEvent } from 'react';
 import { useSearchParams } from 'react-router-dom';
@@ -11,14 +13,17 @@ import { designFormSchema, type SignatureKind } from '../../../../server/designs
 import { useTrialContext, type Trial } from '../trials';
 import { useDesigns } from './get-designs';
 import { useDesignCandidates } from './get-design-candidates';
+import { useSafetyDesigns } from './get-safety-designs';
 import { DesignForm } from './design-form';
 import { CandidatesPanel } from './candidates-panel';
+import { BryantDayPanel } from './bryant-day-panel';
+import { BoundaryPanel } from './boundary-panel';
 import { SignDialog } from './sign-dialog';
 import { LockedDesign } from './locked-design';
 import { VersionHistory } from './version-history';
 import { CohortStatusPanel } from './cohort-status-panel';
-import { candidateList, type CandidateDesign, type CohortDesigns, type DesignSettings } from './types';
-import { comparedSettings, initialValues, withValues, type StudioValues } from './url-state';
+import { bryantDayCandidates, candidateList, type CandidateDesign, type CohortDesigns } from './types';
+import { comparedBoundary, comparedSafetySettings, comparedSettings, initialValues, responseSettingsOf, sameAsCompared, withValues, type StudioValues } from './url-state';
 import { GLYPHS } from '../../../../server/words';
 
 export function DesignsPage() {
@@ -70,9 +75,6 @@ export function DesignsPage() {
   );
 }
 
-const SETTING_KEYS = ['p0', 'p1', 'alpha', 'beta', 'nmax'] as const;
-const sameSettings = (values: StudioValues, settings: DesignSettings) => SETTING_KEYS.every((key) => values[key] === settings[key]);
-
 function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesigns }) {
   const [params, setParams] = useSearchParams();
   const formik = useFormikContext<StudioValues>();
@@ -84,10 +86,16 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
   const canSign = isStatistician && !finished;
   const kind: SignatureKind = !current ? 'lock' : cohort.enrolled > 0 ? 'amendment' : 'revision';
   const settings = isStatistician ? comparedSettings(params) : null;
+  const safetySettings = isStatistician ? comparedSafetySettings(params) : null;
+  const boundary = isStatistician ? comparedBoundary(params) : null;
   const candidates = useDesignCandidates(trial.id, settings);
+  const safetyCandidates = useSafetyDesigns(trial.id, safetySettings);
+  const bryantDayList = safetyCandidates.data ? bryantDayCandidates(safetyCandidates.data) : [];
   // Held here for an immediate tick in the checkbox, and mirrored into the address for a shared link.
   const [compare, setCompare] = useState(() => (params.get('compare') ?? '').split(',').filter(Boolean));
-  const signing = candidates.data && params.get('sign') ? candidateList(candidates.data).find((c) => c.key === params.get('sign')) : undefined;
+  const signable = safetySettings ? bryantDayList : candidates.data ? candidateList(candidates.data) : [];
+  const signing = params.get('sign') ? signable.find((c) => c.key === params.get('sign')) : undefined;
+  const signedSettings = safetySettings ? responseSettingsOf(safetySettings) : candidates.data?.settings;
 
   const update = (change: (next: URLSearchParams) => void) =>
     setParams(
@@ -108,7 +116,7 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
       setChooseProblem('Complete the design settings and protocol settings above before signing.');
       return;
     }
-    if (!candidates.data || !sameSettings(formik.values, candidates.data.settings)) {
+    if (!sameAsCompared(formik.values, params)) {
       setChooseProblem('The settings changed since the comparison: compare designs again before signing.');
       return;
     }
@@ -126,7 +134,7 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
         {isStatistician && !finished && (
           <Panel title={current ? 'New version of the design' : 'Design settings'} className="lg:col-span-3">
             <DesignForm
-              computing={candidates.isFetching}
+              computing={candidates.isFetching || safetyCandidates.isFetching}
               onCompare={(values) =>
                 update((next) => {
                   withValues(next, values).forEach((value, key) => next.set(key, value));
@@ -145,6 +153,28 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
       <Panel title="Design in force">
         {current ? <LockedDesign cohort={cohort} design={current} /> : <EmptyState>No design is locked for this cohort yet.</EmptyState>}
       </Panel>
+
+      {isStatistician && safetySettings && (
+        <Panel title="Bryant–Day designs: response and toxicity">
+          {safetyCandidates.error ? (
+            <ErrorNotice error={safetyCandidates.error} title="No Bryant–Day design for these settings" />
+          ) : !safetyCandidates.data ? (
+            <Loading label="Searching every Bryant–Day design up to nmax" />
+          ) : (
+            <div className={safetyCandidates.isFetching ? 'opacity-60' : undefined} aria-busy={safetyCandidates.isFetching}>
+              {chooseProblem && <ErrorNotice error={new Error(chooseProblem)} title="Not ready to sign" />}
+              <BryantDayPanel
+                trialId={trial.id}
+                candidates={bryantDayList}
+                settings={safetySettings}
+                computing={safetyCandidates.isFetching}
+                onChoose={canSign ? (candidate) => void onChoose(candidate) : undefined}
+                chooseLabel={chooseLabel}
+              />
+            </div>
+          )}
+        </Panel>
+      )}
 
       {isStatistician && settings && (
         <Panel
@@ -181,19 +211,25 @@ function CohortWorkspace({ trial, cohort }: { trial: Trial; cohort: CohortDesign
         </Panel>
       )}
 
+      {isStatistician && boundary && candidates.data && (
+        <Panel title="Continuous toxicity boundary">
+          <BoundaryPanel trialId={trial.id} candidates={candidateList(candidates.data)} theta={boundary.theta} alpha={boundary.alpha} />
+        </Panel>
+      )}
+
       <Panel title="Version history">
         {cohort.versions.length === 0 ? <EmptyState>No signed version yet.</EmptyState> : <VersionHistory versions={cohort.versions} />}
       </Panel>
 
       <Cautions />
 
-      {signing && canSign && candidates.data && (
+      {signing && canSign && signedSettings && (
         <SignDialog
           trialId={trial.id}
           trialCode={trial.code}
           cohort={cohort}
           candidate={signing}
-          settings={candidates.data.settings}
+          settings={signedSettings}
           values={formik.values}
           kind={kind}
           currentVersion={current?.version ?? 0}

@@ -1,16 +1,60 @@
-/** The design in force for a cohort: its rule, its exact figures, its protocol settings and its charts. */
+/** The design in force for a cohort: its rule, its exact figures, its protocol settings, its safety rule and its charts. */
 import { lazy, Suspense } from 'react';
 import { Figure, Loading } from '../../components/ui';
 import { dateTime, decimal } from '../../lib/format';
-import { ruleText, SELECTION_LABELS, type CohortDesigns, type DesignVersion } from './types';
+import { SAFETY_RULE_WORDS, toxicityDefinitionSentence } from '../../../../server/words';
+import { BoundaryCharacteristicsTable, BoundaryTable, characteristicRates } from './boundary-table';
+import { designLabel, ruleText, type CohortDesigns, type DesignVersion } from './types';
 
 const DesignCharts = lazy(() => import('./design-charts'));
+const BoundaryCharts = lazy(() => import('./safety-charts').then((m) => ({ default: m.BoundaryCharts })));
+
+function SafetyRule({ cohort, design }: { cohort: CohortDesigns; design: DesignVersion }) {
+  if (design.safetyRule === 'none' || !design.toxicity) {
+    return <p className="text-sm text-ink-600">Safety rule: {SAFETY_RULE_WORDS.none.toLowerCase()}. Adverse events are recorded; no toxicity rule pauses accrual.</p>;
+  }
+  return (
+    <section aria-label="Safety rule" className="grid gap-3 border-t border-ink-100 pt-3">
+      <h3 className="text-sm font-semibold tracking-wide text-ink-900 uppercase">Safety rule: {SAFETY_RULE_WORDS[design.safetyRule]}</h3>
+      <p className="text-sm">{toxicityDefinitionSentence(design.toxicity)}</p>
+      {design.boundary && (
+        <>
+          <div className="flex flex-wrap gap-6">
+            <Figure label="θ / α" value={`${design.boundary.theta} / ${design.boundary.alpha}`} hint={`over n = ${design.boundary.bounds.length}`} />
+            <Figure label="Nominal level" value={decimal(design.boundary.nominalLevel, 4)} />
+            <Figure label="P(stop) at θ" value={decimal(design.boundary.crossingProbability, 4)} hint="exact" />
+          </div>
+          <div className="overflow-x-auto">
+            <BoundaryTable bounds={design.boundary.bounds} />
+          </div>
+          {cohort.currentBoundaryCurve && (
+            <>
+              <BoundaryCharacteristicsTable curve={cohort.currentBoundaryCurve} rates={characteristicRates(design.boundary.theta)} />
+              <Suspense fallback={<Loading label="Loading charts" />}>
+                <BoundaryCharts curve={cohort.currentBoundaryCurve} theta={design.boundary.theta} />
+              </Suspense>
+            </>
+          )}
+        </>
+      )}
+      {design.bryantDay && (
+        <div className="flex flex-wrap gap-6">
+          <Figure label="Stage-1 toxicity limit" value={`${design.bryantDay.t1} / ${design.n1}`} hint="stops with more than t1" />
+          <Figure label="Final toxicity limit" value={`${design.bryantDay.t} / ${design.n}`} hint="promising only with at most t" />
+          <Figure label="Toxicity rates" value={`${design.bryantDay.toxAcceptable} / ${design.bryantDay.toxUnacceptable}`} hint="acceptable / unacceptable" />
+          <Figure label="αT" value={decimal(design.bryantDay.attainedAlphaT, 4)} hint={`at most ${design.bryantDay.alphaT}`} />
+          <Figure label="EN high toxicity" value={decimal(design.bryantDay.expectedNHighToxicity, 1)} />
+        </div>
+      )}
+    </section>
+  );
+}
 
 export function LockedDesign({ cohort, design }: { cohort: CohortDesigns; design: DesignVersion }) {
   return (
     <div className="grid gap-4">
       <p className="text-sm">
-        <strong>Version {design.version}</strong>, {SELECTION_LABELS[design.selection]} design for protocol {design.protocolReference ?? '—'}
+        <strong>Version {design.version}</strong>, {designLabel(design)} design for protocol {design.protocolReference ?? '—'}
         {design.signature && (
           <>
             , signed by {design.signature.signerName ?? design.signature.signerEmail} on {dateTime(design.signature.signedAt)}
@@ -42,6 +86,7 @@ export function LockedDesign({ cohort, design }: { cohort: CohortDesigns; design
           <DesignCharts series={[{ label: `Version ${design.version}: ${ruleText(design)}`, curve: cohort.currentCurve }]} p0={design.p0} p1={design.p1} />
         </Suspense>
       )}
+      <SafetyRule cohort={cohort} design={design} />
     </div>
   );
 }

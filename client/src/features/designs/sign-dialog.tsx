@@ -18,16 +18,16 @@ import {
   signatureMeaning,
   type SignatureKind,
 } from '../../../../server/designs/designs.schema';
-import { INTERIM_ACCRUAL_LABELS, POPULATION_LABELS } from '../../../../server/words';
+import { INTERIM_ACCRUAL_LABELS, POPULATION_LABELS, SAFETY_RULE_WORDS, toxicityDefinitionSentence } from '../../../../server/words';
 import { useSignDesign } from './use-sign-design';
 import { pendingReason, type StudioValues } from './url-state';
-import { ruleText, SELECTION_LABELS, type CandidateDesign, type DesignSettings } from './types';
+import { ruleText, SELECTION_LABELS, type BryantDayDesign, type CandidateDesign, type DesignSettings } from './types';
 
 type Props = {
   trialId: string;
   trialCode: string;
   cohort: { id: string; code: string };
-  candidate: CandidateDesign;
+  candidate: CandidateDesign & { bryantDay?: BryantDayDesign };
   settings: DesignSettings;
   values: StudioValues;
   kind: SignatureKind;
@@ -40,6 +40,51 @@ type Props = {
 
 const POPULATION = POPULATION_LABELS;
 const INTERIM = INTERIM_ACCRUAL_LABELS;
+
+/** The safety rule's part of the body: only the fields its rule uses. */
+function safetyFields(values: StudioValues) {
+  const { safetyRule } = values;
+  return {
+    safetyRule,
+    ...(safetyRule !== 'none' ? { toxMinGrade: values.toxMinGrade, toxWindowDays: values.toxWindowDays } : {}),
+    ...(safetyRule === 'toxicity_boundary' ? { toxTheta: values.toxTheta, toxAlpha: values.toxAlpha } : {}),
+    ...(safetyRule === 'bryant_day' ? { toxAcceptable: values.toxAcceptable, toxUnacceptable: values.toxUnacceptable, alphaT: values.alphaT } : {}),
+  };
+}
+
+/** What the signed safety rule says, for the summary above the signature. */
+function SafetySummary({ values, candidate }: { values: StudioValues; candidate: CandidateDesign & { bryantDay?: BryantDayDesign } }) {
+  if (values.safetyRule === 'none') return null;
+  const d = candidate.bryantDay;
+  return (
+    <>
+      <dt className="text-ink-500">Safety rule</dt>
+      <dd>{SAFETY_RULE_WORDS[values.safetyRule]}</dd>
+      <dt className="text-ink-500">Toxicity</dt>
+      <dd>{toxicityDefinitionSentence({ minGrade: Number(values.toxMinGrade), windowDays: Number(values.toxWindowDays) })}</dd>
+      {values.safetyRule === 'toxicity_boundary' && (
+        <>
+          <dt className="text-ink-500">Boundary θ / α</dt>
+          <dd>
+            {values.toxTheta} / {values.toxAlpha}, over the design’s n = {candidate.n}
+          </dd>
+        </>
+      )}
+      {d && (
+        <>
+          <dt className="text-ink-500">Toxicity cut-offs</dt>
+          <dd>
+            stop after stage 1 with more than t1 = {d.t1} of {d.n1}; promising only with at most t = {d.t} of {d.n}
+          </dd>
+          <dt className="text-ink-500">Toxicity rates / αT</dt>
+          <dd>
+            {values.toxAcceptable} / {values.toxUnacceptable} · αT {values.alphaT} (attained {decimal(d.alphaT, 4)})
+          </dd>
+        </>
+      )}
+    </>
+  );
+}
 
 export function SignDialog({ trialId, trialCode, cohort, candidate, settings, values, kind, currentVersion, returnTo, onClose, onSigned }: Props) {
   const dialog = useRef<HTMLDialogElement>(null);
@@ -78,6 +123,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
             protocolReference: values.protocolReference,
             selection: candidate.selection,
             admissibleIndex: candidate.admissibleIndex,
+            ...safetyFields(values),
             confirmMeaning: form.confirmMeaning,
             reason: needsReason ? form.reason : null,
             basedOnVersion: currentVersion,
@@ -110,7 +156,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
               <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm tabular-nums">
                 <dt className="text-ink-500">Design</dt>
                 <dd className="font-semibold">
-                  {SELECTION_LABELS[candidate.selection]} {ruleText(candidate)}
+                  {candidate.bryantDay ? candidate.label : SELECTION_LABELS[candidate.selection]} {ruleText(candidate)}
                 </dd>
                 <dt className="text-ink-500">p0 / p1</dt>
                 <dd>
@@ -124,9 +170,11 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 <dd>
                   {decimal(candidate.typeIError, 4)} / {decimal(candidate.power, 4)}
                 </dd>
-                <dt className="text-ink-500">EN0 / PET0</dt>
+                <dt className="text-ink-500">{candidate.bryantDay ? 'EN poor response / high toxicity' : 'EN0 / PET0'}</dt>
                 <dd>
-                  {decimal(candidate.en0, 1)} / {decimal(candidate.pet0, 2)}
+                  {candidate.bryantDay
+                    ? `${decimal(candidate.bryantDay.expectedN.poorResponse, 1)} / ${decimal(candidate.bryantDay.expectedN.highToxicity, 1)}`
+                    : `${decimal(candidate.en0, 1)} / ${decimal(candidate.pet0, 2)}`}
                 </dd>
                 <dt className="text-ink-500">Analysis population</dt>
                 <dd>{POPULATION[values.analysisPopulation]}</dd>
@@ -134,6 +182,7 @@ export function SignDialog({ trialId, trialCode, cohort, candidate, settings, va
                 <dd>{INTERIM[values.interimAccrual]}</dd>
                 <dt className="text-ink-500">Sponsors see response figures</dt>
                 <dd>{values.sponsorSeesResponse ? 'Yes' : 'Only after the committee releases them'}</dd>
+                <SafetySummary values={values} candidate={candidate} />
               </dl>
               <blockquote className="border-l-4 border-brass-500 bg-brass-50 px-4 py-2 text-sm">
                 <p className="text-xs font-semibold tracking-wide text-brass-700 uppercase">Meaning of your signature</p>

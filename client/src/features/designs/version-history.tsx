@@ -2,14 +2,15 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { dateTime, decimal } from '../../lib/format';
 import { DataTable } from '../../components/data-table';
-import { ruleText, SELECTION_LABELS, type DesignVersion } from './types';
-import { GLYPHS } from '../../../../server/words';
+import { designLabel, ruleText, type DesignVersion } from './types';
+import { GLYPHS, SAFETY_RULE_WORDS } from '../../../../server/words';
 
 const column = createColumnHelper<DesignVersion>();
 
 const columns = [
   column.accessor('version', { header: 'Version', cell: (info) => <span className="font-semibold">v{info.getValue()}</span> }),
-  column.accessor((v) => `${SELECTION_LABELS[v.selection]} ${ruleText(v)}`, { id: 'design', header: 'Design' }),
+  column.accessor((v) => `${designLabel(v)} ${ruleText(v)}`, { id: 'design', header: 'Design' }),
+  column.accessor((v) => SAFETY_RULE_WORDS[v.safetyRule], { id: 'safety', header: 'Safety rule' }),
   column.accessor((v) => `${v.p0} / ${v.p1}`, { id: 'rates', header: 'p0 / p1' }),
   column.accessor((v) => `${v.alpha} / ${v.beta}`, { id: 'errors', header: () => <span className="normal-case">α / β</span> }),
   column.accessor('typeIError', { header: 'Type I error', cell: (info) => decimal(info.getValue(), 4) }),

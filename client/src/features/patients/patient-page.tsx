@@ -1,10 +1,11 @@
-/** One patient: identity, the outcome form, the investigator's attestation, assessments and history. */
+/** One patient: identity, the outcome form, the investigator's attestation, assessments, history and adverse events. */
 import { Link, useParams } from 'react-router-dom';
 import { ErrorNotice, Loading, PageHeader, Panel } from '../../components/ui';
 import { day } from '../../lib/format';
 import { hasAnyRole } from '../../lib/roles';
 import { useTrialContext } from '../trials';
 import { AssessmentsPanel } from '../assessments';
+import { AdverseEventsPanel } from '../safety';
 import { usePatient } from './get-patient';
 import { OutcomeForm } from './outcome-form';
 import { AttestationPanel } from './attestation-panel';
@@ -44,6 +45,9 @@ export function PatientPage() {
         <Panel title="History">
           <HistoryList trialId={trial.id} patientId={patient.id} />
         </Panel>
+        <div className="lg:col-span-3">
+          <AdverseEventsPanel trialId={trial.id} patientId={patient.id} canWrite={canWrite} canAttest={canAttest} />
+        </div>
       </div>
     </div>
   );

@@ -1,6 +1,7 @@
 import { accrualKeys } from '../accrual';
 import { portfolioKeys } from '../portfolio';
 import { overviewKeys } from '../trial-overview';
+import { safetyKeys } from '../safety';
 import { trialKeys } from '../trials';
 import type { PatientFilters } from './types';
 
@@ -13,5 +14,5 @@ export const patientKeys = {
   history: (trialId: string, patientId: string) => [...patientKeys.detail(trialId, patientId), 'history'] as const,
 };
 
-/** The figures counted over a trial's patients, stale after any change to enrolment or outcomes. */
-export const patientFigureKeys = (trialId: string) => [overviewKeys.evaluation(trialId), accrualKeys.all(trialId), portfolioKeys.all()];
+/** The figures counted over a trial's patients, stale after any change to enrolment or outcomes (an enrolment adds to the safety counts too). */
+export const patientFigureKeys = (trialId: string) => [overviewKeys.evaluation(trialId), accrualKeys.all(trialId), portfolioKeys.all(), safetyKeys.state(trialId)];

@@ -1,8 +1,12 @@
-import { Panel, StatusTag } from '../../components/ui';
+import { lazy, Suspense } from 'react';
+import { Loading, Panel, SafetyPauseTag, StatusTag } from '../../components/ui';
 import { day } from '../../lib/format';
 import { ROLE_LABELS } from '../../lib/roles';
 import { useTrialContext } from '../trials';
 import { EvaluationPanel } from './evaluation-panel';
+
+// Safety's page code stays out of the bundle the app starts with.
+const SafetyOverview = lazy(() => import('../safety').then((m) => ({ default: m.SafetyOverview })));
 
 export function OverviewPage() {
   const trial = useTrialContext();
@@ -29,13 +33,22 @@ export function OverviewPage() {
               <span>
                 <span className="font-mono text-xs text-ink-500">{cohort.code}</span> {cohort.name}
               </span>
-              <StatusTag status={cohort.status} />
+              <span className="flex flex-wrap justify-end gap-1">
+                <StatusTag status={cohort.status} />
+                {cohort.safetyPause && <SafetyPauseTag />}
+              </span>
             </li>
           ))}
         </ul>
       </Panel>
       <div className="lg:col-span-3">
         <EvaluationPanel trialId={trial.id} />
+      </div>
+      {/* Every member sees the safety panel; the server leaves out the figures the visibility rule withholds. */}
+      <div className="lg:col-span-3">
+        <Suspense fallback={<Loading label="Loading the safety state" />}>
+          <SafetyOverview trialId={trial.id} />
+        </Suspense>
       </div>
     </div>
   );
