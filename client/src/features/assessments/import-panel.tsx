@@ -3,48 +3,26 @@
  * each row's result), then import; a file with any bad row imports nothing.
  */
 import { useMemo, useState } from 'react';
-import { createColumnHelper } from '@tanstack/react-table';
-import { ApiError } from '../../lib/api';
-import { day } from '../../lib/format';
-import { Button, ErrorNotice, Figure, Panel, Spinner } from '../../components/ui';
-import { CsvFileInput } from '../../components/csv-file-input';
+import type { ColumnDef } from '@tanstack/react-table';
+import { dayAsWritten } from '../../lib/format';
+import { Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
+import { ImportControls, ImportSummary, importColumns, rejectedRows } from '../../components/csv-import';
+import { plural } from '../../../../server/words';
 import { useImportAssessments, type ImportReport, type ImportRow } from './use-import-assessments';
-import { GLYPHS, type Worded } from '../../../../server/words';
-import { Tag } from './words';
 
-const RESULT_WORDS: Record<ImportRow['result'], Worded> = {
-  new: { label: 'New', glyph: GLYPHS.added },
-  update: { label: 'Correction', glyph: GLYPHS.change },
-  unchanged: { label: 'Unchanged', glyph: GLYPHS.unchanged },
-  error: { label: 'Error', glyph: GLYPHS.warning },
-};
-
-const column = createColumnHelper<ImportRow>();
-const columns = [
-  column.accessor('line', { header: 'Line', cell: (c) => <span className="tabular-nums">{c.getValue()}</span> }),
-  column.accessor('studyId', { header: 'Patient', cell: (c) => <span className="font-mono">{c.getValue()}</span> }),
-  column.accessor('date', { header: 'Date', cell: (c) => <span className="tabular-nums">{/^\d{4}-\d{2}-\d{2}$/.test(c.getValue()) ? day(c.getValue()) : c.getValue()}</span> }),
-  column.accessor((r) => RESULT_WORDS[r.result].label, { id: 'result', header: 'Result', cell: (c) => <Tag {...RESULT_WORDS[c.row.original.result]} /> }),
-  column.accessor((r) => r.errors.map((e) => `${e.column}: ${e.reason}`).join(' '), {
-    id: 'errors',
-    header: 'Why',
-    cell: (c) => (
-      <ul className="text-xs">
-        {c.row.original.errors.map((e) => (
-          <li key={`${e.column}-${e.reason}`}>
-            <strong>{e.column}</strong>: {e.reason}
-          </li>
-        ))}
-      </ul>
-    ),
-  }),
-];
+const columns = importColumns<ImportRow>([
+  {
+    id: 'date',
+    accessorFn: (r) => r.date,
+    header: 'Date',
+    cell: (c) => <span className="tabular-nums">{dayAsWritten(c.row.original.date)}</span>,
+  } satisfies ColumnDef<ImportRow, string>,
+]);
 
 function rejectedReport(error: unknown): ImportReport | undefined {
-  if (!(error instanceof ApiError) || error.status !== 422) return undefined;
-  const { counts, rows } = error.details as Pick<ImportReport, 'counts' | 'rows'>;
-  return { dryRun: false, committed: false, counts, rows, derivationsChanged: 0 };
+  const rejected = rejectedRows<ImportRow>(error);
+  return rejected && { dryRun: false, committed: false, ...rejected, derivationsChanged: 0 };
 }
 
 export function ImportPanel({ trialId }: { trialId: string }) {
@@ -61,41 +39,13 @@ export function ImportPanel({ trialId }: { trialId: string }) {
           One row per assessment: <code>study_id, date, response, notes, correction_reason</code>. Dates as YYYY-MM-DD; responses CR, PR, SD, PD or NE. A row
           that changes a recorded assessment needs a correction reason. Check the file first; a file with any bad row imports nothing.
         </p>
-        <div className="flex flex-wrap items-end gap-3">
-          <CsvFileInput
-            id="assessments-file"
-            onChange={(chosen) => {
-              setFile(chosen);
-              run.reset();
-            }}
-          />
-          <Button variant="secondary" disabled={!file || run.isPending} onClick={() => file && run.mutate({ file, dryRun: true })}>
-            Check the file
-          </Button>
-          <Button disabled={!file || !checkedClean || run.isPending} onClick={() => file && run.mutate({ file, dryRun: false })}>
-            Import
-          </Button>
-          {run.isPending && <Spinner label={run.variables?.dryRun ? 'Checking the file' : 'Importing'} />}
-        </div>
-        {run.error && !rejectedReport(run.error) && <ErrorNotice error={run.error} title="The file was not imported" />}
+        <ImportControls inputId="assessments-file" file={file} onFile={setFile} run={run} checkedClean={checkedClean} />
         {report && (
           <>
-            <p role="status" className="text-sm font-semibold">
-              {report.committed
-                ? `Imported. ${report.derivationsChanged} patient${report.derivationsChanged === 1 ? '' : 's'} had the derived best overall response change.`
-                : report.dryRun
-                  ? report.counts.error === 0
-                    ? 'The file is ready to import.'
-                    : 'Fix the rows with errors, then check the file again.'
-                  : 'Nothing was imported: some rows have errors.'}
-            </p>
-            <div className="flex flex-wrap gap-6">
-              <Figure label="Rows" value={report.counts.total} />
-              <Figure label="New" value={report.counts.new} />
-              <Figure label="Corrections" value={report.counts.update} />
-              <Figure label="Unchanged" value={report.counts.unchanged} />
-              <Figure label="Errors" value={report.counts.error} />
-            </div>
+            <ImportSummary
+              report={report}
+              imported={`Imported. ${plural(report.derivationsChanged, 'patient')} had the derived best overall response change.`}
+            />
             <DataTable data={rows} columns={columns} label="Import rows" filterLabel="Filter rows" initialSorting={[{ id: 'line', desc: false }]} />
           </>
         )}
