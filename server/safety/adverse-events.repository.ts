@@ -154,17 +154,10 @@ export async function findEventByKey(db: Conn, patientId: string, onsetOn: strin
   return row && toEvent(row);
 }
 
-export type EventFields = {
-  onsetOn: string;
-  term: string;
-  grade: number | null;
-  attribution: Attribution | null;
-  serious: boolean;
-  outcome: EventOutcome;
-  notes: string | null;
-};
-
 export const EVENT_FIELDS = ['onsetOn', 'term', 'grade', 'attribution', 'serious', 'outcome', 'notes'] as const;
+
+/** What a site writes of an event: the event's own fields, nothing derived. */
+export type EventFields = Pick<AdverseEvent, (typeof EVENT_FIELDS)[number]>;
 
 export async function insertEvent(trx: Knex.Transaction, input: EventFields & { trialId: string; patientId: string; createdBy: string }): Promise<string> {
   const [row] = await trx('adverse_events')
