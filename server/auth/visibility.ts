@@ -28,7 +28,7 @@
  * Pure: no database, no Express.
  */
 import { ALL_SITES_ROLES, ROLES, SITE_ROLES, hasAnyRole, siteScope, type Role, type TrialAccess } from './access.js';
-import { liveFiguresHidden, releasedAsOf, type HiddenAudience } from '../words/index.js';
+import { liveFiguresHidden, releasedAsOf, type HiddenAudience, type HiddenFigures } from '../words/index.js';
 
 /**
  * Roles that read efficacy live and every frozen data cut (its analysis, report and exports), across
@@ -67,15 +67,15 @@ function hiddenAudience(roles: readonly Role[]): HiddenAudience {
   return hasAnyRole(roles, RELEASE_AUDIENCE) ? 'sponsor' : 'operational';
 }
 
-/** The rule for one viewer (their roles and sites on the trial) and one cohort. */
-export function efficacyView(access: Pick<TrialAccess, 'roles' | 'siteIds'>, cohort: CohortRelease): EfficacyView {
+/** The rule for one viewer (their roles and sites on the trial) and one cohort; `figures` names what a hidden reason speaks of. */
+export function efficacyView(access: Pick<TrialAccess, 'roles' | 'siteIds'>, cohort: CohortRelease, figures: HiddenFigures = 'response'): EfficacyView {
   const { roles } = access;
   const committee = hasAnyRole(roles, LIVE_EFFICACY_ROLES);
   const audience = hasAnyRole(roles, RELEASE_AUDIENCE);
   const live = committee || (audience && cohort.sponsorSeesResponse);
   const released = audience && cohort.released;
   const ownSiteIds = hasAnyRole(roles, SITE_ROLES) ? access.siteIds : [];
-  return live ? { live, released, ownSiteIds } : { live, released, ownSiteIds, hiddenReason: liveFiguresHidden(hiddenAudience(roles), released) };
+  return live ? { live, released, ownSiteIds } : { live, released, ownSiteIds, hiddenReason: liveFiguresHidden(hiddenAudience(roles), released, figures) };
 }
 
 /** Who reads frozen data cuts — their analysis, report and exports. */

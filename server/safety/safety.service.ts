@@ -140,7 +140,7 @@ export async function safetyFor(db: Db, access: TrialAccess): Promise<Omit<Await
     cohorts: computed.cohorts.map((cohort) => {
       const figures = released.get(cohort.cohortId);
       const releasedSafety = figures?.safety ? { ...figures.safety, cutId: figures.cutId, cutSeq: figures.cutSeq, cutAt: figures.cutAt } : null;
-      const view = efficacyView(access, { sponsorSeesResponse: cohort.sponsorSeesResponse, released: releasedSafety !== null });
+      const view = efficacyView(access, { sponsorSeesResponse: cohort.sponsorSeesResponse, released: releasedSafety !== null }, 'safety');
       return projectEfficacy(view, cohort, LIVE_SAFETY_KEYS, { released: releasedSafety });
     }),
   };

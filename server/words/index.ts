@@ -72,4 +72,4 @@ export {
   toxicityWindowClosing,
   type JointVerdict,
 } from './safety.js';
-export { liveFiguresHidden, releasedAsOf, type HiddenAudience } from './visibility.js';
+export { liveFiguresHidden, releasedAsOf, type HiddenAudience, type HiddenFigures } from './visibility.js';

@@ -194,6 +194,9 @@ describe('the live safety state', () => {
       const hidden = (await session.get(`/api/trials/${trial.trialId}/safety`)).body.cohorts[0];
       for (const key of ['counts', 'rate', 'state', 'sentences']) expect(hidden).not.toHaveProperty(key);
       expect(hidden.efficacyHidden).toEqual(expect.any(String));
+      // The reason speaks of the figures this panel withholds.
+      expect(hidden.efficacyHidden).toMatch(/safety figures/);
+      expect(hidden.efficacyHidden).not.toMatch(/response figures/);
       expect(hidden.lockedRule).toMatchObject({ safetyRule: 'toxicity_boundary' });
       expect(hidden.definition).toMatch(/^A toxicity is an adverse event/);
     }
