@@ -34,6 +34,8 @@ export function toAppError(error: unknown): AppError | undefined {
   if (e?.type === 'entity.parse.failed') return new InputError('The request body is not valid JSON.');
   if (e?.code && String(e.code).startsWith('LIMIT_')) return new InputError(`Upload refused: ${(error as Error).message}.`, { [e.field ?? 'file']: (error as Error).message });
   if (e?.code === '22P02' || e?.code === '22007' || e?.code === '22008') return new InputError('A value has the wrong format.');
+  // A NUL character or a byte sequence PostgreSQL text cannot hold, past the checks at the door (which name the field).
+  if (e?.code === '22021' || e?.code === '22P05') return new InputError('A value contains a character that cannot be stored (such as NUL): remove it.');
   if (isDatabaseDown(error)) return new ServiceUnavailableError();
   if (typeof e?.status === 'number' && e.status >= 400 && e.status < 500) {
     return new AppError(e.status, 'bad_request', (error as Error).message || 'Bad request.');

@@ -1,6 +1,7 @@
 /** Validates a payload against its shared Yup schema; failures become 400 with every field named. */
 import type { AnyObject, InferType, ObjectSchema } from 'yup';
 import { InputError } from './errors.js';
+import { NUL_REASON, pathOfNul } from './query.js';
 
 const POLLUTION_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
 
@@ -13,6 +14,8 @@ function hasPollutionKey(value: unknown, depth = 0): boolean {
 export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, body: unknown): Promise<InferType<S>> {
   const input = body && typeof body === 'object' && !Array.isArray(body) ? body : {};
   if (hasPollutionKey(input)) throw new InputError('The request carries a reserved field name (__proto__, constructor or prototype).');
+  const nul = pathOfNul(input);
+  if (nul !== undefined) throw new InputError(`"${nul}" contains a NUL character: remove it.`, { [nul]: NUL_REASON });
   try {
     return (await schema.validate(input, { abortEarly: false, stripUnknown: true }));
   } catch (error) {
@@ -24,5 +27,7 @@ export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, bo
 
 /** Validates a query string against its schema; unknown parameters are dropped, failures become 400. */
 export async function parseQuery<S extends ObjectSchema<AnyObject>>(schema: S, query: unknown): Promise<InferType<S>> {
+  const nul = pathOfNul(query);
+  if (nul !== undefined) throw new InputError(`"${nul}" contains a NUL character: remove it.`, { [nul]: NUL_REASON });
   return (await schema.validate(query ?? {}, { abortEarly: false, stripUnknown: true }));
 }

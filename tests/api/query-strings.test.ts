@@ -77,4 +77,25 @@ describe('repeated, list and object query parameters', () => {
     expect(patients.status).toBe(400);
     expect(Object.keys(patients.body.error.fields)).toEqual(['page']);
   });
+
+  it('when a query value, a body field or a path id carries a NUL character, then 400 names it and nothing is written (?q=%00 used to answer 500)', async () => {
+    for (const path of [`/api/trials/${trial.trialId}/patients?q=%00`, `/api/trials/${trial.trialId}/patients?q=a%00b`, `/api/trials/${trial.trialId}/adverse-events?q=%00`]) {
+      const response = await cora.get(path);
+      expect(response.status, path).toBe(400);
+      expect(response.body.error.fields, path).toEqual({ q: expect.stringMatching(/NUL character/) });
+    }
+    const audit = await sam.get(`/api/trials/${trial.trialId}/audit?entityType=%00`);
+    expect(audit.status).toBe(400);
+    expect(Object.keys(audit.body.error.fields)).toEqual(['entityType']);
+
+    const before = await stack.db('patients').count({ n: '*' }).first();
+    const enrol = await cora.post(`/api/trials/${trial.trialId}/patients`, { studyId: 'SA-\u0000777', siteId: trial.siteIds.SA, enrolledOn: '2026-11-02' });
+    expect(enrol.status).toBe(400);
+    expect(enrol.body.error.fields).toEqual({ studyId: expect.stringMatching(/NUL character/) });
+    expect(await stack.db('patients').count({ n: '*' }).first()).toEqual(before);
+
+    const badId = await cora.get('/api/trials/%00/patients');
+    expect(badId.status).toBeGreaterThanOrEqual(400);
+    expect(badId.status).toBeLessThan(500);
+  });
 });
