@@ -8,10 +8,10 @@
  */
 import type { Knex } from 'knex';
 
+/** One write of one or more patients of a trial (an import's new patients are one write). */
 export type PatientWrite = {
   trialId: string;
-  cohortId: string;
-  patientId: string;
+  patientIds: readonly string[];
   action: 'enrolled' | 'outcome_recorded' | 'outcome_corrected' | 'outcome_attested';
   actorUserId: string;
 };

@@ -54,14 +54,23 @@ export async function listAssessments(db: Conn, patientId: string): Promise<Asse
 }
 
 export async function listAssessmentsOfTrial(db: Conn, trialId: string): Promise<Map<string, Assessment[]>> {
-  const rows: AssessmentRow[] = await db('assessments').where({ trial_id: trialId }).orderBy(['patient_id', 'assessed_on']);
-  const byPatient = new Map<string, Assessment[]>();
+  return byPatient(await db('assessments').where({ trial_id: trialId }).orderBy(['patient_id', 'assessed_on']));
+}
+
+/** The assessments of these patients, each patient's in date order. */
+export async function listAssessmentsOfPatients(db: Conn, patientIds: readonly string[]): Promise<Map<string, Assessment[]>> {
+  if (patientIds.length === 0) return new Map();
+  return byPatient(await db('assessments').whereRaw('patient_id = any(?::uuid[])', [[...patientIds]]).orderBy(['patient_id', 'assessed_on']));
+}
+
+function byPatient(rows: AssessmentRow[]): Map<string, Assessment[]> {
+  const grouped = new Map<string, Assessment[]>();
   for (const row of rows) {
-    const list = byPatient.get(row.patient_id) ?? [];
+    const list = grouped.get(row.patient_id) ?? [];
     list.push(toAssessment(row));
-    byPatient.set(row.patient_id, list);
+    grouped.set(row.patient_id, list);
   }
-  return byPatient;
+  return grouped;
 }
 
 export async function findAssessment(db: Conn, patientId: string, assessmentId: string): Promise<Assessment | undefined> {

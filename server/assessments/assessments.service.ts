@@ -7,7 +7,7 @@
 import type { Knex } from 'knex';
 import type { Listener, PatientWrite, ProtocolSettingsChange } from '../hooks.js';
 import type { Db } from '../db/knex.js';
-import { writeAudit } from '../audit/audit.js';
+import { writeAudit, writeAudits } from '../audit/audit.js';
 import { ConflictError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
@@ -15,7 +15,7 @@ import { assessmentCorrectionSchema, assessmentRemovalSchema, assessmentSchema }
 import { findProtocolSettings, listTrialSites, type ProtocolSettings } from '../trials/index.js';
 import {
   findPatient,
-  findPatientById,
+  findPatientsByIds,
   listAttentionCandidates,
   listPatientsOfTrial,
   storeDerivations,
@@ -30,6 +30,7 @@ import {
   findAssessmentOn,
   insertAssessment,
   listAssessments,
+  listAssessmentsOfPatients,
   listAssessmentsOfTrial,
   updateAssessment,
   type Assessment,
@@ -139,9 +140,10 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
   });
   await storeDerivedOutcomes(trx, outcomes);
   for (const [flag, ids] of flags) await storeOutcomeFlags(trx, ids, flag);
-  for (const { patient, action, before, after } of audits) {
-    await writeAudit(trx, { actorUserId: context.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after });
-  }
+  await writeAudits(
+    trx,
+    audits.map(({ patient, action, before, after }) => ({ actorUserId: context.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after })),
+  );
   return derivations;
 }
 
@@ -151,12 +153,21 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
  * patient's assessments or entered outcome.
  */
 export async function recomputeDerivation(trx: Knex.Transaction, patientId: string, context: DerivationContext = {}): Promise<Derivation> {
-  const patient = await findPatientById(trx, patientId, { forUpdate: true });
-  if (!patient) throw new NotFoundError('The patient');
-  const settings = await findTrialSettings(trx, patient.trialId);
-  if (!settings) throw new NotFoundError('The trial');
-  const [derivation] = await applyDerivations(trx, [{ patient, assessments: await listAssessments(trx, patientId) }], settings, context);
+  const [derivation] = await recomputeDerivations(trx, [patientId], context);
   return derivation;
+}
+
+/** The same for patients of one trial written together (an import's new patients), in a few statements; derivations in id order. */
+export async function recomputeDerivations(trx: Knex.Transaction, patientIds: readonly string[], context: DerivationContext = {}): Promise<Derivation[]> {
+  const patients = await findPatientsByIds(trx, patientIds, { forUpdate: true });
+  if (patients.length !== new Set(patientIds).size) throw new NotFoundError('The patient');
+  if (patients.length === 0) return [];
+  const trialId = patients[0].trialId;
+  if (patients.some((p) => p.trialId !== trialId)) throw new Error('recomputeDerivations: the patients belong to more than one trial');
+  const settings = await findTrialSettings(trx, trialId);
+  if (!settings) throw new NotFoundError('The trial');
+  const assessments = await listAssessmentsOfPatients(trx, patients.map((p) => p.id));
+  return applyDerivations(trx, patients.map((patient) => ({ patient, assessments: assessments.get(patient.id) ?? [] })), settings, context);
 }
 
 /** Re-derives every patient of a trial, for when the protocol's outcome settings change. */
@@ -177,7 +188,7 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
 /** Listens to patient writes: an attestation changes no outcome, everything else re-derives. */
 export const rederiveAfterPatientWrite: Listener<PatientWrite> = async (trx, write) => {
   if (write.action === 'outcome_attested') return;
-  await recomputeDerivation(trx, write.patientId, { actorUserId: write.actorUserId });
+  await recomputeDerivations(trx, write.patientIds, { actorUserId: write.actorUserId });
 };
 
 /** Listens to changes of the protocol's outcome rules: every stored derivation (and, when derived, outcome) follows. */

@@ -1,7 +1,8 @@
 /**
- * The transaction skeleton every CSV import shares. The rows are applied inside one transaction,
- * each in its own savepoint (the importer's `apply` opens it), so a bad row is reported without
- * hiding the others. A dry run, or a commit with any bad row, rolls the whole transaction back: the
+ * The transaction skeleton every CSV import shares. The rows are applied inside one transaction;
+ * the importer's `apply` reports each row, opening a savepoint where a row's write can be refused
+ * by the database (or, for the patients' new rows, checking them all before one batch write), so a
+ * bad row is reported without hiding the others. A dry run, or a commit with any bad row, rolls the whole transaction back: the
  * dry run shows exactly what the commit would do, and a commit is all-or-nothing (422 with the
  * report when a row fails).
  */

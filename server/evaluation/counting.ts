@@ -25,7 +25,7 @@ export type Tally = StageTally & {
   stage2: StageTally;
 };
 
-export function countsToward(patient: CountablePatient, population: AnalysisPopulation): boolean {
+export function countsToward(patient: Pick<CountablePatient, 'evaluable'>, population: AnalysisPopulation): boolean {
   return population === 'all_enrolled' || patient.evaluable;
 }
 

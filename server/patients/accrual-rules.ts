@@ -38,6 +38,11 @@ export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status' | '
 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
 
+/** The moment of the interim review: a two-stage cohort still in stage 1 whose counted patients reached n1. */
+export function stageOneComplete(design: LockedDesign | undefined, status: Cohort['status'], counted: number): boolean {
+  return design !== undefined && design.n1 !== null && design.r1 !== null && status === 'enrolling_stage_1' && counted >= design.n1;
+}
+
 /**
  * Re-derives the stage of every patient of the cohort (the first n1 counting patients are stage 1)
  * and stores the ones that moved, in two statements. Called when an evaluability change or a new
@@ -70,8 +75,7 @@ export async function applyAccrualRules(
   const none = { paused: false, continuesAtRisk: false };
   if (!design || n1 === null || design.r1 === null) return none;
   const cohort = await findCohort(trx, input.trialId, input.cohortId);
-  if (cohort?.status !== 'enrolling_stage_1') return none;
-  if ((await countCounting(trx, input.cohortId, population)) < n1) return none;
+  if (!cohort || !stageOneComplete(design, cohort.status, await countCounting(trx, input.cohortId, population))) return none;
   const counts = tally((await countablePatients(trx, [input.cohortId])).get(input.cohortId) ?? [], n1, population);
 
   await transitionCohort(trx, {

@@ -2,7 +2,8 @@
  * CSV import of patients and outcomes from a site's own spreadsheet. The upload is checked (size,
  * type, text encoding, exact columns, row count), then every row is applied through the same
  * service functions as the forms, inside the shared import skeleton (server/csv/import.ts: one
- * transaction, a savepoint per row, all-or-nothing, a dry run rolled back). Text cells that start
+ * transaction, all-or-nothing, a dry run rolled back): corrections one by one, new patients
+ * together through `enrolPatients`. Text cells that start
  * like a spreadsheet formula are stored with a leading quote; cells of fixed-format columns that do
  * are refused.
  */
@@ -27,8 +28,8 @@ import {
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
 import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
-import { findPatientByStudyId, listPatients, type Patient } from './patients.repository.js';
-import { enrolPatient, recordOutcome } from './patients.service.js';
+import { findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
+import { enrolPatients, recordOutcome } from './patients.service.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -135,30 +136,23 @@ async function readRow(row: Record<ImportColumn, string>, facts: TrialFacts, act
   return { studyId, siteId: (site as { id: string }).id, cohortId, fields };
 }
 
-async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, row: Record<ImportColumn, string>, line: number): Promise<RowResult> {
-  const { studyId, siteId, cohortId, fields } = await readRow(row, facts, actor);
-  const existing: Patient | undefined = await findPatientByStudyId(trx, actor.access.trialId, studyId, { forUpdate: true });
-  if (!existing) {
-    if (!row.enrolled_on) throw new RowError([{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
-    const { patient } = await enrolPatient(
-      trx,
-      hooks,
-      actor,
-      {
-        studyId,
-        siteId,
-        cohortId,
-        enrolledOn: row.enrolled_on,
-        outcome: fields.outcome,
-        bestOverallResponse: fields.bestOverallResponse,
-        responseAssessedOn: fields.responseAssessedOn,
-        evaluable: fields.evaluable,
-        notEvaluableReason: fields.notEvaluableReason,
-      },
-      facts,
-    );
-    return { line, studyId, result: 'new', errors: [], patientId: patient.id };
-  }
+type ReadRow = { index: number; line: number; row: Record<ImportColumn, string>; cells: Awaited<ReturnType<typeof readRow>> };
+
+const enrolRequest = ({ row, cells: { studyId, siteId, cohortId, fields } }: ReadRow) => ({
+  studyId,
+  siteId,
+  cohortId,
+  enrolledOn: row.enrolled_on,
+  outcome: fields.outcome,
+  bestOverallResponse: fields.bestOverallResponse,
+  responseAssessedOn: fields.responseAssessedOn,
+  evaluable: fields.evaluable,
+  notEvaluableReason: fields.notEvaluableReason,
+});
+
+/** A known patient's row: identity checked, then the outcome recorded or corrected (or left, when the same). */
+async function applyToKnown(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, { line, row, cells }: ReadRow, existing: Patient): Promise<RowResult> {
+  const { studyId, siteId, cohortId, fields } = cells;
   if (!writableSites(actor.access).includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
   const identity: RowResult['errors'] = [];
   if (existing.siteId !== siteId) identity.push({ column: 'site_code', reason: `${studyId} is a patient of ${existing.siteCode}; the site cannot be changed by import.` });
@@ -171,27 +165,68 @@ async function applyRow(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts
   return { line, studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
 }
 
-/** Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with the report). */
+/**
+ * Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with
+ * the report). Every row is read in memory first and the known patients are found in one look-up.
+ * Then, in file order, known patients are corrected one by one (each in a savepoint, so a refusal
+ * names its row) and the new patients between them are enrolled together by the same rules as the
+ * form (`enrolPatients`): so the interim pause refuses the rows after the one that completes stage 1.
+ */
 export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
-  const firstLine = new Map<string, number>();
   return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
     const facts = await trialFacts(trx, actor.access.trialId);
     if (!facts) throw new InputError('The trial was not found.');
+    const results: RowResult[] = [];
+    const refuse = (index: number, studyId: string, errors: RowResult['errors']) => (results[index] = { line: index + 2, studyId, result: 'error', errors });
+
+    const read: ReadRow[] = [];
+    const firstLine = new Map<string, number>();
     for (const [index, row] of rows.entries()) {
       const line = index + 2;
       const studyId = row.study_id.toUpperCase();
       const seenAt = firstLine.get(studyId);
       if (studyId && seenAt) {
-        add({ line, studyId, result: 'error', errors: [{ column: 'study_id', reason: `${studyId} appears again (first on line ${seenAt}); give each patient one row.` }] });
+        refuse(index, studyId, [{ column: 'study_id', reason: `${studyId} appears again (first on line ${seenAt}); give each patient one row.` }]);
         continue;
       }
       if (studyId) firstLine.set(studyId, line);
       try {
-        add(await trx.transaction((savepoint) => applyRow(savepoint, hooks, actor, facts, row, line)));
+        read.push({ index, line, row, cells: await readRow(row, facts, actor) });
       } catch (error) {
-        add({ line, studyId, result: 'error', errors: errorsOf(error) });
+        refuse(index, studyId, errorsOf(error));
       }
     }
+
+    const known = await findPatientsByStudyIds(trx, actor.access.trialId, read.map((r) => r.cells.studyId), { forUpdate: true });
+    // New patients wait to be enrolled together until a known patient's row comes (its correction can
+    // move the stage-1 count), so every row meets the cohort exactly as the rows above it left it.
+    let newcomers: ReadRow[] = [];
+    const enrolWaiting = async () => {
+      const enrolled = await enrolPatients(trx, hooks, actor, newcomers.map(enrolRequest), facts);
+      enrolled.forEach((result, i) => {
+        const { index, line, cells } = newcomers[i];
+        if ('error' in result) refuse(index, cells.studyId, errorsOf(result.error));
+        else results[index] = { line, studyId: cells.studyId, result: 'new', errors: [], patientId: result.patient.id };
+      });
+      newcomers = [];
+    };
+    for (const r of read) {
+      const existing = known.get(r.cells.studyId);
+      if (!existing) {
+        if (r.row.enrolled_on) newcomers.push(r);
+        else refuse(r.index, r.cells.studyId, [{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
+        continue;
+      }
+      if (newcomers.length > 0) await enrolWaiting();
+      try {
+        results[r.index] = await trx.transaction((savepoint) => applyToKnown(savepoint, hooks, actor, facts, r, existing));
+      } catch (error) {
+        refuse(r.index, r.cells.studyId, errorsOf(error));
+      }
+    }
+    if (newcomers.length > 0) await enrolWaiting();
+    results.forEach(add);
+
     const paused = (await listCohorts(trx, actor.access.trialId)).filter((c) => c.status === 'interim_review').map((c) => c.code);
     return { pausedCohorts: paused.filter((code) => facts.cohorts.find((c) => c.code === code)?.status !== 'interim_review') };
   });

@@ -234,6 +234,22 @@ export async function findPatientByStudyId(db: Conn, trialId: string, studyId: s
   return row ? toPatient(row) : undefined;
 }
 
+/** The trial's patients with these study IDs, by study ID; with `forUpdate`, locked until the transaction ends. */
+export async function findPatientsByStudyIds(db: Conn, trialId: string, studyIds: readonly string[], options: { forUpdate?: boolean } = {}): Promise<Map<string, Patient>> {
+  if (studyIds.length === 0) return new Map();
+  const query = baseQuery(db).where('p.trial_id', trialId).whereRaw('p.study_id = any(?)', [[...studyIds]]).orderBy('p.id').select(COLUMNS);
+  if (options.forUpdate) query.forUpdate('p');
+  return new Map(((await query) as PatientRow[]).map((row) => [row.study_id, toPatient(row)]));
+}
+
+/** Patients by id alone, ordered by id; with `forUpdate`, locked until the transaction ends. */
+export async function findPatientsByIds(db: Conn, patientIds: readonly string[], options: { forUpdate?: boolean } = {}): Promise<Patient[]> {
+  if (patientIds.length === 0) return [];
+  const query = baseQuery(db).whereRaw('p.id = any(?::uuid[])', [[...patientIds]]).orderBy('p.id').select(COLUMNS);
+  if (options.forUpdate) query.forUpdate('p');
+  return ((await query) as PatientRow[]).map(toPatient);
+}
+
 /** A patient by id alone (the hooks of other features know the patient, not the trial). */
 export async function findPatientById(db: Conn, patientId: string, options: { forUpdate?: boolean } = {}): Promise<Patient | undefined> {
   const query = baseQuery(db).where({ 'p.id': patientId }).first(COLUMNS);
@@ -328,25 +344,30 @@ export type NewPatient = {
   createdBy: string;
 };
 
-export async function insertPatient(trx: Knex.Transaction, p: NewPatient): Promise<string> {
-  const [row] = await trx('patients')
-    .insert({
-      trial_id: p.trialId,
-      cohort_id: p.cohortId,
-      site_id: p.siteId,
-      study_id: p.studyId,
-      enrolled_on: p.enrolledOn,
-      enrolment_seq: p.enrolmentSeq,
-      stage: p.stage,
-      outcome: p.outcome,
-      best_overall_response: p.bestOverallResponse,
-      response_assessed_on: p.responseAssessedOn,
-      evaluable: p.evaluable,
-      not_evaluable_reason: p.notEvaluableReason,
-      created_by: p.createdBy,
-    })
-    .returning('id');
-  return row.id;
+const newPatientRow = (p: NewPatient) => ({
+  trial_id: p.trialId,
+  cohort_id: p.cohortId,
+  site_id: p.siteId,
+  study_id: p.studyId,
+  enrolled_on: p.enrolledOn,
+  enrolment_seq: p.enrolmentSeq,
+  stage: p.stage,
+  outcome: p.outcome,
+  best_overall_response: p.bestOverallResponse,
+  response_assessed_on: p.responseAssessedOn,
+  evaluable: p.evaluable,
+  not_evaluable_reason: p.notEvaluableReason,
+  created_by: p.createdBy,
+});
+
+/** Inserts the patients (a thousand per statement) and returns their ids in the order given. */
+export async function insertPatients(trx: Knex.Transaction, patients: readonly NewPatient[]): Promise<string[]> {
+  const ids: string[] = [];
+  for (let start = 0; start < patients.length; start += 1000) {
+    const rows: Array<{ id: string }> = await trx('patients').insert(patients.slice(start, start + 1000).map(newPatientRow)).returning('id');
+    ids.push(...rows.map((row) => row.id));
+  }
+  return ids;
 }
 
 export type OutcomeFields = {

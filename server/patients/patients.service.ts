@@ -3,19 +3,19 @@
  * sites, record the outcome, correct it with a reason, attest it with an electronic signature.
  * Every write runs in the caller's transaction, writes exactly one audit row for the patient, and
  * then applies the accrual rules (stages, the interim pause). The functions taking a transaction
- * are composable: the CSV import calls them row by row.
+ * are composable: the CSV import corrects known patients one by one and enrols new ones together.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
-import { writeAudit } from '../audit/audit.js';
-import { ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
+import { writeAudit, writeAudits } from '../audit/audit.js';
+import { AppError, ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { recordSignature, type SigningSession } from '../signatures/signatures.js';
-import { currentDesign } from '../designs/index.js';
-import { countCounting } from '../evaluation/index.js';
-import { lockCohort, trialCode, trialFacts, type TrialFacts } from '../trials/index.js';
+import { currentDesign, type LockedDesign } from '../designs/index.js';
+import { countCounting, countsToward } from '../evaluation/index.js';
+import { lockCohort, trialCode, trialFacts, type Cohort, type TrialFacts } from '../trials/index.js';
 import { holdsRoleAtSite } from '../people/index.js';
 import { entityHistory } from '../audit/index.js';
 import {
@@ -31,18 +31,19 @@ import {
 } from './patients.schema.js';
 import {
   findPatient,
-  findPatientByStudyId,
-  insertPatient,
+  findPatientsByStudyIds,
+  insertPatients,
   nextEnrolmentSeq,
   patientPage,
   patientsInOrder,
   setAttestation,
   updateOutcome,
+  type NewPatient,
   type OutcomeFields,
   type Patient,
   type PatientPage,
 } from './patients.repository.js';
-import { applyAccrualRules, assertCohortEnrolling, type AccrualOutcome } from './accrual-rules.js';
+import { applyAccrualRules, assertCohortEnrolling, stageOneComplete, type AccrualOutcome } from './accrual-rules.js';
 import { emit, type Hooks } from '../hooks.js';
 
 
@@ -111,20 +112,10 @@ function requireWritable(actor: Actor, patient: Patient): void {
 }
 
 export type EnrolRequest = EnrolInput & Partial<OutcomeFields>;
+export type Enrolled = { patient: Patient; accrual: AccrualOutcome };
 
-/**
- * Enrols one patient, optionally with an outcome already known (the CSV import), and applies the
- * accrual rules. The caller owns the transaction.
- */
-export async function enrolPatient(
-  trx: Knex.Transaction,
-  hooks: Hooks,
-  actor: Actor,
-  input: EnrolRequest,
-  facts?: TrialFacts,
-): Promise<{ patient: Patient; accrual: AccrualOutcome }> {
-  const trialId = actor.access.trialId;
-  const trial = facts ?? (await requireFacts(trx, trialId));
+/** What an enrolment request says once checked against the trial alone (no database): 4xx with the field otherwise. */
+function checkEnrolment(trial: TrialFacts, actor: Actor, input: EnrolRequest) {
   const site = trial.sites.find((s) => s.id === input.siteId);
   if (!site || !writableSites(actor.access).includes(site.id)) throw new NotFoundError('The site');
   const studyId = input.studyId.trim().toUpperCase();
@@ -150,42 +141,110 @@ export async function enrolPatient(
   if (outcome.responseAssessedOn && outcome.responseAssessedOn < input.enrolledOn) {
     throw new InputError('The assessment cannot be before enrolment.', { responseAssessedOn: 'The assessment cannot be before enrolment.' });
   }
+  return { site, cohortId: cohort.id, studyId, enrolledOn: input.enrolledOn, outcome };
+}
 
-  const locked = await lockCohort(trx, cohort.id);
-  if (!locked) throw new NotFoundError('The cohort');
-  const design = assertCohortEnrolling(locked, await currentDesign(trx, cohort.id));
-  if (await findPatientByStudyId(trx, trialId, studyId)) {
-    throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
+/** Where a cohort stands while requests are enrolled in order: its state, the next sequence number, the patients counted. */
+type CohortState = { cohort: Pick<Cohort, 'code' | 'status' | 'safetyPause'>; design: LockedDesign | undefined; nextSeq: number; counted: number };
+
+const duplicate = (studyId: string) => new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
+
+/** Runs `check`, turning a refusal (a 4xx) into a result; anything else is a fault and is thrown. */
+function attempt<T>(check: () => T): T | { error: AppError } {
+  try {
+    return check();
+  } catch (error) {
+    if (error instanceof AppError && error.status < 500) return { error };
+    throw error;
   }
-  const enrolmentSeq = await nextEnrolmentSeq(trx, cohort.id);
-  // Stage 1 holds the first n1 counting patients; the newcomer is last in enrolment order.
-  const stage: 1 | 2 = design.n1 === null || (await countCounting(trx, cohort.id, design.analysisPopulation)) < design.n1 ? 1 : 2;
-  const patientId = await insertPatient(trx, {
-    trialId,
-    cohortId: cohort.id,
-    siteId: site.id,
-    studyId,
-    enrolledOn: input.enrolledOn,
-    enrolmentSeq,
-    stage,
-    ...outcome,
-    createdBy: actor.user.id,
-  }).catch((error: { code?: string }) => {
-    if (error.code === '23505') throw new ConflictError(`Study ID ${studyId} is already used in this trial.`, { fields: { studyId: `${studyId} is already used in this trial.` } });
+}
+
+/**
+ * Enrols patients in the order given, optionally with an outcome already known (the CSV import),
+ * and applies the accrual rules; the caller owns the transaction. Each request is checked as the
+ * form checks it, against its cohort as the requests before it left it: stage 1 holds the first n1
+ * counting patients, and once a request completes stage 1 the interim pause refuses the requests
+ * after it (unless the design lets accrual continue at risk), exactly as one enrolment after
+ * another would. A refused request is answered with its reason and leaves no trace; the accepted
+ * ones are written in a few statements: the patients, their audit rows, the accrual rules once per
+ * cohort, one re-derivation of them all.
+ */
+export async function enrolPatients(trx: Knex.Transaction, hooks: Hooks, actor: Actor, requests: readonly EnrolRequest[], facts?: TrialFacts): Promise<Array<Enrolled | { error: AppError }>> {
+  const trialId = actor.access.trialId;
+  const trial = facts ?? (await requireFacts(trx, trialId));
+  const checked = requests.map((request) => attempt(() => checkEnrolment(trial, actor, request)));
+  const valid = checked.filter((c): c is ReturnType<typeof checkEnrolment> => !('error' in c));
+
+  // Cohorts are locked in one order (by id), so two enrolments into the same cohorts cannot deadlock.
+  const states = new Map<string, CohortState | undefined>();
+  for (const cohortId of [...new Set(valid.map((c) => c.cohortId))].sort()) {
+    const locked = await lockCohort(trx, cohortId);
+    const design = locked && (await currentDesign(trx, cohortId));
+    states.set(
+      cohortId,
+      locked && {
+        cohort: locked,
+        design,
+        nextSeq: await nextEnrolmentSeq(trx, cohortId),
+        counted: design ? await countCounting(trx, cohortId, design.analysisPopulation) : 0,
+      },
+    );
+  }
+  const taken = new Set((await findPatientsByStudyIds(trx, trialId, valid.map((c) => c.studyId))).keys());
+
+  const accepted: Array<{ index: number; row: NewPatient }> = [];
+  const results: Array<Enrolled | { error: AppError }> = checked.map((c) => ('error' in c ? c : { error: new NotFoundError('The cohort') }));
+  checked.forEach((c, index) => {
+    if ('error' in c) return;
+    const state = states.get(c.cohortId);
+    if (!state) return;
+    const outcome = attempt(() => {
+      const design = assertCohortEnrolling(state.cohort, state.design);
+      if (taken.has(c.studyId)) throw duplicate(c.studyId);
+      // Stage 1 holds the first n1 counting patients; the newcomer is last in enrolment order.
+      const stage: 1 | 2 = design.n1 === null || state.counted < design.n1 ? 1 : 2;
+      taken.add(c.studyId);
+      accepted.push({
+        index,
+        row: { trialId, cohortId: c.cohortId, siteId: c.site.id, studyId: c.studyId, enrolledOn: c.enrolledOn, enrolmentSeq: state.nextSeq, stage, ...c.outcome, createdBy: actor.user.id },
+      });
+      state.nextSeq += 1;
+      if (countsToward(c.outcome, design.analysisPopulation)) state.counted += 1;
+      // The interim pause applies from here on, as the accrual rules below will record it.
+      if (stageOneComplete(design, state.cohort.status, state.counted)) state.cohort = { ...state.cohort, status: 'interim_review' };
+    });
+    if (outcome !== undefined) results[index] = outcome;
+  });
+  if (accepted.length === 0) return results;
+
+  const ids = await insertPatients(
+    trx,
+    accepted.map((a) => a.row),
+  ).catch((error: { code?: string; detail?: string }) => {
+    if (error.code === '23505') throw duplicate(/\(trial_id, study_id\)=\([^,]+, ([^)]+)\)/.exec(error.detail ?? '')?.[1] ?? 'of a patient');
     throw error;
   });
-  const created = (await findPatient(trx, trialId, patientId, 'all')) as Patient;
-  await writeAudit(trx, {
-    actorUserId: actor.user.id,
-    trialId,
-    entityType: 'patient',
-    entityId: patientId,
-    action: 'enrolled',
-    after: auditSnapshot(created),
+  await writeAudits(
+    trx,
+    (await patientsInOrder(trx, ids)).map((created) => ({ actorUserId: actor.user.id, trialId, entityType: 'patient', entityId: created.id, action: 'enrolled', after: auditSnapshot(created) })),
+  );
+  const accrual = new Map<string, AccrualOutcome>();
+  for (const cohortId of new Set(accepted.map((a) => a.row.cohortId))) {
+    accrual.set(cohortId, await applyAccrualRules(trx, { trialId, trialCode: trial.code, cohortId, actorUserId: actor.user.id }));
+  }
+  await emit(trx, hooks.patientWritten, { trialId, patientIds: ids, action: 'enrolled', actorUserId: actor.user.id });
+  const enrolled = await patientsInOrder(trx, ids);
+  accepted.forEach((a, i) => {
+    results[a.index] = { patient: enrolled[i], accrual: accrual.get(a.row.cohortId) as AccrualOutcome };
   });
-  const accrual = await applyAccrualRules(trx, { trialId, trialCode: trial.code, cohortId: cohort.id, actorUserId: actor.user.id });
-  await emit(trx, hooks.patientWritten, { trialId, cohortId: cohort.id, patientId, action: 'enrolled', actorUserId: actor.user.id });
-  return { patient: (await findPatient(trx, trialId, patientId, 'all')) as Patient, accrual };
+  return results;
+}
+
+/** Enrols one patient (the form): the same rules as a batch of one, its refusal thrown. */
+export async function enrolPatient(trx: Knex.Transaction, hooks: Hooks, actor: Actor, input: EnrolRequest, facts?: TrialFacts): Promise<Enrolled> {
+  const [result] = await enrolPatients(trx, hooks, actor, [input], facts);
+  if ('error' in result) throw result.error;
+  return result;
 }
 
 export async function enrol(db: Db, hooks: Hooks, actor: Actor, input: EnrolInput) {
@@ -272,7 +331,7 @@ export async function recordOutcome(
     actorUserId: actor.user.id,
     evaluabilityChanged: previous.evaluable !== next.evaluable,
   });
-  await emit(trx, hooks.patientWritten, { trialId, cohortId: before.cohortId, patientId: before.id, action, actorUserId: actor.user.id });
+  await emit(trx, hooks.patientWritten, { trialId, patientIds: [before.id], action, actorUserId: actor.user.id });
   return { patient: (await findPatient(trx, trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
 }
 
@@ -319,7 +378,7 @@ export async function attest(db: Db, hooks: Hooks, actor: Actor, patientId: stri
       before: auditSnapshot(current),
       after: auditSnapshot(after),
     });
-    await emit(trx, hooks.patientWritten, { trialId, cohortId: current.cohortId, patientId: current.id, action: 'outcome_attested', actorUserId: actor.user.id });
+    await emit(trx, hooks.patientWritten, { trialId, patientIds: [current.id], action: 'outcome_attested', actorUserId: actor.user.id });
     return { patient: after, signature };
   });
 }
