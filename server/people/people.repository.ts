@@ -3,6 +3,7 @@
  * objects. The only module that reads or writes the sites and memberships tables (sign-in
  * provisions users in auth/users.repository.ts).
  */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 
@@ -238,10 +239,16 @@ export type OwnMembership = { id: string; trialId: string; trialCode: string; ro
 
 /** The user's own active memberships, trial by trial. */
 export async function listOwnMemberships(db: Db, userId: string): Promise<OwnMembership[]> {
-  return db('memberships as m')
+  const [row] = await db.select({ memberships: ownMembershipsJson(db, userId) });
+  return row.memberships as OwnMembership[];
+}
+
+/** The user's active memberships as one JSON array (trial code, then role), for a read that gathers several things in one statement. */
+export function ownMembershipsJson(db: Db, userId: string): Knex.Raw {
+  const rows = db('memberships as m')
     .join('trials as t', 't.id', 'm.trial_id')
     .leftJoin('sites as s', 's.id', 'm.site_id')
     .where({ 'm.user_id': userId, 'm.status': 'active' })
-    .orderBy([{ column: 't.code' }, { column: 'm.role' }])
     .select('m.id', 'm.trial_id as trialId', 't.code as trialCode', 'm.role', 'm.site_id as siteId', 's.code as siteCode');
+  return db.raw(`(select coalesce(json_agg(q order by q."trialCode", q.role), '[]'::json) from (?) q)`, [rows]);
 }

@@ -2,10 +2,17 @@
  * The trial-manager grants store: who may create sites and trials before they manage any trial
  * (the first trial manager of an installation, granted from the command line).
  */
+import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 
 export async function hasTrialManagerGrant(db: Db, userId: string): Promise<boolean> {
-  return Boolean(await db('trial_manager_grants').where({ user_id: userId }).first('id'));
+  const [row] = await db.select({ granted: trialManagerGrantExists(db, userId) });
+  return row.granted as boolean;
+}
+
+/** Whether the user holds a trial manager grant, as one boolean expression for a read that gathers several things. */
+export function trialManagerGrantExists(db: Db, userId: string): Knex.Raw {
+  return db.raw('exists(?)', [db('trial_manager_grants').where({ user_id: userId }).select('id')]);
 }
 
 /** Whether anyone already manages trials here: an admin membership on any trial, or a grant. */

@@ -110,13 +110,26 @@ export async function recordSigningAuthentication(
 }
 
 /** The intents this session has a usable password entry for (the sign dialogs ask, to offer the final step). */
-export async function readyIntents(db: Db, session: SigningSession): Promise<Array<SigningIntent & { expiresAt: string }>> {
-  const rows: Array<{ intent_type: SigningAction; intent_subject_id: string; expires_at: Date }> = await db('signing_authentications')
+export async function readyIntents(db: Db, session: SigningSession): Promise<ReadyIntent[]> {
+  const [row] = await db.select({ ready: readyIntentsJson(db, session) });
+  return toReadyIntents(row.ready);
+}
+
+export type ReadyIntent = SigningIntent & { expiresAt: string };
+
+/** The session's unused, unexpired password entries as one JSON array, for a read that gathers several things in one statement. */
+export function readyIntentsJson(db: Db, session: SigningSession): Knex.Raw {
+  const rows = db('signing_authentications')
     .where({ user_id: session.userId, session_id: session.sessionId })
     .whereNull('consumed_at')
     .where('expires_at', '>', db.fn.now())
     .select('intent_type', 'intent_subject_id', 'expires_at');
-  return rows.map((r) => ({ action: r.intent_type, subjectId: r.intent_subject_id, expiresAt: r.expires_at.toISOString() }));
+  return db.raw(`(select coalesce(json_agg(q order by q.expires_at), '[]'::json) from (?) q)`, [rows]);
+}
+
+export function toReadyIntents(json: unknown): ReadyIntent[] {
+  const rows = json as Array<{ intent_type: SigningAction; intent_subject_id: string; expires_at: string }>;
+  return rows.map((r) => ({ action: r.intent_type, subjectId: r.intent_subject_id, expiresAt: new Date(r.expires_at).toISOString() }));
 }
 
 /**

@@ -50,6 +50,7 @@ describe('sign-in through the identity provider', () => {
     expect(me.body.memberships).toEqual([
       expect.objectContaining({ trialId: trial.trialId, role: 'coordinator', siteCode: 'SA' }),
     ]);
+    expect(me.body).toMatchObject({ trialManager: false, signingReady: [] });
   });
 
   it.each(Object.entries(DEMO))('when %s signs in, then their role comes from the database membership', async (role, email) => {

@@ -38,7 +38,12 @@ describe('one password entry, one signature', () => {
     const [a, b] = [await interimCut(), await interimCut()];
     const mona = await stack.signIn(DEMO.monitor);
     await mona.confirmToSign('recommendation', a.cutId);
+    // Who is signed in says which signature the entry is for (the sign form offers its last step), until it is used.
+    const ready = (await mona.get('/api/me')).body.signingReady;
+    expect(ready).toEqual([{ action: 'recommendation', subjectId: a.cutId, expiresAt: expect.stringMatching(/^\d{4}-\d\d-\d\dT.*Z$/) }]);
+    expect(Date.parse(ready[0].expiresAt)).toBeGreaterThan(Date.now());
     expect((await recommend(mona, a.cutId)).status).toBe(201);
+    expect((await mona.get('/api/me')).body.signingReady).toEqual([]);
 
     const second = await recommend(mona, b.cutId);
     expect(second.status).toBe(401);
