@@ -70,25 +70,27 @@ async function requireFacts(db: Db | Knex.Transaction, trialId: string): Promise
   return facts;
 }
 
-// Which patients a page holds (and the counts above it) reads every patient of the selection: kept per data version of the trial.
-const pages = new VersionedCache<{ facts: TrialFacts; page: PatientPage }>(200);
+// Which patients a page holds (and the counts above it) reads every patient of the selection: kept per data version of the
+// trial, with the page's rows. Everything in a row is the trial's data, which bumps the version, except a signer's current
+// name, shown only for attestations signed before printed names were recorded with each signature.
+const pages = new VersionedCache<{ facts: TrialFacts; page: PatientPage; patients: Patient[] }>(200);
 
 /** One page of the trial's patients the actor may see, with the sites and cohorts the filters and the enrolment form offer. */
 export async function listForUser(db: Db, actor: Actor, query: ListQuery) {
   const { trialId } = actor.access;
   const scope = siteScope(actor.access);
   const key = JSON.stringify([trialId, scope, query]);
-  const { facts, page } =
+  const { facts, page, patients } =
     pages.get(key, await trialDataVersion(db, trialId)) ??
     (await inOneSnapshot(db, async (trx) => {
       const version = await trialDataVersion(trx, trialId);
-      const computed = { facts: await requireFacts(trx, trialId), page: await patientPage(trx, trialId, scope, query) };
+      const page = await patientPage(trx, trialId, scope, query);
+      const computed = { facts: await requireFacts(trx, trialId), page, patients: await patientsInOrder(trx, page.ids) };
       pages.set(key, version, computed);
       return computed;
     }));
   return {
-    // The rows themselves are read fresh: a page is at most a few hundred, found by primary key.
-    patients: await patientsInOrder(db, page.ids),
+    patients,
     total: page.total,
     counts: page.counts,
     page: query.page,

@@ -107,13 +107,13 @@ const figuresByTrial = new VersionedCache<CohortFigures>(1000);
 
 async function cohortFigures(db: Db, trials: TrialForUser[], today: string): Promise<CohortFigures> {
   const key = (trialId: string) => `${trialId}|${today}`;
-  const versions = await trialDataVersions(db, trials.map((t) => t.id));
   const found: CohortFigures = { designs: new Map(), tallies: new Map(), committee: new Map(), released: new Map() };
   const add = (figures: CohortFigures) => {
     for (const part of ['designs', 'tallies', 'committee', 'released'] as const) for (const [id, value] of figures[part]) (found[part] as Map<string, unknown>).set(id, value);
   };
   const missing = trials.filter((trial) => {
-    const hit = figuresByTrial.get(key(trial.id), versions.get(trial.id) as number);
+    // The version came with the trial list (one statement): a write after it leaves a version the cache does not hold.
+    const hit = figuresByTrial.get(key(trial.id), trial.dataVersion);
     if (hit) add(hit);
     return !hit;
   });

@@ -8,6 +8,8 @@ import type { Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 import type { CohortStatus } from './trials.schema.js';
 
+type Conn = Db | Knex.Transaction;
+
 export type { CohortStatus };
 
 export type Cohort = {
@@ -107,7 +109,7 @@ function toTrial(row: TrialRow, cohorts: Cohort[]): Trial {
   };
 }
 
-async function cohortsByTrial(db: Db, trialIds: string[]): Promise<Map<string, Cohort[]>> {
+async function cohortsByTrial(db: Conn, trialIds: string[]): Promise<Map<string, Cohort[]>> {
   const rows: CohortRow[] = trialIds.length ? await db('cohorts').whereIn('trial_id', trialIds).orderBy(['trial_id', 'position']) : [];
   const byTrial = new Map<string, Cohort[]>();
   for (const row of rows) byTrial.set(row.trial_id, [...(byTrial.get(row.trial_id) ?? []), toCohort(row)]);
@@ -120,20 +122,34 @@ export async function findTrial(db: Db, trialId: string): Promise<Trial | undefi
   return toTrial(row, (await cohortsByTrial(db, [row.id])).get(row.id) ?? []);
 }
 
-export type TrialForUser = Trial & { myRoles: Role[] };
+/** A trial of the user's, with their roles on it and its data version (server/db/trial-versions.ts) as read with the roles. */
+export type TrialForUser = Trial & { myRoles: Role[]; dataVersion: number };
 
-export async function listTrialsForUser(db: Db, userId: string): Promise<TrialForUser[]> {
-  const rows: Array<TrialRow & { roles: Role[] }> = await db('trials as t')
-    .join('memberships as m', 'm.trial_id', 't.id')
+/** The user's active roles by trial, each with the trial's data version, in one narrow statement (read on every Portfolio). */
+export async function rolesAndVersions(db: Db, userId: string): Promise<Map<string, { roles: Role[]; dataVersion: number }>> {
+  const rows: Array<{ trial_id: string; role: Role; version: string | null }> = await db('memberships as m')
+    .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
     .where({ 'm.user_id': userId, 'm.status': 'active' })
-    .groupBy('t.id')
-    .orderBy('t.code')
-    .select('t.*', db.raw('array_agg(distinct m.role) as roles'));
+    .select('m.trial_id', 'm.role', 'v.version');
+  const byTrial = new Map<string, { roles: Role[]; dataVersion: number }>();
+  for (const row of rows) {
+    const entry = byTrial.get(row.trial_id) ?? { roles: [], dataVersion: Number(row.version ?? 0) };
+    if (!entry.roles.includes(row.role)) entry.roles.push(row.role);
+    byTrial.set(row.trial_id, entry);
+  }
+  for (const entry of byTrial.values()) entry.roles.sort();
+  return byTrial;
+}
+
+/** The trials with these ids and their cohorts (two statements). */
+export async function trialsWithCohorts(db: Conn, trialIds: readonly string[]): Promise<Trial[]> {
+  if (trialIds.length === 0) return [];
+  const rows: TrialRow[] = await db('trials').whereIn('id', [...trialIds]);
   const cohorts = await cohortsByTrial(
     db,
     rows.map((r) => r.id),
   );
-  return rows.map((row) => ({ ...toTrial(row, cohorts.get(row.id) ?? []), myRoles: row.roles }));
+  return rows.map((row) => toTrial(row, cohorts.get(row.id) ?? []));
 }
 
 /** A site taking part in a trial, with the accrual planned there. */

@@ -16,7 +16,6 @@ import {
   findTrialDetail,
   insertCohorts,
   insertTrial,
-  listTrialsForUser,
   setTrialSites,
   sitesInUse,
   updateCohortRow,
@@ -27,6 +26,7 @@ import {
   type TrialFields,
   type TrialForUser,
 } from './trials.repository.js';
+import { listTrialsForUser } from './user-trials.js';
 import {
   DEFAULT_COHORT,
   type CohortInput,

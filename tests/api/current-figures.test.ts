@@ -118,6 +118,29 @@ describe('figures kept per data version stay current', () => {
   });
 });
 
+describe('the trial records behind the Portfolio and the trial list', () => {
+  it("when a trial's title or a cohort's state changes, or a membership ends, then the next Portfolio and trial list say so on both servers", async () => {
+    const trial = await trialWithPatients();
+    const row = async (base: string) => (await get(base, statistician, '/api/portfolio')).body.portfolio.rows.find((r: { trialId: string }) => r.trialId === trial.trialId);
+    const listed = async (base: string, session: Session) => (await get(base, session, '/api/trials')).body.trials.find((t: { id: string }) => t.id === trial.trialId);
+    expect(await row(stack.url)).toMatchObject({ trialTitle: `Test trial ${trial.code}`, status: 'enrolling_stage_1' });
+    expect(await listed(second.url, sponsor)).toBeTruthy();
+
+    await stack.db('trials').where({ id: trial.trialId }).update({ title: 'Renamed in place' });
+    await stack.db('cohorts').where({ id: trial.cohortIds[0] }).update({ status: 'interim_review' });
+    for (const base of [stack.url, second.url]) {
+      expect(await row(base)).toMatchObject({ trialTitle: 'Renamed in place', status: 'interim_review' });
+      expect(await listed(base, statistician)).toMatchObject({ title: 'Renamed in place', status: 'interim_review' });
+    }
+
+    const sponsorId = (await stack.db('users').where({ email: DEMO.sponsor }).first('id')).id;
+    await stack.db('memberships').where({ trial_id: trial.trialId, user_id: sponsorId }).delete();
+    expect(await listed(stack.url, sponsor)).toBeUndefined();
+    expect(await listed(second.url, sponsor)).toBeUndefined();
+    expect((await get(second.url, sponsor, '/api/portfolio')).body.portfolio.rows.some((r: { trialId: string }) => r.trialId === trial.trialId)).toBe(false);
+  });
+});
+
 describe('every viewer still sees only what the visibility rule allows', () => {
   it('when the statistician has just read the evaluation, then the sponsor reading it next gets no live response figures; once made statistician, at once they do', async () => {
     const trial = await trialWithPatients();
