@@ -8,7 +8,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { inOneSnapshot, currentDataVersion, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import type { Actor } from '../auth/access.js';
 import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
@@ -211,10 +211,10 @@ function timelineStart(trial: Trial, months: string[]): string | null {
 const accruals = new VersionedCache<TrialAccrual>(300);
 
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
-export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all' }): Promise<TrialAccrual> {
+export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all'; dataVersion?: number }): Promise<TrialAccrual> {
   const key = `${trialId}|${options.today}`;
   const whole =
-    accruals.get(key, await trialDataVersion(db, trialId)) ??
+    accruals.get(key, await currentDataVersion(db, { trialId, dataVersion: options.dataVersion })) ??
     (await inOneSnapshot(db, async (trx) => {
       const version = await trialDataVersion(trx, trialId);
       const computed = await computeAccrual(trx, trialId, options.today);
@@ -317,5 +317,5 @@ async function computeAccrual(db: Knex.Transaction, trialId: string, today: stri
 
 /** The Accrual page as the actor sees it: operational figures only; site staff get their own sites' rows. */
 export async function accrualFor(db: Db, actor: Actor, today: string): Promise<TrialAccrual> {
-  return trialAccrual(db, actor.access.trialId, { today, sites: operationalSites(actor.access) });
+  return trialAccrual(db, actor.access.trialId, { today, sites: operationalSites(actor.access), dataVersion: actor.access.dataVersion });
 }

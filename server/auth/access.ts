@@ -17,6 +17,8 @@ export type TrialAccess = {
   roles: Role[];
   /** Sites the user holds a site role at; irrelevant for roles that read every site. */
   siteIds: string[];
+  /** The trial's data version (server/db/trial-versions.ts), read in the same statement as the membership, when it was. */
+  dataVersion?: number;
 };
 
 /** Who a service acts for: the signed-in user and their access to the trial concerned. */

@@ -199,8 +199,18 @@ export async function findDataCut(conn: Conn, cutId: string, options: { forUpdat
   return row ? toDataCut(row) : undefined;
 }
 
+// A cut's trial never changes and a cut is never deleted (the data_cuts_frozen trigger): once read, it is known for good.
+const trialOfCutCache = new Map<string, string>();
+
+/** The trial a cut belongs to (every cut route's access check asks it first). */
 export async function trialOfCut(db: Db, cutId: string): Promise<string | undefined> {
-  const row = await db('data_cuts').where({ id: cutId }).first('trial_id');
+  const known = trialOfCutCache.get(cutId);
+  if (known) return known;
+  const row: { trial_id: string } | undefined = await db('data_cuts').where({ id: cutId }).first('trial_id');
+  if (row) {
+    if (trialOfCutCache.size >= 10_000) trialOfCutCache.delete(trialOfCutCache.keys().next().value as string);
+    trialOfCutCache.set(cutId, row.trial_id);
+  }
   return row?.trial_id;
 }
 

@@ -9,6 +9,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
+import { VersionedCache } from '../db/trial-versions.js';
 import { hasRole, type Actor, type Role, type SessionUser } from '../auth/access.js';
 import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
@@ -234,15 +235,33 @@ export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, o
   const prior: PriorSetting = overridden
     ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
     : cut.prior;
-  const analysis = analyseCut({
-    cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
-    snapshot: cut.snapshot,
-    patients,
-    adverseEvents,
-    prior,
-    priorSource: overridden ? 'request' : 'saved',
-  });
+  const priorSource = overridden ? 'request' : 'saved';
+  // The analysis is a pure function of the frozen content (which the hash just re-read names) and the prior: computed once per process.
+  const key = JSON.stringify([cut.id, cut.analysisVersionId, recomputedHash, prior, priorSource]);
+  let analysis = analyses.get(key, 0);
+  if (!analysis) {
+    analysis = analyseCut({
+      cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
+      snapshot: cut.snapshot,
+      patients,
+      adverseEvents,
+      prior,
+      priorSource,
+    });
+    analyses.set(key, 0, deepFreeze(analysis));
+  }
   return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
+}
+
+const analyses = new VersionedCache<Analysis>(200);
+
+/** A value shared between requests is frozen, so no reader can change what the next one gets. */
+function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const inner of Object.values(value)) deepFreeze(inner);
+  }
+  return value;
 }
 
 /**

@@ -23,6 +23,15 @@ export async function trialDataVersion(db: Conn, trialId: string): Promise<numbe
   return (await trialDataVersions(db, [trialId])).get(trialId) as number;
 }
 
+/**
+ * The version a request's summaries are looked up by: the one read with the caller's membership at
+ * the start of the request when there is one (a write committed before the request is in it), else read now.
+ * For reads only: a handler that writes and then reads must read the version again.
+ */
+export async function currentDataVersion(db: Conn, access: { trialId: string; dataVersion?: number }): Promise<number> {
+  return access.dataVersion ?? (await trialDataVersion(db, access.trialId));
+}
+
 /** Runs `work` in one read-only snapshot, so every query in it (the version first) sees the same committed data. */
 export function inOneSnapshot<T>(db: Db, work: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
   return db.transaction(work, { isolationLevel: 'repeatable read', readOnly: true });

@@ -11,7 +11,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { NotFoundError } from '../http/errors.js';
 import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
@@ -134,8 +134,9 @@ type Computed = { evaluation: TrialEvaluation; released: Map<string, ReleasedFig
 const evaluations = new VersionedCache<Computed>(300);
 
 /** The evaluation with each cohort's released figures, computed once per data version of the trial. */
-async function computed(db: Db, trialId: string): Promise<Computed> {
-  const cached = evaluations.get(trialId, await trialDataVersion(db, trialId));
+async function computed(db: Db, access: { trialId: string; dataVersion?: number }): Promise<Computed> {
+  const { trialId } = access;
+  const cached = evaluations.get(trialId, await currentDataVersion(db, access));
   if (cached) return cached;
   return inOneSnapshot(db, async (trx) => {
     const version = await trialDataVersion(trx, trialId);
@@ -148,7 +149,7 @@ async function computed(db: Db, trialId: string): Promise<Computed> {
 
 /** Every cohort's live evaluation, all of it, with every site's counts. */
 export async function evaluateTrial(db: Db, trialId: string): Promise<TrialEvaluation> {
-  return (await computed(db, trialId)).evaluation;
+  return (await computed(db, { trialId })).evaluation;
 }
 
 async function computeEvaluation(db: Knex.Transaction, trialId: string): Promise<TrialEvaluation> {
@@ -227,7 +228,7 @@ export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: Vi
 
 /** The live evaluation as this viewer may see it: everything computed, then projected cohort by cohort. */
 export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
-  const { evaluation, released } = await computed(db, access.trialId);
+  const { evaluation, released } = await computed(db, access);
   return {
     ...evaluation,
     cohorts: evaluation.cohorts.map(({ sites, ...cohort }) => {

@@ -79,15 +79,18 @@ export function signingSessionOf(req: Request): SigningSession {
   return { userId: requireUser(req).id, sessionId: req.sessionID };
 }
 
+/** The user's roles and sites on the trial, with the trial's data version (which the summaries kept in memory are keyed by), in one statement. */
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {
-  const rows: Array<{ role: Role; site_id: string | null }> = await db('memberships')
-    .where({ trial_id: trialId, user_id: userId, status: 'active' })
-    .select('role', 'site_id');
+  const rows: Array<{ role: Role; site_id: string | null; version: string | null }> = await db('memberships as m')
+    .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
+    .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
+    .select('m.role', 'm.site_id', 'v.version');
   if (rows.length === 0) return undefined;
   return {
     trialId,
     roles: [...new Set(rows.map((row) => row.role))],
     siteIds: [...new Set(rows.filter((row) => row.site_id).map((row) => row.site_id as string))],
+    dataVersion: Number(rows[0].version ?? 0),
   };
 }
 

@@ -7,7 +7,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { writeAudit, writeAudits } from '../audit/audit.js';
 import { AppError, ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
@@ -81,7 +81,7 @@ export async function listForUser(db: Db, actor: Actor, query: ListQuery) {
   const scope = siteScope(actor.access);
   const key = JSON.stringify([trialId, scope, query]);
   const { facts, page, patients } =
-    pages.get(key, await trialDataVersion(db, trialId)) ??
+    pages.get(key, await currentDataVersion(db, actor.access)) ??
     (await inOneSnapshot(db, async (trx) => {
       const version = await trialDataVersion(trx, trialId);
       const page = await patientPage(trx, trialId, scope, query);
