@@ -124,3 +124,4 @@ export async function readCutPatients(conn: Conn, cutId: string): Promise<CutPat
   const rows: CutPatientRow[] = await conn('data_cut_patients').where({ data_cut_id: cutId });
   return rows.map(toCutPatient).sort(byCohortThenSeq);
 }
+

@@ -226,34 +226,10 @@ export async function cutDetail(db: Db, cutId: string) {
 
 export type CutAnalysis = Analysis & { integrity: { contentHash: string; recomputedHash: string; intact: boolean } };
 
-/** The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this answer only. */
-export async function analyseDataCut(db: Db | Knex.Transaction, cutId: string, override?: Partial<PriorSetting>): Promise<CutAnalysis> {
-  const cut = await requireCut(db, cutId);
-  const [patients, adverseEvents] = await Promise.all([readCutPatients(db, cutId), readCutAdverseEvents(db, cutId)]);
-  const recomputedHash = contentHash(cutContent(cut, patients, adverseEvents));
-  const overridden = override && (override.a !== undefined || override.thetaT !== undefined);
-  const prior: PriorSetting = overridden
-    ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
-    : cut.prior;
-  const priorSource = overridden ? 'request' : 'saved';
-  // The analysis is a pure function of the frozen content (which the hash just re-read names) and the prior: computed once per process.
-  const key = JSON.stringify([cut.id, cut.analysisVersionId, recomputedHash, prior, priorSource]);
-  let analysis = analyses.get(key, 0);
-  if (!analysis) {
-    analysis = analyseCut({
-      cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
-      snapshot: cut.snapshot,
-      patients,
-      adverseEvents,
-      prior,
-      priorSource,
-    });
-    analyses.set(key, 0, deepFreeze(analysis));
-  }
-  return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
-}
+type Verified = { analysis: Analysis; recomputedHash: string };
 
-const analyses = new VersionedCache<Analysis>(200);
+// Analyses of cuts whose frozen content was re-read and re-hashed, by cut, analysis version and prior.
+const verified = new VersionedCache<Verified>(200);
 
 /** A value shared between requests is frozen, so no reader can change what the next one gets. */
 function deepFreeze<T>(value: T): T {
@@ -262,6 +238,44 @@ function deepFreeze<T>(value: T): T {
     for (const inner of Object.values(value)) deepFreeze(inner);
   }
   return value;
+}
+
+/**
+ * The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this
+ * answer only. The frozen rows are re-read and re-hashed against the cut's content hash the first
+ * time a server process analyses the cut (for each analysis version and prior), and always with
+ * `reverify` (releasing figures, rendering the signed report); in between, the database keeps the
+ * rows as they were verified (written only with their cut, then never changed: see the migrations).
+ */
+export async function analyseDataCut(
+  db: Db | Knex.Transaction,
+  cutId: string,
+  override?: Partial<PriorSetting>,
+  options: { reverify?: boolean } = {},
+): Promise<CutAnalysis> {
+  const cut = await requireCut(db, cutId);
+  const overridden = override && (override.a !== undefined || override.thetaT !== undefined);
+  const prior: PriorSetting = overridden
+    ? { a: override.a ?? cut.prior.a, b: override.b ?? cut.prior.b, thetaT: override.thetaT ?? cut.prior.thetaT }
+    : cut.prior;
+  const priorSource = overridden ? 'request' : 'saved';
+  const key = JSON.stringify([cut.id, cut.analysisVersionId, prior, priorSource]);
+  let found = options.reverify ? undefined : verified.get(key, 0);
+  if (!found) {
+    const [patients, adverseEvents] = await Promise.all([readCutPatients(db, cutId), readCutAdverseEvents(db, cutId)]);
+    const analysis = analyseCut({
+      cut: { id: cut.id, seq: cut.seq, kind: cut.kind, cutAt: cut.cutAt, contentHash: cut.contentHash, cohortId: cut.cohortId },
+      snapshot: cut.snapshot,
+      patients,
+      adverseEvents,
+      prior,
+      priorSource,
+    });
+    found = { analysis: deepFreeze(analysis), recomputedHash: contentHash(cutContent(cut, patients, adverseEvents)) };
+    verified.set(key, 0, found);
+  }
+  const { analysis, recomputedHash } = found;
+  return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
 }
 
 /**
@@ -509,7 +523,7 @@ export async function applyWithin(trx: Knex.Transaction, cutId: string, input: D
  */
 export async function releaseCohort(trx: Knex.Transaction, cut: DataCut, cohortId: string, decisionId: string, actor: Author): Promise<void> {
   await releaseToSponsor(trx, cut.id);
-  const analysis = await analyseDataCut(trx, cut.id);
+  const analysis = await analyseDataCut(trx, cut.id, undefined, { reverify: true });
   if (!analysis.integrity.intact) throw new ConflictError('The data cut no longer matches its content hash: nothing can be released from it.');
   const cohort = analysis.cohorts.find((c) => c.cohortId === cohortId);
   // A cohort without a locked design at the cut has no figures to release.
@@ -551,7 +565,7 @@ export async function cutReport(db: Db, cutId: string, requester: Author): Promi
     const coverage: ReportCoverage = { dataCutId: cutId, analysisVersionId: cut.analysisVersionId, recommendationCount: recommendationList.length, decisionCount: decisions.length };
     let report = await findReport(trx, coverage);
     if (!report) {
-      const analysis = await analyseDataCut(trx, cutId);
+      const analysis = await analyseDataCut(trx, cutId, undefined, { reverify: true });
       const pdf = await renderCutReport({ cut, analysis, recommendations: recommendationList, decisions, committeeSize });
       report = await insertReport(trx, { ...coverage, pdf, sha256: createHash('sha256').update(pdf).digest('hex'), createdBy: requester.id });
       await writeAudit(trx, {

@@ -93,6 +93,34 @@ describe('freezing a data cut', () => {
 });
 
 describe('a frozen cut does not move', () => {
+  it('when rows are added to a frozen cut after the transaction that made it, then the database refuses them', async () => {
+    const { trial, cohortId } = await stage1Trial();
+    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+    const row = await stack.db('data_cut_patients').where({ data_cut_id: cut.id }).first();
+    await expect(stack.db('data_cut_patients').insert({ ...row, patient_id: '00000000-0000-4000-8000-00000000beef', study_id: 'SA-999', enrolment_seq: 999 })).rejects.toThrow(/is frozen: its rows are written only when it is made/);
+    const event = { data_cut_id: cut.id, adverse_event_id: '00000000-0000-4000-8000-00000000cafe' };
+    await expect(stack.db('data_cut_adverse_events').insert(event)).rejects.toThrow(/is frozen/);
+    await expect(stack.db('data_cuts').where({ id: cut.id }).update({ made_in_transaction: stack.db.raw('pg_current_xact_id()') })).rejects.toThrow(/cannot change/);
+    expect((await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis.integrity.intact).toBe(true);
+  });
+
+  it('when a frozen row is changed behind the append-only triggers, then the signed report re-reads the content and says it no longer matches', async () => {
+    const { trial, cohortId } = await stage1Trial();
+    const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
+    expect((await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis.integrity.intact).toBe(true);
+    await stack.db.transaction(async (trx) => {
+      await trx.raw('alter table data_cut_patients disable trigger data_cut_patients_append_only');
+      await trx('data_cut_patients').where({ data_cut_id: cut.id, outcome: 'non_responder' }).limit(1).update({ outcome: 'responder' });
+      await trx.raw('alter table data_cut_patients enable trigger data_cut_patients_append_only');
+    });
+    const report = await downloadReport(sam, cut.id);
+    expect(report.status).toBe(200);
+    const text = (await pdfPages(report.body as Buffer)).join(' ').replace(/\s+/g, ' ');
+    expect(text).toMatch(/Snapshot intact when this report was made: NO/);
+    // And the page's next read after the report re-verified says the same.
+    expect((await sam.get(`/api/data-cuts/${cut.id}/analysis`)).body.analysis.integrity.intact).toBe(false);
+  });
+
   it('when a patient is corrected after the cut, then the cut’s analysis, hash and numbers are unchanged', async () => {
     const { trial, cohortId } = await stage1Trial();
     const cut = await freezeCutDirectly(stack.db, trial, { cohortId });
