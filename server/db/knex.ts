@@ -54,3 +54,18 @@ export async function databaseIsUp(db: Db): Promise<boolean> {
     return false;
   }
 }
+
+/**
+ * Runs a read that every request makes as a named statement: PostgreSQL parses and plans it once
+ * per connection instead of on every call. `query` is built by Knex as usual (outside any
+ * transaction); its name must be unique to its SQL text.
+ */
+export async function readPrepared<R>(db: Db, name: string, query: Knex.QueryBuilder | Knex.Raw): Promise<R[]> {
+  const { sql, bindings } = query.toSQL().toNative();
+  const connection = (await db.client.acquireConnection()) as { query: (config: { name: string; text: string; values: readonly unknown[] }) => Promise<{ rows: R[] }> };
+  try {
+    return (await connection.query({ name, text: sql, values: bindings })).rows;
+  } finally {
+    await db.client.releaseConnection(connection);
+  }
+}

@@ -16,7 +16,7 @@
  *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
  */
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
-import type { Db } from '../db/knex.js';
+import { readPrepared, type Db } from '../db/knex.js';
 import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
@@ -81,10 +81,14 @@ export function signingSessionOf(req: Request): SigningSession {
 
 /** The user's roles and sites on the trial, with the trial's data version (which the summaries kept in memory are keyed by), in one statement. */
 async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {
-  const rows: Array<{ role: Role; site_id: string | null; version: string | null }> = await db('memberships as m')
-    .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
-    .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
-    .select('m.role', 'm.site_id', 'v.version');
+  const rows = await readPrepared<{ role: Role; site_id: string | null; version: string | null }>(
+    db,
+    'orrery_trial_access',
+    db('memberships as m')
+      .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
+      .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
+      .select('m.role', 'm.site_id', 'v.version'),
+  );
   if (rows.length === 0) return undefined;
   return {
     trialId,

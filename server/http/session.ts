@@ -50,6 +50,27 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
   // The stored expiry of each session as this request loaded it (express-session hands the same object to touch).
   const loadedExpiry = new WeakMap<object, number>();
   class ThrottledPgStore extends PgStore {
+    /**
+     * Every request reads its session: the read is a named statement, which PostgreSQL parses and
+     * plans once per connection instead of on every request. The store's own read runs until its
+     * pruning of expired sessions is scheduled (it arms that timer).
+     */
+    override get(sid: string, callback: (error: unknown, session?: SessionData | null) => void): void {
+      if (!(this as { pruneTimer?: unknown }).pruneTimer) return super.get(sid, callback);
+      pool.query<{ sess: SessionData | string }>({ name: 'orrery_session_read', text: 'select sess from session where sid = $1 and expire >= to_timestamp($2)', values: [sid, Date.now() / 1000] }).then(
+        ({ rows }) => {
+          if (rows.length === 0) return callback(null, null);
+          const { sess } = rows[0];
+          try {
+            callback(null, typeof sess === 'string' ? (JSON.parse(sess) as SessionData) : sess);
+          } catch {
+            this.destroy(sid, (error) => callback(error));
+          }
+        },
+        (error: unknown) => callback(error),
+      );
+    }
+
     override touch(sid: string, sess: SessionData, callback?: Callback): void {
       const expires = sess.cookie.expires?.getTime();
       const loaded = loadedExpiry.get(sess);

@@ -1,4 +1,5 @@
 /** The signed-in user and their own memberships (roles come from the database, never the identity provider). */
+import { readPrepared } from '../db/knex.js';
 import { requireUser, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import { ownMembershipsJson, trialManagerGrantExists, type OwnMembership } from '../people/index.js';
 import { readyIntentsJson, toReadyIntents } from '../signatures/signatures.js';
@@ -11,11 +12,15 @@ export const meRoutes: RouteSpec[] = [
     handler: async (req, res, { db, config }) => {
       const user = requireUser(req);
       // Every page asks this: the three small reads, each written by its own store, go to the database as one statement.
-      const [row] = await db.select({
-        memberships: ownMembershipsJson(db, user.id),
-        trialManager: trialManagerGrantExists(db, user.id),
-        signingReady: readyIntentsJson(db, signingSessionOf(req)),
-      });
+      const [row] = await readPrepared<{ memberships: unknown; trialManager: unknown; signingReady: unknown }>(
+        db,
+        'orrery_me',
+        db.select({
+          memberships: ownMembershipsJson(db, user.id),
+          trialManager: trialManagerGrantExists(db, user.id),
+          signingReady: readyIntentsJson(db, signingSessionOf(req)),
+        }),
+      );
       res.json({
         user: { id: user.id, email: user.email, name: user.name },
         memberships: row.memberships as OwnMembership[],

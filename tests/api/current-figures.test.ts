@@ -211,4 +211,16 @@ describe('sessions written less often', () => {
     expect((await session.post('/auth/logout')).status).toBe(200);
     expect((await request(second.url).get('/api/me').set('Cookie', session.cookie)).status).toBe(401);
   });
+
+  it('when a stored session has expired, then its cookie is refused by every server, however often they have read sessions before', async () => {
+    const session = await stack.signIn(DEMO.monitor);
+    for (let i = 0; i < 3; i += 1) {
+      expect((await session.get('/api/me')).status).toBe(200);
+      expect((await request(second.url).get('/api/me').set('Cookie', session.cookie)).status).toBe(200);
+    }
+    const sid = decodeURIComponent(session.cookie.split('=')[1].split(';')[0]).replace(/^s:/, '').split('.')[0];
+    expect(await stack.db('session').where({ sid }).update({ expire: stack.db.raw("now() - interval '1 second'") })).toBe(1);
+    expect((await session.get('/api/me')).status).toBe(401);
+    expect((await request(second.url).get('/api/me').set('Cookie', session.cookie)).status).toBe(401);
+  });
 });

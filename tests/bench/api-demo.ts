@@ -59,9 +59,15 @@ export async function runApiDemoBench(): Promise<DemoResult> {
     cleanups.unshift(() => one.close());
     const statistician = await one.signIn(DEMO.statistician);
 
+    // This machine's speed drifts from minute to minute (a shared virtual machine): each route is
+    // judged against a run of /api/health made just before it, not against one run at the start.
     const health = await run(one, '/api/health');
     const table: DemoRow[] = [{ route: 'GET /api/health', measured: health }];
-    for (const target of targets) table.push({ route: target.route, measured: await run(one, target.path, statistician.cookie) });
+    const pairedHealth = new Map<string, Measured>();
+    for (const target of targets) {
+      pairedHealth.set(target.route, table.length === 1 ? health : await run(one, '/api/health'));
+      table.push({ route: target.route, measured: await run(one, target.path, statistician.cookie) });
+    }
     const resident = one.residentBytes();
     const residentMiB = Math.max(...resident.workers) / MIB;
     const primaryMiB = resident.primary / MIB;
@@ -73,14 +79,18 @@ export async function runApiDemoBench(): Promise<DemoResult> {
     const oneWorker = table[2].measured;
     const two = await startBenchServer(database.url, { workers: 2 });
     cleanups.unshift(() => two.close());
-    const twoWorkers = await run(two, evaluationPath, (await two.signIn(DEMO.statistician)).cookie);
+    const twoCookie = (await two.signIn(DEMO.statistician)).cookie;
+    // Fresh workers: warm them (compiled code, the kept evaluation) as the one worker was by the runs before its measure.
+    await measure({ url: `${two.url}${evaluationPath}`, connections: CONNECTIONS, headers: { cookie: twoCookie }, duration: 3 });
+    const twoWorkers = await run(two, evaluationPath, twoCookie);
 
     const goals: BenchGoal[] = table.slice(1).map(({ route, measured }) => {
       const factor = route.startsWith('GET /api/me') ? 2 : 3;
-      const met = measured.perSecond >= health.perSecond / 2 && measured.p97_5 <= factor * health.p97_5;
+      const reference = pairedHealth.get(route) as Measured;
+      const met = measured.perSecond >= reference.perSecond / 2 && measured.p97_5 <= factor * reference.p97_5;
       return {
-        goal: `${route}: at least half of /api/health's throughput, p97.5 within ${factor}× (demo size)`,
-        measured: `${rps(measured.perSecond)} vs ${rps(health.perSecond)} (${(measured.perSecond / health.perSecond).toFixed(2)}), p97.5 ${ms(measured.p97_5)} vs ${ms(health.p97_5)} (${(measured.p97_5 / health.p97_5).toFixed(1)}×)`,
+        goal: `${route}: at least half of /api/health's throughput, p97.5 within ${factor}× (demo size, /api/health run just before)`,
+        measured: `${rps(measured.perSecond)} vs ${rps(reference.perSecond)} (${(measured.perSecond / reference.perSecond).toFixed(2)}), p97.5 ${ms(measured.p97_5)} vs ${ms(reference.p97_5)} (${(measured.p97_5 / reference.p97_5).toFixed(1)}×)`,
         met,
       };
     });
