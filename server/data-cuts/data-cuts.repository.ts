@@ -6,7 +6,7 @@
  * this one.
  */
 import type { Knex } from 'knex';
-import type { Db } from '../db/knex.js';
+import { readPrepared, type Db } from '../db/knex.js';
 import type { LockedDesign } from '../designs/index.js';
 import type { CohortStatus } from '../trials/index.js';
 import type { CutKind } from './data-cuts.schema.js';
@@ -195,7 +195,11 @@ export async function insertAnalysisVersion(
 
 export async function findDataCut(conn: Conn, cutId: string, options: { forUpdate?: boolean } = {}): Promise<DataCut | undefined> {
   const query = withCurrentVersion(conn).where('d.id', cutId);
-  const row: DataCutRow | undefined = await (options.forUpdate ? query.forUpdate('d').first() : query.first());
+  let row: DataCutRow | undefined;
+  if (options.forUpdate) row = await query.forUpdate('d').first();
+  // Outside a transaction (the cut's pages, read often), a named statement.
+  else if (!(conn as Knex.Transaction).isTransaction) [row] = await readPrepared<DataCutRow>(conn as Db, 'orrery_find_data_cut', query.limit(1));
+  else row = await query.first();
   return row ? toDataCut(row) : undefined;
 }
 

@@ -4,7 +4,7 @@
  * trial_sites tables.
  */
 import type { Knex } from 'knex';
-import type { Db } from '../db/knex.js';
+import { readPrepared, type Db } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 import type { CohortStatus } from './trials.schema.js';
 
@@ -127,10 +127,11 @@ export type TrialForUser = Trial & { myRoles: Role[]; dataVersion: number };
 
 /** The user's active roles by trial, each with the trial's data version, in one narrow statement (read on every Portfolio). */
 export async function rolesAndVersions(db: Db, userId: string): Promise<Map<string, { roles: Role[]; dataVersion: number }>> {
-  const rows: Array<{ trial_id: string; role: Role; version: string | null }> = await db('memberships as m')
-    .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
-    .where({ 'm.user_id': userId, 'm.status': 'active' })
-    .select('m.trial_id', 'm.role', 'v.version');
+  const rows = await readPrepared<{ trial_id: string; role: Role; version: string | null }>(
+    db,
+    'orrery_roles_and_versions',
+    db('memberships as m').leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id').where({ 'm.user_id': userId, 'm.status': 'active' }).select('m.trial_id', 'm.role', 'v.version'),
+  );
   const byTrial = new Map<string, { roles: Role[]; dataVersion: number }>();
   for (const row of rows) {
     const entry = byTrial.get(row.trial_id) ?? { roles: [], dataVersion: Number(row.version ?? 0) };
