@@ -62,8 +62,10 @@ describe('the evaluation panel', () => {
   it('when a final analysis has pending outcomes that can change it, then the panel says how many and never that patients remain', async () => {
     stubFetch(evaluation(cohort({ r1: 3, n1: 13, r: 12, n: 43, p0: 0.2, alpha: 0.05 }, stage(13, 13, 5), stage(34, 30, 7), 'final_analysis')));
     const { container } = renderWithApp(<EvaluationPanel trialId="t1" />);
-    expect(await screen.findByText(/could still change it: 4 pending outcomes/)).toBeInTheDocument();
+    expect(await screen.findByText(/4 pending outcomes can still change it/)).toBeInTheDocument();
     expect(container.textContent).not.toMatch(/remain/);
+    // Said once: in the verdict's sentence, not again beside the verdict.
+    expect(container.textContent?.match(/still change it/gi)).toHaveLength(1);
   });
 
   it('when the primary p-value and Koyama & Chen’s §4 figure disagree about p ≤ α, then both figures and the sentence are shown', async () => {

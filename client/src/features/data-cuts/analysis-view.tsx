@@ -10,7 +10,7 @@ import type { ColumnDef } from '@tanstack/react-table';
 import { Cautions, Glyphed, Loading, Panel } from '../../components/ui';
 import { DataTable } from '../../components/data-table';
 import { decimal, percent, pValue } from '../../lib/format';
-import { OPEN_ISSUE_WORDS, POPULATION_COUNTS, SELECTION_LABELS, SENSITIVITY_LABEL, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel, stillOpen } from '../../../../server/words';
+import { OPEN_ISSUE_WORDS, POPULATION_COUNTS, SELECTION_LABELS, SENSITIVITY_LABEL, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, ruleLabel } from '../../../../server/words';
 import type { InterimDecision } from '../../../../server/stats/index';
 import type { Analysis, CohortAnalysis, OpenIssue, SiteRow } from './types';
 import { SafetySection } from './safety-section';
@@ -93,7 +93,6 @@ function CohortSection({ cohort: c }: { cohort: CohortAnalysis }) {
                 <RuleVerdict decision={c.rule.decision} early={c.rule.determinedEarly} />
               </p>
               <p className="text-ink-700">{c.rule.message}</p>
-              {stillOpen(c.rule) && <p className="text-ink-700 tabular-nums">Could still change it: {stillOpen(c.rule)}.</p>}
               {c.rule.atRiskNote && (
                 <p className="text-ink-700">
                   <span className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{VERDICT_FIGURE_LABELS.atRisk}: </span>

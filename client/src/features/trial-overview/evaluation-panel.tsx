@@ -2,15 +2,16 @@
  * The evaluation of each cohort on the Trial overview, as the server's visibility rule lets this
  * user see it: the live figures (counts, the response rate with its exact interval, the one-sided
  * exact test against p0, the cohort's verdict under its locked design with early determination,
- * patients enrolled at risk, what could still change it, and at a final analysis the p-value it
- * follows with its sensitivity figure), or the reason they are absent; the figures of the data cut
- * a committee decision released, labelled with the cut's date; and site staff's own sites' counts.
+ * patients enrolled at risk, what could still change it (said once, in the verdict's sentence),
+ * and at a final analysis the p-value it follows with its sensitivity figure), or the reason they
+ * are absent; the figures of the data cut a committee decision released, labelled with the cut's
+ * date; and site staff's own sites' counts.
  * Charts load on demand.
  */
 import { Suspense, lazy } from 'react';
 import { Cautions, ErrorNotice, Figure, Glyphed, Loading, Panel, StatusTag } from '../../components/ui';
 import { decimal, percent, pValue } from '../../lib/format';
-import { COUNT_LABELS, GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, plural, ruleLabel, stillOpen } from '../../../../server/words';
+import { COUNT_LABELS, GLYPHS, POPULATION_COUNTS, SETTLED_EARLY, VERDICT_FIGURE_LABELS, VERDICT_WORDS, plural, ruleLabel } from '../../../../server/words';
 import type { CohortVerdict } from '../../../../server/evaluation/verdict';
 import { liveOf, useEvaluation, type CohortView, type LiveCohort } from './get-evaluation';
 
@@ -26,7 +27,6 @@ function RuleLine({ rule, singleStage }: { rule: CohortVerdict; singleStage: boo
           <Glyphed word={VERDICT_WORDS[rule.decision]} />
         </span>
         {rule.determinedEarly && <span className="text-ink-600"> ({SETTLED_EARLY})</span>}
-        {stillOpen(rule) && <span className="text-ink-600 tabular-nums"> · could still change it: {stillOpen(rule)}</span>}
       </p>
       <p className="text-ink-700">{rule.message}</p>
       {rule.atRiskNote && <p className="text-ink-700">{rule.atRiskNote}</p>}
