@@ -7,6 +7,7 @@
  */
 import type { Knex } from 'knex';
 import { readPrepared, type Db } from '../db/knex.js';
+import { VersionedCache } from '../db/trial-versions.js';
 import type { LockedDesign } from '../designs/index.js';
 import type { CohortStatus } from '../trials/index.js';
 import type { CutKind } from './data-cuts.schema.js';
@@ -203,18 +204,15 @@ export async function findDataCut(conn: Conn, cutId: string, options: { forUpdat
   return row ? toDataCut(row) : undefined;
 }
 
-// A cut's trial never changes and a cut is never deleted (the data_cuts_frozen trigger): once read, it is known for good.
-const trialOfCutCache = new Map<string, string>();
+// A cut's trial never changes and a cut is never deleted (the data_cuts_frozen trigger): once read, it is known for good (one version, 0).
+const trialOfCutCache = new VersionedCache<string>(10_000);
 
 /** The trial a cut belongs to (every cut route's access check asks it first). */
 export async function trialOfCut(db: Db, cutId: string): Promise<string | undefined> {
-  const known = trialOfCutCache.get(cutId);
+  const known = trialOfCutCache.get(cutId, 0);
   if (known) return known;
   const row: { trial_id: string } | undefined = await db('data_cuts').where({ id: cutId }).first('trial_id');
-  if (row) {
-    if (trialOfCutCache.size >= 10_000) trialOfCutCache.delete(trialOfCutCache.keys().next().value as string);
-    trialOfCutCache.set(cutId, row.trial_id);
-  }
+  if (row) trialOfCutCache.set(cutId, 0, row.trial_id);
   return row?.trial_id;
 }
 

@@ -360,14 +360,14 @@ const newPatientRow = (p: NewPatient) => ({
   created_by: p.createdBy,
 });
 
-/** Inserts the patients (a thousand per statement) and returns their ids in the order given. */
+/** Inserts the patients of one trial (a thousand per statement) and returns their ids in the order given, matched by study ID. */
 export async function insertPatients(trx: Knex.Transaction, patients: readonly NewPatient[]): Promise<string[]> {
-  const ids: string[] = [];
+  const idOf = new Map<string, string>();
   for (let start = 0; start < patients.length; start += 1000) {
-    const rows: Array<{ id: string }> = await trx('patients').insert(patients.slice(start, start + 1000).map(newPatientRow)).returning('id');
-    ids.push(...rows.map((row) => row.id));
+    const rows: Array<{ id: string; study_id: string }> = await trx('patients').insert(patients.slice(start, start + 1000).map(newPatientRow)).returning(['id', 'study_id']);
+    for (const row of rows) idOf.set(row.study_id, row.id);
   }
-  return ids;
+  return patients.map((p) => idOf.get(p.studyId) as string);
 }
 
 export type OutcomeFields = {

@@ -195,12 +195,19 @@ export async function enrolPatients(trx: Knex.Transaction, hooks: Hooks, actor: 
   const taken = new Set((await findPatientsByStudyIds(trx, trialId, valid.map((c) => c.studyId))).keys());
 
   const accepted: Array<{ index: number; row: NewPatient }> = [];
-  const results: Array<Enrolled | { error: AppError }> = checked.map((c) => ('error' in c ? c : { error: new NotFoundError('The cohort') }));
+  // Refusals now; the accepted requests get their patient once written.
+  const results: Array<Enrolled | { error: AppError }> = [];
   checked.forEach((c, index) => {
-    if ('error' in c) return;
+    if ('error' in c) {
+      results[index] = c;
+      return;
+    }
     const state = states.get(c.cohortId);
-    if (!state) return;
-    const outcome = attempt(() => {
+    if (!state) {
+      results[index] = { error: new NotFoundError('The cohort') };
+      return;
+    }
+    const refusal = attempt(() => {
       const design = assertCohortEnrolling(state.cohort, state.design);
       if (taken.has(c.studyId)) throw duplicate(c.studyId);
       // Stage 1 holds the first n1 counting patients; the newcomer is last in enrolment order.
@@ -215,7 +222,7 @@ export async function enrolPatients(trx: Knex.Transaction, hooks: Hooks, actor: 
       // The interim pause applies from here on, as the accrual rules below will record it.
       if (stageOneComplete(design, state.cohort.status, state.counted)) state.cohort = { ...state.cohort, status: 'interim_review' };
     });
-    if (outcome !== undefined) results[index] = outcome;
+    if (refusal !== undefined) results[index] = refusal;
   });
   if (accepted.length === 0) return results;
 
