@@ -146,11 +146,7 @@ export function createApp(config: Config, db: Db, logger: Logger, mail: Deps['ma
 
   const sessions = createSessionMiddleware(config, logger);
   const withSession: RequestHandler = (req, res, next) => (req.path === '/api/health' ? next() : sessions.middleware(req, res, next));
-  app.use(['/api', '/auth'], withSession, (req, _res, next) => {
-    const { userId, email, name } = req.session ?? {};
-    if (userId && email) req.user = { id: userId, email, name: name ?? null };
-    next();
-  });
+  app.use(['/api', '/auth'], withSession);
   app.use(['/api', '/auth'], originCheck(config.appOrigin));
   app.use('/api', express.json({ limit: '200kb' }));
   // Conditional GET: the tag is a hash of the very bytes this viewer receives, so a write or a change

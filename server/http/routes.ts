@@ -17,6 +17,7 @@
  */
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
 import { readPrepared, type Db } from '../db/knex.js';
+import { sessionStillStored } from './session.js';
 import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from './errors.js';
@@ -50,11 +51,16 @@ export type RouteSpec = {
   before?: RequestHandler[];
   /** Routes under development tooling are mounted only outside production. */
   devOnly?: boolean;
+  /**
+   * The handler confirms an unconfirmed session itself, in its first statement
+   * (`sessionStillStored` selected beside its data, then `settleSession`), instead of the
+   * authorisation spending a statement on it. Signed-in routes only.
+   */
+  confirmsSession?: boolean;
 };
 
 declare module 'express-serve-static-core' {
   interface Request {
-    user?: SessionUser;
     trialAccess?: TrialAccess;
   }
 }
@@ -79,20 +85,64 @@ export function signingSessionOf(req: Request): SigningSession {
   return { userId: requireUser(req).id, sessionId: req.sessionID };
 }
 
-/** The user's roles and sites on the trial, with the trial's data version (which the summaries kept in memory are keyed by), in one statement. */
-async function loadTrialAccess(db: Db, userId: string, trialId: string): Promise<TrialAccess | undefined> {
-  const rows = await readPrepared<{ role: Role; site_id: string | null; version: string | null }>(
-    db,
-    'orrery_trial_access',
-    db('memberships as m')
-      .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
-      .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
-      .select('m.role', 'm.site_id', 'v.version'),
-  );
+/**
+ * Settles a session the request took from this process's earlier reading (server/http/session.ts)
+ * with what a statement found: still stored, the request goes on as confirmed; gone or expired,
+ * it is refused and the session forgotten.
+ */
+export function settleSession(req: Request, stillStored: boolean): void {
+  const unconfirmed = req.unconfirmedSession;
+  if (!unconfirmed) return;
+  req.unconfirmedSession = undefined;
+  if (stillStored) return;
+  unconfirmed.forget();
+  req.user = undefined;
+  throw new UnauthenticatedError();
+}
+
+/** Confirms an unconfirmed session by a statement of its own, for routes whose first statement does not. */
+async function confirmSession(req: Request, db: Db): Promise<void> {
+  if (!req.unconfirmedSession) return;
+  const [row] = await readPrepared<{ stored: boolean }>(db, 'orrery_session_stored', db.select({ stored: sessionStillStored(db, req.unconfirmedSession.id) }));
+  settleSession(req, row.stored);
+}
+
+/**
+ * The user's roles and sites on the trial, with the trial's data version (which the summaries kept
+ * in memory are keyed by), in one statement; for an unconfirmed session, the same statement says
+ * whether the session is still stored.
+ */
+async function loadTrialAccess(db: Db, req: Request, userId: string, trialId: string): Promise<TrialAccess | undefined> {
+  type Row = { role: Role | null; site_id: string | null; version: string | null; stored?: boolean };
+  let rows: Row[];
+  if (req.unconfirmedSession) {
+    rows = await readPrepared<Row>(
+      db,
+      'orrery_trial_access_confirming',
+      db.raw(
+        `select s.stored, m.role, m.site_id, v.version
+           from (select ? as stored) s
+           left join memberships m on m.trial_id = ? and m.user_id = ? and m.status = 'active'
+           left join trial_data_versions v on v.trial_id = m.trial_id`,
+        [sessionStillStored(db, req.unconfirmedSession.id), trialId, userId],
+      ),
+    );
+    settleSession(req, rows[0].stored === true);
+    rows = rows.filter((row) => row.role !== null);
+  } else {
+    rows = await readPrepared<Row>(
+      db,
+      'orrery_trial_access',
+      db('memberships as m')
+        .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
+        .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
+        .select('m.role', 'm.site_id', 'v.version'),
+    );
+  }
   if (rows.length === 0) return undefined;
   return {
     trialId,
-    roles: [...new Set(rows.map((row) => row.role))],
+    roles: [...new Set(rows.map((row) => row.role as Role))],
     siteIds: [...new Set(rows.filter((row) => row.site_id).map((row) => row.site_id as string))],
     dataVersion: Number(rows[0].version ?? 0),
   };
@@ -112,6 +162,8 @@ function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
   return async (req: Request, _res: Response, next: NextFunction) => {
     try {
       const { access } = spec;
+      // A trial route's access read confirms the session in the same statement; a route marked so confirms it in its own.
+      if (access.kind !== 'trial' && !(access.kind === 'signed-in' && spec.confirmsSession)) await confirmSession(req, deps.db);
       if (access.kind === 'public') return next();
       if (!req.user) throw new UnauthenticatedError();
       if (access.kind === 'signed-in') return next();
@@ -121,8 +173,11 @@ function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
       }
       const params = req.params as Record<string, string>;
       const trialId = access.trialOf ? await access.trialOf(deps.db, params) : params.trialId;
-      if (!isUuid(trialId)) throw new NotFoundError('The trial');
-      const trialAccess = await loadTrialAccess(deps.db, req.user.id, trialId);
+      if (!isUuid(trialId)) {
+        await confirmSession(req, deps.db);
+        throw new NotFoundError('The trial');
+      }
+      const trialAccess = await loadTrialAccess(deps.db, req, req.user.id, trialId);
       if (!trialAccess) throw new NotFoundError('The trial');
       if (!trialAccess.roles.some((role) => access.roles.includes(role))) throw new ForbiddenError();
       req.trialAccess = trialAccess;
@@ -139,6 +194,7 @@ export function mountRoutes(router: Router, specs: RouteSpec[], deps: Deps) {
     router[spec.method](spec.path, authorise(spec, deps), ...(spec.before ?? []), async (req, res, next) => {
       try {
         await spec.handler(req, res, deps);
+        if (req.unconfirmedSession) throw new Error(`${spec.method.toUpperCase()} ${spec.path} is declared to confirm the session but answered without doing so`);
       } catch (error) {
         next(error);
       }

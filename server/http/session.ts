@@ -1,16 +1,33 @@
 /**
- * The session middleware: sessions live in PostgreSQL so any server process can serve any request.
- * Every request reads its session (one indexed row), so a sign-out or a removed session holds at
- * once in every process. The idle timeout rolls with each request, but the stored expiry is pushed
- * forward at most once per TOUCH_INTERVAL_MS per session instead of with a write on every request;
- * the cookie still rolls on every response.
+ * The session middleware: sessions live in PostgreSQL so any server process can serve any request,
+ * and every request is judged against the stored session, so a sign-out or a removed session holds
+ * at once in every process.
+ *
+ * Two ways in:
+ * - Reads the session in full (express-session with the PostgreSQL store): every write, everything
+ *   under /auth, and any request whose session this process has not read in the last
+ *   TOUCH_INTERVAL_MS.
+ * - A read (GET or HEAD under /api) of a signed-in session this process read less than
+ *   TOUCH_INTERVAL_MS ago takes the user from that reading and is marked unconfirmed. The route's
+ *   authorisation confirms it before anything is answered: folded into the route's first statement
+ *   (the trial access read, /api/me), or else by a one-row check of its own (server/http/routes.ts).
+ *   A session gone or expired is refused (401) and forgotten. Only who the session belongs to is
+ *   taken from the earlier reading, and that never changes within a session (a sign-in as someone
+ *   else makes a new session).
+ *
+ * The idle timeout rolls with use, but the stored expiry is pushed forward at most once per
+ * TOUCH_INTERVAL_MS per session instead of with a write on every request; the cookie rolls with it.
  */
 import session, { type SessionData } from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import pg from 'pg';
-import type { RequestHandler } from 'express';
+import { parse as parseCookies } from 'cookie';
+import { unsign } from 'cookie-signature';
+import type { Knex } from 'knex';
+import type { Request, RequestHandler } from 'express';
 import type { Logger } from 'pino';
 import type { Config } from '../config.js';
+import type { SessionUser } from '../auth/access.js';
 import type { SigningIntent } from '../signatures/signatures.js';
 
 declare module 'express-session' {
@@ -33,19 +50,57 @@ declare module 'express-session' {
   }
 }
 
+declare module 'express-serve-static-core' {
+  interface Request {
+    /** The signed-in user, from the stored session. */
+    user?: SessionUser;
+    /** Set when the user came from this process's earlier reading of the session: the route must confirm the session is still stored (`sessionStillStored`). */
+    unconfirmedSession?: { id: string; forget: () => void };
+  }
+}
+
 export const SESSION_COOKIE = 'orrery.sid';
 
 const IDLE_TIMEOUT_MS = 8 * 60 * 60 * 1000;
 /** A stored session may expire this much earlier than its cookie says; in return an active session costs one write a minute, not one per request. */
 export const TOUCH_INTERVAL_MS = 60_000;
 
+/** How many signed-in sessions a process remembers reading; the least recently read go first. */
+const KNOWN_SESSIONS = 20_000;
+
 type Callback = (error?: unknown) => void;
+
+/**
+ * Whether the session is still stored and unexpired, as an SQL expression a route's first
+ * statement selects (so confirming an unconfirmed session costs no round trip of its own).
+ */
+export function sessionStillStored(db: Knex, sessionId: string): Knex.Raw {
+  return db.raw('exists(select 1 from session where sid = ? and expire >= to_timestamp(?))', [sessionId, Date.now() / 1000]);
+}
+
+/** The session id the request's cookie carries, if its signature holds. */
+function signedSessionId(req: Request, secret: string): string | undefined {
+  const header = req.headers.cookie;
+  if (!header) return undefined;
+  const value = parseCookies(header)[SESSION_COOKIE];
+  if (!value?.startsWith('s:')) return undefined;
+  const sid = unsign(value.slice(2), secret);
+  return sid === false ? undefined : sid;
+}
 
 export function createSessionMiddleware(config: Config, logger: Logger): { middleware: RequestHandler; close: () => Promise<void> } {
   const pool = new pg.Pool({ connectionString: config.databaseUrl, max: 10, connectionTimeoutMillis: 2000 });
   pool.on('error', () => {
     // Idle clients dropped by a restarting database are replaced on the next checkout.
   });
+  // Signed-in sessions this process has read in full, by id: whose they are and when they were read.
+  const known = new Map<string, { user: SessionUser; readAt: number }>();
+  const forget = (sid: string) => known.delete(sid);
+  const remember = (sid: string, user: SessionUser) => {
+    known.delete(sid);
+    known.set(sid, { user, readAt: Date.now() });
+    if (known.size > KNOWN_SESSIONS) known.delete(known.keys().next().value as string);
+  };
   const PgStore = connectPgSimple(session);
   // The stored expiry of each session as this request loaded it (express-session hands the same object to touch).
   const loadedExpiry = new WeakMap<object, number>();
@@ -69,6 +124,16 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
         },
         (error: unknown) => callback(error),
       );
+    }
+
+    override set(sid: string, sess: SessionData, callback?: Callback): void {
+      forget(sid);
+      super.set(sid, sess, callback);
+    }
+
+    override destroy(sid: string, callback?: Callback): void {
+      forget(sid);
+      super.destroy(sid, callback);
     }
 
     override touch(sid: string, sess: SessionData, callback?: Callback): void {
@@ -115,12 +180,30 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
       path: '/',
     },
   });
-  const middleware: RequestHandler = (req, res, next) =>
+  const readInFull: RequestHandler = (req, res, next) =>
     sessions(req, res, (error?: unknown) => {
       const expires = req.session?.cookie.expires;
       if (expires) loadedExpiry.set(req.session, expires.getTime());
+      const { userId, email, name } = req.session ?? {};
+      if (userId && email) {
+        req.user = { id: userId, email, name: name ?? null };
+        remember(req.sessionID, req.user);
+      }
       next(error);
     });
+  const middleware: RequestHandler = (req, res, next) => {
+    if ((req.method === 'GET' || req.method === 'HEAD') && req.originalUrl.startsWith('/api/')) {
+      const sid = signedSessionId(req, config.sessionSecret);
+      const reading = sid === undefined ? undefined : known.get(sid);
+      if (sid !== undefined && reading && Date.now() - reading.readAt < TOUCH_INTERVAL_MS) {
+        req.sessionID = sid;
+        req.user = reading.user;
+        req.unconfirmedSession = { id: sid, forget: () => forget(sid) };
+        return next();
+      }
+    }
+    readInFull(req, res, next);
+  };
   return {
     middleware,
     close: async () => {

@@ -3,6 +3,7 @@
  * on the other, queued mail goes out once with both workers running, and a scheduled job's period
  * is claimed by exactly one process.
  */
+import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { pino } from 'pino';
@@ -47,6 +48,29 @@ describe('two server processes on one database', () => {
     const out = await request(stack.url).post('/auth/logout').set('Cookie', sam.cookie).set('Origin', originOf(stack.url));
     expect(out.status).toBe(200);
     expect((await request(second.url).get('/api/me').set('Cookie', sam.cookie)).status).toBe(401);
+  });
+
+  it('when a session the first server read a moment ago is signed out on the second, then the first refuses it on every kind of read at once', async () => {
+    const sam = await signIn(stack.url, DEMO.statistician);
+    const reads = [`/api/me`, `/api/trials/${trial.trialId}`, `/api/trials/${trial.trialId}/evaluation`, '/api/portfolio', '/api/trials', `/api/data-cuts/${randomUUID()}/analysis`, '/api/trials/not-a-trial'];
+    const get = (path: string) => request(stack.url).get(path).set('Cookie', sam.cookie);
+    // Read twice: the first reads the session in full, the second is answered from the first server's reading of it.
+    for (const path of reads) expect((await get(path)).status).not.toBe(401);
+    for (const path of reads) expect((await get(path)).status).not.toBe(401);
+    const out = await request(second.url).post('/auth/logout').set('Cookie', sam.cookie).set('Origin', originOf(second.url));
+    expect(out.status).toBe(200);
+    for (const path of reads) expect({ path, status: (await get(path)).status }).toEqual({ path, status: 401 });
+  });
+
+  it('when a session the first server read a moment ago expires in the database, then the first refuses it at once', async () => {
+    const sam = await signIn(stack.url, DEMO.statistician);
+    const get = (path: string) => request(stack.url).get(path).set('Cookie', sam.cookie);
+    expect((await get('/api/me')).status).toBe(200);
+    expect((await get(`/api/trials/${trial.trialId}/evaluation`)).status).toBe(200);
+    const sid = decodeURIComponent(/orrery\.sid=s%3A([^.;]+)/.exec(sam.cookie)?.[1] ?? '');
+    expect(await stack.db('session').where({ sid }).update({ expire: stack.db.raw(`now() - interval '1 second'`) })).toBe(1);
+    expect((await get(`/api/trials/${trial.trialId}/evaluation`)).status).toBe(401);
+    expect((await get('/api/me')).status).toBe(401);
   });
 
   it('when mail is queued and both mail workers run, then every message is sent exactly once', async () => {
