@@ -56,6 +56,12 @@ export async function databaseIsUp(db: Db): Promise<boolean> {
 }
 
 /**
+ * How a route's first read is run: by default `readPrepared`; a route may hand its services a
+ * reader that folds more into the same statement (server/http/routes.ts, `firstReadOf`).
+ */
+export type FirstRead = <R>(name: string, query: Knex.QueryBuilder) => Promise<R[]>;
+
+/**
  * Runs a read that every request makes as a named statement: PostgreSQL parses and plans it once
  * per connection instead of on every call. `query` is built by Knex as usual (outside any
  * transaction); its name must be unique to its SQL text.

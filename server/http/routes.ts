@@ -16,7 +16,8 @@
  *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
  */
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
-import { readPrepared, type Db } from '../db/knex.js';
+import type { Knex } from 'knex';
+import { readPrepared, type Db, type FirstRead } from '../db/knex.js';
 import { sessionStillStored } from './session.js';
 import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
@@ -52,9 +53,9 @@ export type RouteSpec = {
   /** Routes under development tooling are mounted only outside production. */
   devOnly?: boolean;
   /**
-   * The handler confirms an unconfirmed session itself, in its first statement
-   * (`sessionStillStored` selected beside its data, then `settleSession`), instead of the
-   * authorisation spending a statement on it. Signed-in routes only.
+   * The handler confirms an unconfirmed session itself, in its first statement (through
+   * `firstReadOf`, or `sessionStillStored` selected beside its data and then `settleSession`),
+   * instead of the authorisation spending a statement on it. Signed-in routes only.
    */
   confirmsSession?: boolean;
 };
@@ -108,41 +109,41 @@ async function confirmSession(req: Request, db: Db): Promise<void> {
 }
 
 /**
- * The user's roles and sites on the trial, with the trial's data version (which the summaries kept
- * in memory are keyed by), in one statement; for an unconfirmed session, the same statement says
- * whether the session is still stored.
+ * The route's first read, with an unconfirmed session's confirmation folded into the same
+ * statement (a named statement either way): the session is settled before any row is returned.
+ * A route declared `confirmsSession` hands this to the service that makes its first read.
  */
+export function firstReadOf(req: Request, db: Db): FirstRead {
+  return async <R>(name: string, query: Knex.QueryBuilder): Promise<R[]> => {
+    const unconfirmed = req.unconfirmedSession;
+    if (!unconfirmed) return readPrepared<R>(db, name, query);
+    type Confirming = { session_stored: boolean; read_row: true | null };
+    const rows = await readPrepared<R & Confirming>(
+      db,
+      `${name}_confirming`,
+      db.raw('select s.session_stored, r.* from (select ? as session_stored) s left join lateral (select true as read_row, q.* from ? q) r on true', [
+        sessionStillStored(db, unconfirmed.id),
+        query,
+      ]),
+    );
+    settleSession(req, rows[0].session_stored);
+    return rows.filter((row) => row.read_row).map(({ session_stored: _stored, read_row: _row, ...row }) => row as unknown as R);
+  };
+}
+
+/** The user's roles and sites on the trial, with the trial's data version (which the summaries kept in memory are keyed by), in one statement with the session's confirmation. */
 async function loadTrialAccess(db: Db, req: Request, userId: string, trialId: string): Promise<TrialAccess | undefined> {
-  type Row = { role: Role | null; site_id: string | null; version: string | null; stored?: boolean };
-  let rows: Row[];
-  if (req.unconfirmedSession) {
-    rows = await readPrepared<Row>(
-      db,
-      'orrery_trial_access_confirming',
-      db.raw(
-        `select s.stored, m.role, m.site_id, v.version
-           from (select ? as stored) s
-           left join memberships m on m.trial_id = ? and m.user_id = ? and m.status = 'active'
-           left join trial_data_versions v on v.trial_id = m.trial_id`,
-        [sessionStillStored(db, req.unconfirmedSession.id), trialId, userId],
-      ),
-    );
-    settleSession(req, rows[0].stored === true);
-    rows = rows.filter((row) => row.role !== null);
-  } else {
-    rows = await readPrepared<Row>(
-      db,
-      'orrery_trial_access',
-      db('memberships as m')
-        .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
-        .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
-        .select('m.role', 'm.site_id', 'v.version'),
-    );
-  }
+  const rows = await firstReadOf(req, db)<{ role: Role; site_id: string | null; version: string | null }>(
+    'orrery_trial_access',
+    db('memberships as m')
+      .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
+      .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
+      .select('m.role', 'm.site_id', 'v.version'),
+  );
   if (rows.length === 0) return undefined;
   return {
     trialId,
-    roles: [...new Set(rows.map((row) => row.role as Role))],
+    roles: [...new Set(rows.map((row) => row.role))],
     siteIds: [...new Set(rows.filter((row) => row.site_id).map((row) => row.site_id as string))],
     dataVersion: Number(rows[0].version ?? 0),
   };
@@ -196,7 +197,8 @@ export function mountRoutes(router: Router, specs: RouteSpec[], deps: Deps) {
         await spec.handler(req, res, deps);
         if (req.unconfirmedSession) throw new Error(`${spec.method.toUpperCase()} ${spec.path} is declared to confirm the session but answered without doing so`);
       } catch (error) {
-        next(error);
+        // A handler that failed before its first read (bad input, say) still answers a gone session with 401.
+        next(req.unconfirmedSession ? await confirmSession(req, deps.db).then(() => error, (refusal: unknown) => refusal) : error);
       }
     });
   }

@@ -1,5 +1,5 @@
 /** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
-import { requireUser, type RouteSpec } from '../http/routes.js';
+import { firstReadOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
 import { toDay } from '../accrual/index.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
@@ -11,9 +11,11 @@ export const portfolioRoutes: RouteSpec[] = [
     method: 'get',
     path: '/api/portfolio',
     access: { kind: 'signed-in' },
+    confirmsSession: true,
     handler: async (req, res, { db }) => {
+      const user = requireUser(req);
       const filter = await parseBody(portfolioFilterSchema, req.query);
-      res.json({ portfolio: await portfolioFor(db, requireUser(req), filter, toDay(new Date())) });
+      res.json({ portfolio: await portfolioFor(db, user, filter, toDay(new Date()), firstReadOf(req, db)) });
     },
   },
   {

@@ -12,7 +12,7 @@
  * What each trial's rows are computed from is read once per data version of the trial and day
  * (server/db/trial-versions.ts); the user's trials and roles are read on every request.
  */
-import type { Db } from '../db/knex.js';
+import type { Db, FirstRead } from '../db/knex.js';
 import { inOneSnapshot, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
 import type { Role, SessionUser, TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
@@ -203,8 +203,9 @@ export async function portfolioRows(
   });
 }
 
-export async function portfolioFor(db: Db, user: SessionUser, filter: PortfolioFilter, today: string): Promise<Portfolio> {
-  const trials = await listTrialsForUser(db, user.id);
+/** `read` runs the first statement (a route passes one that confirms its session in it). */
+export async function portfolioFor(db: Db, user: SessionUser, filter: PortfolioFilter, today: string, read?: FirstRead): Promise<Portfolio> {
+  const trials = await listTrialsForUser(db, user.id, read);
   const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
   const wanted = filter.indication?.toLowerCase();
   const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;

@@ -4,7 +4,7 @@
  * trial_sites tables.
  */
 import type { Knex } from 'knex';
-import { readPrepared, type Db } from '../db/knex.js';
+import { readPrepared, type Db, type FirstRead } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 import type { CohortStatus } from './trials.schema.js';
 
@@ -126,9 +126,12 @@ export async function findTrial(db: Db, trialId: string): Promise<Trial | undefi
 export type TrialForUser = Trial & { myRoles: Role[]; dataVersion: number };
 
 /** The user's active roles by trial, each with the trial's data version, in one narrow statement (read on every Portfolio). */
-export async function rolesAndVersions(db: Db, userId: string): Promise<Map<string, { roles: Role[]; dataVersion: number }>> {
-  const rows = await readPrepared<{ trial_id: string; role: Role; version: string | null }>(
-    db,
+export async function rolesAndVersions(
+  db: Db,
+  userId: string,
+  read: FirstRead = (name, query) => readPrepared(db, name, query),
+): Promise<Map<string, { roles: Role[]; dataVersion: number }>> {
+  const rows = await read<{ trial_id: string; role: Role; version: string | null }>(
     'orrery_roles_and_versions',
     db('memberships as m').leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id').where({ 'm.user_id': userId, 'm.status': 'active' }).select('m.trial_id', 'm.role', 'v.version'),
   );

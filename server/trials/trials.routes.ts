@@ -1,5 +1,5 @@
 /** Trials: the ones a user can see, one trial's record, and setting a trial up (admin; protocol settings: statistician). */
-import { actorOf, requireUser, type RouteSpec } from '../http/routes.js';
+import { actorOf, firstReadOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { ROLES, isUuid } from '../auth/access.js';
 import { NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
@@ -11,8 +11,9 @@ export const trialsRoutes: RouteSpec[] = [
     method: 'get',
     path: '/api/trials',
     access: { kind: 'signed-in' },
+    confirmsSession: true,
     handler: async (req, res, { db }) => {
-      res.json({ trials: await trialsFor(db, requireUser(req)) });
+      res.json({ trials: await trialsFor(db, requireUser(req), firstReadOf(req, db)) });
     },
   },
   {

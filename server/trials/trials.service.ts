@@ -3,7 +3,7 @@
  * added or renamed while the trial is still a draft; the statistician sets the protocol's rules
  * for outcomes. Each change is one transaction with its audit row; edits are version-locked.
  */
-import type { Db } from '../db/knex.js';
+import type { Db, FirstRead } from '../db/knex.js';
 import type { Actor, Role, SessionUser } from '../auth/access.js';
 import { writeAudit } from '../audit/audit.js';
 import { emit, type Hooks } from '../hooks.js';
@@ -82,8 +82,8 @@ function checkVersion(trial: TrialDetail, version: number): void {
 }
 
 /** Every trial the user holds an active role on, with those roles. */
-export async function trialsFor(db: Db, user: SessionUser): Promise<TrialForUser[]> {
-  return listTrialsForUser(db, user.id);
+export async function trialsFor(db: Db, user: SessionUser, read?: FirstRead): Promise<TrialForUser[]> {
+  return listTrialsForUser(db, user.id, read);
 }
 
 /** The trial as its set-up forms and overview need it, with the actor's roles and sites on it. */

@@ -4,14 +4,15 @@
  * removed membership holds at once; the trial records and their cohorts are kept per data version
  * (server/db/trial-versions.ts: a committed change to a trial or its cohorts moves it on).
  */
-import type { Db } from '../db/knex.js';
+import type { Db, FirstRead } from '../db/knex.js';
 import { inOneSnapshot, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
 import { rolesAndVersions, trialsWithCohorts, type Trial, type TrialForUser } from './trials.repository.js';
 
 const records = new VersionedCache<Trial>(2000);
 
-export async function listTrialsForUser(db: Db, userId: string): Promise<TrialForUser[]> {
-  const mine = await rolesAndVersions(db, userId);
+/** `read` runs the first statement, the roles and versions (a route passes one that confirms its session in it). */
+export async function listTrialsForUser(db: Db, userId: string, read?: FirstRead): Promise<TrialForUser[]> {
+  const mine = await rolesAndVersions(db, userId, read);
   const found = new Map<string, { trial: Trial; dataVersion: number }>();
   const missing: string[] = [];
   for (const [trialId, { dataVersion }] of mine) {

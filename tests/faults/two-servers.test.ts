@@ -50,16 +50,29 @@ describe('two server processes on one database', () => {
     expect((await request(second.url).get('/api/me').set('Cookie', sam.cookie)).status).toBe(401);
   });
 
-  it('when a session the first server read a moment ago is signed out on the second, then the first refuses it on every kind of read at once', async () => {
-    const sam = await signIn(stack.url, DEMO.statistician);
-    const reads = [`/api/me`, `/api/trials/${trial.trialId}`, `/api/trials/${trial.trialId}/evaluation`, '/api/portfolio', '/api/trials', `/api/data-cuts/${randomUUID()}/analysis`, '/api/trials/not-a-trial'];
-    const get = (path: string) => request(stack.url).get(path).set('Cookie', sam.cookie);
-    // Read twice: the first reads the session in full, the second is answered from the first server's reading of it.
-    for (const path of reads) expect((await get(path)).status).not.toBe(401);
-    for (const path of reads) expect((await get(path)).status).not.toBe(401);
-    const out = await request(second.url).post('/auth/logout').set('Cookie', sam.cookie).set('Origin', originOf(second.url));
-    expect(out.status).toBe(200);
-    for (const path of reads) expect({ path, status: (await get(path)).status }).toEqual({ path, status: 401 });
+  it('when a session the first server read a moment ago is signed out on the second, then the first refuses it at once on every kind of read', async () => {
+    const reads = [
+      '/api/me',
+      `/api/trials/${trial.trialId}`,
+      `/api/trials/${trial.trialId}/evaluation`,
+      '/api/portfolio',
+      '/api/portfolio?status=nonsense',
+      '/api/trials',
+      '/api/sites',
+      `/api/data-cuts/${randomUUID()}/analysis`,
+      '/api/trials/not-a-trial',
+    ];
+    for (const path of reads) {
+      // Each read on a fresh session: a refusal makes the first server forget the session, and the next read would read it in full.
+      const sam = await signIn(stack.url, DEMO.statistician);
+      const get = () => request(stack.url).get(path).set('Cookie', sam.cookie);
+      // The first read reads the session in full; the second is answered from the first server's reading of it.
+      expect((await get()).status).not.toBe(401);
+      expect((await get()).status).not.toBe(401);
+      const out = await request(second.url).post('/auth/logout').set('Cookie', sam.cookie).set('Origin', originOf(second.url));
+      expect(out.status).toBe(200);
+      expect({ path, status: (await get()).status }).toEqual({ path, status: 401 });
+    }
   });
 
   it('when a session the first server read a moment ago expires in the database, then the first refuses it at once', async () => {
