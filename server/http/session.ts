@@ -62,7 +62,11 @@ declare module 'express-serve-static-core' {
 export const SESSION_COOKIE = 'orrery.sid';
 
 const IDLE_TIMEOUT_MS = 8 * 60 * 60 * 1000;
-/** A stored session may expire this much earlier than its cookie says; in return an active session costs one write a minute, not one per request. */
+/**
+ * How long a process answers from its reading of a session, and how far the stored expiry may lag
+ * behind: a stored session may expire up to twice this much earlier than eight hours after its last
+ * use. In return an active session costs one full read and one write a minute, not one per request.
+ */
 export const TOUCH_INTERVAL_MS = 60_000;
 
 /** How many signed-in sessions a process remembers reading; the least recently read go first. */
