@@ -6,7 +6,7 @@
  * this one.
  */
 import type { Knex } from 'knex';
-import { readPrepared, type Db } from '../db/knex.js';
+import { preparedStatement, readPrepared, type Db } from '../db/knex.js';
 import { VersionedCache } from '../db/trial-versions.js';
 import type { LockedDesign } from '../designs/index.js';
 import type { CohortStatus } from '../trials/index.js';
@@ -194,13 +194,14 @@ export async function insertAnalysisVersion(
   });
 }
 
+const dataCutRow = preparedStatement('orrery_find_data_cut', (db, cutId: string) => withCurrentVersion(db).where('d.id', cutId).limit(1));
+
 export async function findDataCut(conn: Conn, cutId: string, options: { forUpdate?: boolean } = {}): Promise<DataCut | undefined> {
-  const query = withCurrentVersion(conn).where('d.id', cutId);
   let row: DataCutRow | undefined;
-  if (options.forUpdate) row = await query.forUpdate('d').first();
+  if (options.forUpdate) row = await withCurrentVersion(conn).where('d.id', cutId).forUpdate('d').first();
   // Outside a transaction (the cut's pages, read often), a named statement.
-  else if (!(conn as Knex.Transaction).isTransaction) [row] = await readPrepared<DataCutRow>(conn as Db, 'orrery_find_data_cut', query.limit(1));
-  else row = await query.first();
+  else if (!(conn as Knex.Transaction).isTransaction) [row] = await readPrepared<DataCutRow>(conn as Db, dataCutRow(conn as Db, cutId));
+  else row = await withCurrentVersion(conn).where('d.id', cutId).first();
   return row ? toDataCut(row) : undefined;
 }
 

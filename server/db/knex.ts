@@ -55,22 +55,48 @@ export async function databaseIsUp(db: Db): Promise<boolean> {
   }
 }
 
+/** A statement ready to run as a named statement: PostgreSQL parses and plans it once per connection. */
+export type PreparedStatement = { name: string; text: string; values: readonly unknown[] };
+
+type Argument = string | number | boolean | null;
+
+/**
+ * A read every request makes, written with Knex once: `build` is called a single time with a
+ * marker in place of each argument, and each later call puts its arguments where the markers
+ * landed in the compiled statement. So `build` must pass each argument through as a value, never
+ * branch on it or change it (a marker that does not land is an error at the first call).
+ */
+export function preparedStatement<A extends Argument[]>(name: string, build: (db: Db, ...args: A) => Knex.QueryBuilder | Knex.Raw): (db: Db, ...args: A) => PreparedStatement {
+  let compiled: { text: string; slots: Array<{ argument: number } | { constant: unknown }> } | undefined;
+  return (db, ...args) => {
+    if (!compiled) {
+      const markers = args.map((_, i) => `\u0001orrery-argument-${i}\u0001`);
+      const { sql, bindings } = build(db, ...(markers as A))
+        .toSQL()
+        .toNative();
+      const slots = bindings.map((binding) => {
+        const argument = markers.indexOf(binding as string);
+        return argument >= 0 ? { argument } : { constant: binding };
+      });
+      const missing = markers.findIndex((_, i) => !slots.some((slot) => 'argument' in slot && slot.argument === i));
+      if (missing >= 0) throw new Error(`${name}: argument ${missing} does not reach the statement as a value`);
+      compiled = { text: sql, slots };
+    }
+    return { name, text: compiled.text, values: compiled.slots.map((slot) => ('argument' in slot ? args[slot.argument] : slot.constant)) };
+  };
+}
+
 /**
  * How a route's first read is run: by default `readPrepared`; a route may hand its services a
  * reader that folds more into the same statement (server/http/routes.ts, `firstReadOf`).
  */
-export type FirstRead = <R>(name: string, query: Knex.QueryBuilder) => Promise<R[]>;
+export type FirstRead = <R>(statement: PreparedStatement) => Promise<R[]>;
 
-/**
- * Runs a read that every request makes as a named statement: PostgreSQL parses and plans it once
- * per connection instead of on every call. `query` is built by Knex as usual (outside any
- * transaction); its name must be unique to its SQL text.
- */
-export async function readPrepared<R>(db: Db, name: string, query: Knex.QueryBuilder | Knex.Raw): Promise<R[]> {
-  const { sql, bindings } = query.toSQL().toNative();
-  const connection = (await db.client.acquireConnection()) as { query: (config: { name: string; text: string; values: readonly unknown[] }) => Promise<{ rows: R[] }> };
+/** Runs a prepared statement outside any transaction. */
+export async function readPrepared<R>(db: Db, statement: PreparedStatement): Promise<R[]> {
+  const connection = (await db.client.acquireConnection()) as { query: (config: PreparedStatement) => Promise<{ rows: R[] }> };
   try {
-    return (await connection.query({ name, text: sql, values: bindings })).rows;
+    return (await connection.query(statement)).rows;
   } finally {
     await db.client.releaseConnection(connection);
   }

@@ -16,8 +16,7 @@
  *   member of that trial gets 404 (its existence does not leak); a member in another role gets 403.
  */
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
-import type { Knex } from 'knex';
-import { readPrepared, type Db, type FirstRead } from '../db/knex.js';
+import { preparedStatement, readPrepared, type Db, type FirstRead, type PreparedStatement } from '../db/knex.js';
 import { sessionStillStored } from './session.js';
 import type { Config } from '../config.js';
 import type { Hooks } from '../hooks.js';
@@ -101,12 +100,28 @@ export function settleSession(req: Request, stillStored: boolean): void {
   throw new UnauthenticatedError();
 }
 
+const sessionStored = preparedStatement('orrery_session_stored', (db, sessionId: string, nowSeconds: number) =>
+  db.select({ stored: sessionStillStored(db, sessionId, nowSeconds) }),
+);
+
 /** Confirms an unconfirmed session by a statement of its own, for routes whose first statement does not. */
 async function confirmSession(req: Request, db: Db): Promise<void> {
   if (!req.unconfirmedSession) return;
-  const [row] = await readPrepared<{ stored: boolean }>(db, 'orrery_session_stored', db.select({ stored: sessionStillStored(db, req.unconfirmedSession.id) }));
+  const [row] = await readPrepared<{ stored: boolean }>(db, sessionStored(db, req.unconfirmedSession.id, Date.now() / 1000));
   settleSession(req, row.stored);
 }
+
+// Each statement's confirming form, by statement name: its placeholders move up two for the session's.
+const confirmingTexts = new Map<string, string>();
+const confirmingText = ({ name, text }: PreparedStatement): string => {
+  let confirming = confirmingTexts.get(name);
+  if (confirming === undefined) {
+    const shifted = text.replace(/\$(\d+)/g, (_, n: string) => `$${Number(n) + 2}`);
+    confirming = `select s.session_stored, r.* from (select exists(select 1 from session where sid = $1 and expire >= to_timestamp($2)) as session_stored) s left join lateral (select true as read_row, q.* from (${shifted}) q) r on true`;
+    confirmingTexts.set(name, confirming);
+  }
+  return confirming;
+};
 
 /**
  * The route's first read, with an unconfirmed session's confirmation folded into the same
@@ -114,32 +129,30 @@ async function confirmSession(req: Request, db: Db): Promise<void> {
  * A route declared `confirmsSession` hands this to the service that makes its first read.
  */
 export function firstReadOf(req: Request, db: Db): FirstRead {
-  return async <R>(name: string, query: Knex.QueryBuilder): Promise<R[]> => {
+  return async <R>(statement: PreparedStatement): Promise<R[]> => {
     const unconfirmed = req.unconfirmedSession;
-    if (!unconfirmed) return readPrepared<R>(db, name, query);
+    if (!unconfirmed) return readPrepared<R>(db, statement);
     type Confirming = { session_stored: boolean; read_row: true | null };
-    const rows = await readPrepared<R & Confirming>(
-      db,
-      `${name}_confirming`,
-      db.raw('select s.session_stored, r.* from (select ? as session_stored) s left join lateral (select true as read_row, q.* from ? q) r on true', [
-        sessionStillStored(db, unconfirmed.id),
-        query,
-      ]),
-    );
+    const rows = await readPrepared<R & Confirming>(db, {
+      name: `${statement.name}_confirming`,
+      text: confirmingText(statement),
+      values: [unconfirmed.id, Date.now() / 1000, ...statement.values],
+    });
     settleSession(req, rows[0].session_stored);
     return rows.filter((row) => row.read_row).map(({ session_stored: _stored, read_row: _row, ...row }) => row as unknown as R);
   };
 }
 
+const trialAccessRows = preparedStatement('orrery_trial_access', (db, trialId: string, userId: string) =>
+  db('memberships as m')
+    .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
+    .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
+    .select('m.role', 'm.site_id', 'v.version'),
+);
+
 /** The user's roles and sites on the trial, with the trial's data version (which the summaries kept in memory are keyed by), in one statement with the session's confirmation. */
 async function loadTrialAccess(db: Db, req: Request, userId: string, trialId: string): Promise<TrialAccess | undefined> {
-  const rows = await firstReadOf(req, db)<{ role: Role; site_id: string | null; version: string | null }>(
-    'orrery_trial_access',
-    db('memberships as m')
-      .leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id')
-      .where({ 'm.trial_id': trialId, 'm.user_id': userId, 'm.status': 'active' })
-      .select('m.role', 'm.site_id', 'v.version'),
-  );
+  const rows = await firstReadOf(req, db)<{ role: Role; site_id: string | null; version: string | null }>(trialAccessRows(db, trialId, userId));
   if (rows.length === 0) return undefined;
   return {
     trialId,

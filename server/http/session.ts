@@ -75,11 +75,12 @@ const KNOWN_SESSIONS = 20_000;
 type Callback = (error?: unknown) => void;
 
 /**
- * Whether the session is still stored and unexpired, as an SQL expression a route's first
- * statement selects (so confirming an unconfirmed session costs no round trip of its own).
+ * Whether the session is still stored and unexpired at `nowSeconds` (seconds since the epoch), as
+ * an SQL expression a route's first statement selects (so confirming an unconfirmed session costs
+ * no round trip of its own).
  */
-export function sessionStillStored(db: Knex, sessionId: string): Knex.Raw {
-  return db.raw('exists(select 1 from session where sid = ? and expire >= to_timestamp(?))', [sessionId, Date.now() / 1000]);
+export function sessionStillStored(db: Knex, sessionId: string, nowSeconds: number): Knex.Raw {
+  return db.raw('exists(select 1 from session where sid = ? and expire >= to_timestamp(?))', [sessionId, nowSeconds]);
 }
 
 /** The session id the request's cookie carries, if its signature holds. */

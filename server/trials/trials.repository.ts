@@ -4,7 +4,7 @@
  * trial_sites tables.
  */
 import type { Knex } from 'knex';
-import { readPrepared, type Db, type FirstRead } from '../db/knex.js';
+import { preparedStatement, readPrepared, type Db, type FirstRead } from '../db/knex.js';
 import type { Role } from '../auth/access.js';
 import type { CohortStatus } from './trials.schema.js';
 
@@ -125,16 +125,17 @@ export async function findTrial(db: Db, trialId: string): Promise<Trial | undefi
 /** A trial of the user's, with their roles on it and its data version (server/db/trial-versions.ts) as read with the roles. */
 export type TrialForUser = Trial & { myRoles: Role[]; dataVersion: number };
 
+const rolesAndVersionsRows = preparedStatement('orrery_roles_and_versions', (db, userId: string) =>
+  db('memberships as m').leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id').where({ 'm.user_id': userId, 'm.status': 'active' }).select('m.trial_id', 'm.role', 'v.version'),
+);
+
 /** The user's active roles by trial, each with the trial's data version, in one narrow statement (read on every Portfolio). */
 export async function rolesAndVersions(
   db: Db,
   userId: string,
-  read: FirstRead = (name, query) => readPrepared(db, name, query),
+  read: FirstRead = (statement) => readPrepared(db, statement),
 ): Promise<Map<string, { roles: Role[]; dataVersion: number }>> {
-  const rows = await read<{ trial_id: string; role: Role; version: string | null }>(
-    'orrery_roles_and_versions',
-    db('memberships as m').leftJoin('trial_data_versions as v', 'v.trial_id', 'm.trial_id').where({ 'm.user_id': userId, 'm.status': 'active' }).select('m.trial_id', 'm.role', 'v.version'),
-  );
+  const rows = await read<{ trial_id: string; role: Role; version: string | null }>(rolesAndVersionsRows(db, userId));
   const byTrial = new Map<string, { roles: Role[]; dataVersion: number }>();
   for (const row of rows) {
     const entry = byTrial.get(row.trial_id) ?? { roles: [], dataVersion: Number(row.version ?? 0) };
