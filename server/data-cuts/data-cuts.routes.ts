@@ -13,6 +13,7 @@ import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import type { Role } from '../auth/access.js';
 import { FROZEN_CUT_READERS } from '../auth/visibility.js';
 import { parseBody, parseQuery } from '../http/validate.js';
+import { sendJson } from '../http/send-json.js';
 import { createDataCutSchema, cutExportQuerySchema, decisionSchema, priorSchema, recommendationSchema } from './data-cuts.schema.js';
 import {
   analyseDataCut,
@@ -75,7 +76,7 @@ export const dataCutsRoutes: RouteSpec[] = [
     access: cutAccess(READERS),
     handler: async (req, res, { db }) => {
       const query = await parseQuery(priorQuerySchema, req.query);
-      res.json({ analysis: await analyseDataCut(db, cutId(req), query) });
+      sendJson(res, await analyseDataCut(db, cutId(req), query), 'analysis');
     },
   },
   {

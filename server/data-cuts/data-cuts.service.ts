@@ -9,7 +9,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { VersionedCache } from '../db/trial-versions.js';
+import { deepFreeze, VersionedCache } from '../db/trial-versions.js';
 import { hasRole, type Actor, type Role, type SessionUser } from '../auth/access.js';
 import { recipientRoles } from '../auth/visibility.js';
 import { writeAudit } from '../audit/audit.js';
@@ -226,19 +226,11 @@ export async function cutDetail(db: Db, cutId: string) {
 
 export type CutAnalysis = Analysis & { integrity: { contentHash: string; recomputedHash: string; intact: boolean } };
 
-type Verified = { analysis: Analysis; recomputedHash: string };
+/** The answer to every request for this analysis: frozen, with the integrity check beside it. */
+type Verified = { answer: CutAnalysis };
 
 // Analyses of cuts whose frozen content was re-read and re-hashed, by cut, analysis version and prior.
 const verified = new VersionedCache<Verified>(200);
-
-/** A value shared between requests is frozen, so no reader can change what the next one gets. */
-function deepFreeze<T>(value: T): T {
-  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
-    Object.freeze(value);
-    for (const inner of Object.values(value)) deepFreeze(inner);
-  }
-  return value;
-}
 
 /**
  * The analysis of a cut from its frozen copy; a prior given here overrides the saved one for this
@@ -271,11 +263,11 @@ export async function analyseDataCut(
       prior,
       priorSource,
     });
-    found = { analysis: deepFreeze(analysis), recomputedHash: contentHash(cutContent(cut, patients, adverseEvents)) };
+    const recomputedHash = contentHash(cutContent(cut, patients, adverseEvents));
+    found = { answer: deepFreeze({ ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } }) };
     verified.set(key, 0, found);
   }
-  const { analysis, recomputedHash } = found;
-  return { ...analysis, integrity: { contentHash: cut.contentHash, recomputedHash, intact: recomputedHash === cut.contentHash } };
+  return found.answer;
 }
 
 /**

@@ -37,6 +37,15 @@ export function inOneSnapshot<T>(db: Db, work: (trx: Knex.Transaction) => Promis
   return db.transaction(work, { isolationLevel: 'repeatable read', readOnly: true });
 }
 
+/** A value shared between requests is frozen, so no reader can change what the next one gets. */
+export function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const inner of Object.values(value)) deepFreeze(inner);
+  }
+  return value;
+}
+
 /**
  * A bounded map of summaries, each stored with the version it was computed at; a lookup with
  * another version misses. The oldest entries go first when it is full.

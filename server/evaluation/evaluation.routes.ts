@@ -5,6 +5,7 @@
  * (and live ones where the design lets sponsors see response), the trial manager operational counts.
  */
 import { actorOf, type RouteSpec } from '../http/routes.js';
+import { sendJson } from '../http/send-json.js';
 import { ROLES } from '../auth/access.js';
 import { evaluationFor } from './evaluation.service.js';
 
@@ -14,7 +15,7 @@ export const evaluationRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/evaluation',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      res.json(await evaluationFor(db, actorOf(req).access));
+      sendJson(res, await evaluationFor(db, actorOf(req).access));
     },
   },
 ];

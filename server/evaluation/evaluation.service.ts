@@ -11,7 +11,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { currentDataVersion, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, deepFreeze, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { NotFoundError } from '../http/errors.js';
 import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
@@ -128,7 +128,8 @@ function earlyDetermination(design: LockedDesign, rule: CohortVerdict): { early:
 
 export type TrialEvaluation = { trialId: string; confLevel: number; cautions: string[]; cohorts: CohortEvaluation[] };
 
-type Computed = { evaluation: TrialEvaluation; released: Map<string, ReleasedFigures> };
+/** `views`: the evaluation as each kind of viewer sees it (by roles and sites), made once per data version and frozen. */
+type Computed = { evaluation: TrialEvaluation; released: Map<string, ReleasedFigures>; views: Map<string, VisibleEvaluation> };
 
 // A few hundred trials' evaluations are a few megabytes at most.
 const evaluations = new VersionedCache<Computed>(300);
@@ -141,7 +142,7 @@ async function computed(db: Db, access: { trialId: string; dataVersion?: number 
   return inOneSnapshot(db, async (trx) => {
     const version = await trialDataVersion(trx, trialId);
     const evaluation = await computeEvaluation(trx, trialId);
-    const value = { evaluation, released: await latestReleased(trx, evaluation.cohorts.map((c) => c.cohortId)) };
+    const value = { evaluation, released: await latestReleased(trx, evaluation.cohorts.map((c) => c.cohortId)), views: new Map<string, VisibleEvaluation>() };
     evaluations.set(trialId, version, value);
     return value;
   });
@@ -226,9 +227,20 @@ export const LIVE_EFFICACY_KEYS = ['responders', 'stage1', 'stage2', 'rate', 'te
 export type VisibleCohortEvaluation = Projected<Omit<CohortEvaluation, 'sites'>, (typeof LIVE_EFFICACY_KEYS)[number], ReleasedFigures, SiteCounts>;
 export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: VisibleCohortEvaluation[] };
 
-/** The live evaluation as this viewer may see it: everything computed, then projected cohort by cohort. */
+/**
+ * The live evaluation as this viewer may see it: everything computed, then projected cohort by
+ * cohort. The projection depends only on the viewer's roles and sites, so it is made once per data
+ * version for each such viewer and shared, frozen.
+ */
 export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
-  const { evaluation, released } = await computed(db, access);
+  const { evaluation, released, views } = await computed(db, access);
+  const viewer = JSON.stringify([[...access.roles].sort(), [...access.siteIds].sort()]);
+  let view = views.get(viewer);
+  if (!view) views.set(viewer, (view = deepFreeze(projectEvaluation(evaluation, released, access))));
+  return view;
+}
+
+function projectEvaluation(evaluation: TrialEvaluation, released: Map<string, ReleasedFigures>, access: TrialAccess): VisibleEvaluation {
   return {
     ...evaluation,
     cohorts: evaluation.cohorts.map(({ sites, ...cohort }) => {

@@ -8,6 +8,7 @@ import { actorOf, signingSessionOf, type RouteSpec } from '../http/routes.js';
 import { parseBody, parseQuery } from '../http/validate.js';
 import type { Role } from '../auth/access.js';
 import { csvUpload, isDryRun, sendCsv } from '../csv/upload.js';
+import { sendJson } from '../http/send-json.js';
 import { enrolSchema, IMPORT_MAX_BYTES, listQuerySchema } from './patients.schema.js';
 import { attest, changeOutcome, enrol, history, listForUser, requireVisiblePatient } from './patients.service.js';
 import { importPatients, importTemplate, patientsExport, readCsv } from './patients-import.js';
@@ -23,7 +24,7 @@ export const patientsRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/patients',
     access: { kind: 'trial', roles: READ },
     handler: async (req, res, { db }) => {
-      res.json(await listForUser(db, actorOf(req), await parseQuery(listQuerySchema, req.query)));
+      sendJson(res, await listForUser(db, actorOf(req), await parseQuery(listQuerySchema, req.query)));
     },
   },
   {

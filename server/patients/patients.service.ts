@@ -7,7 +7,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { currentDataVersion, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, deepFreeze, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { writeAudit, writeAudits } from '../audit/audit.js';
 import { AppError, ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
@@ -73,22 +73,32 @@ async function requireFacts(db: Db | Knex.Transaction, trialId: string): Promise
 // Which patients a page holds (and the counts above it) reads every patient of the selection: kept per data version of the
 // trial, with the page's rows. Everything in a row is the trial's data, which bumps the version, except a signer's current
 // name, shown only for attestations signed before printed names were recorded with each signature.
-const pages = new VersionedCache<{ facts: TrialFacts; page: PatientPage; patients: Patient[] }>(200);
+// With each page, the answers made from it, by the sites the viewer may enrol at (the one part of an answer that varies within a site scope), frozen.
+const pages = new VersionedCache<{ facts: TrialFacts; page: PatientPage; patients: Patient[]; answers: Map<string, PatientList> }>(200);
+
+export type PatientList = ReturnType<typeof patientList>;
 
 /** One page of the trial's patients the actor may see, with the sites and cohorts the filters and the enrolment form offer. */
-export async function listForUser(db: Db, actor: Actor, query: ListQuery) {
+export async function listForUser(db: Db, actor: Actor, query: ListQuery): Promise<PatientList> {
   const { trialId } = actor.access;
   const scope = siteScope(actor.access);
   const key = JSON.stringify([trialId, scope, query]);
-  const { facts, page, patients } =
+  const kept =
     pages.get(key, await currentDataVersion(db, actor.access)) ??
     (await inOneSnapshot(db, async (trx) => {
       const version = await trialDataVersion(trx, trialId);
       const page = await patientPage(trx, trialId, scope, query);
-      const computed = { facts: await requireFacts(trx, trialId), page, patients: await patientsInOrder(trx, page.ids) };
+      const computed = { facts: await requireFacts(trx, trialId), page, patients: await patientsInOrder(trx, page.ids), answers: new Map<string, PatientList>() };
       pages.set(key, version, computed);
       return computed;
     }));
+  const enrolAt = JSON.stringify(writableSites(actor.access));
+  let answer = kept.answers.get(enrolAt);
+  if (!answer) kept.answers.set(enrolAt, (answer = deepFreeze(patientList(actor, query, scope, kept))));
+  return answer;
+}
+
+function patientList(actor: Actor, query: ListQuery, scope: ReturnType<typeof siteScope>, { facts, page, patients }: { facts: TrialFacts; page: PatientPage; patients: Patient[] }) {
   return {
     patients,
     total: page.total,
