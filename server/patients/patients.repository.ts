@@ -45,6 +45,9 @@ export type Patient = {
   updatedAt: string;
 };
 
+/** A patient as the patient page lists it: everything but the derivation's reasoning, which the patient's own record carries. */
+export type ListedPatient = Omit<Patient, 'derivation'>;
+
 type PatientRow = {
   id: string;
   trial_id: string;

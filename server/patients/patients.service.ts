@@ -40,6 +40,7 @@ import {
   updateOutcome,
   type NewPatient,
   type OutcomeFields,
+  type ListedPatient,
   type Patient,
   type PatientPage,
 } from './patients.repository.js';
@@ -100,7 +101,7 @@ export async function listForUser(db: Db, actor: Actor, query: ListQuery): Promi
 
 function patientList(actor: Actor, query: ListQuery, scope: ReturnType<typeof siteScope>, { facts, page, patients }: { facts: TrialFacts; page: PatientPage; patients: Patient[] }) {
   return {
-    patients,
+    patients: patients.map(({ derivation: _reasoning, ...listed }): ListedPatient => listed),
     total: page.total,
     counts: page.counts,
     page: query.page,

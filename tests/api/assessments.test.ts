@@ -205,6 +205,10 @@ describe('outcomes entered through the patient record', () => {
       outcomeFlag: 'disagrees_with_derivation',
       derivation: expect.objectContaining({ bestOverallResponse: 'SD', explanation: expect.any(Array) }),
     });
+    // The patient page lists the derived figures and the flag, and leaves the reasoning to the patient's own record.
+    const listed = (await sam.get(`/api/trials/${trial.trialId}/patients?pageSize=100`)).body.patients.find((p: { id: string }) => p.id === patient.id);
+    expect(listed).toMatchObject({ derivedBestOverallResponse: 'SD', derivedResponder: false, outcomeFlag: 'disagrees_with_derivation' });
+    expect(listed).not.toHaveProperty('derivation');
     expect(await stack.db('audit_log').where({ entity_id: patient.id, action: 'flagged' })).toHaveLength(1);
   });
 });

@@ -7,11 +7,11 @@ import { Link } from 'react-router-dom';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type VisibilityState } from '@tanstack/react-table';
 import { Button, EmptyState } from '../../components/ui';
 import { day } from '../../lib/format';
-import type { Patient, PatientFilters } from './types';
+import type { ListedPatient, PatientFilters } from './types';
 import { OutcomeTag } from './words';
 import { GLYPHS } from '../../../../server/words';
 
-const column = createColumnHelper<Patient>();
+const column = createColumnHelper<ListedPatient>();
 
 const columns = [
   column.accessor('studyId', {
@@ -78,7 +78,7 @@ export function PatientsTable({
   onChange,
   multiCohort,
 }: {
-  patients: Patient[];
+  patients: ListedPatient[];
   total: number;
   filters: PatientFilters;
   onChange: (next: Partial<PatientFilters>) => void;

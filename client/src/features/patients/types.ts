@@ -1,10 +1,10 @@
 /** The shapes the patients API answers with (types only: nothing of the server is bundled). */
-export type { Patient, Attestation, HistoryEntry, OutcomeCounts, TrialSite, TrialCohort } from '../../../../server/patients/patients.repository';
+export type { Patient, ListedPatient, Attestation, HistoryEntry, OutcomeCounts, TrialSite, TrialCohort } from '../../../../server/patients/patients.repository';
 export type { ImportReport, RowResult, ImportCounts } from '../../../../server/patients/patients-import';
-import type { Patient, OutcomeCounts, TrialSite, TrialCohort } from '../../../../server/patients/patients.repository';
+import type { ListedPatient, OutcomeCounts, TrialSite, TrialCohort } from '../../../../server/patients/patients.repository';
 
 export type PatientList = {
-  patients: Patient[];
+  patients: ListedPatient[];
   total: number;
   page: number;
   pageSize: number;
