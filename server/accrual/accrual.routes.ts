@@ -1,4 +1,5 @@
 /** Accrual of one trial: enrolment over time against the plan, by site, with projections. Every role of the trial. */
+import { sendJson } from '../http/send-json.js';
 import { actorOf, type RouteSpec } from '../http/routes.js';
 import { ROLES } from '../auth/access.js';
 import { toDay } from './calendar.js';
@@ -10,7 +11,7 @@ export const accrualRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/accrual',
     access: { kind: 'trial', roles: ROLES },
     handler: async (req, res, { db }) => {
-      res.json({ accrual: await accrualFor(db, actorOf(req), toDay(new Date())) });
+      sendJson(res, await accrualFor(db, actorOf(req), toDay(new Date())), 'accrual');
     },
   },
 ];

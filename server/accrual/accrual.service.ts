@@ -8,7 +8,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, currentDataVersion, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { inOneSnapshot, currentDataVersion, deepFreeze, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import type { Actor } from '../auth/access.js';
 import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
@@ -208,23 +208,31 @@ function timelineStart(trial: Trial, months: string[]): string | null {
   return candidates.sort()[0] ?? null;
 }
 
-const accruals = new VersionedCache<TrialAccrual>(300);
+// The whole page per trial, day and data version, frozen, with the pages made from it for site staff (by the sites they see).
+const accruals = new VersionedCache<{ whole: TrialAccrual; bySites: Map<string, TrialAccrual> }>(300);
 
 /** The whole Accrual page for one trial; `sites` limits the per-site rows (site roles see their own). */
 export async function trialAccrual(db: Db, trialId: string, options: { today: string; sites: string[] | 'all'; dataVersion?: number }): Promise<TrialAccrual> {
   const key = `${trialId}|${options.today}`;
-  const whole =
+  const kept =
     accruals.get(key, await currentDataVersion(db, { trialId, dataVersion: options.dataVersion })) ??
     (await inOneSnapshot(db, async (trx) => {
       const version = await trialDataVersion(trx, trialId);
-      const computed = await computeAccrual(trx, trialId, options.today);
+      const computed = { whole: deepFreeze(await computeAccrual(trx, trialId, options.today)), bySites: new Map<string, TrialAccrual>() };
       accruals.set(key, version, computed);
       return computed;
     }));
   const shown = options.sites;
-  if (shown === 'all') return whole;
-  // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
-  return { ...whole, sitesShown: 'own', sites: whole.sites.filter((s) => shown.includes(s.siteId)), warnings: whole.warnings.filter((w) => shown.includes(w.siteId)) };
+  if (shown === 'all') return kept.whole;
+  const sitesKey = JSON.stringify([...shown].sort());
+  let own = kept.bySites.get(sitesKey);
+  if (!own) {
+    const { whole } = kept;
+    // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
+    own = deepFreeze({ ...whole, sitesShown: 'own' as const, sites: whole.sites.filter((s) => shown.includes(s.siteId)), warnings: whole.warnings.filter((w) => shown.includes(w.siteId)) });
+    kept.bySites.set(sitesKey, own);
+  }
+  return own;
 }
 
 async function computeAccrual(db: Knex.Transaction, trialId: string, today: string): Promise<TrialAccrual> {

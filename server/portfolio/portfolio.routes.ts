@@ -1,6 +1,7 @@
 /** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
 import { firstReadOf, requireUser, type RouteSpec } from '../http/routes.js';
 import { parseBody } from '../http/validate.js';
+import { sendJson } from '../http/send-json.js';
 import { toDay } from '../accrual/index.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
 import { portfolioFor } from './portfolio.service.js';
@@ -15,7 +16,7 @@ export const portfolioRoutes: RouteSpec[] = [
     handler: async (req, res, { db }) => {
       const user = requireUser(req);
       const filter = await parseBody(portfolioFilterSchema, req.query);
-      res.json({ portfolio: await portfolioFor(db, user, filter, toDay(new Date()), firstReadOf(req, db)) });
+      sendJson(res, await portfolioFor(db, user, filter, toDay(new Date()), firstReadOf(req, db)), 'portfolio');
     },
   },
   {

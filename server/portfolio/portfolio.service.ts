@@ -13,7 +13,7 @@
  * (server/db/trial-versions.ts); the user's trials and roles are read on every request.
  */
 import type { Db, FirstRead } from '../db/knex.js';
-import { inOneSnapshot, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
+import { deepFreeze, inOneSnapshot, trialDataVersions, VersionedCache } from '../db/trial-versions.js';
 import type { Role, SessionUser, TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
 import { listTrialsForUser, type Cohort, type TrialForUser } from '../trials/index.js';
@@ -203,12 +203,20 @@ export async function portfolioRows(
   });
 }
 
+// Whole Portfolios, frozen, by what they are made of: the day, the filter, and each trial with the viewer's roles on it and its data version.
+const portfolios = new VersionedCache<Portfolio>(100);
+
 /** `read` runs the first statement (a route passes one that confirms its session in it). */
 export async function portfolioFor(db: Db, user: SessionUser, filter: PortfolioFilter, today: string, read?: FirstRead): Promise<Portfolio> {
   const trials = await listTrialsForUser(db, user.id, read);
+  const key = JSON.stringify([today, filter.indication ?? null, filter.status ?? null, trials.map((t) => [t.id, t.myRoles, t.dataVersion])]);
+  const kept = portfolios.get(key, 0);
+  if (kept) return kept;
   const indications = [...new Set(trials.map((t) => t.indication))].sort((a, b) => a.localeCompare(b));
   const wanted = filter.indication?.toLowerCase();
   const chosen = wanted ? trials.filter((t) => t.indication.toLowerCase().includes(wanted)) : trials;
   const rows = await portfolioRows(db, chosen, { today });
-  return { asOf: today, rows: filter.status ? rows.filter((r) => r.status === filter.status) : rows, indications };
+  const portfolio = deepFreeze({ asOf: today, rows: filter.status ? rows.filter((r) => r.status === filter.status) : rows, indications });
+  portfolios.set(key, 0, portfolio);
+  return portfolio;
 }
