@@ -1,7 +1,7 @@
 /**
  * Portfolio and Accrual under load: a portfolio of 50 trials × 500 patients, GET /api/portfolio
  * and GET /api/trials/:trialId/accrual as a signed-in sponsor and statistician (autocannon,
- * 20 connections, BENCH_SECONDS each, 8 by default), beside a bare Express JSON route measured in
+ * 20 connections, BENCH_SECONDS each, 8 by default, each after a 3 s warm-up), beside a bare Express JSON route measured in
  * the same run (the shared parts are in api-load.ts, the server processes in tests/support/server-process.ts).
  * Uses DATABASE_URL's server when set, else a temporary PostgreSQL cluster; cleans up after.
  * Run alone with `npx tsx tests/bench/api-portfolio.ts`; `npm run bench` collects the same figures.
@@ -15,7 +15,7 @@ import { DEMO, createTrial } from '../support/factories.js';
 import { lockDesignDirectly } from '../support/patient-factories.js';
 import { bulkEnrol, daysAgo, setSitePlan, setTrialFields } from '../support/accrual-factories.js';
 import { releaseCutDirectly } from '../support/data-cut-factories.js';
-import { describeReference, describeRun, measure, temporaryDatabase, type Measured } from './api-load.js';
+import { describeReference, describeRun, measureWarm, temporaryDatabase, type Measured } from './api-load.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
 import { startBareServer, startBenchServer } from '../support/server-process.js';
 
@@ -24,9 +24,9 @@ const PATIENTS = 500;
 const SITES = ['BA', 'BB', 'BC', 'BD'];
 const CONNECTIONS = 20;
 
-/** One run, then a pause so requests still in flight finish before the next run (or the shutdown). */
+/** One run in steady state (after a 3 s warm-up of the same request), then a pause so requests still in flight finish before the next run (or the shutdown). */
 async function settled(url: string, headers: Record<string, string> = {}): Promise<Measured> {
-  const measured = await measure({ url, connections: CONNECTIONS, headers });
+  const measured = await measureWarm({ url, connections: CONNECTIONS, headers });
   await new Promise((resolve) => setTimeout(resolve, 2000));
   return measured;
 }
