@@ -7,8 +7,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { createRequire } from 'node:module';
-import * as fontkit from 'fontkit';
-import decompress from 'wawoff2/decompress.js';
+import type * as Fontkit from 'fontkit';
 
 const require = createRequire(import.meta.url);
 
@@ -25,13 +24,18 @@ export type ReportFonts = {
   printable: (text: string) => string;
 };
 
+// The unpacker and the font reader load with the first report, not with every server process.
 async function unpack(file: string): Promise<Buffer> {
+  const { default: decompress } = await import('wawoff2/decompress.js');
   return Buffer.from(await decompress(await readFile(file)));
 }
 
 async function load(): Promise<ReportFonts> {
-  const [regular, semibold] = await Promise.all([unpack(INTER_FILES.regular), unpack(INTER_FILES.semibold)]);
-  const font = fontkit.create(regular) as fontkit.Font;
+  // One after the other: the unpacker answers with a view of its own memory, which its next call may reuse before the first is copied out.
+  const regular = await unpack(INTER_FILES.regular);
+  const semibold = await unpack(INTER_FILES.semibold);
+  const fontkit = await import('fontkit');
+  const font = fontkit.create(regular) as Fontkit.Font;
   const drawable = (char: string) => char === '\n' || font.hasGlyphForCodePoint(char.codePointAt(0) as number);
   return { regular, semibold, printable: (text) => Array.from(text, (char) => (drawable(char) ? char : '?')).join('') };
 }

@@ -9,7 +9,6 @@
  * caution in full. Deterministic: the document's dates come from the cut's time and the embedded
  * subsets are named from their content, so the same content gives the same bytes (and hash).
  */
-import PDFDocument from 'pdfkit';
 import type { AppliedDecision, DataCut, Recommendation } from '../data-cuts.repository.js';
 import type { CohortAnalysis } from '../analysis.js';
 import type { CutAnalysis } from '../data-cuts.service.js';
@@ -384,6 +383,8 @@ function safetySection(doc: Doc, s: CohortSafetyAnalysis) {
 export async function renderCutReport(input: ReportInput): Promise<Buffer> {
   const { cut, analysis } = input;
   const cutAt = new Date(cut.cutAt);
+  // The PDF library (about 15 MB resident) loads with the first report, not with every server process.
+  const { default: PDFDocument } = await import('pdfkit');
   const fonts = await reportFonts();
   const title = `${analysis.trial.code} — data cut ${cut.seq} (${CUT_KIND_LABELS[cut.kind].toLowerCase()})`;
   const doc = new PDFDocument({
