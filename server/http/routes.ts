@@ -111,13 +111,14 @@ async function confirmSession(req: Request, db: Db): Promise<void> {
   settleSession(req, row.stored);
 }
 
-// Each statement's confirming form, by statement name: its placeholders move up two for the session's.
+// Each statement's confirming form, by statement name: the session check (sessionStored) first, the
+// statement's own placeholders moved up past the check's.
 const confirmingTexts = new Map<string, string>();
-const confirmingText = ({ name, text }: PreparedStatement): string => {
+const confirmingText = (check: PreparedStatement, { name, text }: PreparedStatement): string => {
   let confirming = confirmingTexts.get(name);
   if (confirming === undefined) {
-    const shifted = text.replace(/\$(\d+)/g, (_, n: string) => `$${Number(n) + 2}`);
-    confirming = `select s.session_stored, r.* from (select exists(select 1 from session where sid = $1 and expire >= to_timestamp($2)) as session_stored) s left join lateral (select true as read_row, q.* from (${shifted}) q) r on true`;
+    const shifted = text.replace(/\$(\d+)/g, (_, n: string) => `$${Number(n) + check.values.length}`);
+    confirming = `select s.stored as session_stored, r.* from (${check.text}) s left join lateral (select true as read_row, q.* from (${shifted}) q) r on true`;
     confirmingTexts.set(name, confirming);
   }
   return confirming;
@@ -132,11 +133,12 @@ export function firstReadOf(req: Request, db: Db): FirstRead {
   return async <R>(statement: PreparedStatement): Promise<R[]> => {
     const unconfirmed = req.unconfirmedSession;
     if (!unconfirmed) return readPrepared<R>(db, statement);
+    const check = sessionStored(db, unconfirmed.id, Date.now() / 1000);
     type Confirming = { session_stored: boolean; read_row: true | null };
     const rows = await readPrepared<R & Confirming>(db, {
       name: `${statement.name}_confirming`,
-      text: confirmingText(statement),
-      values: [unconfirmed.id, Date.now() / 1000, ...statement.values],
+      text: confirmingText(check, statement),
+      values: [...check.values, ...statement.values],
     });
     settleSession(req, rows[0].session_stored);
     return rows.filter((row) => row.read_row).map(({ session_stored: _stored, read_row: _row, ...row }) => row as unknown as R);

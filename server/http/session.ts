@@ -10,7 +10,8 @@
  * - A read (GET or HEAD under /api) of a signed-in session this process read less than
  *   TOUCH_INTERVAL_MS ago takes the user from that reading and is marked unconfirmed. The route's
  *   authorisation confirms it before anything is answered: folded into the route's first statement
- *   (the trial access read, /api/me), or else by a one-row check of its own (server/http/routes.ts).
+ *   (the trial access read, /api/me, the Portfolio's and trial list's roles and versions), or else
+ *   by a one-row check of its own (server/http/routes.ts).
  *   A session gone or expired is refused (401) and forgotten. Only who the session belongs to is
  *   taken from the earlier reading, and that never changes within a session (a sign-in as someone
  *   else makes a new session).
