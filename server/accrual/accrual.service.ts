@@ -8,7 +8,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { inOneSnapshot, currentDataVersion, deepFreeze, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { inOneSnapshot, currentDataVersion, deepFreeze, keptFrozen, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import type { Actor } from '../auth/access.js';
 import { operationalSites } from '../auth/visibility.js';
 import { NotFoundError } from '../http/errors.js';
@@ -224,15 +224,14 @@ export async function trialAccrual(db: Db, trialId: string, options: { today: st
     }));
   const shown = options.sites;
   if (shown === 'all') return kept.whole;
-  const sitesKey = JSON.stringify([...shown].sort());
-  let own = kept.bySites.get(sitesKey);
-  if (!own) {
-    const { whole } = kept;
-    // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
-    own = deepFreeze({ ...whole, sitesShown: 'own' as const, sites: whole.sites.filter((s) => shown.includes(s.siteId)), warnings: whole.warnings.filter((w) => shown.includes(w.siteId)) });
-    kept.bySites.set(sitesKey, own);
-  }
-  return own;
+  const { whole } = kept;
+  // Each site's row and warning stand on their own, so dropping the others leaves them as computed.
+  return keptFrozen(kept.bySites, JSON.stringify([...shown].sort()), () => ({
+    ...whole,
+    sitesShown: 'own' as const,
+    sites: whole.sites.filter((s) => shown.includes(s.siteId)),
+    warnings: whole.warnings.filter((w) => shown.includes(w.siteId)),
+  }));
 }
 
 async function computeAccrual(db: Knex.Transaction, trialId: string, today: string): Promise<TrialAccrual> {

@@ -46,6 +46,13 @@ export function deepFreeze<T>(value: T): T {
   return value;
 }
 
+/** The frozen value kept under `key` in `kept`, made and frozen the first time it is asked for (the answers kept beside a summary, one per kind of viewer). */
+export function keptFrozen<T>(kept: Map<string, T>, key: string, make: () => T): T {
+  let value = kept.get(key);
+  if (value === undefined) kept.set(key, (value = deepFreeze(make())));
+  return value;
+}
+
 /**
  * A bounded map of summaries, each stored with the version it was computed at; a lookup with
  * another version misses. The oldest entries go first when it is full.

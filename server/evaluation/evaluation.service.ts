@@ -11,7 +11,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { currentDataVersion, deepFreeze, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, inOneSnapshot, keptFrozen, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { NotFoundError } from '../http/errors.js';
 import type { TrialAccess } from '../auth/access.js';
 import { efficacyView, projectEfficacy, type Projected } from '../auth/visibility.js';
@@ -235,9 +235,7 @@ export type VisibleEvaluation = Omit<TrialEvaluation, 'cohorts'> & { cohorts: Vi
 export async function evaluationFor(db: Db, access: TrialAccess): Promise<VisibleEvaluation> {
   const { evaluation, released, views } = await computed(db, access);
   const viewer = JSON.stringify([[...access.roles].sort(), [...access.siteIds].sort()]);
-  let view = views.get(viewer);
-  if (!view) views.set(viewer, (view = deepFreeze(projectEvaluation(evaluation, released, access))));
-  return view;
+  return keptFrozen(views, viewer, () => projectEvaluation(evaluation, released, access));
 }
 
 function projectEvaluation(evaluation: TrialEvaluation, released: Map<string, ReleasedFigures>, access: TrialAccess): VisibleEvaluation {

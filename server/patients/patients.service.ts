@@ -7,7 +7,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
-import { currentDataVersion, deepFreeze, inOneSnapshot, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
+import { currentDataVersion, inOneSnapshot, keptFrozen, trialDataVersion, VersionedCache } from '../db/trial-versions.js';
 import { writeAudit, writeAudits } from '../audit/audit.js';
 import { AppError, ConflictError, ForbiddenError, InputError, NotFoundError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
@@ -93,10 +93,7 @@ export async function listForUser(db: Db, actor: Actor, query: ListQuery): Promi
       pages.set(key, version, computed);
       return computed;
     }));
-  const enrolAt = JSON.stringify(writableSites(actor.access));
-  let answer = kept.answers.get(enrolAt);
-  if (!answer) kept.answers.set(enrolAt, (answer = deepFreeze(patientList(actor, query, scope, kept))));
-  return answer;
+  return keptFrozen(kept.answers, JSON.stringify(writableSites(actor.access)), () => patientList(actor, query, scope, kept));
 }
 
 function patientList(actor: Actor, query: ListQuery, scope: ReturnType<typeof siteScope>, { facts, page, patients }: { facts: TrialFacts; page: PatientPage; patients: Patient[] }) {

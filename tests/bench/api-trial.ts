@@ -30,7 +30,7 @@ const IMPORT_ROWS = 2_000;
 const ATTENTION_SAMPLES = 20;
 const MIB = 2 ** 20;
 
-export async function seedTrial(db: Db): Promise<TrialFixture> {
+async function seedTrial(db: Db): Promise<TrialFixture> {
   const trial = await createTrial(db, { code: 'BENCH-5000', sites: SITES });
   const cohortId = trial.cohortIds[0];
   // A single-stage design sized for the cohort, so the evaluation works on a trial within its plan.
