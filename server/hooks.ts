@@ -7,6 +7,7 @@
  * hooks to the routes, which pass them to the services. Nothing registers itself on import.
  */
 import type { Knex } from 'knex';
+import type { Patient } from './patients/index.js';
 
 /** One write of one or more patients of a trial (an import's new patients are one write). */
 export type PatientWrite = {
@@ -14,6 +15,8 @@ export type PatientWrite = {
   patientIds: readonly string[];
   action: 'enrolled' | 'outcome_recorded' | 'outcome_corrected' | 'outcome_attested';
   actorUserId: string;
+  /** The written patients as they stand in this transaction, locked, when the writer holds them (listeners read them otherwise). */
+  written?: readonly Patient[];
 };
 
 export type ProtocolSettingsChange = { trialId: string; actorUserId: string };

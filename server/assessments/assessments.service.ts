@@ -20,7 +20,6 @@ import {
   listPatientsOfTrial,
   storeDerivations,
   storeDerivedOutcomes,
-  storeOutcomeFlags,
   type OutcomeColumns,
   type Patient,
 } from '../patients/index.js';
@@ -102,17 +101,8 @@ type Subject = { patient: Patient; assessments: Assessment[] };
  */
 async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], settings: TrialSettings, context: DerivationContext): Promise<Derivation[]> {
   const derivations = subjects.map(({ patient, assessments }) => derivationFor(patient, assessments, settings, context.today));
-  await storeDerivations(
-    trx,
-    subjects.map(({ patient }, i) => ({
-      patientId: patient.id,
-      derivedBestOverallResponse: derivations[i].bestOverallResponse,
-      derivedResponder: derivations[i].responder,
-      derivation: derivations[i],
-    })),
-  );
   const outcomes: Array<OutcomeColumns & { patientId: string }> = [];
-  const flags = new Map<string | null, string[]>();
+  const flags: Array<string | null> = [];
   const audits: Array<{ patient: Patient; action: string; before: unknown; after: unknown }> = [];
   subjects.forEach(({ patient, assessments }, i) => {
     const derivation = derivations[i];
@@ -129,8 +119,8 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
     } else if (disagreesWithDerivation({ outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse }, derivation)) {
       flag = DISAGREES_FLAG;
     }
+    flags.push(flag);
     if (flag !== patient.outcomeFlag) {
-      flags.set(flag, [...(flags.get(flag) ?? []), patient.id]);
       const compared = {
         entered: { outcome: patient.outcome, bestOverallResponse: patient.bestOverallResponse },
         derived: { responder: derivation.responder, bestOverallResponse: derivation.bestOverallResponse },
@@ -138,8 +128,17 @@ async function applyDerivations(trx: Knex.Transaction, subjects: Subject[], sett
       audits.push({ patient, action: flag ? 'flagged' : 'flag_cleared', before: { outcomeFlag: patient.outcomeFlag, ...compared }, after: { outcomeFlag: flag, ...compared } });
     }
   });
+  await storeDerivations(
+    trx,
+    subjects.map(({ patient }, i) => ({
+      patientId: patient.id,
+      derivedBestOverallResponse: derivations[i].bestOverallResponse,
+      derivedResponder: derivations[i].responder,
+      derivation: derivations[i],
+      outcomeFlag: flags[i],
+    })),
+  );
   await storeDerivedOutcomes(trx, outcomes);
-  for (const [flag, ids] of flags) await storeOutcomeFlags(trx, ids, flag);
   await writeAudits(
     trx,
     audits.map(({ patient, action, before, after }) => ({ actorUserId: context.actorUserId ?? null, trialId: patient.trialId, entityType: 'patient', entityId: patient.id, action, before, after })),
@@ -158,8 +157,14 @@ export async function recomputeDerivation(trx: Knex.Transaction, patientId: stri
 }
 
 /** The same for patients of one trial written together (an import's new patients), in a few statements; derivations in id order. */
-export async function recomputeDerivations(trx: Knex.Transaction, patientIds: readonly string[], context: DerivationContext = {}): Promise<Derivation[]> {
-  const patients = await findPatientsByIds(trx, patientIds, { forUpdate: true });
+export async function recomputeDerivations(
+  trx: Knex.Transaction,
+  patientIds: readonly string[],
+  context: DerivationContext = {},
+  written?: readonly Patient[],
+): Promise<Derivation[]> {
+  // The writer's own rows, as they stand and locked in this transaction, spare a second read.
+  const patients = written && sameIds(written, patientIds) ? [...written].sort((a, b) => (a.id < b.id ? -1 : 1)) : await findPatientsByIds(trx, patientIds, { forUpdate: true });
   if (patients.length !== new Set(patientIds).size) throw new NotFoundError('The patient');
   if (patients.length === 0) return [];
   const trialId = patients[0].trialId;
@@ -185,10 +190,15 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
   return patients.length;
 }
 
+function sameIds(patients: readonly Patient[], ids: readonly string[]): boolean {
+  const wanted = new Set(ids);
+  return patients.length === wanted.size && new Set(patients.map((p) => p.id)).size === wanted.size && patients.every((p) => wanted.has(p.id));
+}
+
 /** Listens to patient writes: an attestation changes no outcome, everything else re-derives. */
 export const rederiveAfterPatientWrite: Listener<PatientWrite> = async (trx, write) => {
   if (write.action === 'outcome_attested') return;
-  await recomputeDerivations(trx, write.patientIds, { actorUserId: write.actorUserId });
+  await recomputeDerivations(trx, write.patientIds, { actorUserId: write.actorUserId }, write.written);
 };
 
 /** Listens to changes of the protocol's outcome rules: every stored derivation (and, when derived, outcome) follows. */

@@ -11,7 +11,7 @@ import { recipientRoles } from '../auth/visibility.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
-import { findCohort, transitionCohort, type Cohort } from '../trials/index.js';
+import { findCohort, transitionCohort, trialCode, type Cohort } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';
 import { DECISION_SUPPORT_ONLY, INTERIM_DATA, POPULATION_IN_A_SENTENCE, SAFETY_PAUSED, STATUS_IN_A_SENTENCE, plural } from '../words/index.js';
 import { countablePatients, currentStages, setStage } from './patients.repository.js';
@@ -59,13 +59,14 @@ export async function restageCohort(trx: Knex.Transaction, cohortId: string, n1:
 
 /**
  * Applies the accrual rules after an enrolment or an outcome change, inside the caller's
- * transaction (the cohort row is locked by `transitionCohort`). Stages are re-derived only when an
+ * transaction (the cohort row is locked by `transitionCohort`). The trial's code, for the mail, is
+ * read only when the caller does not know it and a mail is sent. Stages are re-derived only when an
  * evaluability change can move them (evaluable population); otherwise a new patient's stage, set
  * at enrolment, never changes.
  */
 export async function applyAccrualRules(
   trx: Knex.Transaction,
-  input: { trialId: string; trialCode: string; cohortId: string; actorUserId: string; evaluabilityChanged?: boolean },
+  input: { trialId: string; trialCode?: string; cohortId: string; actorUserId: string; evaluabilityChanged?: boolean },
 ): Promise<AccrualOutcome> {
   const design = await currentDesign(trx, input.cohortId);
   const n1 = design?.n1 ?? null;
@@ -88,7 +89,7 @@ export async function applyAccrualRules(
   const atRisk = design.interimAccrual === 'continue_at_risk';
   // The message carries stage-1 responder counts: live efficacy, for the statistician and committee only.
   const recipients = await memberEmails(trx, input.trialId, recipientRoles('live-efficacy', ['statistician', 'monitor']));
-  const label = `${input.trialCode} ${cohort.code}`;
+  const label = `${input.trialCode ?? (await trialCode(trx, input.trialId)) ?? ''} ${cohort.code}`;
   const accrualLine = atRisk
     ? 'The protocol lets accrual continue at risk during the review: sites may keep enrolling.'
     : 'Accrual is paused: the server refuses further enrolment in this cohort until the review ends and stage 2 opens.';

@@ -109,7 +109,13 @@ function toPatient(row: PatientRow): Patient {
 }
 
 function baseQuery(db: Conn) {
-  return db('patients as p')
+  return joined(db.queryBuilder(), 'patients as p');
+}
+
+/** Patient rows (`from`, aliased p) with their site, cohort and attestation. */
+function joined(query: Knex.QueryBuilder, from: string) {
+  return query
+    .from(from)
     .join('sites as s', 's.id', 'p.site_id')
     .join('cohorts as c', 'c.id', 'p.cohort_id')
     .leftJoin('signatures as sig', 'sig.id', 'p.attestation_signature_id')
@@ -382,14 +388,15 @@ export type OutcomeFields = {
 };
 
 /** Writes the outcome only if the version still matches; returns false when someone else wrote first. */
+/** Writes the outcome if the patient is still at `version`; answers the patient as written (undefined when the version moved on). */
 export async function updateOutcome(
   trx: Knex.Transaction,
   patientId: string,
   version: number,
   fields: OutcomeFields,
   options: { clearAttestation: boolean },
-): Promise<boolean> {
-  const updated = await trx('patients')
+): Promise<Patient | undefined> {
+  const written = trx('patients')
     .where({ id: patientId, version })
     .update({
       outcome: fields.outcome,
@@ -400,8 +407,11 @@ export async function updateOutcome(
       ...(options.clearAttestation ? { attestation_signature_id: null } : {}),
       version: version + 1,
       updated_at: trx.fn.now(),
-    });
-  return updated === 1;
+    })
+    .returning('*');
+  // The written row with the same joins as every other read, in the same statement.
+  const row: PatientRow | undefined = await joined(trx.with('p', written), 'p').first(COLUMNS);
+  return row ? toPatient(row) : undefined;
 }
 
 export async function setAttestation(trx: Knex.Transaction, patientId: string, version: number, signatureId: string): Promise<boolean> {
@@ -417,20 +427,22 @@ export type DerivedColumns = {
   derivedBestOverallResponse: BestOverallResponse | null;
   derivedResponder: boolean | null;
   derivation: Derivation;
+  /** The disagreement flag as the derivation leaves it (null where none). */
+  outcomeFlag: string | null;
 };
 
 const CHUNK = 500;
 const chunks = <T>(rows: T[]) => Array.from({ length: Math.ceil(rows.length / CHUNK) }, (_, i) => rows.slice(i * CHUNK, (i + 1) * CHUNK));
 
-/** Stores derivations of many patients in a few statements (a trial-wide recompute touches thousands). */
+/** Stores derivations and flags of many patients in a few statements (a trial-wide recompute touches thousands). */
 export async function storeDerivations(trx: Knex.Transaction, rows: DerivedColumns[]): Promise<void> {
   for (const part of chunks(rows)) {
     await trx.raw(
       `update patients as p
-          set derived_best_overall_response = v.bor, derived_responder = v.responder, derivation = v.derivation
-         from (values ${part.map(() => '(?::uuid, ?::text, ?::boolean, ?::jsonb)').join(', ')}) as v(id, bor, responder, derivation)
+          set derived_best_overall_response = v.bor, derived_responder = v.responder, derivation = v.derivation, outcome_flag = v.flag
+         from (values ${part.map(() => '(?::uuid, ?::text, ?::boolean, ?::jsonb, ?::text)').join(', ')}) as v(id, bor, responder, derivation, flag)
         where p.id = v.id`,
-      part.flatMap((r) => [r.patientId, r.derivedBestOverallResponse, r.derivedResponder, JSON.stringify(r.derivation)]),
+      part.flatMap((r) => [r.patientId, r.derivedBestOverallResponse, r.derivedResponder, JSON.stringify(r.derivation), r.outcomeFlag]),
     );
   }
 }
@@ -449,10 +461,6 @@ export async function storeDerivedOutcomes(trx: Knex.Transaction, rows: Array<Ou
       part.flatMap((r) => [r.patientId, r.outcome, r.bestOverallResponse, r.responseAssessedOn]),
     );
   }
-}
-
-export async function storeOutcomeFlags(trx: Knex.Transaction, patientIds: string[], flag: string | null): Promise<void> {
-  for (const part of chunks(patientIds)) await trx('patients').whereIn('id', part).update({ outcome_flag: flag });
 }
 
 export type AttentionRow = {

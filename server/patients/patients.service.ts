@@ -15,7 +15,7 @@ import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import { recordSignature, type SigningSession } from '../signatures/signatures.js';
 import { currentDesign, type LockedDesign } from '../designs/index.js';
 import { countCounting, countsToward } from '../evaluation/index.js';
-import { lockCohort, trialCode, trialFacts, type Cohort, type TrialFacts } from '../trials/index.js';
+import { lockCohort, trialFacts, type Cohort, type TrialFacts } from '../trials/index.js';
 import { holdsRoleAtSite } from '../people/index.js';
 import { entityHistory } from '../audit/index.js';
 import {
@@ -289,7 +289,8 @@ function fieldsOf(p: OutcomeFields): OutcomeFields {
 /**
  * Records or corrects a patient's outcome. A change to an outcome already recorded is a correction
  * and needs a reason; a stale version gets 409 with the current record; an attested outcome that
- * changes loses its attestation.
+ * changes loses its attestation. `locked` is the patient as the caller just read it, visible and
+ * locked in this transaction; without it the patient is read and locked here.
  */
 export async function recordOutcome(
   trx: Knex.Transaction,
@@ -297,9 +298,9 @@ export async function recordOutcome(
   actor: Actor,
   patientId: string,
   input: OutcomeInput,
-  options: { trialCode?: string; reasonField?: string } = {},
+  options: { trialCode?: string; reasonField?: string; locked?: Patient } = {},
 ): Promise<OutcomeChange> {
-  const before = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
+  const before = options.locked ?? (await requireVisiblePatient(trx, actor, patientId, { forUpdate: true }));
   requireWritable(actor, before);
   if (input.version !== before.version) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', { current: before });
@@ -322,12 +323,12 @@ export async function recordOutcome(
   }
   const attestationCleared = before.attested !== null;
   const trialId = actor.access.trialId;
-  if (!(await updateOutcome(trx, before.id, before.version, next, { clearAttestation: attestationCleared }))) {
+  const after = await updateOutcome(trx, before.id, before.version, next, { clearAttestation: attestationCleared });
+  if (!after) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', {
       current: await findPatient(trx, trialId, before.id, siteScope(actor.access)),
     });
   }
-  const after = (await findPatient(trx, trialId, before.id, 'all')) as Patient;
   const action = correction ? 'outcome_corrected' : 'outcome_recorded';
   await writeAudit(trx, {
     actorUserId: actor.user.id,
@@ -339,24 +340,28 @@ export async function recordOutcome(
     after: { ...auditSnapshot(after), ...(attestationCleared ? { attestationCleared: true } : {}) },
     reason: input.reason ?? null,
   });
-  const code = options.trialCode ?? (await trialCode(trx, trialId));
-  if (code === undefined) throw new NotFoundError('The trial');
   const accrual = await applyAccrualRules(trx, {
     trialId,
-    trialCode: code,
+    trialCode: options.trialCode,
     cohortId: before.cohortId,
     actorUserId: actor.user.id,
     evaluabilityChanged: previous.evaluable !== next.evaluable,
   });
-  await emit(trx, hooks.patientWritten, { trialId, patientIds: [before.id], action, actorUserId: actor.user.id });
+  await emit(trx, hooks.patientWritten, { trialId, patientIds: [before.id], action, actorUserId: actor.user.id, written: [after] });
   return { patient: (await findPatient(trx, trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
 }
 
-/** The payload is judged only once the patient is known to be visible: another site's patient answers 404 whatever is sent. */
+/**
+ * The payload is judged only once the patient is known to be visible: another site's patient
+ * answers 404 whatever is sent. The patient is read once, locked, in the writing transaction (bad
+ * input rolls it back, having written nothing).
+ */
 export async function changeOutcome(db: Db, hooks: Hooks, actor: Actor, patientId: string, body: unknown): Promise<OutcomeChange> {
-  await requireVisiblePatient(db, actor, patientId);
-  const input = await parseBody(outcomeSchema, body);
-  return db.transaction((trx) => recordOutcome(trx, hooks, actor, patientId, input));
+  return db.transaction(async (trx) => {
+    const locked = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
+    const input = await parseBody(outcomeSchema, body);
+    return recordOutcome(trx, hooks, actor, patientId, input, { locked });
+  });
 }
 
 /** The investigator of the patient's site signs the recorded outcome (a password entered for this patient's attestation). */

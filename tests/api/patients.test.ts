@@ -54,6 +54,8 @@ describe('site scoping and who sees patient-level rows', () => {
     expect((await s.coordinator.get(`${base()}/${atSb}/history`)).status).toBe(404);
     const patch = await s.coordinator.patch(`${base()}/${atSb}`, { version: 1, outcome: 'non_responder', bestOverallResponse: 'PD', responseAssessedOn: daysAgo(1), evaluable: true, reason: 'x' });
     expect(patch.status).toBe(404);
+    // The payload is judged only for a patient the user may see: nothing about the record leaks through a 400.
+    expect((await s.coordinator.patch(`${base()}/${atSb}`, { version: 'x', outcome: 'nonsense' })).status).toBe(404);
     expect((await s.investigator.post(`${base()}/${atSa}/attestation`, { version: 1 })).status).toBe(404);
     const enrolElsewhere = await s.coordinator.post(base(), { studyId: 'SB-900', siteId: trial.siteIds.SB, enrolledOn: daysAgo(3) });
     expect(enrolElsewhere.status).toBe(404);
@@ -201,6 +203,21 @@ describe('the interim accrual pause', () => {
     const third = await s.coordinator.post(`/api/trials/${t.trialId}/patients`, { studyId: 'SA-3', siteId: t.siteIds.SA, enrolledOn: daysAgo(1) });
     expect(third.body.patient.stage).toBe(1);
     expect((await stack.db('cohorts').where({ id: t.cohortIds[0] }).first()).status).toBe('interim_review');
+  });
+  it('when an outcome correction makes the n1-th patient count (evaluable again), then the cohort moves to interim review and the mail names the trial', async () => {
+    const t = await createTrial(stack.db);
+    await lockDesignDirectly(stack.db, { trialId: t.trialId, cohortId: t.cohortIds[0], r1: 0, n1: 2, r: 2, n: 8, analysisPopulation: 'evaluable' });
+    const [first] = await enrolPatientsDirectly(stack.db, { trialId: t.trialId, cohortId: t.cohortIds[0], siteId: t.siteIds.SA, count: 1, firstEnrolledOn: daysAgo(30) });
+    const notEvaluable = { version: 1, outcome: 'pending', evaluable: false, notEvaluableReason: 'Scan lost' };
+    expect((await s.coordinator.patch(`/api/trials/${t.trialId}/patients/${first.id}`, notEvaluable)).status).toBe(200);
+    expect((await s.coordinator.post(`/api/trials/${t.trialId}/patients`, { studyId: 'SA-2', siteId: t.siteIds.SA, enrolledOn: daysAgo(2) })).status).toBe(201);
+    expect((await stack.db('cohorts').where({ id: t.cohortIds[0] }).first()).status).toBe('enrolling_stage_1');
+    const found = await s.coordinator.patch(`/api/trials/${t.trialId}/patients/${first.id}`, { version: 2, outcome: 'pending', evaluable: true, reason: 'Scan found' });
+    expect(found.status).toBe(200);
+    expect(found.body.accrual).toEqual({ paused: true, continuesAtRisk: false });
+    expect((await stack.db('cohorts').where({ id: t.cohortIds[0] }).first()).status).toBe('interim_review');
+    const queued = await stack.db('mail_outbox').where('subject', `${t.code} MAIN: stage 1 complete — interim review`).pluck('to_address');
+    expect(queued.sort()).toEqual([DEMO.monitor, DEMO.statistician].sort());
   });
 });
 
