@@ -1,0 +1,70 @@
+/**
+ * The least an audited outcome write costs on this machine, with no HTTP server in the way: N
+ * PostgreSQL clients straight from the bench, each changing one patient's outcome (its version
+ * moved on, the trial's data version bumped by the triggers at commit) and writing its audit row,
+ * as fast as they can. Two shapes: one statement (the update and the audit row in one, the
+ * cheapest a write can be) and the transaction a service writes (begin, update, audit row,
+ * commit). The outcome correction's goal is judged beside it: a server cannot answer a write
+ * faster than the database takes it.
+ */
+import pg from 'pg';
+import { BENCH_SECONDS } from './api-load.js';
+
+export type FloorRun = { p50: number; p95: number; perSecond: number; writes: number };
+
+const FLIP = `outcome = case when outcome = 'responder' then 'non_responder' else 'responder' end,
+  best_overall_response = case when outcome = 'responder' then 'SD' else 'PR' end,
+  response_assessed_on = coalesce(response_assessed_on, enrolled_on), version = version + 1, updated_at = now()`;
+
+const ONE_STATEMENT = `with written as (update patients set ${FLIP} where id = $1 returning id, trial_id, outcome)
+  insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
+  select $2, trial_id, 'patient', id, 'outcome_corrected', jsonb_build_object('outcome', outcome), 'Benchmark floor' from written`;
+const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
+const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
+  values ($1, $2, 'patient', $3, 'outcome_corrected', jsonb_build_object('outcome', $4::text), 'Benchmark floor')`;
+
+/** Runs `connections` clients for BENCH_SECONDS over the given patients (each client its own), and checks every write left its audit row. */
+export async function auditedWriteFloor(
+  databaseUrl: string,
+  shape: 'one statement' | 'transaction',
+  input: { actorUserId: string; patientIds: string[]; connections: number },
+): Promise<FloorRun> {
+  const clients = await Promise.all(
+    Array.from({ length: input.connections }, async () => {
+      const client = new pg.Client({ connectionString: databaseUrl });
+      await client.connect();
+      return client;
+    }),
+  );
+  const count = async () => Number((await clients[0].query(`select count(*) as c from audit_log where reason = 'Benchmark floor'`)).rows[0].c);
+  const before = await count();
+  const latencies: number[] = [];
+  const stopAt = performance.now() + BENCH_SECONDS * 1000;
+  try {
+    await Promise.all(
+      clients.map(async (client, k) => {
+        const mine = input.patientIds.filter((_, i) => i % input.connections === k);
+        for (let i = 0; performance.now() < stopAt; i += 1) {
+          const patientId = mine[i % mine.length];
+          const start = performance.now();
+          if (shape === 'one statement') {
+            await client.query({ name: 'floor_one', text: ONE_STATEMENT, values: [patientId, input.actorUserId] });
+          } else {
+            await client.query('begin');
+            const { rows } = await client.query({ name: 'floor_update', text: UPDATE, values: [patientId] });
+            await client.query({ name: 'floor_audit', text: AUDIT, values: [input.actorUserId, rows[0].trial_id, rows[0].id, rows[0].outcome] });
+            await client.query('commit');
+          }
+          latencies.push(performance.now() - start);
+        }
+      }),
+    );
+    const written = (await count()) - before;
+    if (written !== latencies.length) throw new Error(`the write floor answered ${latencies.length} writes but left ${written} audit rows`);
+  } finally {
+    await Promise.all(clients.map((client) => client.end()));
+  }
+  latencies.sort((a, b) => a - b);
+  const at = (q: number) => latencies[Math.min(latencies.length - 1, Math.floor(q * latencies.length))];
+  return { p50: at(0.5), p95: at(0.95), perSecond: latencies.length / BENCH_SECONDS, writes: latencies.length };
+}
