@@ -387,7 +387,6 @@ export type OutcomeFields = {
   notEvaluableReason: string | null;
 };
 
-/** Writes the outcome only if the version still matches; returns false when someone else wrote first. */
 /** Writes the outcome if the patient is still at `version`; answers the patient as written (undefined when the version moved on). */
 export async function updateOutcome(
   trx: Knex.Transaction,
