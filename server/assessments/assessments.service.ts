@@ -163,8 +163,8 @@ export async function recomputeDerivations(
   context: DerivationContext = {},
   written?: readonly Patient[],
 ): Promise<Derivation[]> {
-  // The writer's own rows, as they stand and locked in this transaction, spare a second read.
-  const patients = written && sameIds(written, patientIds) ? [...written].sort((a, b) => (a.id < b.id ? -1 : 1)) : await findPatientsByIds(trx, patientIds, { forUpdate: true });
+  // The writer's own rows, as they stand and locked in this transaction, spare a second read (in id order, as the read gives them).
+  const patients = written ? [...written].sort((a, b) => (a.id < b.id ? -1 : 1)) : await findPatientsByIds(trx, patientIds, { forUpdate: true });
   if (patients.length !== new Set(patientIds).size) throw new NotFoundError('The patient');
   if (patients.length === 0) return [];
   const trialId = patients[0].trialId;
@@ -188,11 +188,6 @@ export async function recomputeDerivationsForTrial(trx: Knex.Transaction, trialI
     context,
   );
   return patients.length;
-}
-
-function sameIds(patients: readonly Patient[], ids: readonly string[]): boolean {
-  const wanted = new Set(ids);
-  return patients.length === wanted.size && new Set(patients.map((p) => p.id)).size === wanted.size && patients.every((p) => wanted.has(p.id));
 }
 
 /** Listens to patient writes: an attestation changes no outcome, everything else re-derives. */
