@@ -7,6 +7,7 @@ import { runtimeRoleProblems } from './db/roles.js';
 import { createApp, type AppParts } from './app.js';
 import type { Express } from 'express';
 import { startMailWorker, type MailWorker } from './mail/outbox.js';
+import { answerClientError } from './http/client-error.js';
 import { startJobs, type Jobs } from './jobs/index.js';
 
 export type RunningServer = {
@@ -37,6 +38,7 @@ export async function startServer(config: Config, logger: Logger = pino({ level:
   const { app, routes, jobs: scheduledJobs, close: closeApp } = createApp(config, db, logger, mail);
   const jobs = startJobs(db, config, logger, mail, scheduledJobs);
   const server = app.listen(config.port, '127.0.0.1');
+  server.on('clientError', answerClientError);
   await new Promise<void>((resolve, reject) => {
     server.once('listening', resolve);
     server.once('error', reject);

@@ -3,6 +3,7 @@
  * with 400 naming it, once for all routes (the security suite fuzzes every GET route's query
  * string beside this).
  */
+import { connect } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { startStack, type Stack } from '../support/stack.js';
@@ -97,5 +98,49 @@ describe('repeated, list and object query parameters', () => {
     const badId = await cora.get('/api/trials/%00/patients');
     expect(badId.status).toBeGreaterThanOrEqual(400);
     expect(badId.status).toBeLessThan(500);
+  });
+});
+
+describe('requests the HTTP parser refuses before any route', () => {
+  it('when the address is over the 16 KB limit (a long query string), then 431 names the query string in our error shape, and the server goes on answering', async () => {
+    const response = await fetch(`${stack.url}/api/trials/${trial.trialId}/patients?q=${'a'.repeat(20_000)}`, { headers: { cookie: cora.cookie } });
+    expect(response.status).toBe(431);
+    expect(response.headers.get('content-type')).toBe('application/json; charset=utf-8');
+    const body = (await response.json()) as { error: { code: string; message: string; fields: Record<string, string> } };
+    expect(body.error).toMatchObject({ code: 'too_large', fields: { query: expect.stringMatching(/query string/) } });
+    expect(body.error.message).toMatch(/Shorten the query string/);
+    expect((await cora.get(`/api/trials/${trial.trialId}/patients?q=a`)).status).toBe(200);
+  });
+
+  it('when the address of a write is too long, then 431 and nothing is written', async () => {
+    const before = await stack.db('audit_log').count({ c: '*' });
+    const response = await fetch(`${stack.url}/api/trials/${trial.trialId}/patients?x=${'b'.repeat(20_000)}`, {
+      method: 'POST',
+      headers: { cookie: cora.cookie, origin: new URL(stack.url).origin, 'content-type': 'application/json' },
+      body: JSON.stringify({ studyId: 'SA-901', siteId: trial.siteIds.SA, enrolledOn: '2026-01-05' }),
+    });
+    expect(response.status).toBe(431);
+    expect(Number((await stack.db('patients').where({ trial_id: trial.trialId, study_id: 'SA-901' }).count({ c: '*' }))[0].c)).toBe(0);
+    expect(await stack.db('audit_log').count({ c: '*' })).toEqual(before);
+  });
+
+  it('when the headers are over the limit (an oversized cookie), then 431 names the headers', async () => {
+    const response = await fetch(`${stack.url}/api/health`, { headers: { cookie: `big=${'c'.repeat(20_000)}` } });
+    expect(response.status).toBe(431);
+    const body = (await response.json()) as { error: { code: string; fields: Record<string, string> } };
+    expect(body.error).toMatchObject({ code: 'too_large', fields: { headers: expect.stringMatching(/headers/) } });
+  });
+
+  it('when the request line is not HTTP, then 400 in our error shape', async () => {
+    const { port } = new URL(stack.url);
+    const answer = await new Promise<string>((resolve, reject) => {
+      const socket = connect(Number(port), '127.0.0.1', () => socket.write('NOT A REQUEST\r\n\r\n'));
+      let text = '';
+      socket.on('data', (chunk) => (text += String(chunk)));
+      socket.on('end', () => resolve(text));
+      socket.on('error', reject);
+    });
+    expect(answer).toMatch(/^HTTP\/1\.1 400 Bad Request\r\n/);
+    expect(JSON.parse(answer.slice(answer.indexOf('\r\n\r\n') + 4))).toEqual({ error: { code: 'bad_request', message: 'The request is not valid HTTP.' } });
   });
 });
