@@ -36,15 +36,22 @@ export function clientErrorAnswer(error: ParserError): Answer {
           },
     };
   }
+  if (error.code === 'HPE_CHUNK_EXTENSIONS_OVERFLOW') {
+    return { status: 413, statusText: 'Payload Too Large', error: { code: 'too_large', message: 'The request body is sent in chunks with oversized extensions: send it plainly.' } };
+  }
   if (error.code === 'ERR_HTTP_REQUEST_TIMEOUT') {
     return { status: 408, statusText: 'Request Timeout', error: { code: 'timeout', message: 'The request did not arrive in full in time: send it again.' } };
   }
   return { status: 400, statusText: 'Bad Request', error: { code: 'bad_request', message: 'The request is not valid HTTP.' } };
 }
 
-/** The server's `clientError` listener: answers once, then closes the connection (the parser cannot go on reading it). */
-export function answerClientError(error: ParserError, socket: Duplex): void {
-  if (error.code === 'ECONNRESET' || !socket.writable) {
+/**
+ * The server's `clientError` listener: answers once, then closes the connection (the parser cannot
+ * go on reading it). As Node's own default, it writes nothing when the socket is gone or an earlier
+ * answer on the same connection has begun, which an error answer would corrupt.
+ */
+export function answerClientError(error: ParserError, socket: Duplex & { _httpMessage?: { headersSent?: boolean } | null }): void {
+  if (error.code === 'ECONNRESET' || !socket.writable || socket._httpMessage?.headersSent) {
     socket.destroy();
     return;
   }

@@ -14,7 +14,8 @@ describe('clientErrorAnswer', () => {
     expect(clientErrorAnswer(overflow(bigCookie))).toMatchObject({ status: 431, error: { code: 'too_large', fields: { headers: expect.any(String) } } });
   });
 
-  it('when a request never arrives in full, then 408; anything else the parser refuses is 400', () => {
+  it('when a request never arrives in full, then 408; oversized chunk extensions 413; anything else the parser refuses is 400', () => {
+    expect(clientErrorAnswer(Object.assign(new Error('Parse Error'), { code: 'HPE_CHUNK_EXTENSIONS_OVERFLOW' }))).toMatchObject({ status: 413, error: { code: 'too_large' } });
     expect(clientErrorAnswer(Object.assign(new Error('timeout'), { code: 'ERR_HTTP_REQUEST_TIMEOUT' }))).toMatchObject({ status: 408, error: { code: 'timeout' } });
     expect(clientErrorAnswer(Object.assign(new Error('Parse Error'), { code: 'HPE_INVALID_METHOD' }))).toEqual({
       status: 400,
