@@ -1,6 +1,7 @@
 /**
  * Requests Node's HTTP parser refuses before Express sees them — an address or headers over the
- * parser's size limit, a request line that is not HTTP, a request that never finished arriving —
+ * parser's size limit, a request line that is not HTTP, oversized chunk extensions, a request that
+ * never finished arriving —
  * answer in the same shape as every other error (`{ error: { code, message, fields? } }`), naming
  * what to change, instead of Node's bare status line. Nothing of such a request reaches a route.
  */
