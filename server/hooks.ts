@@ -15,7 +15,12 @@ export type PatientWrite = {
   patientIds: readonly string[];
   action: 'enrolled' | 'outcome_recorded' | 'outcome_corrected' | 'outcome_attested';
   actorUserId: string;
-  /** The written patients as they stand in this transaction, locked, when the writer holds them (listeners read them otherwise). */
+  /**
+   * The written patients as the writer's update left them, locked in this transaction, when the
+   * writer holds them (listeners read them otherwise). Their outcome, evaluability, attestation and
+   * flag are current; their stage may not be, since the accrual rule can restage the cohort after
+   * the update (the re-derivation does not read it).
+   */
   written?: readonly Patient[];
 };
 

@@ -163,7 +163,7 @@ export async function recomputeDerivations(
   context: DerivationContext = {},
   written?: readonly Patient[],
 ): Promise<Derivation[]> {
-  // The writer's own rows, as they stand and locked in this transaction, spare a second read (in id order, as the read gives them).
+  // The writer's own rows, locked in this transaction, spare a second read (in id order, as the read gives them); see PatientWrite.written for what is current in them.
   const patients = written ? [...written].sort((a, b) => (a.id < b.id ? -1 : 1)) : await findPatientsByIds(trx, patientIds, { forUpdate: true });
   if (patients.length !== new Set(patientIds).size) throw new NotFoundError('The patient');
   if (patients.length === 0) return [];
