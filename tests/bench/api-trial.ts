@@ -5,7 +5,8 @@
  * run. After the writes, every 200 must be one version step and one audit row: no lost writes.
  * Then Needs attention on that trial, and a 2,000-patient CSV import into another trial, its dry
  * run and its commit end to end (checked: 2,000 patients and 2,000 audit rows, nothing else).
- * Last, the floor under the writes: audited outcome writes straight to PostgreSQL (write-floor.ts).
+ * Last, the floor under the writes (write-floor.ts): audited outcome writes straight to PostgreSQL,
+ * then the same writes behind a bare Express route.
  * The server runs as its own process (tests/support/server-process.ts); its resident set is read at the end.
  * Run alone with `npx tsx tests/bench/api-trial.ts`; `npm run bench` collects the same figures.
  */
@@ -21,7 +22,7 @@ import type { Session } from '../support/sign-in.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
 import { BENCH_SECONDS, describeReference, describeRun, measure, measureWarm, temporaryDatabase, type Measured } from './api-load.js';
 import { startBareServer, startBenchServer } from '../support/server-process.js';
-import { auditedWriteFloor } from './write-floor.js';
+import { auditedWriteBehindExpress, auditedWriteFloor } from './write-floor.js';
 
 const PATIENTS = 5_000;
 const SITES = ['RVB', 'HCB', 'LUB', 'NGB'];
@@ -235,6 +236,8 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
     };
     const floorOne = await auditedWriteFloor(database.url, 'one statement', floorInput);
     const floorTransaction = await auditedWriteFloor(database.url, 'transaction', floorInput);
+    const httpOne = await auditedWriteBehindExpress(database.url, 'one statement', floorInput);
+    const httpTransaction = await auditedWriteBehindExpress(database.url, 'transaction', floorInput);
 
     const within = (ours: Measured, reference: Measured, factor: number) => ours.p95 <= factor * reference.p95;
     const ratioText = (ours: Pick<Measured, 'p95'>, reference: Measured) => `p95 ${ms(ours.p95)} vs bare ${ms(reference.p95)} (${(ours.p95 / reference.p95).toFixed(1)}×)`;
@@ -243,7 +246,9 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
       { goal: 'Patient page at 5,000 patients: p95 within 3× the bare route (50 connections)', measured: ratioText(list, bare50), met: within(list, bare50, 3) },
       {
         goal: 'Outcome correction: p95 within 3× the bare route (20 connections), no lost write',
-        measured: `${ratioText(written, bare20)}; no write lost; the floor, an audited write straight to PostgreSQL: ${ratioText(floorTransaction, bare20)} as a transaction, ${ratioText(floorOne, bare20)} as one statement`,
+        measured:
+          `${ratioText(written, bare20)}; no write lost. The floor, an audited write straight to PostgreSQL: ${ratioText(floorTransaction, bare20)} as a transaction, ${ratioText(floorOne, bare20)} as one statement;` +
+          ` the same write behind a bare Express route (no session, access check, validation or re-derivation): ${ratioText(httpTransaction, bare20)} as a transaction, ${ratioText(httpOne, bare20)} as one statement`,
         met: within(written, bare20, 3),
       },
       { goal: 'Needs attention at 5,000 patients / 20,000 assessments ≤ 100 ms', measured: `median ${ms(median(attention))}, slowest ${ms(attention[attention.length - 1])} of ${attention.length}`, met: median(attention) <= 100 },
@@ -269,6 +274,16 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
         reference: { name: `bare Express JSON route, same run, ${WRITE_CONNECTIONS} connections`, value: bare20.p95, unit: 'ms' },
         ratio: bare20.p95 / run.p95,
         note: `${WRITE_CONNECTIONS} clients × ${BENCH_SECONDS} s: p50 ${ms(run.p50)}, p95 ${ms(run.p95)}, ${run.perSecond.toFixed(0)} writes/s, each with its audit row (checked); the floor under the outcome correction`,
+      })),
+      ...([
+        ['one statement', httpOne],
+        ['transaction', httpTransaction],
+      ] as const).map(([shape, run]): BenchFigure => ({
+        name: `Audited outcome write behind a bare Express route (${shape}) — p95 latency`,
+        ours: { value: run.p95, unit: 'ms' },
+        reference: { name: `bare Express JSON route, same run, ${WRITE_CONNECTIONS} connections`, value: bare20.p95, unit: 'ms' },
+        ratio: bare20.p95 / run.p95,
+        note: `${WRITE_CONNECTIONS} connections × ${BENCH_SECONDS} s: p50 ${ms(run.p50)}, p95 ${ms(run.p95)}, ${run.perSecond.toFixed(0)} writes/s, each 200 with its audit row (checked); JSON body parsed, a pg pool of ${WRITE_CONNECTIONS}, nothing else`,
       })),
       {
         name: `GET /api/trials/:trialId/needs-attention, ${PATIENTS.toLocaleString('en')} patients / ${(PATIENTS * ASSESSMENTS_PER_PATIENT).toLocaleString('en')} assessments — median of ${ATTENTION_SAMPLES}`,

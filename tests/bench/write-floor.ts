@@ -5,29 +5,38 @@
  * as fast as they can. Two shapes: one statement (the update and the audit row in one, the
  * cheapest a write can be) and the transaction a service writes (begin, update, audit row,
  * commit). The outcome correction's goal is judged beside it: a server cannot answer a write
- * faster than the database takes it.
+ * faster than the database takes it. `auditedWriteBehindExpress` puts the same write behind the
+ * least HTTP server can give it (bare-write-server.ts): what any per-request write costs here
+ * before Orrery's session, access check, validation and re-derivation.
  */
 import pg from 'pg';
-import { BENCH_SECONDS } from './api-load.js';
+import { BENCH_SECONDS, measure } from './api-load.js';
+import { startBareWriteServer } from '../support/server-process.js';
 
 export type FloorRun = { p50: number; p95: number; perSecond: number; writes: number };
+
+export type FloorShape = 'one statement' | 'transaction';
+
+type FloorInput = { actorUserId: string; patientIds: string[]; connections: number };
+
+const floorAudits = async (client: pg.Client) => Number((await client.query(`select count(*) as c from audit_log where reason = 'Benchmark floor'`)).rows[0].c);
 
 const FLIP = `outcome = case when outcome = 'responder' then 'non_responder' else 'responder' end,
   best_overall_response = case when outcome = 'responder' then 'SD' else 'PR' end,
   response_assessed_on = coalesce(response_assessed_on, enrolled_on), version = version + 1, updated_at = now()`;
 
-const ONE_STATEMENT = `with written as (update patients set ${FLIP} where id = $1 returning id, trial_id, outcome)
+export const ONE_STATEMENT = `with written as (update patients set ${FLIP} where id = $1 returning id, trial_id, outcome)
   insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   select $2, trial_id, 'patient', id, 'outcome_corrected', jsonb_build_object('outcome', outcome), 'Benchmark floor' from written`;
-const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
-const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
+export const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
+export const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   values ($1, $2, 'patient', $3, 'outcome_corrected', jsonb_build_object('outcome', $4::text), 'Benchmark floor')`;
 
 /** Runs `connections` clients for BENCH_SECONDS over the given patients (each client its own), and checks every write left its audit row. */
 export async function auditedWriteFloor(
   databaseUrl: string,
-  shape: 'one statement' | 'transaction',
-  input: { actorUserId: string; patientIds: string[]; connections: number },
+  shape: FloorShape,
+  input: FloorInput,
 ): Promise<FloorRun> {
   const clients = await Promise.all(
     Array.from({ length: input.connections }, async () => {
@@ -36,7 +45,7 @@ export async function auditedWriteFloor(
       return client;
     }),
   );
-  const count = async () => Number((await clients[0].query(`select count(*) as c from audit_log where reason = 'Benchmark floor'`)).rows[0].c);
+  const count = () => floorAudits(clients[0]);
   const before = await count();
   const latencies: number[] = [];
   const stopAt = performance.now() + BENCH_SECONDS * 1000;
@@ -67,4 +76,49 @@ export async function auditedWriteFloor(
   latencies.sort((a, b) => a - b);
   const at = (q: number) => latencies[Math.min(latencies.length - 1, Math.floor(q * latencies.length))];
   return { p50: at(0.5), p95: at(0.95), perSecond: latencies.length / BENCH_SECONDS, writes: latencies.length };
+}
+
+/**
+ * The same write, one per HTTP request, through Express with a JSON body parser and a pool of
+ * `connections` (each request a PATCH naming its patient), measured like every route of the bench.
+ * Every 200 must have left its audit row; a write in flight at the stop may commit unanswered.
+ */
+export async function auditedWriteBehindExpress(databaseUrl: string, shape: FloorShape, input: FloorInput): Promise<FloorRun> {
+  const server = await startBareWriteServer(databaseUrl, input.actorUserId);
+  const counter = new pg.Client({ connectionString: databaseUrl });
+  await counter.connect();
+  let next = 0;
+  const load = (duration: number) =>
+    measure({
+      url: server.url,
+      connections: input.connections,
+      duration,
+      requests: [
+        {
+          method: 'PATCH',
+          headers: { 'content-type': 'application/json' },
+          setupRequest: (request) => ({
+            ...request,
+            path: `/${shape === 'one statement' ? 'statement' : 'transaction'}/${input.patientIds[next++ % input.patientIds.length]}`,
+            body: JSON.stringify({ reason: 'Benchmark floor' }),
+          }),
+        },
+      ],
+    });
+  try {
+    // Warm first, as the reads are: this is the least the write can cost, so it is measured at its best.
+    await load(3);
+    await new Promise((resolve) => setTimeout(resolve, 500)); // the warm-up's last writes, in flight at its stop, commit
+    const before = await floorAudits(counter);
+    const run = await load(BENCH_SECONDS);
+    const answered = run.statuses[200] ?? 0;
+    const written = (await floorAudits(counter)) - before;
+    if (answered !== run.requests || written < answered || written > answered + input.connections) {
+      throw new Error(`the write floor behind Express answered ${JSON.stringify(run.statuses)} but left ${written} audit rows`);
+    }
+    return { p50: run.p50, p95: run.p95, perSecond: run.perSecond, writes: answered };
+  } finally {
+    await counter.end();
+    await server.close();
+  }
 }

@@ -132,6 +132,18 @@ export async function startBenchServer(databaseUrl: string, options: { workers: 
   };
 }
 
+/**
+ * The write floor behind HTTP (bare-write-server.ts), in a process of its own: Express and a pg
+ * pool doing nothing but the audited outcome write, as `actorUserId`, on `databaseUrl`.
+ */
+export async function startBareWriteServer(databaseUrl: string, actorUserId: string): Promise<{ url: string; close: () => Promise<void> }> {
+  const port = await freePort();
+  const { child, output } = spawnNode('tests/bench/bare-write-server.ts', { PORT: String(port), DATABASE_URL: databaseUrl, ACTOR_USER_ID: actorUserId });
+  const url = `http://127.0.0.1:${port}`;
+  await waitForHealth(url, child, output);
+  return { url, close: () => stopped(child) };
+}
+
 /** The reference: the cheapest JSON answer Express gives (bare-server.ts), in a process of its own. */
 export async function startBareServer(): Promise<{ url: string; close: () => Promise<void> }> {
   const port = await freePort();
