@@ -2,12 +2,12 @@
  * CSV import of patients and outcomes from a site's own spreadsheet. The upload is checked (size,
  * type, text encoding, exact columns, row count), then every row is applied through the same
  * service functions as the forms, inside the shared import skeleton (server/csv/import.ts: one
- * transaction, all-or-nothing, a dry run rolled back): corrections one by one, new patients
- * together through `enrolPatients`. Text cells that start
+ * transaction, all-or-nothing, a dry run rolled back): new patients together through
+ * `enrolPatients`, known patients' changes together through `planOutcome` and `writeOutcomes`
+ * (a change of evaluability on its own). Text cells that start
  * like a spreadsheet formula are stored with a leading quote; cells of fixed-format columns that do
  * are refused.
  */
-import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
 import { ValidationError } from 'yup';
 import { AppError, InputError } from '../http/errors.js';
@@ -29,7 +29,7 @@ import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
 import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
 import { findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
-import { enrolPatients, recordOutcome } from './patients.service.js';
+import { enrolPatients, planOutcome, recordOutcome, writeOutcomes, type OutcomePlan } from './patients.service.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -150,8 +150,8 @@ const enrolRequest = ({ row, cells: { studyId, siteId, cohortId, fields } }: Rea
   notEvaluableReason: fields.notEvaluableReason,
 });
 
-/** A known patient's row: identity checked, then the outcome recorded or corrected (or left, when the same). */
-async function applyToKnown(trx: Knex.Transaction, hooks: Hooks, actor: Actor, facts: TrialFacts, { line, row, cells }: ReadRow, existing: Patient): Promise<RowResult> {
+/** A known patient's row, checked for identity against the patient as found: a row error, or whether the outcome would change. */
+function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): 'unchanged' | 'change' {
   const { studyId, siteId, cohortId, fields } = cells;
   if (!writableSites(actor.access).includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
   const identity: RowResult['errors'] = [];
@@ -159,18 +159,18 @@ async function applyToKnown(trx: Knex.Transaction, hooks: Hooks, actor: Actor, f
   if (cohortId && existing.cohortId !== cohortId) identity.push({ column: 'cohort_code', reason: `${studyId} is in cohort ${existing.cohortCode}; the cohort cannot be changed by import.` });
   if (row.enrolled_on && row.enrolled_on !== existing.enrolledOn) identity.push({ column: 'enrolled_on', reason: `${studyId} was enrolled on ${existing.enrolledOn}; the enrolment date cannot be changed by import.` });
   if (identity.length) throw new RowError(identity);
-  const same = OUTCOME_FIELDS.every((field) => existing[field] === fields[field]);
-  if (same) return { line, studyId, result: 'unchanged', errors: [], patientId: existing.id };
-  const change = await recordOutcome(trx, hooks, actor, existing.id, { ...fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' });
-  return { line, studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
+  return OUTCOME_FIELDS.every((field) => existing[field] === fields[field]) ? 'unchanged' : 'change';
 }
 
 /**
  * Applies the file in one transaction; rolls back on a dry run or on any row error (then 422 with
- * the report). Every row is read in memory first and the known patients are found in one look-up.
- * Then, in file order, known patients are corrected one by one (each in a savepoint, so a refusal
- * names its row) and the new patients between them are enrolled together by the same rules as the
- * form (`enrolPatients`): so the interim pause refuses the rows after the one that completes stage 1.
+ * the report). Every row is read in memory first and the known patients are found (and locked) in
+ * one look-up. Then the rows apply in file order, so each meets the trial as the rows above it
+ * left it: new patients are enrolled together by the same rules as the form (`enrolPatients`), and
+ * the interim pause refuses the rows after the one that completes stage 1; known patients' changes
+ * are written together by the same rules as the form (`planOutcome`, `writeOutcomes`), each judged
+ * against the patient as it then stands. A change of evaluability can move the stage-1 count, so
+ * such a row is written on its own, in a savepoint, with the changes above it already written.
  */
 export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
@@ -198,9 +198,9 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
     }
 
     const known = await findPatientsByStudyIds(trx, actor.access.trialId, read.map((r) => r.cells.studyId), { forUpdate: true });
-    // New patients wait to be enrolled together until a known patient's row comes (its correction can
-    // move the stage-1 count), so every row meets the cohort exactly as the rows above it left it.
+    // Rows wait to be applied together until a row of the other kind comes: new patients, or changes to known ones.
     let newcomers: ReadRow[] = [];
+    let changes: ReadRow[] = [];
     const enrolWaiting = async () => {
       const enrolled = await enrolPatients(trx, hooks, actor, newcomers.map(enrolRequest), facts);
       enrolled.forEach((result, i) => {
@@ -210,21 +210,71 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
       });
       newcomers = [];
     };
+    const changeWaiting = async () => {
+      // The patients as they now stand (locked since the look-up): a restage above may have moved their stage.
+      const current = await findPatientsByStudyIds(trx, actor.access.trialId, changes.map((r) => r.cells.studyId));
+      const planned: Array<{ r: ReadRow; plan: OutcomePlan }> = [];
+      for (const r of changes) {
+        const patient = current.get(r.cells.studyId) as Patient;
+        try {
+          const plan = planOutcome(actor, patient, { ...r.cells.fields, version: patient.version }, 'correction_reason');
+          if (plan) planned.push({ r, plan });
+          else results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'unchanged', errors: [], patientId: patient.id };
+        } catch (error) {
+          refuse(r.index, r.cells.studyId, errorsOf(error));
+        }
+      }
+      // Each cohort's first change alone, then the rest: a cohort already due for its interim review
+      // (an amendment lowered n1) moves at its first change, as it would row by row, with the
+      // review's e-mail counting what that row left; the rest cannot move it again.
+      const [firsts, rest, cohorts] = [[] as OutcomePlan[], [] as OutcomePlan[], new Set<string>()];
+      for (const { plan } of planned) {
+        if (cohorts.has(plan.before.cohortId)) rest.push(plan);
+        else {
+          cohorts.add(plan.before.cohortId);
+          firsts.push(plan);
+        }
+      }
+      for (const plans of [firsts, rest]) if (plans.length > 0) await writeOutcomes(trx, hooks, actor, plans, { trialCode: facts.code });
+      for (const { r, plan } of planned) {
+        results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'update', errors: [], patientId: plan.before.id, correction: plan.correction, attestationCleared: plan.attestationCleared };
+      }
+      changes = [];
+    };
     for (const r of read) {
       const existing = known.get(r.cells.studyId);
       if (!existing) {
+        if (changes.length > 0) await changeWaiting();
         if (r.row.enrolled_on) newcomers.push(r);
         else refuse(r.index, r.cells.studyId, [{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
         continue;
       }
       if (newcomers.length > 0) await enrolWaiting();
       try {
-        results[r.index] = await trx.transaction((savepoint) => applyToKnown(savepoint, hooks, actor, facts, r, existing));
+        if (checkKnown(actor, r, existing) === 'unchanged') {
+          results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'unchanged', errors: [], patientId: existing.id };
+          continue;
+        }
+      } catch (error) {
+        refuse(r.index, r.cells.studyId, errorsOf(error));
+        continue;
+      }
+      if (existing.evaluable === r.cells.fields.evaluable) {
+        changes.push(r);
+        continue;
+      }
+      if (changes.length > 0) await changeWaiting();
+      try {
+        const change = await trx.transaction((savepoint) =>
+          recordOutcome(savepoint, hooks, actor, existing.id, { ...r.cells.fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' }),
+        );
+        results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
       } catch (error) {
         refuse(r.index, r.cells.studyId, errorsOf(error));
       }
     }
     if (newcomers.length > 0) await enrolWaiting();
+    if (changes.length > 0) await changeWaiting();
     results.forEach(add);
 
     const paused = (await listCohorts(trx, actor.access.trialId)).filter((c) => c.status === 'interim_review').map((c) => c.code);

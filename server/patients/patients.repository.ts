@@ -387,30 +387,33 @@ export type OutcomeFields = {
   notEvaluableReason: string | null;
 };
 
-/** Writes the outcome if the patient is still at `version`; answers the patient as written (undefined when the version moved on). */
-export async function updateOutcome(
-  trx: Knex.Transaction,
-  patientId: string,
-  version: number,
-  fields: OutcomeFields,
-  options: { clearAttestation: boolean },
-): Promise<Patient | undefined> {
-  const written = trx('patients')
-    .where({ id: patientId, version })
-    .update({
-      outcome: fields.outcome,
-      best_overall_response: fields.bestOverallResponse,
-      response_assessed_on: fields.responseAssessedOn,
-      evaluable: fields.evaluable,
-      not_evaluable_reason: fields.notEvaluableReason,
-      ...(options.clearAttestation ? { attestation_signature_id: null } : {}),
-      version: version + 1,
-      updated_at: trx.fn.now(),
-    })
-    .returning('*');
-  // The written row with the same joins as every other read, in the same statement.
-  const row: PatientRow | undefined = await joined(trx.with('p', written), 'p').first(COLUMNS);
-  return row ? toPatient(row) : undefined;
+/** One patient's outcome to write, if the patient is still at `version`. */
+export type OutcomeWrite = { patientId: string; version: number; fields: OutcomeFields; clearAttestation: boolean };
+
+/**
+ * Writes outcomes (each only if its patient is still at its version), a thousand patients a
+ * statement; answers the patients as written, with the same joins as every other read in the same
+ * statement. A patient whose version moved on is missing from the answer.
+ */
+export async function updateOutcomes(trx: Knex.Transaction, writes: readonly OutcomeWrite[]): Promise<Patient[]> {
+  const written: Patient[] = [];
+  for (const part of chunks(writes)) {
+    const update = trx.raw(
+      `update patients as p
+          set outcome = v.outcome, best_overall_response = v.bor, response_assessed_on = v.assessed_on, evaluable = v.evaluable,
+              not_evaluable_reason = v.not_evaluable_reason,
+              attestation_signature_id = case when v.clear_attestation then null else p.attestation_signature_id end,
+              version = p.version + 1, updated_at = now()
+         from (values ${part.map(() => '(?::uuid, ?::integer, ?::text, ?::text, ?::date, ?::boolean, ?::text, ?::boolean)').join(', ')})
+              as v(id, version, outcome, bor, assessed_on, evaluable, not_evaluable_reason, clear_attestation)
+        where p.id = v.id and p.version = v.version
+        returning p.*`,
+      part.flatMap((w) => [w.patientId, w.version, w.fields.outcome, w.fields.bestOverallResponse, w.fields.responseAssessedOn, w.fields.evaluable, w.fields.notEvaluableReason, w.clearAttestation]),
+    );
+    const rows: PatientRow[] = await joined(trx.with('p', update), 'p').select(COLUMNS);
+    written.push(...rows.map(toPatient));
+  }
+  return written;
 }
 
 export async function setAttestation(trx: Knex.Transaction, patientId: string, version: number, signatureId: string): Promise<boolean> {
@@ -431,7 +434,7 @@ export type DerivedColumns = {
 };
 
 const CHUNK = 500;
-const chunks = <T>(rows: T[]) => Array.from({ length: Math.ceil(rows.length / CHUNK) }, (_, i) => rows.slice(i * CHUNK, (i + 1) * CHUNK));
+const chunks = <T>(rows: readonly T[]) => Array.from({ length: Math.ceil(rows.length / CHUNK) }, (_, i) => rows.slice(i * CHUNK, (i + 1) * CHUNK));
 
 /** Stores derivations and flags of many patients in a few statements (a trial-wide recompute touches thousands). */
 export async function storeDerivations(trx: Knex.Transaction, rows: DerivedColumns[]): Promise<void> {

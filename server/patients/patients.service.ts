@@ -3,7 +3,8 @@
  * sites, record the outcome, correct it with a reason, attest it with an electronic signature.
  * Every write runs in the caller's transaction, writes exactly one audit row for the patient, and
  * then applies the accrual rules (stages, the interim pause). The functions taking a transaction
- * are composable: the CSV import corrects known patients one by one and enrols new ones together.
+ * are composable: the CSV import writes known patients' changes together (`writeOutcomes`) and
+ * enrols new ones together (`enrolPatients`), by the same rules as the forms.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db/knex.js';
@@ -37,7 +38,7 @@ import {
   patientPage,
   patientsInOrder,
   setAttestation,
-  updateOutcome,
+  updateOutcomes,
   type NewPatient,
   type OutcomeFields,
   type ListedPatient,
@@ -286,21 +287,23 @@ function fieldsOf(p: OutcomeFields): OutcomeFields {
   };
 }
 
+/** An outcome change that passed every rule, against the patient as this transaction holds it (locked). */
+export type OutcomePlan = {
+  before: Patient;
+  next: OutcomeFields;
+  correction: boolean;
+  attestationCleared: boolean;
+  evaluabilityChanged: boolean;
+  reason: string | null;
+};
+
 /**
- * Records or corrects a patient's outcome. A change to an outcome already recorded is a correction
- * and needs a reason; a stale version gets 409 with the current record; an attested outcome that
- * changes loses its attestation. `locked` is the patient as the caller just read it, visible and
- * locked in this transaction; without it the patient is read and locked here.
+ * The rules of an outcome change, the same for the form and the import: the actor's own site (403),
+ * the version the change was made against (409 with the current record), the assessment date, and
+ * a reason for a correction (a change to an outcome already recorded; `reasonField` names the
+ * field in the error). Undefined when nothing would change.
  */
-export async function recordOutcome(
-  trx: Knex.Transaction,
-  hooks: Hooks,
-  actor: Actor,
-  patientId: string,
-  input: OutcomeInput,
-  options: { trialCode?: string; reasonField?: string; locked?: Patient } = {},
-): Promise<OutcomeChange> {
-  const before = options.locked ?? (await requireVisiblePatient(trx, actor, patientId, { forUpdate: true }));
+export function planOutcome(actor: Actor, before: Patient, input: OutcomeInput, reasonField = 'reason'): OutcomePlan | undefined {
   requireWritable(actor, before);
   if (input.version !== before.version) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', { current: before });
@@ -313,42 +316,108 @@ export async function recordOutcome(
     throw new InputError('The assessment date cannot be in the future.', { responseAssessedOn: 'The assessment date cannot be in the future.' });
   }
   const previous = fieldsOf(before);
-  const changed = OUTCOME_FIELDS.some((field) => previous[field] !== next[field]);
-  const none = { paused: false, continuesAtRisk: false };
-  if (!changed) return { patient: before, changed: false, correction: false, attestationCleared: false, accrual: none };
+  if (!OUTCOME_FIELDS.some((field) => previous[field] !== next[field])) return undefined;
   const correction = isRecorded(previous);
   if (correction && !input.reason) {
-    const field = options.reasonField ?? 'reason';
-    throw new InputError('Changing a recorded outcome is a correction: give the reason.', { [field]: 'A correction needs a reason.' });
+    throw new InputError('Changing a recorded outcome is a correction: give the reason.', { [reasonField]: 'A correction needs a reason.' });
   }
-  const attestationCleared = before.attested !== null;
+  return {
+    before,
+    next,
+    correction,
+    attestationCleared: before.attested !== null,
+    evaluabilityChanged: previous.evaluable !== next.evaluable,
+    reason: input.reason ?? null,
+  };
+}
+
+/**
+ * Writes planned outcome changes of the actor's trial together: one update and one audit
+ * statement for all of them (one audit row each, with before and after), the accrual rules once
+ * per cohort, and one re-derivation per kind of write (recorded, corrected). The patients are
+ * locked by the caller, so a version that moved on is a conflict (409), which rolls it all back.
+ * Answers the accrual outcome of each cohort.
+ */
+export async function writeOutcomes(
+  trx: Knex.Transaction,
+  hooks: Hooks,
+  actor: Actor,
+  plans: readonly OutcomePlan[],
+  options: { trialCode?: string } = {},
+): Promise<Map<string, AccrualOutcome>> {
   const trialId = actor.access.trialId;
-  const after = await updateOutcome(trx, before.id, before.version, next, { clearAttestation: attestationCleared });
-  if (!after) {
+  const written = await updateOutcomes(
+    trx,
+    plans.map((plan) => ({ patientId: plan.before.id, version: plan.before.version, fields: plan.next, clearAttestation: plan.attestationCleared })),
+  );
+  const after = new Map(written.map((patient) => [patient.id, patient]));
+  const stale = plans.find((plan) => !after.has(plan.before.id));
+  if (stale) {
     throw new ConflictError('Someone else changed this patient since you opened it. Compare and reload before saving.', {
-      current: await findPatient(trx, trialId, before.id, siteScope(actor.access)),
+      current: await findPatient(trx, trialId, stale.before.id, siteScope(actor.access)),
     });
   }
-  const action = correction ? 'outcome_corrected' : 'outcome_recorded';
-  await writeAudit(trx, {
-    actorUserId: actor.user.id,
-    trialId,
-    entityType: 'patient',
-    entityId: before.id,
-    action,
-    before: auditSnapshot(before),
-    after: { ...auditSnapshot(after), ...(attestationCleared ? { attestationCleared: true } : {}) },
-    reason: input.reason ?? null,
-  });
-  const accrual = await applyAccrualRules(trx, {
-    trialId,
-    trialCode: options.trialCode,
-    cohortId: before.cohortId,
-    actorUserId: actor.user.id,
-    evaluabilityChanged: previous.evaluable !== next.evaluable,
-  });
-  await emit(trx, hooks.patientWritten, { trialId, patientIds: [before.id], action, actorUserId: actor.user.id, written: [after] });
-  return { patient: (await findPatient(trx, trialId, before.id, 'all')) as Patient, changed: true, correction, attestationCleared, accrual };
+  const actionOf = (plan: OutcomePlan) => (plan.correction ? 'outcome_corrected' : 'outcome_recorded');
+  await writeAudits(
+    trx,
+    plans.map((plan) => ({
+      actorUserId: actor.user.id,
+      trialId,
+      entityType: 'patient',
+      entityId: plan.before.id,
+      action: actionOf(plan),
+      before: auditSnapshot(plan.before),
+      after: { ...auditSnapshot(after.get(plan.before.id) as Patient), ...(plan.attestationCleared ? { attestationCleared: true } : {}) },
+      reason: plan.reason,
+    })),
+  );
+  const accrual = new Map<string, AccrualOutcome>();
+  for (const cohortId of new Set(plans.map((plan) => plan.before.cohortId))) {
+    const inCohort = plans.filter((plan) => plan.before.cohortId === cohortId);
+    accrual.set(
+      cohortId,
+      await applyAccrualRules(trx, {
+        trialId,
+        trialCode: options.trialCode,
+        cohortId,
+        actorUserId: actor.user.id,
+        evaluabilityChanged: inCohort.some((plan) => plan.evaluabilityChanged),
+      }),
+    );
+  }
+  for (const action of ['outcome_recorded', 'outcome_corrected'] as const) {
+    const these = plans.filter((plan) => actionOf(plan) === action);
+    if (these.length === 0) continue;
+    const patients = these.map((plan) => after.get(plan.before.id) as Patient);
+    await emit(trx, hooks.patientWritten, { trialId, patientIds: patients.map((p) => p.id), action, actorUserId: actor.user.id, written: patients });
+  }
+  return accrual;
+}
+
+/**
+ * Records or corrects a patient's outcome (`planOutcome`'s rules, then `writeOutcomes`); an attested
+ * outcome that changes loses its attestation. `locked` is the patient as the caller just read it,
+ * visible and locked in this transaction; without it the patient is read and locked here.
+ */
+export async function recordOutcome(
+  trx: Knex.Transaction,
+  hooks: Hooks,
+  actor: Actor,
+  patientId: string,
+  input: OutcomeInput,
+  options: { trialCode?: string; reasonField?: string; locked?: Patient } = {},
+): Promise<OutcomeChange> {
+  const before = options.locked ?? (await requireVisiblePatient(trx, actor, patientId, { forUpdate: true }));
+  const plan = planOutcome(actor, before, input, options.reasonField);
+  if (!plan) return { patient: before, changed: false, correction: false, attestationCleared: false, accrual: { paused: false, continuesAtRisk: false } };
+  const accrual = await writeOutcomes(trx, hooks, actor, [plan], { trialCode: options.trialCode });
+  return {
+    patient: (await findPatient(trx, actor.access.trialId, before.id, 'all')) as Patient,
+    changed: true,
+    correction: plan.correction,
+    attestationCleared: plan.attestationCleared,
+    accrual: accrual.get(before.cohortId) as AccrualOutcome,
+  };
 }
 
 /**
