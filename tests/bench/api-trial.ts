@@ -70,15 +70,19 @@ async function seedImportTrial(db: Db): Promise<TrialFixture> {
   return trial;
 }
 
-/** 2,000 new patients at the coordinator's site, a mix of outcomes, as a site's spreadsheet would hold them. */
-function importCsv(): Buffer {
+/**
+ * 2,000 patients at the coordinator's site, a mix of outcomes, as a site's spreadsheet would hold
+ * them: new, or (`corrected`) the same patients back with every outcome changed and a reason.
+ */
+function importCsv(corrected = false): Buffer {
   const header = 'study_id,site_code,cohort_code,enrolled_on,outcome,best_overall_response,response_assessed_on,evaluable,not_evaluable_reason,correction_reason';
   const lines = Array.from({ length: IMPORT_ROWS }, (_, i) => {
     const enrolled = daysAgo(700 - Math.floor((i * 600) / IMPORT_ROWS));
     const assessed = addDays(enrolled, 56);
-    if (i % 6 === 5) return `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled},pending,,,yes,,`;
-    const responder = i % 4 === 0;
-    return `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled},${responder ? 'responder' : 'non_responder'},${responder ? 'PR' : 'SD'},${assessed},yes,,`;
+    const id = `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled}`;
+    if (i % 6 === 5) return corrected ? `${id},responder,PR,${assessed},yes,,` : `${id},pending,,,yes,,`;
+    const responder = (i % 4 === 0) !== corrected;
+    return `${id},${responder ? 'responder' : 'non_responder'},${responder ? 'PR' : 'SD'},${assessed},yes,,${corrected ? 'Scans re-read centrally' : ''}`;
   });
   return Buffer.from([header, ...lines].join('\n') + '\n');
 }
@@ -89,28 +93,43 @@ async function timed<T>(work: () => Promise<T>): Promise<{ ms: number; value: T 
   return { ms: performance.now() - start, value };
 }
 
-/** The dry run (median of three), then the commit once; both checked for what they wrote. */
-async function importRuns(db: Db, trial: TrialFixture, coordinator: Session): Promise<{ dryRunMs: number[]; commitMs: number }> {
-  const file = importCsv();
-  const upload = (dryRun: boolean) =>
-    coordinator.post(`/api/trials/${trial.trialId}/patients/import${dryRun ? '?dryRun=1' : ''}`).attach('file', file, { filename: 'site.csv', contentType: 'text/csv' });
-  const tally = async () => ({
-    patients: Number((await db('patients').where({ trial_id: trial.trialId }).count({ c: '*' }))[0].c),
-    audits: Number((await db('audit_log').where({ trial_id: trial.trialId, entity_type: 'patient' }).count({ c: '*' }))[0].c),
-  });
-  const dryRunMs: number[] = [];
-  for (let i = 0; i < 3; i += 1) {
-    const { ms, value } = await timed(async () => upload(true));
-    if (value.status !== 200 || value.body.counts.new !== IMPORT_ROWS) throw new Error(`dry run answered ${value.status}: ${JSON.stringify(value.body).slice(0, 400)}`);
-    dryRunMs.push(ms);
-  }
-  const untouched = await tally();
-  if (untouched.patients !== 0 || untouched.audits !== 0) throw new Error(`the dry run wrote ${JSON.stringify(untouched)}`);
-  const commit = await timed(async () => upload(false));
-  if (commit.value.status !== 200 || !commit.value.body.committed) throw new Error(`import answered ${commit.value.status}: ${JSON.stringify(commit.value.body).slice(0, 400)}`);
-  const written = await tally();
-  if (written.patients !== IMPORT_ROWS || written.audits < IMPORT_ROWS) throw new Error(`the import wrote ${JSON.stringify(written)}`);
-  return { dryRunMs: dryRunMs.sort((a, b) => a - b), commitMs: commit.ms };
+type ImportTimes = { dryRunMs: number[]; commitMs: number };
+
+/**
+ * One file's dry run (median of three), then its commit once, both checked for what they wrote:
+ * first 2,000 new patients, then the same 2,000 back with every outcome changed (corrections and
+ * first records, each one audit row and one version step).
+ */
+async function importRuns(db: Db, trial: TrialFixture, coordinator: Session): Promise<{ fresh: ImportTimes; corrected: ImportTimes }> {
+  const tally = async () => {
+    const { rows } = await db.raw(
+      `select (select count(*) from patients where trial_id = :trialId) as patients,
+              (select coalesce(sum(version), 0) from patients where trial_id = :trialId) as versions,
+              (select count(*) from audit_log where trial_id = :trialId and entity_type = 'patient' and action in ('enrolled', 'outcome_recorded', 'outcome_corrected')) as audits`,
+      { trialId: trial.trialId },
+    );
+    return { patients: Number(rows[0].patients), versions: Number(rows[0].versions), audits: Number(rows[0].audits) };
+  };
+  const run = async (file: Buffer, kind: 'new' | 'update'): Promise<ImportTimes> => {
+    const upload = (dryRun: boolean) =>
+      coordinator.post(`/api/trials/${trial.trialId}/patients/import${dryRun ? '?dryRun=1' : ''}`).attach('file', file, { filename: 'site.csv', contentType: 'text/csv' });
+    const before = await tally();
+    const dryRunMs: number[] = [];
+    for (let i = 0; i < 3; i += 1) {
+      const { ms, value } = await timed(async () => upload(true));
+      if (value.status !== 200 || value.body.counts[kind] !== IMPORT_ROWS) throw new Error(`dry run answered ${value.status}: ${JSON.stringify(value.body).slice(0, 400)}`);
+      dryRunMs.push(ms);
+    }
+    const untouched = await tally();
+    if (JSON.stringify(untouched) !== JSON.stringify(before)) throw new Error(`the dry run wrote ${JSON.stringify({ before, untouched })}`);
+    const commit = await timed(async () => upload(false));
+    if (commit.value.status !== 200 || !commit.value.body.committed) throw new Error(`import answered ${commit.value.status}: ${JSON.stringify(commit.value.body).slice(0, 400)}`);
+    const written = await tally();
+    const expected = kind === 'new' ? { patients: IMPORT_ROWS, versions: IMPORT_ROWS, audits: IMPORT_ROWS } : { patients: IMPORT_ROWS, versions: 2 * IMPORT_ROWS, audits: 2 * IMPORT_ROWS };
+    if (JSON.stringify(written) !== JSON.stringify(expected)) throw new Error(`the import wrote ${JSON.stringify(written)}, expected ${JSON.stringify(expected)}`);
+    return { dryRunMs: dryRunMs.sort((a, b) => a - b), commitMs: commit.ms };
+  };
+  return { fresh: await run(importCsv(), 'new'), corrected: await run(importCsv(true), 'update') };
 }
 
 /** Needs attention one request at a time (what one person opening the page waits for). */
@@ -252,8 +271,16 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
         met: within(written, bare20, 3),
       },
       { goal: 'Needs attention at 5,000 patients / 20,000 assessments ≤ 100 ms', measured: `median ${ms(median(attention))}, slowest ${ms(attention[attention.length - 1])} of ${attention.length}`, met: median(attention) <= 100 },
-      { goal: 'CSV import of 2,000 patients ≤ 5 s end to end', measured: ms(imported.commitMs), met: imported.commitMs <= 5000 },
-      { goal: 'CSV import dry run of 2,000 patients ≤ 2 s', measured: `median ${ms(median(imported.dryRunMs))} of 3`, met: median(imported.dryRunMs) <= 2000 },
+      {
+        goal: 'CSV import of 2,000 patients ≤ 5 s end to end',
+        measured: `new patients ${ms(imported.fresh.commitMs)}; the same patients' outcomes changed ${ms(imported.corrected.commitMs)}`,
+        met: Math.max(imported.fresh.commitMs, imported.corrected.commitMs) <= 5000,
+      },
+      {
+        goal: 'CSV import dry run of 2,000 patients ≤ 2 s',
+        measured: `median of 3: new patients ${ms(median(imported.fresh.dryRunMs))}; outcomes changed ${ms(median(imported.corrected.dryRunMs))}`,
+        met: Math.max(median(imported.fresh.dryRunMs), median(imported.corrected.dryRunMs)) <= 2000,
+      },
     ];
     const figures = [
       figure(`GET /api/trials/:trialId/evaluation, ${PATIENTS.toLocaleString('en')} patients`, evaluation, bare50, READ_CONNECTIONS),
@@ -292,13 +319,16 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
         ratio: 100 / median(attention),
         note: `one request at a time: fastest ${ms(attention[0])}, slowest ${ms(attention[attention.length - 1])}`,
       },
-      {
-        name: `POST /api/trials/:trialId/patients/import, ${IMPORT_ROWS.toLocaleString('en')} new patients — end to end`,
-        ours: { value: imported.commitMs, unit: 'ms' },
+      ...([
+        [`${IMPORT_ROWS.toLocaleString('en')} new patients`, imported.fresh, 'the commit wrote 2,000 patients with their audit rows, the dry runs nothing'],
+        [`the same ${IMPORT_ROWS.toLocaleString('en')} patients, every outcome changed`, imported.corrected, 'the commit wrote 2,000 outcome changes (one version step and one audit row each), the dry runs nothing'],
+      ] as const).map(([what, times, wrote]): BenchFigure => ({
+        name: `POST /api/trials/:trialId/patients/import, ${what} — end to end`,
+        ours: { value: times.commitMs, unit: 'ms' },
         reference: { name: 'the goal', value: 5000, unit: 'ms' },
-        ratio: 5000 / imported.commitMs,
-        note: `dry runs ${imported.dryRunMs.map(ms).join(', ')} (goal 2,000 ms); the commit wrote ${IMPORT_ROWS} patients with their audit rows, the dry runs nothing`,
-      },
+        ratio: 5000 / times.commitMs,
+        note: `dry runs ${times.dryRunMs.map(ms).join(', ')} (goal 2,000 ms); ${wrote}`,
+      })),
     ];
     return { figures, goals, residentMiB, primaryMiB };
   } finally {
