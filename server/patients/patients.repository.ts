@@ -391,7 +391,7 @@ export type OutcomeFields = {
 export type OutcomeWrite = { patientId: string; version: number; fields: OutcomeFields; clearAttestation: boolean };
 
 /**
- * Writes outcomes (each only if its patient is still at its version), a thousand patients a
+ * Writes outcomes (each only if its patient is still at its version), five hundred patients a
  * statement; answers the patients as written, with the same joins as every other read in the same
  * statement. A patient whose version moved on is missing from the answer.
  */
