@@ -6,8 +6,9 @@
  * cheapest a write can be) and the transaction a service writes (begin, update, audit row,
  * commit). The outcome correction's goal is judged beside it: a server cannot answer a write
  * faster than the database takes it. `auditedWriteBehindExpress` puts the same write behind the
- * least HTTP server can give it (bare-write-server.ts): what any per-request write costs here
- * before Orrery's session, access check, validation and re-derivation.
+ * least HTTP server can give it (bare-write-server.ts): what any write costs here before Orrery's
+ * session, access check, validation and re-derivation, one transaction per request or by group
+ * commit (the requests waiting while one transaction runs written together in the next).
  */
 import pg from 'pg';
 import { BENCH_SECONDS, measure } from './api-load.js';
@@ -15,7 +16,7 @@ import { startBareWriteServer } from '../support/server-process.js';
 
 export type FloorRun = { p50: number; p95: number; perSecond: number; writes: number };
 
-export type FloorShape = 'one statement' | 'transaction';
+export type FloorShape = 'one statement' | 'transaction' | 'grouped';
 
 type FloorInput = { actorUserId: string; patientIds: string[]; connections: number };
 
@@ -29,13 +30,17 @@ export const ONE_STATEMENT = `with written as (update patients set ${FLIP} where
   insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   select $2, trial_id, 'patient', id, 'outcome_corrected', jsonb_build_object('outcome', outcome), 'Benchmark floor' from written`;
 export const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
+export const UPDATE_MANY = `update patients set ${FLIP} where id = any($1::uuid[]) returning id, trial_id, outcome`;
+export const AUDIT_MANY = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
+  select $1, w.trial_id, 'patient', w.id, 'outcome_corrected', jsonb_build_object('outcome', w.outcome), 'Benchmark floor'
+    from unnest($2::uuid[], $3::uuid[], $4::text[]) as w(id, trial_id, outcome)`;
 export const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   values ($1, $2, 'patient', $3, 'outcome_corrected', jsonb_build_object('outcome', $4::text), 'Benchmark floor')`;
 
 /** Runs `connections` clients for BENCH_SECONDS over the given patients (each client its own), and checks every write left its audit row. */
 export async function auditedWriteFloor(
   databaseUrl: string,
-  shape: FloorShape,
+  shape: Exclude<FloorShape, 'grouped'>,
   input: FloorInput,
 ): Promise<FloorRun> {
   const clients = await Promise.all(
@@ -99,7 +104,7 @@ export async function auditedWriteBehindExpress(databaseUrl: string, shape: Floo
           headers: { 'content-type': 'application/json' },
           setupRequest: (request) => ({
             ...request,
-            path: `/${shape === 'one statement' ? 'statement' : 'transaction'}/${input.patientIds[next++ % input.patientIds.length]}`,
+            path: `/${{ 'one statement': 'statement', transaction: 'transaction', grouped: 'grouped' }[shape]}/${input.patientIds[next++ % input.patientIds.length]}`,
             body: JSON.stringify({ reason: 'Benchmark floor' }),
           }),
         },
