@@ -29,7 +29,7 @@ import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
 import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
 import { findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
-import { enrolPatients, planOutcome, recordOutcome, writeOutcomes, type OutcomePlan } from './patients.service.js';
+import { enrolPatients, planOutcome, writeOutcomes, type OutcomePlan } from './patients.service.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -170,7 +170,7 @@ function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): '
  * the interim pause refuses the rows after the one that completes stage 1; known patients' changes
  * are written together by the same rules as the form (`planOutcome`, `writeOutcomes`), each judged
  * against the patient as it then stands. A change of evaluability can move the stage-1 count, so
- * such a row is written on its own, in a savepoint, with the changes above it already written.
+ * such a row is written on its own, after the changes above it.
  */
 export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
@@ -259,19 +259,10 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
         refuse(r.index, r.cells.studyId, errorsOf(error));
         continue;
       }
-      if (existing.evaluable === r.cells.fields.evaluable) {
-        changes.push(r);
-        continue;
-      }
-      if (changes.length > 0) await changeWaiting();
-      try {
-        const change = await trx.transaction((savepoint) =>
-          recordOutcome(savepoint, hooks, actor, existing.id, { ...r.cells.fields, version: existing.version }, { trialCode: facts.code, reasonField: 'correction_reason' }),
-        );
-        results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'update', errors: [], patientId: existing.id, correction: change.correction, attestationCleared: change.attestationCleared };
-      } catch (error) {
-        refuse(r.index, r.cells.studyId, errorsOf(error));
-      }
+      const alone = existing.evaluable !== r.cells.fields.evaluable;
+      if (alone && changes.length > 0) await changeWaiting();
+      changes.push(r);
+      if (alone) await changeWaiting();
     }
     if (newcomers.length > 0) await enrolWaiting();
     if (changes.length > 0) await changeWaiting();

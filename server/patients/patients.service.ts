@@ -395,22 +395,14 @@ export async function writeOutcomes(
 }
 
 /**
- * Records or corrects a patient's outcome (`planOutcome`'s rules, then `writeOutcomes`); an attested
- * outcome that changes loses its attestation. `locked` is the patient as the caller just read it,
- * visible and locked in this transaction; without it the patient is read and locked here.
+ * Records or corrects the outcome of `before`, the patient as the caller read it, visible and locked
+ * in this transaction (`planOutcome`'s rules, then `writeOutcomes`); an attested outcome that
+ * changes loses its attestation. Answers the patient as stored after the re-derivation.
  */
-export async function recordOutcome(
-  trx: Knex.Transaction,
-  hooks: Hooks,
-  actor: Actor,
-  patientId: string,
-  input: OutcomeInput,
-  options: { trialCode?: string; reasonField?: string; locked?: Patient } = {},
-): Promise<OutcomeChange> {
-  const before = options.locked ?? (await requireVisiblePatient(trx, actor, patientId, { forUpdate: true }));
-  const plan = planOutcome(actor, before, input, options.reasonField);
+async function recordOutcome(trx: Knex.Transaction, hooks: Hooks, actor: Actor, before: Patient, input: OutcomeInput): Promise<OutcomeChange> {
+  const plan = planOutcome(actor, before, input);
   if (!plan) return { patient: before, changed: false, correction: false, attestationCleared: false, accrual: { paused: false, continuesAtRisk: false } };
-  const accrual = await writeOutcomes(trx, hooks, actor, [plan], { trialCode: options.trialCode });
+  const accrual = await writeOutcomes(trx, hooks, actor, [plan]);
   return {
     patient: (await findPatient(trx, actor.access.trialId, before.id, 'all')) as Patient,
     changed: true,
@@ -429,7 +421,7 @@ export async function changeOutcome(db: Db, hooks: Hooks, actor: Actor, patientI
   return db.transaction(async (trx) => {
     const locked = await requireVisiblePatient(trx, actor, patientId, { forUpdate: true });
     const input = await parseBody(outcomeSchema, body);
-    return recordOutcome(trx, hooks, actor, patientId, input, { locked });
+    return recordOutcome(trx, hooks, actor, locked, input);
   });
 }
 
