@@ -38,6 +38,14 @@ export function assertCohortEnrolling(cohort: Pick<Cohort, 'code' | 'status' | '
 
 export type AccrualOutcome = { paused: boolean; continuesAtRisk: boolean };
 
+/**
+ * Whether a change of evaluability can move the cohort's stages, and so its stage-1 count: only
+ * under a two-stage design that counts the evaluable population.
+ */
+export function evaluabilityMovesStages(design: LockedDesign | undefined): boolean {
+  return design !== undefined && design.n1 !== null && design.analysisPopulation === 'evaluable';
+}
+
 /** The moment of the interim review: a two-stage cohort still in stage 1 whose counted patients reached n1. */
 export function stageOneComplete(design: LockedDesign | undefined, status: Cohort['status'], counted: number): boolean {
   return design !== undefined && design.n1 !== null && design.r1 !== null && status === 'enrolling_stage_1' && counted >= design.n1;
@@ -71,7 +79,7 @@ export async function applyAccrualRules(
   const design = await currentDesign(trx, input.cohortId);
   const n1 = design?.n1 ?? null;
   const population = design?.analysisPopulation ?? 'all_enrolled';
-  if (input.evaluabilityChanged && population === 'evaluable' && n1 !== null) await restageCohort(trx, input.cohortId, n1, population);
+  if (input.evaluabilityChanged && evaluabilityMovesStages(design)) await restageCohort(trx, input.cohortId, n1, population);
 
   const none = { paused: false, continuesAtRisk: false };
   if (!design || n1 === null || design.r1 === null) return none;

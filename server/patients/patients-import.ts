@@ -30,6 +30,8 @@ import type { Hooks } from '../hooks.js';
 import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
 import { findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
 import { enrolPatients, planOutcome, writeOutcomes, type OutcomePlan } from './patients.service.js';
+import { evaluabilityMovesStages } from './accrual-rules.js';
+import { currentDesigns } from '../designs/index.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
 export type RowResult = {
@@ -169,8 +171,9 @@ function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): '
  * left it: new patients are enrolled together by the same rules as the form (`enrolPatients`), and
  * the interim pause refuses the rows after the one that completes stage 1; known patients' changes
  * are written together by the same rules as the form (`planOutcome`, `writeOutcomes`), each judged
- * against the patient as it then stands. A change of evaluability can move the stage-1 count, so
- * such a row is written on its own, after the changes above it.
+ * against the patient as it then stands. Where a change of evaluability can move the stages (a
+ * two-stage design counting the evaluable population), such a row is written on its own, after the
+ * changes above it.
  */
 export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
@@ -198,6 +201,8 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
     }
 
     const known = await findPatientsByStudyIds(trx, actor.access.trialId, read.map((r) => r.cells.studyId), { forUpdate: true });
+    // The designs in force (the import signs none).
+    const designs = await currentDesigns(trx, facts.cohorts.map((c) => c.id));
     // Rows wait to be applied together until a row of the other kind comes: new patients, or changes to known ones.
     let newcomers: ReadRow[] = [];
     let changes: ReadRow[] = [];
@@ -259,7 +264,7 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
         refuse(r.index, r.cells.studyId, errorsOf(error));
         continue;
       }
-      const alone = existing.evaluable !== r.cells.fields.evaluable;
+      const alone = existing.evaluable !== r.cells.fields.evaluable && evaluabilityMovesStages(designs.get(existing.cohortId));
       if (alone && changes.length > 0) await changeWaiting();
       changes.push(r);
       if (alone) await changeWaiting();
