@@ -4,7 +4,7 @@
  * service functions as the forms, inside the shared import skeleton (server/csv/import.ts: one
  * transaction, all-or-nothing, a dry run rolled back): new patients together through
  * `enrolPatients`, known patients' changes together through `planOutcome` and `writeOutcomes`
- * (a change of evaluability on its own). Text cells that start
+ * (a change of evaluability on its own where it can move the stages). Text cells that start
  * like a spreadsheet formula are stored with a leading quote; cells of fixed-format columns that do
  * are refused.
  */
@@ -20,7 +20,6 @@ import {
   IMPORT_MAX_ROWS,
   isCalendarDay,
   latestToday,
-  OUTCOME_FIELDS,
   outcomeSchema,
   STUDY_ID_PATTERN,
   type Outcome,
@@ -152,16 +151,15 @@ const enrolRequest = ({ row, cells: { studyId, siteId, cohortId, fields } }: Rea
   notEvaluableReason: fields.notEvaluableReason,
 });
 
-/** A known patient's row, checked for identity against the patient as found: a row error, or whether the outcome would change. */
-function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): 'unchanged' | 'change' {
-  const { studyId, siteId, cohortId, fields } = cells;
+/** A known patient's row, checked for identity against the patient as found (a row error otherwise). */
+function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): void {
+  const { studyId, siteId, cohortId } = cells;
   if (!writableSites(actor.access).includes(existing.siteId)) throw new RowError([{ column: 'study_id', reason: `${studyId} is not a patient of your sites.` }]);
   const identity: RowResult['errors'] = [];
   if (existing.siteId !== siteId) identity.push({ column: 'site_code', reason: `${studyId} is a patient of ${existing.siteCode}; the site cannot be changed by import.` });
   if (cohortId && existing.cohortId !== cohortId) identity.push({ column: 'cohort_code', reason: `${studyId} is in cohort ${existing.cohortCode}; the cohort cannot be changed by import.` });
   if (row.enrolled_on && row.enrolled_on !== existing.enrolledOn) identity.push({ column: 'enrolled_on', reason: `${studyId} was enrolled on ${existing.enrolledOn}; the enrolment date cannot be changed by import.` });
   if (identity.length) throw new RowError(identity);
-  return OUTCOME_FIELDS.every((field) => existing[field] === fields[field]) ? 'unchanged' : 'change';
 }
 
 /**
@@ -203,9 +201,9 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
     const known = await findPatientsByStudyIds(trx, actor.access.trialId, read.map((r) => r.cells.studyId), { forUpdate: true });
     // The designs in force (the import signs none).
     const designs = await currentDesigns(trx, facts.cohorts.map((c) => c.id));
-    // Rows wait to be applied together until a row of the other kind comes: new patients, or changes to known ones.
+    // Rows wait to be applied together until a row of the other kind comes: new patients, or known ones (`planOutcome` tells the unchanged).
     let newcomers: ReadRow[] = [];
-    let changes: ReadRow[] = [];
+    let knownRows: ReadRow[] = [];
     const enrolWaiting = async () => {
       const enrolled = await enrolPatients(trx, hooks, actor, newcomers.map(enrolRequest), facts);
       enrolled.forEach((result, i) => {
@@ -215,11 +213,11 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
       });
       newcomers = [];
     };
-    const changeWaiting = async () => {
+    const applyKnownWaiting = async () => {
       // The patients as they now stand (locked since the look-up): a restage above may have moved their stage.
-      const current = await findPatientsByStudyIds(trx, actor.access.trialId, changes.map((r) => r.cells.studyId));
+      const current = await findPatientsByStudyIds(trx, actor.access.trialId, knownRows.map((r) => r.cells.studyId));
       const planned: Array<{ r: ReadRow; plan: OutcomePlan }> = [];
-      for (const r of changes) {
+      for (const r of knownRows) {
         const patient = current.get(r.cells.studyId) as Patient;
         try {
           const plan = planOutcome(actor, patient, { ...r.cells.fields, version: patient.version }, 'correction_reason');
@@ -244,33 +242,30 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
       for (const { r, plan } of planned) {
         results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'update', errors: [], patientId: plan.before.id, correction: plan.correction, attestationCleared: plan.attestationCleared };
       }
-      changes = [];
+      knownRows = [];
     };
     for (const r of read) {
       const existing = known.get(r.cells.studyId);
       if (!existing) {
-        if (changes.length > 0) await changeWaiting();
+        if (knownRows.length > 0) await applyKnownWaiting();
         if (r.row.enrolled_on) newcomers.push(r);
         else refuse(r.index, r.cells.studyId, [{ column: 'enrolled_on', reason: 'A new patient needs the enrolment date.' }]);
         continue;
       }
       if (newcomers.length > 0) await enrolWaiting();
       try {
-        if (checkKnown(actor, r, existing) === 'unchanged') {
-          results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'unchanged', errors: [], patientId: existing.id };
-          continue;
-        }
+        checkKnown(actor, r, existing);
       } catch (error) {
         refuse(r.index, r.cells.studyId, errorsOf(error));
         continue;
       }
       const alone = existing.evaluable !== r.cells.fields.evaluable && evaluabilityMovesStages(designs.get(existing.cohortId));
-      if (alone && changes.length > 0) await changeWaiting();
-      changes.push(r);
-      if (alone) await changeWaiting();
+      if (alone && knownRows.length > 0) await applyKnownWaiting();
+      knownRows.push(r);
+      if (alone) await applyKnownWaiting();
     }
     if (newcomers.length > 0) await enrolWaiting();
-    if (changes.length > 0) await changeWaiting();
+    if (knownRows.length > 0) await applyKnownWaiting();
     results.forEach(add);
 
     const paused = (await listCohorts(trx, actor.access.trialId)).filter((c) => c.status === 'interim_review').map((c) => c.code);
