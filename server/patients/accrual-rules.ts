@@ -10,7 +10,7 @@ import { ConflictError } from '../http/errors.js';
 import { recipientRoles } from '../auth/visibility.js';
 import { enqueueMail } from '../mail/outbox.js';
 import { currentDesign, type LockedDesign } from '../designs/index.js';
-import { assignStages, countCounting, tally, type AnalysisPopulation } from '../evaluation/index.js';
+import { assignStages, countCounting, countsToward, tally, type AnalysisPopulation, type CountablePatient } from '../evaluation/index.js';
 import { findCohort, transitionCohort, trialCode, type Cohort } from '../trials/index.js';
 import { memberEmails } from '../people/index.js';
 import { DECISION_SUPPORT_ONLY, INTERIM_DATA, POPULATION_IN_A_SENTENCE, SAFETY_PAUSED, STATUS_IN_A_SENTENCE, plural } from '../words/index.js';
@@ -49,6 +49,62 @@ export function evaluabilityMovesStages(design: LockedDesign | undefined): boole
 /** The moment of the interim review: a two-stage cohort still in stage 1 whose counted patients reached n1. */
 export function stageOneComplete(design: LockedDesign | undefined, status: Cohort['status'], counted: number): boolean {
   return design !== undefined && design.n1 !== null && design.r1 !== null && status === 'enrolling_stage_1' && counted >= design.n1;
+}
+
+export type CohortReplay = {
+  /** Each change's patient's stage as that change meets it: an earlier change of evaluability in the list may have moved it. */
+  stages: Array<1 | 2>;
+  /** The index of the change at which stage 1 completes (the accrual rules start the interim review there), if one does. */
+  completesStageOne: number | undefined;
+};
+
+/**
+ * Replays changes to one cohort's known patients, in order, the way the accrual rules meet them
+ * one at a time (`applyAccrualRules` after each): a change of evaluability restages the cohort
+ * where that can move stages, and stage 1 completes at the first change after which the counted
+ * patients reach n1 while the cohort is still in stage 1. `patients` is every patient of the
+ * cohort as stored before the first change, `stored` the stages stored for the changed ones.
+ * Pure, so a batch of changes can be written together and still be audited as row after row.
+ */
+export function replayCohort(
+  design: LockedDesign | undefined,
+  status: Cohort['status'],
+  patients: readonly CountablePatient[],
+  stored: ReadonlyMap<string, 1 | 2>,
+  changes: ReadonlyArray<{ patientId: string; evaluable: boolean }>,
+): CohortReplay {
+  const population = design?.analysisPopulation ?? 'all_enrolled';
+  const n1 = design?.n1 ?? null;
+  const inOrder = [...patients].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq).map((p) => ({ ...p }));
+  const byId = new Map(inOrder.map((p) => [p.id, p]));
+  let counted = inOrder.filter((p) => countsToward(p, population)).length;
+  let restaged = false;
+  const stages: Array<1 | 2> = [];
+  let completesStageOne: number | undefined;
+  changes.forEach((change, index) => {
+    const patient = byId.get(change.patientId);
+    if (!patient) throw new Error(`replayCohort: patient ${change.patientId} is not in the cohort`);
+    stages.push(restaged ? stageAmong(inOrder, patient, n1, population) : (stored.get(patient.id) ?? 1));
+    if (patient.evaluable !== change.evaluable) {
+      if (countsToward(patient, population)) counted -= 1;
+      patient.evaluable = change.evaluable;
+      if (countsToward(patient, population)) counted += 1;
+      if (evaluabilityMovesStages(design)) restaged = true;
+    }
+    if (completesStageOne === undefined && stageOneComplete(design, status, counted)) completesStageOne = index;
+  });
+  return { stages, completesStageOne };
+}
+
+/** The stage `assignStages` gives `patient`: 1 while fewer than n1 counting patients were enrolled before it. */
+function stageAmong(inOrder: readonly CountablePatient[], patient: CountablePatient, n1: number | null, population: AnalysisPopulation): 1 | 2 {
+  if (n1 === null) return 1;
+  let before = 0;
+  for (const p of inOrder) {
+    if (p.enrolmentSeq >= patient.enrolmentSeq) break;
+    if (countsToward(p, population)) before += 1;
+  }
+  return before < n1 ? 1 : 2;
 }
 
 /**

@@ -4,7 +4,7 @@
  * service functions as the forms, inside the shared import skeleton (server/csv/import.ts: one
  * transaction, all-or-nothing, a dry run rolled back): new patients together through
  * `enrolPatients`, known patients' changes together through `planOutcome` and `writeOutcomes`
- * (a change of evaluability on its own where it can move the stages). Text cells that start
+ * (in two turns where a cohort's stage 1 completes among them). Text cells that start
  * like a spreadsheet formula are stored with a leading quote; cells of fixed-format columns that do
  * are refused.
  */
@@ -26,10 +26,10 @@ import {
 } from './patients.schema.js';
 import { siteScope, writableSites, type Actor } from '../auth/access.js';
 import type { Hooks } from '../hooks.js';
-import { listCohorts, trialFacts, type TrialFacts } from '../trials/index.js';
-import { findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
+import { listCohorts, trialFacts, type CohortStatus, type TrialFacts } from '../trials/index.js';
+import { countablePatients, findPatientsByStudyIds, listPatients, type Patient } from './patients.repository.js';
 import { enrolPatients, planOutcome, writeOutcomes, type OutcomePlan } from './patients.service.js';
-import { evaluabilityMovesStages } from './accrual-rules.js';
+import { replayCohort } from './accrual-rules.js';
 import { currentDesigns } from '../designs/index.js';
 
 export type ImportColumn = (typeof IMPORT_COLUMNS)[number];
@@ -169,9 +169,10 @@ function checkKnown(actor: Actor, { row, cells }: ReadRow, existing: Patient): v
  * left it: new patients are enrolled together by the same rules as the form (`enrolPatients`), and
  * the interim pause refuses the rows after the one that completes stage 1; known patients' changes
  * are written together by the same rules as the form (`planOutcome`, `writeOutcomes`), each judged
- * against the patient as it then stands. Where a change of evaluability can move the stages (a
- * two-stage design counting the evaluable population), such a row is written on its own, after the
- * changes above it.
+ * against the patient as it then stands: where a change of evaluability can move the stages (a
+ * two-stage design counting the evaluable population), the stage each later row meets is replayed
+ * in memory (`replayCohort`), and a cohort's changes after the one completing its stage 1 are
+ * written after that one's interim review has started.
  */
 export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: Array<Record<ImportColumn, string>>, options: { dryRun: boolean }): Promise<ImportReport> {
   return runImport<RowResult, { pausedCohorts: string[] }>(db, { dryRun: options.dryRun, total: rows.length }, async (trx, add) => {
@@ -227,22 +228,43 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
           refuse(r.index, r.cells.studyId, errorsOf(error));
         }
       }
-      // Each cohort's first change alone, then the rest: a cohort already due for its interim review
-      // (an amendment lowered n1) moves at its first change, as it would row by row, with the
-      // review's e-mail counting what that row left; the rest cannot move it again.
-      const [firsts, rest, cohorts] = [[] as OutcomePlan[], [] as OutcomePlan[], new Set<string>()];
-      for (const { plan } of planned) {
-        if (cohorts.has(plan.before.cohortId)) rest.push(plan);
-        else {
-          cohorts.add(plan.before.cohortId);
-          firsts.push(plan);
-        }
-      }
-      for (const plans of [firsts, rest]) if (plans.length > 0) await writeOutcomes(trx, hooks, actor, plans, { trialCode: facts.code });
+      for (const plans of await inTurns(planned.map(({ plan }) => plan))) await writeOutcomes(trx, hooks, actor, plans, { trialCode: facts.code });
       for (const { r, plan } of planned) {
         results[r.index] = { line: r.line, studyId: r.cells.studyId, result: 'update', errors: [], patientId: plan.before.id, correction: plan.correction, attestationCleared: plan.attestationCleared };
       }
       knownRows = [];
+    };
+    /**
+     * The changes in two turns, written as one row after another would leave them: each cohort's
+     * changes up to the one at which its stage 1 completes (the interim review starts there, its
+     * e-mail counting what that row left), then the rest. Where a two-stage design can move
+     * stages, each change meets its patient at the stage the changes above it left
+     * (`replayCohort`), for its audit row; the stored stages follow once per turn.
+     */
+    const inTurns = async (plans: OutcomePlan[]): Promise<OutcomePlan[][]> => {
+      const twoStage = [...new Set(plans.map((plan) => plan.before.cohortId))].filter((id) => designs.get(id)?.n1 != null);
+      if (twoStage.length === 0) return [plans];
+      const [countable, statuses] = [await countablePatients(trx, twoStage), new Map((await listCohorts(trx, actor.access.trialId)).map((c) => [c.id, c.status]))];
+      const turns: OutcomePlan[][] = [[], []];
+      for (const cohortId of new Set(plans.map((plan) => plan.before.cohortId))) {
+        const inCohort = plans.filter((plan) => plan.before.cohortId === cohortId);
+        if (!twoStage.includes(cohortId)) {
+          turns[0].push(...inCohort);
+          continue;
+        }
+        const replay = replayCohort(
+          designs.get(cohortId),
+          statuses.get(cohortId) as CohortStatus,
+          countable.get(cohortId) ?? [],
+          new Map(inCohort.map((plan) => [plan.before.id, plan.before.stage])),
+          inCohort.map((plan) => ({ patientId: plan.before.id, evaluable: plan.next.evaluable })),
+        );
+        inCohort.forEach((plan, i) => {
+          const turn = replay.completesStageOne !== undefined && i > replay.completesStageOne ? 1 : 0;
+          turns[turn].push({ ...plan, before: { ...plan.before, stage: replay.stages[i] } });
+        });
+      }
+      return turns.filter((turn) => turn.length > 0);
     };
     for (const r of read) {
       const existing = known.get(r.cells.studyId);
@@ -259,10 +281,7 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
         refuse(r.index, r.cells.studyId, errorsOf(error));
         continue;
       }
-      const alone = existing.evaluable !== r.cells.fields.evaluable && evaluabilityMovesStages(designs.get(existing.cohortId));
-      if (alone && knownRows.length > 0) await applyKnownWaiting();
       knownRows.push(r);
-      if (alone) await applyKnownWaiting();
     }
     if (newcomers.length > 0) await enrolWaiting();
     if (knownRows.length > 0) await applyKnownWaiting();

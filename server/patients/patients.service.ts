@@ -336,7 +336,8 @@ export function planOutcome(actor: Actor, before: Patient, input: OutcomeInput, 
  * statement for all of them (one audit row each, with before and after), the accrual rules once
  * per cohort, and one re-derivation per kind of write (recorded, corrected). The patients are
  * locked by the caller, so a version that moved on is a conflict (409), which rolls it all back.
- * Answers the accrual outcome of each cohort.
+ * Each change is audited at `plan.before.stage`, the stage it met (an import replays the stages its
+ * earlier rows moved). Answers the accrual outcome of each cohort.
  */
 export async function writeOutcomes(
   trx: Knex.Transaction,
@@ -367,7 +368,8 @@ export async function writeOutcomes(
       entityId: plan.before.id,
       action: actionOf(plan),
       before: auditSnapshot(plan.before),
-      after: { ...auditSnapshot(after.get(plan.before.id) as Patient), ...(plan.attestationCleared ? { attestationCleared: true } : {}) },
+      // The write leaves the stage where the change met it (the accrual rules below may move it, after the audit row).
+      after: { ...auditSnapshot(after.get(plan.before.id) as Patient), stage: plan.before.stage, ...(plan.attestationCleared ? { attestationCleared: true } : {}) },
       reason: plan.reason,
     })),
   );

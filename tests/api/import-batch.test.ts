@@ -185,6 +185,16 @@ describe('a file enrols its new patients and changes its known ones together, as
               { which: 3, kind: 'responder', reason: false, at: 1 },
             ],
           ],
+          // After the review starts at the first row, a patient no longer counted moves a later one back to stage 1 within the rows written together: that one's audit row starts and ends in stage 1.
+          [
+            { population: 'evaluable', interim: 'pause', n1: 2, preEnrolled: 4 },
+            [{ number: 1, site: 'SA', cohort: 'B', kind: 'pending' }],
+            [
+              { which: 0, kind: 'responder', reason: false, at: 0 },
+              { which: 1, kind: 'not_evaluable', reason: true, at: 1 },
+              { which: 3, kind: 'responder', reason: false, at: 2 },
+            ],
+          ],
         ],
       },
     );
