@@ -62,17 +62,21 @@ async function seedAssessments(db: Db, trialId: string): Promise<void> {
   await db.transaction((trx) => recomputeDerivationsForTrial(trx, trialId));
 }
 
-/** A second trial for the import: one stage large enough for every imported patient. */
+/**
+ * A second trial for the import: a two-stage design counting the evaluable population (so a change
+ * of evaluability restages the cohort), its stage 1 larger than the file.
+ */
 async function seedImportTrial(db: Db): Promise<TrialFixture> {
   const trial = await createTrial(db, { code: 'BENCH-IMPORT', sites: SITES });
   await setTrialFields(db, trial.trialId, { startDate: daysAgo(730) });
-  await lockDesignDirectly(db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], r1: null, n1: null, r: 600, n: 2 * IMPORT_ROWS });
+  await lockDesignDirectly(db, { trialId: trial.trialId, cohortId: trial.cohortIds[0], r1: 100, n1: IMPORT_ROWS + 500, r: 600, n: 2 * IMPORT_ROWS, analysisPopulation: 'evaluable' });
   return trial;
 }
 
 /**
  * 2,000 patients at the coordinator's site, a mix of outcomes, as a site's spreadsheet would hold
- * them: new, or (`corrected`) the same patients back with every outcome changed and a reason.
+ * them: new, or (`corrected`) the same patients back with every outcome changed and a reason, one
+ * in six made not evaluable.
  */
 function importCsv(corrected = false): Buffer {
   const header = 'study_id,site_code,cohort_code,enrolled_on,outcome,best_overall_response,response_assessed_on,evaluable,not_evaluable_reason,correction_reason';
@@ -81,6 +85,7 @@ function importCsv(corrected = false): Buffer {
     const assessed = addDays(enrolled, 56);
     const id = `${SITES[0]}-${String(i + 1).padStart(4, '0')},${SITES[0]},MAIN,${enrolled}`;
     if (i % 6 === 5) return corrected ? `${id},responder,PR,${assessed},yes,,` : `${id},pending,,,yes,,`;
+    if (i % 6 === 2 && corrected) return `${id},non_responder,NE,${assessed},no,Withdrew before the first scan,Scans re-read centrally`;
     const responder = (i % 4 === 0) !== corrected;
     return `${id},${responder ? 'responder' : 'non_responder'},${responder ? 'PR' : 'SD'},${assessed},yes,,${corrected ? 'Scans re-read centrally' : ''}`;
   });
@@ -327,7 +332,11 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
       },
       ...([
         [`${IMPORT_ROWS.toLocaleString('en')} new patients`, imported.fresh, 'the commit wrote 2,000 patients with their audit rows, the dry runs nothing'],
-        [`the same ${IMPORT_ROWS.toLocaleString('en')} patients, every outcome changed`, imported.corrected, 'the commit wrote 2,000 outcome changes (one version step and one audit row each), the dry runs nothing'],
+        [
+          `the same ${IMPORT_ROWS.toLocaleString('en')} patients, every outcome changed, one in six made not evaluable`,
+          imported.corrected,
+          'the commit wrote 2,000 outcome changes (one version step and one audit row each; the two-stage cohort restaged), the dry runs nothing',
+        ],
       ] as const).map(([what, times, wrote]): BenchFigure => ({
         name: `POST /api/trials/:trialId/patients/import, ${what} — end to end`,
         ours: { value: times.commitMs, unit: 'ms' },
