@@ -25,9 +25,30 @@ export async function parseBody<S extends ObjectSchema<AnyObject>>(schema: S, bo
   }
 }
 
+/**
+ * Query strings already accepted, by schema: a list refetched again and again (the same page, the
+ * same filters) is validated once. A query schema is a pure function of its parameters (no default
+ * drawn from the clock), so its answer for the same parameters never changes; only accepted queries
+ * are kept, the most recently used QUERIES_KEPT per schema, frozen.
+ */
+const acceptedQueries = new WeakMap<object, Map<string, object>>();
+const QUERIES_KEPT = 1000;
+
 /** Validates a query string against its schema; unknown parameters are dropped, failures become 400. */
-export async function parseQuery<S extends ObjectSchema<AnyObject>>(schema: S, query: unknown): Promise<InferType<S>> {
+export async function parseQuery<S extends ObjectSchema<AnyObject>>(schema: S, query: unknown): Promise<Readonly<InferType<S>>> {
   const nul = pathOfNul(query);
   if (nul !== undefined) throw new InputError(`"${nul}" contains a NUL character: remove it.`, { [nul]: NUL_REASON });
-  return (await schema.validate(query ?? {}, { abortEarly: false, stripUnknown: true }));
+  let accepted = acceptedQueries.get(schema);
+  if (!accepted) acceptedQueries.set(schema, (accepted = new Map()));
+  const key = JSON.stringify(query ?? {});
+  const kept = accepted.get(key);
+  if (kept) {
+    accepted.delete(key);
+    accepted.set(key, kept);
+    return kept as InferType<S>;
+  }
+  const parsed = Object.freeze(await schema.validate(query ?? {}, { abortEarly: false, stripUnknown: true }));
+  accepted.set(key, parsed);
+  if (accepted.size > QUERIES_KEPT) accepted.delete(accepted.keys().next().value as string);
+  return parsed;
 }
