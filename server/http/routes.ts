@@ -54,7 +54,8 @@ export type RouteSpec = {
   /**
    * The handler confirms an unconfirmed session itself, in its first statement (through
    * `firstReadOf`, or `sessionStillStored` selected beside its data and then `settleSession`),
-   * instead of the authorisation spending a statement on it. Signed-in routes only.
+   * instead of the authorisation spending a statement on it. Signed-in reads (GET) only: a write
+   * has its session confirmed by the authorisation, before it can write anything.
    */
   confirmsSession?: boolean;
 };
@@ -207,6 +208,7 @@ function authorise(spec: RouteSpec, deps: Deps): RequestHandler {
 export function mountRoutes(router: Router, specs: RouteSpec[], deps: Deps) {
   for (const spec of specs) {
     if (spec.devOnly && deps.config.production) continue;
+    if (spec.confirmsSession && spec.method !== 'get') throw new Error(`${spec.method.toUpperCase()} ${spec.path}: only a read may confirm the session in its own first statement`);
     router[spec.method](spec.path, authorise(spec, deps), ...(spec.before ?? []), async (req, res, next) => {
       try {
         await spec.handler(req, res, deps);

@@ -4,14 +4,15 @@
  * at once in every process.
  *
  * Two ways in:
- * - Reads the session in full (express-session with the PostgreSQL store): every write, everything
- *   under /auth, and any request whose session this process has not read in the last
+ * - Reads the session in full (express-session with the PostgreSQL store): everything under /auth
+ *   (sign-in, the password entered for a signature, sign-out: the only code that reads or changes
+ *   the session's contents), and any request whose session this process has not read in the last
  *   TOUCH_INTERVAL_MS.
- * - A read (GET or HEAD under /api) of a signed-in session this process read less than
+ * - A request under /api (a read or a write) of a signed-in session this process read less than
  *   TOUCH_INTERVAL_MS ago takes the user from that reading and is marked unconfirmed. The route's
- *   authorisation confirms it before anything is answered: folded into the route's first statement
- *   (the trial access read, /api/me, the Portfolio's and trial list's roles and versions), or else
- *   by a one-row check of its own (server/http/routes.ts).
+ *   authorisation confirms it before anything is answered or written: folded into the route's
+ *   first statement (the trial access read, /api/me, the Portfolio's and trial list's roles and
+ *   versions), or else by a one-row check of its own (server/http/routes.ts).
  *   A session gone or expired is refused (401) and forgotten. Only who the session belongs to is
  *   taken from the earlier reading, and that never changes within a session (a sign-in as someone
  *   else makes a new session).
@@ -198,7 +199,7 @@ export function createSessionMiddleware(config: Config, logger: Logger): { middl
       next(error);
     });
   const middleware: RequestHandler = (req, res, next) => {
-    if ((req.method === 'GET' || req.method === 'HEAD') && req.originalUrl.startsWith('/api/')) {
+    if (req.originalUrl.startsWith('/api/')) {
       const sid = signedSessionId(req, config.sessionSecret);
       const reading = sid === undefined ? undefined : known.get(sid);
       if (sid !== undefined && reading && Date.now() - reading.readAt < TOUCH_INTERVAL_MS) {

@@ -220,6 +220,37 @@ describe('sessions written less often', () => {
     expect((await request(second.url).get('/api/me').set('Cookie', session.cookie)).status).toBe(401);
   });
 
+  it('when a user signs out on one server, or their stored session expires, then a write from that cookie is refused on a server that read the session a moment ago, and writes nothing', async () => {
+    const trial = await trialWithPatients(2);
+    const writeAs = (base: string, session: Session, patientId: string) =>
+      request(base)
+        .patch(`/api/trials/${trial.trialId}/patients/${patientId}`)
+        .set('Cookie', session.cookie)
+        .set('Origin', new URL(base).origin)
+        .send({ version: 1, outcome: 'responder', bestOverallResponse: 'PR', responseAssessedOn: today(), evaluable: true });
+    const untouched = async (patientId: string) => {
+      expect(await stack.db('patients').where({ id: patientId }).first('version', 'outcome')).toEqual({ version: 1, outcome: 'pending' });
+      expect(Number((await stack.db('audit_log').where({ entity_id: patientId }).count({ n: '*' }).first())?.n)).toBe(0);
+    };
+
+    const [signedOut, expired] = [await stack.signIn(DEMO.coordinator), await stack.signIn(DEMO.coordinator)];
+    for (const session of [signedOut, expired]) {
+      // Both servers have read the session within the minute: a write there takes the user from that reading.
+      expect((await get(stack.url, session, '/api/me')).status).toBe(200);
+      expect((await get(second.url, session, '/api/me')).status).toBe(200);
+    }
+    expect((await signedOut.post('/auth/logout')).status).toBe(200);
+    expect((await writeAs(second.url, signedOut, trial.pendingIds[0])).status).toBe(401);
+    await untouched(trial.pendingIds[0]);
+
+    expect(await stack.db('session').where({ sid: sidOf(expired) }).update({ expire: stack.db.raw("now() - interval '1 second'") })).toBe(1);
+    for (const base of [stack.url, second.url]) expect((await writeAs(base, expired, trial.pendingIds[1])).status).toBe(401);
+    await untouched(trial.pendingIds[1]);
+
+    // The same write from a live session goes through on either server.
+    expect((await writeAs(second.url, coordinator, trial.pendingIds[1])).status).toBe(200);
+  });
+
   it('when a stored session has expired, then its cookie is refused by every server, however often they have read sessions before', async () => {
     const session = await stack.signIn(DEMO.monitor);
     for (let i = 0; i < 3; i += 1) {
