@@ -1,6 +1,6 @@
 /** The Audit trail of a trial, for the statistician and the admin (without patient-level entries); changes to the shared sites, for trial managers. */
 import { actorOf, type RouteSpec } from '../http/routes.js';
-import { parseBody } from '../http/validate.js';
+import { parseQuery } from '../http/validate.js';
 import { auditQuerySchema } from './audit.schema.js';
 import { auditTrail, siteChanges } from './audit.service.js';
 
@@ -10,7 +10,7 @@ export const auditRoutes: RouteSpec[] = [
     path: '/api/trials/:trialId/audit',
     access: { kind: 'trial', roles: ['statistician', 'admin'] },
     handler: async (req, res, { db }) => {
-      res.json(await auditTrail(db, actorOf(req), await parseBody(auditQuerySchema, req.query)));
+      res.json(await auditTrail(db, actorOf(req), await parseQuery(auditQuerySchema, req.query)));
     },
   },
   {
@@ -18,7 +18,7 @@ export const auditRoutes: RouteSpec[] = [
     path: '/api/audit/sites',
     access: { kind: 'role-anywhere', roles: ['admin'] },
     handler: async (req, res, { db }) => {
-      res.json(await siteChanges(db, await parseBody(auditQuerySchema, req.query)));
+      res.json(await siteChanges(db, await parseQuery(auditQuerySchema, req.query)));
     },
   },
 ];

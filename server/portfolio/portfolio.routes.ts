@@ -1,6 +1,6 @@
 /** The Portfolio (every trial the user belongs to) and, in development, a preview of the weekly digest. */
 import { firstReadOf, requireUser, type RouteSpec } from '../http/routes.js';
-import { parseBody } from '../http/validate.js';
+import { parseQuery } from '../http/validate.js';
 import { sendJson } from '../http/send-json.js';
 import { toDay } from '../accrual/index.js';
 import { portfolioFilterSchema } from './portfolio.schema.js';
@@ -15,7 +15,7 @@ export const portfolioRoutes: RouteSpec[] = [
     confirmsSession: true,
     handler: async (req, res, { db }) => {
       const user = requireUser(req);
-      const filter = await parseBody(portfolioFilterSchema, req.query);
+      const filter = await parseQuery(portfolioFilterSchema, req.query);
       sendJson(res, await portfolioFor(db, user, filter, toDay(new Date()), firstReadOf(req, db)), 'portfolio');
     },
   },
