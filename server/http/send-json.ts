@@ -1,13 +1,14 @@
 /**
  * JSON answers serialised once. A service that keeps an answer for many requests (per data
  * version, deep-frozen: server/db/trial-versions.ts) hands the same object to each of them; the
- * text and entity tag made from it the first time are kept beside it, by identity, for as long as
+ * bytes and entity tag made from it the first time are kept beside it, by identity, for as long as
  * the object lives. A frozen object cannot change, so its text cannot go stale. Anything not
  * frozen is serialised afresh, exactly as `res.json` would.
  */
 import type { Response } from 'express';
 
-type Serialised = { text: string; etag: string | undefined };
+/** The answer's bytes (encoded once, as Express would encode the text on every send) and its tag. */
+type Serialised = { bytes: Buffer; etag: string | undefined };
 
 const serialised = new WeakMap<object, Map<string, Serialised>>();
 
@@ -25,10 +26,10 @@ export function sendJson(res: Response, value: object, envelope?: string): void 
     const text = JSON.stringify(body());
     // The same weak tag Express would make (the app's 'etag' setting), so conditional GETs answer 304 alike.
     const etagOf = res.app.get('etag fn') as ((body: string, encoding: BufferEncoding) => string) | undefined;
-    kept = { text, etag: etagOf?.(text, 'utf8') };
+    kept = { bytes: Buffer.from(text, 'utf8'), etag: etagOf?.(text, 'utf8') };
     byEnvelope.set(envelope ?? '', kept);
   }
   if (kept.etag) res.setHeader('ETag', kept.etag);
-  res.type('json');
-  res.send(kept.text);
+  res.set('Content-Type', 'application/json; charset=utf-8');
+  res.send(kept.bytes);
 }
