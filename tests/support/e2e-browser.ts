@@ -128,7 +128,7 @@ type PlatformFont = { familyName: string; isCustomFont: boolean; glyphCount: num
  * each character is looked up in Inter's character map (a character no font has would be drawn as
  * Inter's empty box, which Chromium still reports as Inter). `selector` narrows the check.
  */
-export async function textNotDrawnByInter(page: Page, selector = 'body'): Promise<string[]> {
+export async function textNotDrawnByInter(page: Page, selector = 'body', attempt = 1): Promise<string[]> {
   const problems: string[] = [];
   // A glyph outside the Latin subsets loads the whole Inter on first use: let the page lay out and
   // finish loading the fonts it asked for, or the check would see the system font drawn meanwhile.
@@ -155,7 +155,15 @@ export async function textNotDrawnByInter(page: Page, selector = 'body'): Promis
     visit(root, false);
     const reports = await Promise.all(
       texts.map(async ({ nodeId }) => ((await cdp.send('CSS.getPlatformFontsForNode', { nodeId })) as { fonts: PlatformFont[] }).fonts),
-    );
+    ).catch((error: Error) => {
+      // The page re-rendered between the snapshot and the questions (a query settling late): look again.
+      if (attempt < 3 && /Could not find node with given id/.test(error.message)) return undefined;
+      throw error;
+    });
+    if (!reports) {
+      await page.waitForTimeout(250);
+      return textNotDrawnByInter(page, selector, attempt + 1);
+    }
     texts.forEach(({ text }, i) => {
       const missing = [...new Set(Array.from(text))].filter((c) => !/\s/.test(c) && !wholeInter.hasGlyphForCodePoint(c.codePointAt(0) as number));
       if (missing.length > 0) problems.push(`no Inter glyph for ${missing.join(' ')} in “${text.slice(0, 60)}”`);
