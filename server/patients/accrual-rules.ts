@@ -74,37 +74,26 @@ export function replayCohort(
   changes: ReadonlyArray<{ patientId: string; evaluable: boolean }>,
 ): CohortReplay {
   const population = design?.analysisPopulation ?? 'all_enrolled';
-  const n1 = design?.n1 ?? null;
-  const inOrder = [...patients].sort((a, b) => a.enrolmentSeq - b.enrolmentSeq).map((p) => ({ ...p }));
-  const byId = new Map(inOrder.map((p) => [p.id, p]));
-  let counted = inOrder.filter((p) => countsToward(p, population)).length;
-  let restaged = false;
-  const stages: Array<1 | 2> = [];
+  const state = patients.map((p) => ({ ...p }));
+  const byId = new Map(state.map((p) => [p.id, p]));
+  let counted = state.filter((p) => countsToward(p, population)).length;
+  // The stages as the cohort stands: as stored, until a change restages it (`restageCohort`'s rule).
+  let stages: ReadonlyMap<string, 1 | 2> = stored;
+  const met: Array<1 | 2> = [];
   let completesStageOne: number | undefined;
   changes.forEach((change, index) => {
     const patient = byId.get(change.patientId);
     if (!patient) throw new Error(`replayCohort: patient ${change.patientId} is not in the cohort`);
-    stages.push(restaged ? stageAmong(inOrder, patient, n1, population) : (stored.get(patient.id) ?? 1));
+    met.push(stages.get(patient.id) ?? 1);
     if (patient.evaluable !== change.evaluable) {
       if (countsToward(patient, population)) counted -= 1;
       patient.evaluable = change.evaluable;
       if (countsToward(patient, population)) counted += 1;
-      if (evaluabilityMovesStages(design)) restaged = true;
+      if (evaluabilityMovesStages(design)) stages = assignStages(state, design?.n1 ?? null, population);
     }
     if (completesStageOne === undefined && stageOneComplete(design, status, counted)) completesStageOne = index;
   });
-  return { stages, completesStageOne };
-}
-
-/** The stage `assignStages` gives `patient`: 1 while fewer than n1 counting patients were enrolled before it. */
-function stageAmong(inOrder: readonly CountablePatient[], patient: CountablePatient, n1: number | null, population: AnalysisPopulation): 1 | 2 {
-  if (n1 === null) return 1;
-  let before = 0;
-  for (const p of inOrder) {
-    if (p.enrolmentSeq >= patient.enrolmentSeq) break;
-    if (countsToward(p, population)) before += 1;
-  }
-  return before < n1 ? 1 : 2;
+  return { stages: met, completesStageOne };
 }
 
 /**

@@ -242,11 +242,12 @@ export async function importPatients(db: Db, hooks: Hooks, actor: Actor, rows: A
      * (`replayCohort`), for its audit row; the stored stages follow once per turn.
      */
     const inTurns = async (plans: OutcomePlan[]): Promise<OutcomePlan[][]> => {
-      const twoStage = [...new Set(plans.map((plan) => plan.before.cohortId))].filter((id) => designs.get(id)?.n1 != null);
+      const cohorts = [...new Set(plans.map((plan) => plan.before.cohortId))];
+      const twoStage = cohorts.filter((id) => designs.get(id)?.n1 != null);
       if (twoStage.length === 0) return [plans];
       const [countable, statuses] = [await countablePatients(trx, twoStage), new Map((await listCohorts(trx, actor.access.trialId)).map((c) => [c.id, c.status]))];
       const turns: OutcomePlan[][] = [[], []];
-      for (const cohortId of new Set(plans.map((plan) => plan.before.cohortId))) {
+      for (const cohortId of cohorts) {
         const inCohort = plans.filter((plan) => plan.before.cohortId === cohortId);
         if (!twoStage.includes(cohortId)) {
           turns[0].push(...inCohort);
