@@ -22,7 +22,7 @@ import type { Session } from '../support/sign-in.js';
 import type { BenchFigure, BenchGoal } from './figures.js';
 import { BENCH_SECONDS, describeReference, describeRun, measure, measureWarm, temporaryDatabase, type Measured } from './api-load.js';
 import { startBareServer, startBenchServer } from '../support/server-process.js';
-import { auditedWriteBehindExpress, auditedWriteFloor } from './write-floor.js';
+import { auditedWriteBehindExpress, auditedWriteFloor, type FloorRun } from './write-floor.js';
 
 const PATIENTS = 5_000;
 const SITES = ['RVB', 'HCB', 'LUB', 'NGB'];
@@ -291,6 +291,14 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
         met: Math.max(median(imported.fresh.dryRunMs), median(imported.corrected.dryRunMs)) <= 2000,
       },
     ];
+    /** An audited write's run (write-floor.ts) beside the bare route at the writes' concurrency. */
+    const floorFigure = (how: string, run: FloorRun, who: string, what: string): BenchFigure => ({
+      name: `Audited outcome write ${how} — p95 latency`,
+      ours: { value: run.p95, unit: 'ms' },
+      reference: { name: `bare Express JSON route, same run, ${WRITE_CONNECTIONS} connections`, value: bare20.p95, unit: 'ms' },
+      ratio: bare20.p95 / run.p95,
+      note: `${WRITE_CONNECTIONS} ${who} × ${BENCH_SECONDS} s: p50 ${ms(run.p50)}, p95 ${ms(run.p95)}, ${run.perSecond.toFixed(0)} writes/s, ${what}`,
+    });
     const figures = [
       figure(`GET /api/trials/:trialId/evaluation, ${PATIENTS.toLocaleString('en')} patients`, evaluation, bare50, READ_CONNECTIONS),
       figure(`GET /api/trials/:trialId/patients (page of 50), ${PATIENTS.toLocaleString('en')} patients`, list, bare50, READ_CONNECTIONS),
@@ -301,28 +309,20 @@ export async function runApiTrialBench(): Promise<TrialBenchResult> {
         WRITE_CONNECTIONS,
         `; no lost writes: ${writes.accepted()} answered 200, ${versionSteps} version steps = ${audited} audit rows (the difference, if any, was in flight at the stop); statuses ${JSON.stringify(written.statuses)}`,
       ),
-      ...([
-        ['one statement', floorOne],
-        ['transaction', floorTransaction],
-      ] as const).map(([shape, run]): BenchFigure => ({
-        name: `Audited outcome write straight to PostgreSQL, no HTTP (${shape}) — p95 latency`,
-        ours: { value: run.p95, unit: 'ms' },
-        reference: { name: `bare Express JSON route, same run, ${WRITE_CONNECTIONS} connections`, value: bare20.p95, unit: 'ms' },
-        ratio: bare20.p95 / run.p95,
-        note: `${WRITE_CONNECTIONS} clients × ${BENCH_SECONDS} s: p50 ${ms(run.p50)}, p95 ${ms(run.p95)}, ${run.perSecond.toFixed(0)} writes/s, each with its audit row (checked); the floor under the outcome correction`,
-      })),
+      ...(
+        [
+          ['straight to PostgreSQL, no HTTP (one statement)', floorOne, 'clients', 'each with its audit row (checked); the floor under the outcome correction'],
+          ['straight to PostgreSQL, no HTTP (transaction)', floorTransaction, 'clients', 'each with its audit row (checked); the floor under the outcome correction'],
+        ] as const
+      ).map(([how, run, who, what]) => floorFigure(how, run, who, what)),
       figure(`GET /api/me (signed in, a no-op), at the writes' concurrency`, me20, bare20, WRITE_CONNECTIONS, '; the request pipeline every write goes through'),
-      ...([
-        ['one statement', httpOne],
-        ['transaction', httpTransaction],
-        ['group commit', httpGrouped],
-      ] as const).map(([shape, run]): BenchFigure => ({
-        name: `Audited outcome write behind a bare Express route (${shape}) — p95 latency`,
-        ours: { value: run.p95, unit: 'ms' },
-        reference: { name: `bare Express JSON route, same run, ${WRITE_CONNECTIONS} connections`, value: bare20.p95, unit: 'ms' },
-        ratio: bare20.p95 / run.p95,
-        note: `${WRITE_CONNECTIONS} connections × ${BENCH_SECONDS} s: p50 ${ms(run.p50)}, p95 ${ms(run.p95)}, ${run.perSecond.toFixed(0)} writes/s, each 200 with its audit row (checked); JSON body parsed, a pg pool of ${WRITE_CONNECTIONS}, nothing else`,
-      })),
+      ...(
+        [
+          ['behind a bare Express route (one statement)', httpOne],
+          ['behind a bare Express route (transaction)', httpTransaction],
+          ['behind a bare Express route (group commit)', httpGrouped],
+        ] as const
+      ).map(([how, run]) => floorFigure(how, run, 'connections', `each 200 with its audit row (checked); JSON body parsed, a pg pool of ${WRITE_CONNECTIONS}, nothing else`)),
       {
         name: `GET /api/trials/:trialId/needs-attention, ${PATIENTS.toLocaleString('en')} patients / ${(PATIENTS * ASSESSMENTS_PER_PATIENT).toLocaleString('en')} assessments — median of ${ATTENTION_SAMPLES}`,
         ours: { value: median(attention), unit: 'ms' },

@@ -8,7 +8,7 @@
  */
 import express from 'express';
 import pg from 'pg';
-import { AUDIT, AUDIT_MANY, ONE_STATEMENT, UPDATE, UPDATE_MANY } from './write-floor.js';
+import { AUDIT_MANY, ONE_STATEMENT, UPDATE_MANY, writeInTransaction } from './write-floor.js';
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 20 });
 const actor = String(process.env.ACTOR_USER_ID);
@@ -28,13 +28,8 @@ app.patch('/statement/:id', async (req, res, next) => {
 app.patch('/transaction/:id', async (req, res, next) => {
   const client = await pool.connect();
   try {
-    await client.query('begin');
-    const { rows } = await client.query({ name: 'floor_update', text: UPDATE, values: [req.params.id] });
-    await client.query({ name: 'floor_audit', text: AUDIT, values: [actor, rows[0].trial_id, rows[0].id, rows[0].outcome] });
-    await client.query('commit');
-    res.json({ written: rows[0], reason: req.body.reason });
+    res.json({ written: await writeInTransaction(client, req.params.id, actor), reason: req.body.reason });
   } catch (error) {
-    await client.query('rollback').catch(() => undefined);
     next(error);
   } finally {
     client.release();

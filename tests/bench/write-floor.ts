@@ -29,13 +29,27 @@ const FLIP = `outcome = case when outcome = 'responder' then 'non_responder' els
 export const ONE_STATEMENT = `with written as (update patients set ${FLIP} where id = $1 returning id, trial_id, outcome)
   insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   select $2, trial_id, 'patient', id, 'outcome_corrected', jsonb_build_object('outcome', outcome), 'Benchmark floor' from written`;
-export const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
+const UPDATE = `update patients set ${FLIP} where id = $1 returning id, trial_id, outcome`;
 export const UPDATE_MANY = `update patients set ${FLIP} where id = any($1::uuid[]) returning id, trial_id, outcome`;
 export const AUDIT_MANY = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   select $1, w.trial_id, 'patient', w.id, 'outcome_corrected', jsonb_build_object('outcome', w.outcome), 'Benchmark floor'
     from unnest($2::uuid[], $3::uuid[], $4::text[]) as w(id, trial_id, outcome)`;
-export const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
+const AUDIT = `insert into audit_log (actor_user_id, trial_id, entity_type, entity_id, action, after, reason)
   values ($1, $2, 'patient', $3, 'outcome_corrected', jsonb_build_object('outcome', $4::text), 'Benchmark floor')`;
+
+/** The transaction a service writes: begin, the update, its audit row, commit (rolled back on an error). Answers the written row. */
+export async function writeInTransaction(client: pg.ClientBase, patientId: string, actorUserId: string): Promise<{ id: string; trial_id: string; outcome: string }> {
+  try {
+    await client.query('begin');
+    const { rows } = await client.query({ name: 'floor_update', text: UPDATE, values: [patientId] });
+    await client.query({ name: 'floor_audit', text: AUDIT, values: [actorUserId, rows[0].trial_id, rows[0].id, rows[0].outcome] });
+    await client.query('commit');
+    return rows[0];
+  } catch (error) {
+    await client.query('rollback').catch(() => undefined);
+    throw error;
+  }
+}
 
 /** Runs `connections` clients for BENCH_SECONDS over the given patients (each client its own), and checks every write left its audit row. */
 export async function auditedWriteFloor(
@@ -64,10 +78,7 @@ export async function auditedWriteFloor(
           if (shape === 'one statement') {
             await client.query({ name: 'floor_one', text: ONE_STATEMENT, values: [patientId, input.actorUserId] });
           } else {
-            await client.query('begin');
-            const { rows } = await client.query({ name: 'floor_update', text: UPDATE, values: [patientId] });
-            await client.query({ name: 'floor_audit', text: AUDIT, values: [input.actorUserId, rows[0].trial_id, rows[0].id, rows[0].outcome] });
-            await client.query('commit');
+            await writeInTransaction(client, patientId, input.actorUserId);
           }
           latencies.push(performance.now() - start);
         }
